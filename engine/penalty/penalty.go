@@ -1,0 +1,104 @@
+package penalty
+
+import (
+	"fmt"
+	"math"
+)
+
+// Piece is one linear piece of a proximal operator: prox(r) = Slope*r + Intercept for r in
+// [Lo, Hi). Lo may be -Inf and Hi may be +Inf.
+type Piece struct{ Lo, Hi, Slope, Intercept float64 }
+
+// Zero reports whether the piece maps its whole interval to exactly 0.
+func (p Piece) Zero() bool { return p.Slope == 0 && p.Intercept == 0 }
+
+// Penalty is a separable convex penalty f seen through its proximal operator at precision g.
+// Every method requires g > 0 and finite; results for other g are unspecified.
+type Penalty interface {
+	// Name is the registry kind, for example "elastic-net".
+	Name() string
+	// Prox returns argmin_x f(x) + (g/2)(x - r)^2.
+	Prox(r, g float64) float64
+	// Deriv returns d prox / dr; at a kink the right derivative.
+	Deriv(r, g float64) float64
+	// Kinks returns the sorted r where prox' jumps (empty if the prox is C^1).
+	Kinks(g float64) []float64
+	// Pieces returns the exact piecewise-linear form of the prox, if it has one.
+	Pieces(g float64) ([]Piece, bool)
+	// HasZeroRegion reports whether the prox is exactly 0 on an interval of positive length.
+	HasZeroRegion() bool
+	// StartG returns a first g1 for the fixed point when t1 = t (method.md section 3).
+	StartG(t float64) float64
+}
+
+// MaxPieces is the largest number of linear pieces of any piecewise-linear prox in this
+// package.
+const MaxPieces = 4
+
+// Linear is the piecewise-linear form of a prox held by value, so that the hot path of
+// package signal needs no allocation: P[:N] are the pieces.
+type Linear struct {
+	N int
+	P [MaxPieces]Piece
+}
+
+// LinearForm is implemented by every penalty of this package. Linear(g) returns the same
+// pieces as Pieces(g) without allocating; ok is false when the prox is not piecewise linear.
+type LinearForm interface {
+	Linear(g float64) (l Linear, ok bool)
+}
+
+// ParamError reports a parameter outside the domain where the penalty is defined and convex.
+type ParamError struct {
+	Field  string // parameter name, as in the registry ("l1", "q", ...)
+	Reason string
+}
+
+func (e *ParamError) Error() string { return "penalty: " + e.Field + ": " + e.Reason }
+
+// checkWeight accepts finite w >= 0.
+func checkWeight(field string, w float64) error {
+	switch {
+	case math.IsNaN(w) || math.IsInf(w, 0):
+		return &ParamError{field, fmt.Sprintf("must be a finite number (got %v)", w)}
+	case w < 0:
+		return &ParamError{field, fmt.Sprintf("must be >= 0 (got %v): a negative weight makes the penalty non-convex, which the theory does not cover", w)}
+	}
+	return nil
+}
+
+// checkPositive accepts finite w > 0.
+func checkPositive(field string, w float64) error {
+	switch {
+	case math.IsNaN(w) || math.IsInf(w, 0):
+		return &ParamError{field, fmt.Sprintf("must be a finite number (got %v)", w)}
+	case w <= 0:
+		return &ParamError{field, fmt.Sprintf("must be > 0 (got %v)", w)}
+	}
+	return nil
+}
+
+// pieces converts a Linear into a fresh slice.
+func (l Linear) slice() []Piece { return append([]Piece(nil), l.P[:l.N]...) }
+
+// kinks returns the interior boundaries of a Linear form whose slope changes there.
+func (l Linear) kinks() []float64 {
+	k := []float64{}
+	for i := 1; i < l.N; i++ {
+		if l.P[i].Slope != l.P[i-1].Slope {
+			k = append(k, l.P[i].Lo)
+		}
+	}
+	return k
+}
+
+// at returns the piece of l containing r (pieces are [Lo, Hi), so a kink belongs to the
+// piece on its right).
+func (l Linear) at(r float64) Piece {
+	for i := 0; i < l.N-1; i++ {
+		if r < l.P[i].Hi {
+			return l.P[i]
+		}
+	}
+	return l.P[l.N-1]
+}
