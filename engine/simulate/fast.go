@@ -1,0 +1,133 @@
+package simulate
+
+import (
+	"math"
+	"math/rand/v2"
+
+	"gonum.org/v1/gonum/dsp/fourier"
+)
+
+// Fast is a structured n x n orthogonal matrix whose products cost O(n log n): a few rounds of
+// random signs, a random permutation and an orthonormal type-I discrete cosine transform,
+//
+//	Q = C P_R D_R ... C P_1 D_1.
+//
+// Such randomized transforms are used in place of Haar matrices in compressed sensing and message
+// passing because estimators run on them show the errors of Haar designs at large n (common
+// practice; the package tests compare the two within error bars). The transform is done by
+// gonum's FFTPACK port, fast when its length minus one has only small prime factors, so the
+// cosine transform acts on a block of the first k coordinates with k - 1 7-smooth and k > n/2;
+// the permutations of later rounds move every coordinate through the block.
+type Fast struct {
+	n, k  int
+	signs [][]float64
+	perms [][]int
+	dct   *fourier.DCT
+	buf   []float64
+	w     []float64 // the orthonormal weights of the type-I transform
+}
+
+// DefaultRounds is the number of sign-permute-transform rounds of a Fast matrix.
+const DefaultRounds = 3
+
+// NewFast draws a Fast orthogonal matrix of order n with the given number of rounds (at least 1;
+// DefaultRounds mixes well in the package tests).
+//
+// Special cases are: n < 3 has no useful cosine transform and gives a random signed permutation.
+func NewFast(rng *rand.Rand, n, rounds int) *Fast {
+	if rounds < 1 {
+		rounds = 1
+	}
+	f := &Fast{n: n, k: smoothBlock(n), buf: make([]float64, n)}
+	for r := 0; r < rounds; r++ {
+		s := make([]float64, n)
+		for i := range s {
+			s[i] = 1
+			if rng.Uint64()&1 == 1 {
+				s[i] = -1
+			}
+		}
+		f.signs = append(f.signs, s)
+		f.perms = append(f.perms, rng.Perm(n))
+	}
+	if f.k >= 3 {
+		f.dct = fourier.NewDCT(f.k)
+		f.w = make([]float64, f.k)
+		// FFTPACK's cost: y_j = x_0 + (-1)^j x_{k-1} + 2 sum_{i=1}^{k-2} x_i cos(pi i j/(k-1)).
+		// The orthonormal type-I transform is sqrt(2/(k-1)) w_j sum_i w_i x_i cos(.), with
+		// w = 1/sqrt(2) at both ends and 1 inside; it is symmetric and its own inverse.
+		for i := range f.w {
+			f.w[i] = 1
+		}
+		f.w[0], f.w[f.k-1] = math.Sqrt2/2, math.Sqrt2/2
+	}
+	return f
+}
+
+// smoothBlock returns the largest k <= n with k - 1 free of prime factors above 7 (a power of two
+// qualifies, so k > n/2 for n >= 3).
+func smoothBlock(n int) int {
+	if n < 3 {
+		return n
+	}
+	for k := n; k >= 3; k-- {
+		m := k - 1
+		for _, p := range []int{2, 3, 5, 7} {
+			for m%p == 0 {
+				m /= p
+			}
+		}
+		if m == 1 {
+			return k
+		}
+	}
+	return n
+}
+
+// Dim returns the order of the matrix.
+func (f *Fast) Dim() int { return f.n }
+
+func (f *Fast) cosine(x []float64) {
+	if f.dct == nil {
+		return
+	}
+	b := x[:f.k]
+	for i := range b {
+		if i == 0 || i == f.k-1 {
+			b[i] *= f.w[i]
+		} else {
+			b[i] *= 0.5
+		}
+	}
+	f.dct.Transform(b, b)
+	c := math.Sqrt(2 / float64(f.k-1))
+	for i := range b {
+		b[i] *= c * f.w[i]
+	}
+}
+
+// Mul sets dst = Q x.
+func (f *Fast) Mul(dst, x []float64) {
+	copy(dst, x)
+	for r := range f.signs {
+		s, p := f.signs[r], f.perms[r]
+		for i, pi := range p {
+			f.buf[i] = s[pi] * dst[pi]
+		}
+		copy(dst, f.buf)
+		f.cosine(dst)
+	}
+}
+
+// MulT sets dst = Q^T x.
+func (f *Fast) MulT(dst, x []float64) {
+	copy(dst, x)
+	for r := len(f.signs) - 1; r >= 0; r-- {
+		f.cosine(dst)
+		s, p := f.signs[r], f.perms[r]
+		for i, pi := range p {
+			f.buf[pi] = s[pi] * dst[i]
+		}
+		copy(dst, f.buf)
+	}
+}
