@@ -7,6 +7,10 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"gonum.org/v1/gonum/mat"
+
+	"hdrisk/engine/penalty"
 )
 
 type sklearnFit struct {
@@ -85,6 +89,49 @@ func TestCoordinateDescentMatchesSklearn(t *testing.T) {
 			if nz != fit.NonZero {
 				t.Errorf("%s %s alpha=%g: %d nonzero, sklearn %d", name, fit.Kind, fit.Alpha, nz, fit.NonZero)
 			}
+		}
+	}
+}
+
+func svdOf(t testing.TB, a *Matrix) *SVD {
+	d := mat.NewDense(a.Cols, a.Rows, a.Data) // F^T, row-major
+	var svd mat.SVD
+	if !svd.Factorize(d.T(), mat.SVDFull) {
+		t.Fatal("SVD failed")
+	}
+	var u, v mat.Dense
+	svd.UTo(&u)
+	svd.VTo(&v)
+	return NewSVD(&DenseOrthogonal{Q: &u}, &DenseOrthogonal{Q: &v}, svd.Values(nil))
+}
+
+// Accelerated proximal gradient and VAMP reach the same minimizers as scikit-learn (reference
+// library: scikit-learn, Debian python3-sklearn; fixtures by testdata/sklearn/make_fixtures.py).
+func TestProxAndVAMPMatchSklearn(t *testing.T) {
+	for name, fx := range readFixtures(t) {
+		a := &Matrix{Rows: fx.Rows, Cols: fx.Cols, Data: fx.X}
+		f := svdOf(t, a)
+		for _, fit := range fx.Fits {
+			p, err := penalty.ElasticNet(fit.L1, fit.L2)
+			if err != nil {
+				t.Fatal(err)
+			}
+			o := SolverOptions{Tol: 1e-12, MaxIter: 200000}
+			sol, err := ProxGradient(context.Background(), a, fx.Y, p, 0, nil, o)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if d := maxDiff(sol.X, fit.Coef); d > 1e-6 || !sol.Converged {
+				t.Errorf("prox %s %s alpha=%g: max diff %g, converged %v after %d (residual %g)", name, fit.Kind, fit.Alpha, d, sol.Converged, sol.Iterations, sol.Residual)
+			}
+			vr, err := VAMP(context.Background(), f, fx.Y, p, VAMPOptions{SolverOptions: o})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if d := maxDiff(vr.X, fit.Coef); d > 1e-6 || !vr.Converged {
+				t.Errorf("vamp %s %s alpha=%g: max diff %g, converged %v after %d (residual %g)", name, fit.Kind, fit.Alpha, d, vr.Converged, vr.Iterations, vr.Residual)
+			}
+			t.Logf("%s %s alpha=%g: prox %d its, vamp %d its", name, fit.Kind, fit.Alpha, sol.Iterations, vr.Iterations)
 		}
 	}
 }
