@@ -1,0 +1,21 @@
+package ui
+
+// Figures are the headline results of one scenario, named as `hdrisk eval` prints them
+// (architecture.md, contract 3). The JSON tags are those names.
+type Figures struct {
+	MSE             float64 `json:"mse"`              // mean squared error per coordinate
+	NMSEdB          float64 `json:"nmse_db"`          // 10 log10(MSE / E[x0^2])
+	Susceptibility  float64 `json:"susceptibility"`   // V = E[prox'] / g1
+	NonzeroFraction float64 `json:"nonzero_fraction"` // share of coordinates the estimate keeps
+	Converged       bool    `json:"converged"`
+	Iterations      int     `json:"iterations"`
+	EstimateZero    bool    `json:"estimate_zero"` // the penalty sets the whole estimate to zero
+}
+
+// Evaluator computes the figures of a scenario (contract 1 JSON) away from the page's render
+// loop. done is called exactly once unless cancel is called first, and always with the page's
+// render lock held, so it may change component state directly. After cancel, done is never
+// called. A scenario the engine refuses comes back as an error naming the field.
+type Evaluator interface {
+	Evaluate(scenario []byte, done func(Figures, error)) (cancel func())
+}

@@ -1,0 +1,137 @@
+// Package job is the protocol between the page and its compute workers, and the registry of
+// the kinds of work a worker can do. It holds no browser code, so it builds and tests natively.
+//
+// The page posts a Request as JSON text; the worker answers with Replies as JSON text: any
+// number of "progress" replies, then exactly one "result" or "error". A worker runs one
+// request at a time. Cancelling is the page's business: it terminates the worker and starts
+// a fresh one, so a Runner never has to watch for cancellation.
+package job
+
+import (
+	"encoding/json"
+	"fmt"
+	"sort"
+	"sync"
+	"time"
+)
+
+// Request is one piece of work. Args holds the arguments of Kind (see each kind's doc).
+type Request struct {
+	ID   uint64          `json:"id"`
+	Kind string          `json:"kind"`
+	Args json.RawMessage `json:"args"`
+}
+
+// Reply types.
+const (
+	Ready    = "ready"    // the worker has started and takes requests (ID 0)
+	Progress = "progress" // Done of Total steps are finished
+	Result   = "result"   // Result holds the kind's JSON result
+	Failed   = "error"    // Error says what went wrong
+	Fatal    = "fatal"    // the worker itself could not start (sent by the bootstrap script)
+)
+
+// Reply is one message from a worker.
+type Reply struct {
+	ID     uint64          `json:"id"`
+	Type   string          `json:"type"`
+	Done   int             `json:"done,omitempty"`
+	Total  int             `json:"total,omitempty"`
+	Result json.RawMessage `json:"result,omitempty"`
+	Error  string          `json:"error,omitempty"`
+}
+
+// Runner does the work of one kind. It decodes args itself, calls progress(done, total) as it
+// goes (as often as it likes; Run thins the calls out), and returns a value that encodes to
+// JSON. Errors name the argument and the reason.
+type Runner func(args json.RawMessage, progress func(done, total int)) (any, error)
+
+var (
+	mu      sync.RWMutex
+	runners = map[string]Runner{}
+)
+
+// Register makes kind available to workers. Kinds are registered from init functions, one
+// file per kind. Special cases are: registering an empty kind, a nil runner or a kind twice
+// panics, since each is a programming error found at start-up.
+func Register(kind string, r Runner) {
+	mu.Lock()
+	defer mu.Unlock()
+	if kind == "" || r == nil {
+		panic("job: Register needs a kind and a runner")
+	}
+	if _, dup := runners[kind]; dup {
+		panic("job: kind registered twice: " + kind)
+	}
+	runners[kind] = r
+}
+
+// Kinds returns the registered kinds, sorted.
+func Kinds() []string {
+	mu.RLock()
+	defer mu.RUnlock()
+	ks := make([]string, 0, len(runners))
+	for k := range runners {
+		ks = append(ks, k)
+	}
+	sort.Strings(ks)
+	return ks
+}
+
+// minGap is the least time between two progress replies: frequent enough for a smooth bar,
+// rare enough that posting messages costs nothing next to the work.
+const minGap = 50 * time.Millisecond
+
+// Run runs req and hands every reply to emit, in order, ending with exactly one Result or
+// Failed reply. A panic in the runner is reported as a Failed reply, not propagated, so that
+// one bad request cannot take the worker down.
+// Special cases are: an unknown kind is a Failed reply naming it.
+func Run(req Request, emit func(Reply)) {
+	mu.RLock()
+	r, ok := runners[req.Kind]
+	mu.RUnlock()
+	if !ok {
+		emit(Reply{ID: req.ID, Type: Failed, Error: fmt.Sprintf("kind: unknown job kind %q", req.Kind)})
+		return
+	}
+	var last time.Time
+	progress := func(done, total int) {
+		now := time.Now()
+		if done < total && now.Sub(last) < minGap {
+			return
+		}
+		last = now
+		emit(Reply{ID: req.ID, Type: Progress, Done: done, Total: total})
+	}
+	v, err := call(r, req.Args, progress)
+	if err != nil {
+		emit(Reply{ID: req.ID, Type: Failed, Error: err.Error()})
+		return
+	}
+	b, err := json.Marshal(v)
+	if err != nil {
+		emit(Reply{ID: req.ID, Type: Failed, Error: "result: " + err.Error()})
+		return
+	}
+	emit(Reply{ID: req.ID, Type: Result, Result: b})
+}
+
+func call(r Runner, args json.RawMessage, progress func(int, int)) (v any, err error) {
+	defer func() {
+		if p := recover(); p != nil {
+			err = fmt.Errorf("internal error: %v", p)
+		}
+	}()
+	return r(args, progress)
+}
+
+// Handle decodes one request text and runs it. It is what a worker does with each message.
+// Special cases are: text that is not a Request is a Failed reply with ID 0.
+func Handle(text string, emit func(Reply)) {
+	var req Request
+	if err := json.Unmarshal([]byte(text), &req); err != nil {
+		emit(Reply{Type: Failed, Error: "request: " + err.Error()})
+		return
+	}
+	Run(req, emit)
+}

@@ -1,0 +1,51 @@
+//go:build js && wasm
+
+// Package worker is the compute side of the page's program: inside a Web Worker it takes job
+// requests (package job) from onmessage and answers with progress and results.
+package worker
+
+import (
+	"encoding/json"
+	"fmt"
+
+	"github.com/hack-pad/safejs"
+
+	"hdrisk/wasm/job"
+)
+
+// Serve installs the message handler, tells the page the worker is ready and never returns.
+// Requests are run one after another on a goroutine of their own, since a browser callback
+// must not block.
+func Serve() error {
+	self := safejs.Global()
+	post := func(r job.Reply) {
+		b, err := json.Marshal(r)
+		if err != nil {
+			b = []byte(fmt.Sprintf(`{"id":%d,"type":"error","error":"reply: cannot encode"}`, r.ID))
+		}
+		// A failed post leaves the page waiting; there is nobody else to tell.
+		_, _ = self.Call("postMessage", string(b))
+	}
+	requests := make(chan string, 16)
+	onMessage, err := safejs.FuncOf(func(_ safejs.Value, args []safejs.Value) any {
+		text := ""
+		if len(args) > 0 {
+			if d, err := args[0].Get("data"); err == nil {
+				text, _ = d.String()
+			}
+		}
+		go func() { requests <- text }()
+		return nil
+	})
+	if err != nil {
+		return fmt.Errorf("worker: onmessage: %w", err)
+	}
+	if err := self.Set("onmessage", onMessage); err != nil {
+		return fmt.Errorf("worker: onmessage: %w", err)
+	}
+	post(job.Reply{Type: job.Ready})
+	for text := range requests {
+		job.Handle(text, post)
+	}
+	return nil
+}
