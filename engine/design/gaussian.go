@@ -2,6 +2,7 @@ package design
 
 import (
 	"math"
+	"slices"
 
 	"gonum.org/v1/gonum/integrate/quad"
 )
@@ -104,7 +105,7 @@ func (l *gaussian) Stieltjes(g float64) (s1, s2 float64) {
 		return math.Inf(1), math.Inf(1)
 	}
 	d := math.Sqrt(h+l.a) * math.Sqrt(h+l.b)
-	s1 = 2 / (h + 1 - c + d)
+	s1 = 2 / (h + (1 - c) + d)
 	s2 = s1 * s1 * (1 + (h+1+c)/d) / 2
 	s1 /= s
 	s2 /= s * s
@@ -131,7 +132,8 @@ func (l *gaussian) SingularValues(m, n int) []float64 {
 // law MP_c, c <= 1. With lambda = a + (b - a) sin^2(theta/2) the distribution function has
 // the smooth density (2/pi) sin^2 theta / ((1 - sqrt c)^2 + 4 sqrt c sin^2(theta/2)) in
 // theta on [0, pi]; it is tabulated on cells by Gauss-Legendre and inverted in each cell by
-// Newton's method guarded by bisection.
+// Newton's method guarded by bisection. For c near 1 the density rises from 0 to its bulk
+// over a width of about 1 - sqrt c, so the first cell is graded towards 0.
 func mpQuantiles(c float64, p []float64) []float64 {
 	const cells, nodes = 256, 16
 	var x, w [nodes]float64
@@ -151,29 +153,29 @@ func mpQuantiles(c float64, p []float64) []float64 {
 		return sum * half
 	}
 	width := math.Pi / cells
-	var cdf [cells + 1]float64
-	for j := 1; j <= cells; j++ {
-		cdf[j] = cdf[j-1] + integral(float64(j-1)*width, float64(j)*width)
+	breaks := []float64{0}
+	for t := width * 1e-10; t < width; t /= panelRatio {
+		breaks = append(breaks, t)
 	}
-	total := cdf[cells]
+	for j := 1; j <= cells; j++ {
+		breaks = append(breaks, float64(j)*width)
+	}
+	cdf := make([]float64, len(breaks))
+	for j := 1; j < len(breaks); j++ {
+		cdf[j] = cdf[j-1] + integral(breaks[j-1], breaks[j])
+	}
+	last := len(breaks) - 1
+	total := cdf[last]
 	a, b := (1-sc)*(1-sc), (1+sc)*(1+sc)
 	out := make([]float64, len(p))
 	for i, pi := range p {
 		target := pi * total
-		j := 0
-		for lo, hi := 0, cells; lo < hi; {
-			mid := (lo + hi + 1) / 2
-			if cdf[mid] <= target {
-				j, lo = mid, mid
-			} else {
-				hi = mid - 1
-			}
-		}
-		j = min(j, cells-1)
-		lo, hi := float64(j)*width, float64(j+1)*width
-		th := lo + width*(target-cdf[j])/(cdf[j+1]-cdf[j])
+		j, _ := slices.BinarySearch(cdf, target)
+		j = max(0, min(j-1, last-1))
+		lo, hi := breaks[j], breaks[j+1]
+		th := lo + (hi-lo)*(target-cdf[j])/(cdf[j+1]-cdf[j])
 		for range 60 {
-			f := cdf[j] + integral(float64(j)*width, th) - target
+			f := cdf[j] + integral(breaks[j], th) - target
 			if f > 0 {
 				hi = th
 			} else {
