@@ -160,9 +160,9 @@ func readText(lr *lineReader, first []byte, l Limits) (*mat.Dense, error) {
 	return mat.NewDense(rows, cols, data), nil
 }
 
-// header reports whether a first row is a row of column names: every field holds a letter
-// and is neither a number nor a spelling of NaN or Inf (a row of those is bad data, not a
-// header).
+// header reports whether a first row is a row of column names: every field starts with a
+// letter (or an underscore, or a character beyond ASCII) and is not a spelling of NaN or
+// Inf (a row of those is bad data, not a header).
 func header(fields [][]byte) bool {
 	for _, f := range fields {
 		if !isName(f) {
@@ -173,14 +173,16 @@ func header(fields [][]byte) bool {
 }
 
 func isName(f []byte) bool {
-	if _, err := parseNumber(f, 0); err == nil {
+	f = bytes.TrimLeft(f, "\"")
+	if len(f) == 0 {
 		return false
 	}
-	switch string(bytes.ToLower(bytes.Trim(f, "+-\""))) {
+	switch string(bytes.ToLower(bytes.TrimRight(f, "\""))) {
 	case "nan", "inf", "infinity":
 		return false
 	}
-	return bytes.ContainsFunc(f, func(r rune) bool { return r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' })
+	c := f[0]
+	return c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c == '_' || c >= 0x80
 }
 
 func numbers(n int) string {
