@@ -1,0 +1,192 @@
+package study
+
+import (
+	"context"
+	"math"
+
+	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/scenario"
+)
+
+// Axis is a range of one scalar field of a scenario.
+type Axis struct {
+	Over     string  // field, as scenario.Scenario.Get names it ("alpha", "l1", "noise", ...)
+	From, To float64 // end points, both included; To < From runs the range downwards
+	Points   int     // number of values, >= 1 (1 gives From alone)
+	Log      bool    // geometric spacing; From and To must then be > 0
+}
+
+// Values returns the Points values of the axis: From + (To - From) k/(Points - 1), or the
+// geometric equivalent when Log is set. The end points are exactly From and To.
+//
+// Special cases are: Points = 1 gives [From]; From = To gives Points copies of From.
+// An error (*SpecError) is returned for Points < 1, non-finite ends, or Log with an end <= 0.
+func (a Axis) Values() ([]float64, error) {
+	if a.Points < 1 {
+		return nil, specErr("points", "must be at least 1, not %d", a.Points)
+	}
+	if math.IsNaN(a.From) || math.IsInf(a.From, 0) {
+		return nil, specErr("from", "must be a finite number, not %v", a.From)
+	}
+	if math.IsNaN(a.To) || math.IsInf(a.To, 0) {
+		return nil, specErr("to", "must be a finite number, not %v", a.To)
+	}
+	if a.Log && !(a.From > 0 && a.To > 0) {
+		return nil, specErr("log", "a logarithmic axis needs from > 0 and to > 0 (from %v, to %v)", a.From, a.To)
+	}
+	v := make([]float64, a.Points)
+	n := float64(a.Points - 1)
+	for k := range v {
+		f := 0.0
+		if a.Points > 1 {
+			f = float64(k) / n
+		}
+		if a.Log {
+			v[k] = math.Exp(math.Log(a.From) + f*(math.Log(a.To)-math.Log(a.From)))
+		} else {
+			v[k] = a.From + f*(a.To-a.From)
+		}
+	}
+	v[0] = a.From
+	if a.Points > 1 {
+		v[a.Points-1] = a.To
+	}
+	return v, nil
+}
+
+// check validates the axis against s: the field exists and both end points are values the
+// scenario accepts (fields have interval ranges, so every value between them is accepted too).
+func (a Axis) check(s scenario.Scenario, maxPoints int) ([]float64, error) {
+	if a.Over == "" {
+		return nil, specErr("over", "name the field to vary (%s)", fieldList(s))
+	}
+	if a.Points > maxPoints {
+		return nil, specErr("points", "at most %d, not %d", maxPoints, a.Points)
+	}
+	v, err := a.Values()
+	if err != nil {
+		return nil, err
+	}
+	if _, err := s.Get(a.Over); err != nil {
+		return nil, err
+	}
+	for _, x := range []float64{a.From, a.To} {
+		if _, err := s.With(a.Over, x); err != nil {
+			return nil, err
+		}
+	}
+	return v, nil
+}
+
+// fullPath returns the JSON path that a field name of s stands for, or "" if none.
+func fullPath(s scenario.Scenario, name string) string {
+	for _, p := range s.Paths() {
+		if p.Name == name || p.Path == name {
+			return p.Path
+		}
+	}
+	return ""
+}
+
+func fieldList(s scenario.Scenario) string {
+	t := "this scenario has "
+	for i, p := range s.Paths() {
+		if i > 0 {
+			t += ", "
+		}
+		t += p.Name
+	}
+	return t
+}
+
+// Point is one solved point of a study.
+type Point struct {
+	X, Y   float64           // the value of the swept field; Y is a map's second field (0 in a sweep)
+	Result fixedpoint.Result // the fixed point, with its Converged flag and Iterations
+	Failed string            // why no fixed point exists here; "" when one was computed
+}
+
+// OK reports whether the point holds a converged fixed point, the only kind that a study
+// draws, minimizes or writes out as a number.
+func (p Point) OK() bool { return p.Failed == "" && p.Result.Converged }
+
+// Status is "ok", "not converged" or "failed: " and the reason.
+func (p Point) Status() string {
+	switch {
+	case p.Failed != "":
+		return "failed: " + p.Failed
+	case !p.Result.Converged:
+		return "not converged"
+	}
+	return "ok"
+}
+
+// Progress receives the number of points done out of total. Studies call it from one
+// goroutine at a time, after each point (a sweep) or each row (a map).
+type Progress func(done, total int)
+
+// SweepSpec is a 1-D study: one field over an axis.
+type SweepSpec struct {
+	Axis
+	// Solver sets the tolerance and the iteration limit of every fixed point (zero: the
+	// defaults of fixedpoint.Solve). Its Start is ignored: the sweep warm-starts itself.
+	Solver fixedpoint.Options
+}
+
+// Sweep solves the fixed point at every value of spec.Axis, in order, each warm-started from
+// the last point that converged to a nonzero estimate.
+//
+// Special cases are: a point whose problem cannot be solved is returned with Failed set and
+// the sweep goes on; a point that does not converge is returned with Result.Converged false.
+// On cancellation Sweep returns the points done so far and ctx.Err(). An invalid spec (an
+// unknown field, an end point outside the field's range, Points above
+// scenario.MaxSweepPoints) is an error before anything is solved.
+func Sweep(ctx context.Context, s scenario.Scenario, spec SweepSpec, progress Progress) ([]Point, error) {
+	xs, err := spec.check(s, scenario.MaxSweepPoints)
+	if err != nil {
+		return nil, err
+	}
+	w := walker{opt: spec.Solver}
+	pts := make([]Point, 0, len(xs))
+	for _, x := range xs {
+		if err := ctx.Err(); err != nil {
+			return pts, err
+		}
+		p := w.solve(s.With(spec.Over, x))
+		p.X = x
+		pts = append(pts, p)
+		if progress != nil {
+			progress(len(pts), len(xs))
+		}
+	}
+	return pts, nil
+}
+
+// walker solves a path of neighbouring problems, warm-starting each from the last fixed
+// point that converged to a nonzero estimate (a zero estimate says nothing about where the
+// next fixed point lies).
+type walker struct {
+	opt  fixedpoint.Options
+	warm *fixedpoint.State
+}
+
+func (w *walker) solve(s scenario.Scenario, err error) Point {
+	if err != nil {
+		return Point{Failed: err.Error()}
+	}
+	p, err := s.Problem()
+	if err != nil {
+		return Point{Failed: err.Error()}
+	}
+	o := w.opt
+	o.Start = w.warm
+	r, err := fixedpoint.Solve(p, o)
+	if err != nil {
+		return Point{Failed: err.Error()}
+	}
+	if r.Converged && !r.EstimateZero {
+		st := r.State()
+		w.warm = &st
+	}
+	return Point{Result: r}
+}
