@@ -50,7 +50,6 @@ func EmpiricalSV(alpha float64, values []float64, s Scale) (Law, error) {
 		return nil, &ParamError{Field: "values", Reason: "all zero: the design would carry no information"}
 	}
 	p0, q := parts(alpha)
-	each := q / float64(k)
 	// The mean of the squares, relative to the largest value so that it cannot underflow.
 	top := sv[k-1]
 	var m2 float64
@@ -64,19 +63,27 @@ func EmpiricalSV(alpha float64, values []float64, s Scale) (Law, error) {
 	if s == AsGiven {
 		fr = top * top
 	}
+	// Weights are counts times q/k, so that equal values merge without rounding drift.
 	d := atoms{alpha: alpha, mean: fr * q * m2, p0: p0}
+	var zeros int
+	var counts []int
 	for _, v := range sv {
 		r := v / top
 		lam := fr * r * r
 		switch {
 		case lam == 0:
-			d.p0 += each
+			zeros++
 		case len(d.lam) > 0 && d.lam[len(d.lam)-1] == lam:
-			d.w[len(d.w)-1] += each
+			counts[len(counts)-1]++
 		default:
 			d.lam = append(d.lam, lam)
-			d.w = append(d.w, each)
+			counts = append(counts, 1)
 		}
+	}
+	d.p0 += q * float64(zeros) / float64(k)
+	d.w = make([]float64, len(counts))
+	for i, c := range counts {
+		d.w[i] = q * float64(c) / float64(k)
 	}
 	rf := math.Sqrt(fr) / top
 	for i, v := range sv {

@@ -176,6 +176,9 @@ func mpQuantiles(c float64, p []float64) []float64 {
 		th := lo + (hi-lo)*(target-cdf[j])/(cdf[j+1]-cdf[j])
 		for range 60 {
 			f := cdf[j] + integral(breaks[j], th) - target
+			if math.Abs(f) <= 4*eps*total {
+				break
+			}
 			if f > 0 {
 				hi = th
 			} else {
@@ -185,11 +188,10 @@ func mpQuantiles(c float64, p []float64) []float64 {
 			if !(next > lo && next < hi) {
 				next = (lo + hi) / 2
 			}
-			if math.Abs(next-th) <= 1e-15*math.Pi {
-				th = next
+			th = next
+			if hi-lo <= eps*hi {
 				break
 			}
-			th = next
 		}
 		h := math.Sin(th / 2)
 		out[i] = a + (b-a)*h*h

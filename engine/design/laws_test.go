@@ -133,7 +133,7 @@ func TestIdentities(t *testing.T) {
 			t.Fatalf("%s: %v", c.name, err)
 		}
 		prev := Transforms{S1: math.Inf(1), T: math.Inf(1)}
-		for e := -10.0; e <= 10; e += 0.25 {
+		for e := -10.0; e <= 10; e += 0.5 {
 			g := math.Pow(10, e) * l.Mean()
 			x := l.At(g)
 			for _, v := range []float64{x.S1, x.S2, x.S3, x.T, x.W, x.S2Pos} {
