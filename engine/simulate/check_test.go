@@ -25,7 +25,6 @@ func problem(t testing.TB, d design.Law, derr error, pen penalty.Penalty, perr e
 	return Problem{Problem: fixedpoint.Problem{Design: d, Signal: sig, Penalty: pen, Noise: 0.01}, GaussianEntries: gaussian}
 }
 
-
 type checkCase struct {
 	name string
 	p    Problem
