@@ -163,12 +163,17 @@ func Sweep(ctx context.Context, s scenario.Scenario, spec SweepSpec, progress Pr
 }
 
 // walker solves a path of neighbouring problems, warm-starting each from the last fixed
-// point that converged to a nonzero estimate (a zero estimate says nothing about where the
-// next fixed point lies).
+// point that converged to a nonzero estimate with a nonzero error. Neither a zero estimate
+// nor exact recovery says where the next fixed point lies, and a start at exact recovery
+// would stop the solver at once on its error floor even where the next point does not
+// recover.
 type walker struct {
 	opt  fixedpoint.Options
 	warm *fixedpoint.State
 }
+
+// warmFloor is the NMSE below which a fixed point counts as exact recovery for warm starts.
+const warmFloor = 1e-10
 
 func (w *walker) solve(s scenario.Scenario, err error) Point {
 	if err != nil {
@@ -184,7 +189,7 @@ func (w *walker) solve(s scenario.Scenario, err error) Point {
 	if err != nil {
 		return Point{Failed: err.Error()}
 	}
-	if r.Converged && !r.EstimateZero {
+	if r.Converged && !r.EstimateZero && r.NMSE > warmFloor {
 		st := r.State()
 		w.warm = &st
 	}
