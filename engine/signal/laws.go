@@ -1,0 +1,351 @@
+package signal
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"slices"
+
+	"gonum.org/v1/gonum/integrate/quad"
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Sizes of the discretizations and caps on user lists.
+const (
+	// ScaleNodes is the number of Gauss-Laguerre nodes of the mixing variance of the Laplace and
+	// Student-t laws (the convergence in this number is checked in the tests).
+	ScaleNodes = 48
+	// UniformNodes is the number of Gauss-Legendre atoms of the uniform law.
+	UniformNodes = 64
+	// MaxEmpirical is the largest number of values of an empirical law.
+	MaxEmpirical = 100000
+	// MaxMixture is the largest number of components of a Gaussian mixture.
+	MaxMixture = 1000
+	// weightSumTol is how far the weights of a Gaussian mixture may sum from 1 (they are then
+	// rescaled to sum to 1 exactly).
+	weightSumTol = 1e-9
+)
+
+type gauss struct {
+	mixture
+	variance float64
+}
+
+// Gauss returns x0 ~ N(0, variance), variance >= 0 finite (units of x0 squared).
+//
+// Special cases are: variance = 0 is the point mass at 0 (a zero signal).
+func Gauss(variance float64) (Law, error) {
+	if err := nonnegative("variance", variance); err != nil {
+		return nil, err
+	}
+	return gauss{mixture{[]Component{{1, 0, variance}}}, variance}, nil
+}
+
+func (l gauss) Name() string    { return "gauss" }
+func (l gauss) Exact() bool     { return true }
+func (l gauss) Second() float64 { return l.variance }
+func (l gauss) Sample(rng *rand.Rand, n int) []float64 {
+	s := math.Sqrt(l.variance)
+	return draw(n, func() float64 { return s * rng.NormFloat64() })
+}
+
+type bernoulliGauss struct {
+	mixture
+	density, variance float64
+}
+
+// BernoulliGauss returns x0 = 0 with probability 1 - density and x0 ~ N(0, variance) otherwise
+// (density in (0, 1], variance >= 0 finite).
+//
+// Special cases are: density = 1 is Gauss(variance).
+func BernoulliGauss(density, variance float64) (Law, error) {
+	if err := checkDensity(density); err != nil {
+		return nil, err
+	}
+	if err := nonnegative("variance", variance); err != nil {
+		return nil, err
+	}
+	comps := []Component{{density, 0, variance}}
+	if density < 1 {
+		comps = append(comps, Component{1 - density, 0, 0})
+	}
+	return bernoulliGauss{mixture{comps}, density, variance}, nil
+}
+
+func (l bernoulliGauss) Name() string    { return "bernoulli-gauss" }
+func (l bernoulliGauss) Exact() bool     { return true }
+func (l bernoulliGauss) Second() float64 { return l.density * l.variance }
+func (l bernoulliGauss) Sample(rng *rand.Rand, n int) []float64 {
+	s := math.Sqrt(l.variance)
+	return draw(n, func() float64 {
+		if rng.Float64() < l.density {
+			return s * rng.NormFloat64()
+		}
+		return 0
+	})
+}
+
+type bernoulliRademacher struct {
+	mixture
+	density, amplitude float64
+}
+
+// BernoulliRademacher returns x0 = 0 with probability 1 - density and +-amplitude with
+// probability density/2 each (density in (0, 1], amplitude >= 0 finite, units of x0).
+func BernoulliRademacher(density, amplitude float64) (Law, error) {
+	if err := checkDensity(density); err != nil {
+		return nil, err
+	}
+	if err := nonnegative("amplitude", amplitude); err != nil {
+		return nil, err
+	}
+	comps := []Component{{density / 2, -amplitude, 0}, {density / 2, amplitude, 0}}
+	if density < 1 {
+		comps = append(comps, Component{1 - density, 0, 0})
+	}
+	return bernoulliRademacher{mixture{comps}, density, amplitude}, nil
+}
+
+func (l bernoulliRademacher) Name() string    { return "bernoulli-rademacher" }
+func (l bernoulliRademacher) Exact() bool     { return true }
+func (l bernoulliRademacher) Second() float64 { return l.density * l.amplitude * l.amplitude }
+func (l bernoulliRademacher) Sample(rng *rand.Rand, n int) []float64 {
+	return draw(n, func() float64 {
+		u := rng.Float64()
+		switch {
+		case u < l.density/2:
+			return -l.amplitude
+		case u < l.density:
+			return l.amplitude
+		}
+		return 0
+	})
+}
+
+type laplace struct {
+	mixture
+	scale float64
+}
+
+// Laplace returns the law with density exp(-|x|/scale)/(2 scale) (scale > 0 finite, units of
+// x0); E[x0^2] = 2 scale^2.
+//
+// It is a Gaussian scale mixture, x0 ~ N(0, V) with V exponential of mean 2 scale^2 (Andrews &
+// Mallows 1974, J. R. Stat. Soc. B 36:99-102). Its mixture is the ScaleNodes-point Gauss-Laguerre
+// rule in V / (2 scale^2), which reproduces E[V] = E[x0^2] exactly.
+func Laplace(scale float64) (Law, error) {
+	if err := positive("scale", scale); err != nil {
+		return nil, err
+	}
+	y, w := laguerre(ScaleNodes, 0)
+	comps := make([]Component, len(y))
+	for i := range y {
+		comps[i] = Component{w[i], 0, 2 * scale * scale * y[i]}
+	}
+	return laplace{mixture{comps}, scale}, nil
+}
+
+func (l laplace) Name() string    { return "laplace" }
+func (l laplace) Exact() bool     { return false }
+func (l laplace) Second() float64 { return 2 * l.scale * l.scale }
+func (l laplace) Sample(rng *rand.Rand, n int) []float64 {
+	return draw(n, func() float64 {
+		if rng.Uint64()&1 == 0 {
+			return -l.scale * rng.ExpFloat64()
+		}
+		return l.scale * rng.ExpFloat64()
+	})
+}
+
+type uniform struct {
+	mixture
+	halfwidth float64
+}
+
+// Uniform returns x0 uniform on [-halfwidth, halfwidth] (halfwidth > 0 finite, units of x0);
+// E[x0^2] = halfwidth^2 / 3. Its mixture is UniformNodes Gauss-Legendre atoms (point masses),
+// exact for polynomial integrands of degree < 2 UniformNodes.
+func Uniform(halfwidth float64) (Law, error) {
+	if err := positive("halfwidth", halfwidth); err != nil {
+		return nil, err
+	}
+	x := make([]float64, UniformNodes)
+	w := make([]float64, UniformNodes)
+	quad.Legendre{}.FixedLocations(x, w, -halfwidth, halfwidth)
+	comps := make([]Component, len(x))
+	for i := range x {
+		comps[i] = Component{w[i] / (2 * halfwidth), x[i], 0}
+	}
+	return uniform{mixture{comps}, halfwidth}, nil
+}
+
+func (l uniform) Name() string    { return "uniform" }
+func (l uniform) Exact() bool     { return false }
+func (l uniform) Second() float64 { return l.halfwidth * l.halfwidth / 3 }
+func (l uniform) Sample(rng *rand.Rand, n int) []float64 {
+	return draw(n, func() float64 { return l.halfwidth * (2*rng.Float64() - 1) })
+}
+
+type studentT struct {
+	mixture
+	dof, scale float64
+}
+
+// StudentT returns x0 = scale z / sqrt(G) with z ~ N(0, 1) and G ~ Gamma(dof/2, rate dof/2),
+// the Student-t law with dof degrees of freedom (dof > 2 so that E[x0^2] = scale^2 dof/(dof - 2)
+// is finite; scale > 0; both finite).
+//
+// Its mixture discretizes y = (dof/2) G: with a = dof/2, E[h(x0)] = E[y h] / (a - 1) under
+// the weight y^(a-2) e^-y, and the ScaleNodes-point generalized Gauss-Laguerre rule of that
+// weight makes the component weights sum to 1 and reproduces E[x0^2] exactly.
+func StudentT(dof, scale float64) (Law, error) {
+	if err := finite("dof", dof); err != nil {
+		return nil, err
+	}
+	if !(dof > 2) {
+		return nil, &ParamError{"dof", fmt.Sprintf("must be > 2 (got %v): with 2 or fewer degrees of freedom E[x0^2] is infinite", dof)}
+	}
+	if err := positive("scale", scale); err != nil {
+		return nil, err
+	}
+	a := dof / 2
+	y, w := laguerre(ScaleNodes, a-2)
+	comps := make([]Component, len(y))
+	for i := range y {
+		comps[i] = Component{w[i] * y[i] / (a - 1), 0, scale * scale * a / y[i]}
+	}
+	return studentT{mixture{comps}, dof, scale}, nil
+}
+
+func (l studentT) Name() string    { return "student-t" }
+func (l studentT) Exact() bool     { return false }
+func (l studentT) Second() float64 { return l.scale * l.scale * l.dof / (l.dof - 2) }
+func (l studentT) Sample(rng *rand.Rand, n int) []float64 {
+	g := distuv.Gamma{Alpha: l.dof / 2, Beta: l.dof / 2, Src: rng}
+	return draw(n, func() float64 { return l.scale * rng.NormFloat64() / math.Sqrt(g.Rand()) })
+}
+
+type gaussMixture struct {
+	mixture
+	second float64
+}
+
+// GaussMixture returns the mixture sum_i weights[i] N(means[i], variances[i]). The three lists
+// have the same length, 1 to MaxMixture; weights are >= 0 and sum to 1 within 1e-9 (they are
+// then rescaled to sum to 1 exactly); means are finite; variances >= 0 finite (0 is a point mass).
+func GaussMixture(weights, means, variances []float64) (Law, error) {
+	n := len(weights)
+	switch {
+	case n == 0:
+		return nil, &ParamError{"weights", "must hold at least one weight"}
+	case n > MaxMixture:
+		return nil, &ParamError{"weights", fmt.Sprintf("holds %d components, more than the maximum %d", n, MaxMixture)}
+	case len(means) != n:
+		return nil, &ParamError{"means", fmt.Sprintf("holds %d values, but weights holds %d", len(means), n)}
+	case len(variances) != n:
+		return nil, &ParamError{"variances", fmt.Sprintf("holds %d values, but weights holds %d", len(variances), n)}
+	}
+	sum := 0.0
+	for i := range n {
+		if err := nonnegative(fmt.Sprintf("weights[%d]", i), weights[i]); err != nil {
+			return nil, err
+		}
+		if err := finite(fmt.Sprintf("means[%d]", i), means[i]); err != nil {
+			return nil, err
+		}
+		if err := nonnegative(fmt.Sprintf("variances[%d]", i), variances[i]); err != nil {
+			return nil, err
+		}
+		sum += weights[i]
+	}
+	if math.Abs(sum-1) > weightSumTol {
+		return nil, &ParamError{"weights", fmt.Sprintf("must sum to 1 (they sum to %.17g)", sum)}
+	}
+	comps := make([]Component, 0, n)
+	second := 0.0
+	for i := range n {
+		c := Component{weights[i] / sum, means[i], variances[i]}
+		second += c.Weight * (c.Mean*c.Mean + c.Var)
+		if c.Weight > 0 {
+			comps = append(comps, c)
+		}
+	}
+	return gaussMixture{mixture{comps}, second}, nil
+}
+
+func (l gaussMixture) Name() string    { return "gauss-mixture" }
+func (l gaussMixture) Exact() bool     { return true }
+func (l gaussMixture) Second() float64 { return l.second }
+func (l gaussMixture) Sample(rng *rand.Rand, n int) []float64 {
+	cum := make([]float64, len(l.comps))
+	s := 0.0
+	for i, c := range l.comps {
+		s += c.Weight
+		cum[i] = s
+	}
+	return draw(n, func() float64 {
+		i := min(searchCum(cum, rng.Float64()*s), len(cum)-1)
+		c := l.comps[i]
+		return c.Mean + math.Sqrt(c.Var)*rng.NormFloat64()
+	})
+}
+
+type empirical struct {
+	mixture
+	values []float64
+	second float64
+}
+
+// Empirical returns the empirical law of values: each of the 1 to MaxEmpirical finite values
+// with probability 1/len(values) (equal values are merged into one atom).
+func Empirical(values []float64) (Law, error) {
+	switch {
+	case len(values) == 0:
+		return nil, &ParamError{"values", "must hold at least one value"}
+	case len(values) > MaxEmpirical:
+		return nil, &ParamError{"values", fmt.Sprintf("holds %d values, more than the maximum %d", len(values), MaxEmpirical)}
+	}
+	second := 0.0
+	for i, v := range values {
+		if err := finite(fmt.Sprintf("values[%d]", i), v); err != nil {
+			return nil, err
+		}
+		second += v * v
+	}
+	sorted := slices.Clone(values)
+	slices.Sort(sorted)
+	w := 1 / float64(len(values))
+	var comps []Component
+	for i, v := range sorted {
+		if i > 0 && v == sorted[i-1] {
+			comps[len(comps)-1].Weight += w
+			continue
+		}
+		comps = append(comps, Component{w, v, 0})
+	}
+	return empirical{mixture{comps}, slices.Clone(values), second / float64(len(values))}, nil
+}
+
+func (l empirical) Name() string    { return "empirical" }
+func (l empirical) Exact() bool     { return true }
+func (l empirical) Second() float64 { return l.second }
+func (l empirical) Sample(rng *rand.Rand, n int) []float64 {
+	return draw(n, func() float64 { return l.values[rng.IntN(len(l.values))] })
+}
+
+// searchCum returns the first index i with cum[i] > u (cum increasing).
+func searchCum(cum []float64, u float64) int {
+	i, _ := slices.BinarySearch(cum, u)
+	for i < len(cum) && cum[i] <= u {
+		i++
+	}
+	return i
+}
+
+func draw(n int, f func() float64) []float64 {
+	out := make([]float64, max(n, 0))
+	for i := range out {
+		out[i] = f()
+	}
+	return out
+}
