@@ -1,0 +1,250 @@
+package study
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"gonum.org/v1/gonum/integrate/quad"
+
+	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/signal"
+)
+
+// BayesPoint is one fixed point of the Bayes-optimal state evolution.
+type BayesPoint struct {
+	MSE, NMSE, NMSEdB float64 // NMSEdB is floored at -300 dB, as in fixedpoint
+	Gamma1            float64 // precision 1/t of the denoiser's input r = x0 + sqrt(t) z; +Inf on exact recovery
+	Gamma2            float64 // precision of the linear step's input
+	Iterations        int
+	Converged         bool
+	Exact             bool // the error is zero: exact recovery (noiseless problems only)
+}
+
+// BayesResult is the error of the posterior-mean estimator, reached from two starts.
+type BayesResult struct {
+	Uninformed BayesPoint // from no knowledge of x0 (t very large): what the algorithm reaches
+	Informed   BayesPoint // from near-exact knowledge (t very small)
+	// Differ reports that the two starts end at different fixed points (relative gap above
+	// 1e-6): a first-order phase transition, with the uninformed error above the informed one.
+	Differ bool
+}
+
+// Limits of the Bayes reference.
+const (
+	// MaxBayesComponents bounds the Gaussian mixture of the signal law: the quadrature of the
+	// posterior mean costs a number of nodes proportional to its square.
+	MaxBayesComponents = 64
+	bayesMaxIter       = 20000
+	bayesTol           = 1e-12
+	bayesFloor         = 1e-13 // relative to rho2: below it the error counts as zero
+	bayesStart         = 1e10  // the informed start is t = rho2/bayesStart, the uninformed t = rho2*bayesStart
+	differTol          = 1e-6
+)
+
+// Bayes returns the error of the posterior-mean (minimum mean-square error) estimator
+// through the state evolution of vector approximate message passing with the
+// posterior-mean denoiser and the matched linear step (Rangan, Schniter & Fletcher 2019,
+// "Vector approximate message passing", IEEE Trans. Inf. Theory, Algorithm 3 and its state
+// evolution). With gamma1 the precision of the denoiser's input, t = 1/gamma1:
+//
+//	E1      = mmse(t) = E[(E[x0|r] - x0)^2],  r = x0 + sqrt(t) z
+//	gamma2  = 1/E1 - gamma1            = (1 - E1/t)/E1
+//	E2      = E_nu[1/(lambda/Delta + gamma2)] = Delta S1(Delta gamma2)
+//	gamma1 <- 1/E2 - gamma2            = T(Delta gamma2) / (Delta S1(Delta gamma2))
+//
+// each subtraction replaced by its cancellation-free form (T = E_nu[lambda/(lambda + g)]; for
+// a Gaussian mixture 1 - E1/t = sum_k w_k t/(v_k + t) - M/t, with M the mixing term below).
+// The MSE is E1 at the fixed point. The map is monotone, so the iteration runs undamped from
+// t = rho2 * 1e10 (uninformed) and from t = rho2 / 1e10 (informed) to the highest and the
+// lowest fixed point; they differ across a first-order transition. The penalty of p is not used.
+//
+// The posterior mean is computed for signal laws whose Gaussian-mixture form is exact
+// (Gaussian, Bernoulli-Gaussian, Bernoulli-Rademacher, Gaussian mixtures, point masses):
+// with components (w_k, m_k, v_k), mmse(t) = sum_k w_k v_k t/(v_k + t) + M,
+// M = E[sum_k pi_k(r) (mu_k(r) - E[x0|r])^2], pi_k the posterior weight of component k and
+// mu_k(r) its posterior mean. M has no cancellation; it is integrated by 16-point
+// Gauss-Legendre panels one standard deviation wide over +-12 standard deviations of every
+// component, so that narrow components (small t) are resolved.
+//
+// Special cases are: Delta = 0 uses the limit Delta -> 0 of the linear step, gamma1 =
+// gamma2 (1 - nu({0}))/nu({0}) (E2 -> nu({0})/gamma2), and exact recovery (an error below
+// 1e-13 rho2 that is still falling) is reported as MSE = 0 with Exact set; a design without an
+// atom at zero and Delta = 0 recovers exactly at once. Errors are returned for a nil design or
+// signal, a negative or non-finite Delta, a signal law whose mixture form is a discretization
+// (Laplace, Student-t), more than MaxBayesComponents components, and a signal without power.
+func Bayes(p fixedpoint.Problem) (BayesResult, error) {
+	if p.Design == nil || p.Signal == nil {
+		return BayesResult{}, specErr("problem", "the Bayes reference needs a design and a signal law")
+	}
+	if !(p.Noise >= 0) || math.IsInf(p.Noise, 0) {
+		return BayesResult{}, specErr("noise", "must be a finite number >= 0, not %v", p.Noise)
+	}
+	if !p.Signal.Exact() {
+		return BayesResult{}, specErr("signal", "the posterior mean of the %s law has no closed form here (the Bayes reference covers Gaussian, Bernoulli-Gaussian, Bernoulli-Rademacher, Gaussian-mixture and point-mass laws)", p.Signal.Name())
+	}
+	mx, err := newMixtureMMSE(p.Signal.Mixture())
+	if err != nil {
+		return BayesResult{}, err
+	}
+	rho2 := p.Signal.Second()
+	if !(rho2 > 0) || math.IsInf(rho2, 0) {
+		return BayesResult{}, specErr("signal", "has no power (E[x0^2] = %v), so the normalized error is undefined", rho2)
+	}
+	se := bayesSE{p: p, mx: mx, rho2: rho2}
+	var r BayesResult
+	if r.Uninformed, err = se.run(1 / (rho2 * bayesStart)); err != nil {
+		return BayesResult{}, err
+	}
+	if r.Informed, err = se.run(bayesStart / rho2); err != nil {
+		return BayesResult{}, err
+	}
+	r.Differ = r.Uninformed.MSE-r.Informed.MSE > differTol*r.Uninformed.MSE+bayesFloor*rho2
+	return r, nil
+}
+
+type bayesSE struct {
+	p    fixedpoint.Problem
+	mx   *mixtureMMSE
+	rho2 float64
+}
+
+func (se *bayesSE) run(gamma1 float64) (BayesPoint, error) {
+	delta := se.p.Noise
+	atom0 := se.p.Design.Atom0()
+	var bp BayesPoint
+	for it := 1; it <= bayesMaxIter; it++ {
+		t := 1 / gamma1
+		e1, gain := se.mx.at(t)
+		gamma2 := math.Max(gain, 0) / e1
+		var next float64
+		switch {
+		case delta > 0:
+			tr := se.p.Design.At(delta * gamma2)
+			next = tr.T / (delta * tr.S1)
+		case atom0 > 0:
+			next = gamma2 * (1 - atom0) / atom0
+		default:
+			next = math.Inf(1)
+		}
+		bp = BayesPoint{MSE: e1, Gamma1: gamma1, Gamma2: gamma2, Iterations: it}
+		if !(next >= 0) || math.IsNaN(e1) {
+			return BayesPoint{}, fmt.Errorf("study: the Bayes state evolution left the finite numbers at t = %v", t)
+		}
+		if e1 < bayesFloor*se.rho2 && next >= gamma1 {
+			bp.MSE, bp.Gamma1, bp.Exact, bp.Converged = 0, math.Inf(1), true, true
+			break
+		}
+		if math.Abs(next-gamma1) <= bayesTol*gamma1 {
+			bp.Converged = true
+			bp.MSE, _ = se.mx.at(1 / next)
+			bp.Gamma1 = next
+			break
+		}
+		gamma1 = next
+	}
+	bp.NMSE = bp.MSE / se.rho2
+	bp.NMSEdB = -300
+	if bp.NMSE > 0 {
+		bp.NMSEdB = math.Max(-300, 10*math.Log10(bp.NMSE))
+	}
+	return bp, nil
+}
+
+// mixtureMMSE evaluates the minimum mean-square error of a Gaussian-mixture prior in the
+// scalar channel r = x0 + sqrt(t) z.
+type mixtureMMSE struct {
+	c        []signal.Component // components of positive weight
+	gx, gw   []float64          // Gauss-Legendre nodes and weights on [-1, 1]
+	lq, mu   []float64          // scratch: log-density and posterior mean per component
+	breaks   []float64
+	panelsSD float64 // half-width of the window per component, in standard deviations
+}
+
+func newMixtureMMSE(comps []signal.Component) (*mixtureMMSE, error) {
+	var c []signal.Component
+	for _, k := range comps {
+		if k.Weight > 0 {
+			c = append(c, k)
+		}
+	}
+	if len(c) == 0 {
+		return nil, specErr("signal", "the mixture has no component of positive weight")
+	}
+	if len(c) > MaxBayesComponents {
+		return nil, specErr("signal", "the Bayes reference takes at most %d mixture components, not %d", MaxBayesComponents, len(c))
+	}
+	const nodes = 16
+	m := &mixtureMMSE{c: c, gx: make([]float64, nodes), gw: make([]float64, nodes),
+		lq: make([]float64, len(c)), mu: make([]float64, len(c)), panelsSD: 12}
+	quad.Legendre{}.FixedLocations(m.gx, m.gw, -1, 1)
+	return m, nil
+}
+
+// at returns mmse(t) and 1 - mmse(t)/t, each without cancellation.
+func (m *mixtureMMSE) at(t float64) (mmse, gain float64) {
+	var within, keep float64
+	for _, k := range m.c {
+		s := k.Var + t
+		within += k.Weight * k.Var * (t / s)
+		keep += k.Weight * (t / s)
+	}
+	mix := m.mixing(t)
+	return within + mix, keep - mix/t
+}
+
+// mixing integrates M(t) = int sum_k q_k(r) (mu_k(r) - xhat(r))^2 dr, q_k(r) = w_k N(r; m_k,
+// v_k + t), over panels one standard deviation wide around every component.
+func (m *mixtureMMSE) mixing(t float64) float64 {
+	if len(m.c) == 1 {
+		return 0
+	}
+	m.breaks = m.breaks[:0]
+	n := int(m.panelsSD)
+	for _, k := range m.c {
+		sd := math.Sqrt(k.Var + t)
+		for j := -n; j <= n; j++ {
+			m.breaks = append(m.breaks, k.Mean+float64(j)*sd)
+		}
+	}
+	slices.Sort(m.breaks)
+	var sum float64
+	for i := 1; i < len(m.breaks); i++ {
+		a, b := m.breaks[i-1], m.breaks[i]
+		if !(b > a) {
+			continue
+		}
+		h, c := (b-a)/2, (b+a)/2
+		var ps float64
+		for j, x := range m.gx {
+			ps += m.gw[j] * m.integrand(c+h*x, t)
+		}
+		sum += h * ps
+	}
+	return sum
+}
+
+func (m *mixtureMMSE) integrand(r, t float64) float64 {
+	lmax := math.Inf(-1)
+	for i, k := range m.c {
+		s := k.Var + t
+		d := r - k.Mean
+		m.lq[i] = math.Log(k.Weight) - 0.5*math.Log(2*math.Pi*s) - d*d/(2*s)
+		m.mu[i] = k.Mean + k.Var/s*d
+		lmax = math.Max(lmax, m.lq[i])
+	}
+	var q, qmu float64
+	for i := range m.c {
+		e := math.Exp(m.lq[i] - lmax)
+		m.lq[i] = e
+		q += e
+		qmu += e * m.mu[i]
+	}
+	xhat := qmu / q
+	var v float64
+	for i := range m.c {
+		d := m.mu[i] - xhat
+		v += m.lq[i] * d * d
+	}
+	return math.Exp(lmax) * v
+}
