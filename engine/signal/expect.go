@@ -125,7 +125,6 @@ func addComponent(m *Moments, c Component, pieces []penalty.Piece, t float64) {
 		return
 	}
 	sd := math.Sqrt(v)
-	beta := c.Var / v
 	mu := c.Mean
 	var mse, a, nz float64
 	var lo endPoint
@@ -142,9 +141,11 @@ func addComponent(m *Moments, c Component, pieces []penalty.Piece, t float64) {
 				hi = newEndPoint(y)
 			}
 		}
-		// d(y) = xhat - E[x0|r] = k0 + k1 y with r = mu + sd y.
-		k1 := (q.Slope - beta) * sd
-		k0 := q.Slope*mu + q.Intercept - mu
+		// d(y) = xhat - E[x0|r] = k0 + k1 y with r = mu + sd y. The slope is written with
+		// 1 - beta = t/v, so that a unit slope at small t (noiseless recovery) keeps its
+		// digits instead of losing them in Slope - beta.
+		k1 := ((q.Slope - 1) + t/v) * sd
+		k0 := (q.Slope-1)*mu + q.Intercept
 		var m0, m1, m2 float64
 		switch {
 		case !loInf && lo.y >= 0:
