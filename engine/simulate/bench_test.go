@@ -6,6 +6,11 @@ import (
 	"math"
 	"os"
 	"testing"
+
+	"hdrisk/engine/design"
+	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/penalty"
+	"hdrisk/engine/signal"
 )
 
 type benchFixture struct {
@@ -86,6 +91,25 @@ func BenchmarkLassoCD500x1000(bm *testing.B) {
 		sol, err := CoordinateDescent(context.Background(), a, b.Y, b.L1, 0, nil, SolverOptions{Tol: b.Tol, MaxIter: 100000})
 		if err != nil || !sol.Converged {
 			bm.Fatal("not converged")
+		}
+	}
+}
+
+// BenchmarkCheckN1000 times the whole check of testdata/sklearn/bench_check.py (3 trials at
+// n = 1000: instances drawn with fast factors, solved by coordinate descent to a duality gap of
+// 1e-8 ||y||^2, beside the prediction); compare with seconds_median in bench_check.json
+// (budget: at most 1.5 times numpy plus scikit-learn).
+func BenchmarkCheckN1000(b *testing.B) {
+	d, _ := design.Orthogonal(0.5, design.Rows)
+	sig, _ := signal.BernoulliGauss(0.1, 1)
+	pen, _ := penalty.L1(0.05)
+	p := Problem{Problem: fixedpoint.Problem{Design: d, Signal: sig, Penalty: pen, Noise: 0.01}}
+	seed := uint64(0)
+	for b.Loop() {
+		seed++
+		rep, err := Check(context.Background(), p, Options{N: 1000, Trials: 3, Seed: seed}, nil)
+		if err != nil || rep.NotConverged != 0 {
+			b.Fatal(err, rep.NotConverged)
 		}
 	}
 }

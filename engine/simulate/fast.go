@@ -16,7 +16,8 @@ import (
 // passing because estimators run on them show the errors of Haar designs at large n (common
 // practice; the package tests compare the two within error bars). The transform is done by
 // gonum's FFTPACK port, fast when its length minus one has only small prime factors, so the
-// cosine transform acts on a block of the first k coordinates with k - 1 7-smooth and k > n/2;
+// cosine transform acts on a block of the first k coordinates with k - 1 5-smooth and k > n/2
+// (FFTPACK has fast passes for the factors 2, 3, 4 and 5 only);
 // the permutations of later rounds move every coordinate through the block.
 type Fast struct {
 	n, k  int
@@ -64,7 +65,7 @@ func NewFast(rng *rand.Rand, n, rounds int) *Fast {
 	return f
 }
 
-// smoothBlock returns the largest k <= n with k - 1 free of prime factors above 7 (a power of two
+// smoothBlock returns the largest k <= n with k - 1 free of prime factors above 5 (a power of two
 // qualifies, so k > n/2 for n >= 3).
 func smoothBlock(n int) int {
 	if n < 3 {
@@ -72,7 +73,7 @@ func smoothBlock(n int) int {
 	}
 	for k := n; k >= 3; k-- {
 		m := k - 1
-		for _, p := range []int{2, 3, 5, 7} {
+		for _, p := range []int{2, 3, 5} {
 			for m%p == 0 {
 				m /= p
 			}

@@ -81,8 +81,11 @@ func (f *SVD) MulT(dst, y []float64) {
 	f.V.Mul(dst, f.bn)
 }
 
-// DenseOf returns F in full as a Matrix, at the cost of n products.
+// DenseOf returns F in full as a Matrix, at the cost of n products with F.
 func DenseOf(f Operator) *Matrix {
+	if s, ok := f.(*SVD); ok {
+		return s.dense()
+	}
 	m, n := f.Dims()
 	a := &Matrix{Rows: m, Cols: n, Data: make([]float64, m*n)}
 	e := make([]float64, n)
@@ -90,6 +93,37 @@ func DenseOf(f Operator) *Matrix {
 		e[j] = 1
 		f.Mul(a.Col(j), e)
 		e[j] = 0
+	}
+	return a
+}
+
+// dense forms F = U S V^T with r = min(m, n) products with U and m with V: row i of F is
+// V C e_i with C = S^T U^T, whose nonzero rows are s_k (U e_k)^T.
+func (f *SVD) dense() *Matrix {
+	m, n := f.Dims()
+	r := len(f.S)
+	c := make([]float64, r*m) // row k of C, k < r, at c[k*m:]
+	e := make([]float64, m)
+	for k := 0; k < r; k++ {
+		e[k] = 1
+		row := c[k*m : (k+1)*m]
+		f.U.Mul(row, e)
+		e[k] = 0
+		for i := range row {
+			row[i] *= f.S[k]
+		}
+	}
+	a := &Matrix{Rows: m, Cols: n, Data: make([]float64, m*n)}
+	col := make([]float64, n)
+	for i := 0; i < m; i++ {
+		clear(col)
+		for k := 0; k < r; k++ {
+			col[k] = c[k*m+i]
+		}
+		f.V.Mul(col, col)
+		for j, v := range col {
+			a.Data[j*m+i] = v
+		}
 	}
 	return a
 }
