@@ -155,6 +155,15 @@ func TestSingularValues(t *testing.T) {
 			t.Errorf("%s: an empty instance gave values", c.name)
 		}
 	}
+	// Values whose squares overflow are fine once scaled: 1e200 and 2e200 under columns are
+	// the singular values sqrt(2/5) and 2 sqrt(2/5) (mean of the squares 1).
+	huge, err := EmpiricalSV(1, []float64{1e200, 2e200}, Columns)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sv := huge.SingularValues(2, 2); !close(sv[0], 2*math.Sqrt(0.4), 1e-15) || !close(sv[1], math.Sqrt(0.4), 1e-15) {
+		t.Errorf("scaled huge values: %v", sv)
+	}
 	values := []float64{3, 1, 2}
 	l, err := EmpiricalSV(1, values, AsGiven)
 	if err != nil {

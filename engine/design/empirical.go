@@ -20,8 +20,8 @@ type empirical struct {
 // factor of the scale, plus the atom max(0, 1 - alpha) at zero. Zero values are allowed and
 // add to the atom at zero; equal values are merged into one atom; order does not matter.
 // Special cases are: an empty list, more than MaxValues values, a negative, NaN or Inf value,
-// all values zero, a value whose square overflows, alpha <= 0 and an unknown scale give a
-// *ParamError.
+// all values zero, a value whose square overflows under AsGiven (the other scales divide by
+// the largest value first), alpha <= 0 and an unknown scale give a *ParamError.
 func EmpiricalSV(alpha float64, values []float64, s Scale) (Law, error) {
 	if err := checkAlpha(alpha); err != nil {
 		return nil, err
@@ -41,7 +41,7 @@ func EmpiricalSV(alpha float64, values []float64, s Scale) (Law, error) {
 		if math.IsNaN(v) || math.IsInf(v, 0) || v < 0 {
 			return nil, &ParamError{Field: "values", Reason: fmt.Sprintf("entry %d is %v: singular values must be finite and nonnegative", i, v)}
 		}
-		if math.IsInf(v*v, 0) {
+		if s == AsGiven && math.IsInf(v*v, 0) {
 			return nil, &ParamError{Field: "values", Reason: fmt.Sprintf("entry %d is %v: its square overflows", i, v)}
 		}
 	}

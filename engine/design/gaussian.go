@@ -15,7 +15,7 @@ import (
 type gaussian struct {
 	alpha, p0, q float64
 	c, a, b      float64
-	s, mean      float64
+	s, is, mean  float64 // scale of the nonzero part, its inverse, E_nu[lambda]
 }
 
 // Gaussian returns the Marchenko-Pastur law of F^T F for a design with i.i.d. Gaussian
@@ -47,7 +47,7 @@ func Gaussian(alpha float64, s Scale) (Law, error) {
 	return &gaussian{
 		alpha: alpha, p0: p0, q: q,
 		c: c, a: (1 - sc) * (1 - sc), b: (1 + sc) * (1 + sc),
-		s: f * base, mean: f,
+		s: f * base, is: 1 / (f * base), mean: f,
 	}, nil
 }
 
@@ -67,26 +67,27 @@ func (l *gaussian) std(h float64) Transforms {
 	}
 	d := math.Sqrt(h+l.a) * math.Sqrt(h+l.b)
 	oc := 1 - c
-	den := h + oc + d
-	s1 := 2 / den
-	s2 := s1 * s1 * (1 + (h+1+c)/d) / 2
+	iden := 1 / (h + oc + d)
+	id := 1 / d
+	s1 := 2 * iden
+	s2 := s1 * s1 * (1 + (h+1+c)*id) / 2
 	return Transforms{
 		S1:    s1,
 		S2:    s2,
-		S3:    s1 * (d*oc + h*(1+c) + oc*oc) / (d * den),
-		T:     (2*oc + 4*c*h/(d+h+oc)) / den,
-		W:     2 * c / (d * (h + 1 + c + d)),
+		S3:    s1 * (d*oc + h*(1+c) + oc*oc) * id * iden,
+		T:     (2*oc + 4*c*h/(d+h+oc)) * iden,
+		W:     2 * c * id / (h + 1 + c + d),
 		S2Pos: s2,
 	}
 }
 
 func (l *gaussian) part(g float64) Transforms {
-	s := l.s
-	m := l.std(g / s)
-	m.S1 /= s
-	m.S2 /= s * s
+	is := l.is
+	m := l.std(g * is)
+	m.S1 *= is
+	m.S2 *= is * is
 	m.S2Pos = m.S2
-	m.S3 /= s
+	m.S3 *= is
 	return m
 }
 
@@ -99,19 +100,20 @@ func (l *gaussian) At(g float64) Transforms {
 }
 
 func (l *gaussian) Stieltjes(g float64) (s1, s2 float64) {
-	s, c := l.s, l.c
-	h := g / s
+	is, c := l.is, l.c
+	h := g * is
 	if h == 0 && c == 1 {
 		return math.Inf(1), math.Inf(1)
 	}
 	d := math.Sqrt(h+l.a) * math.Sqrt(h+l.b)
 	s1 = 2 / (h + (1 - c) + d)
 	s2 = s1 * s1 * (1 + (h+1+c)/d) / 2
-	s1 /= s
-	s2 /= s * s
+	s1 *= is
+	s2 *= is * is
 	if l.p0 > 0 {
-		s1 = l.p0/g + l.q*s1
-		s2 = l.p0/g/g + l.q*s2
+		ig := 1 / g
+		s1 = l.p0*ig + l.q*s1
+		s2 = l.p0*ig*ig + l.q*s2
 	}
 	return s1, s2
 }

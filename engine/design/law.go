@@ -40,11 +40,12 @@ type Law interface {
 // law mu, which has no atom at zero. The variance of the two-part mixture is
 // q Var_mu + p0 q (1/g - S1_mu)^2, and 1/g - S1_mu = T_mu/g, so no term is a difference.
 func mix(p0, q, g float64, m Transforms) Transforms {
+	ig := 1 / g
 	gs1 := p0 + q*g*m.S1
 	gm := g * m.S1
 	return Transforms{
-		S1:    p0/g + q*m.S1,
-		S2:    p0/g/g + q*m.S2,
+		S1:    p0*ig + q*m.S1,
+		S2:    p0*ig*ig + q*m.S2,
 		S3:    q * m.S3,
 		T:     q * m.T,
 		W:     q * (m.W*gm*gm + p0*m.T*m.T) / (gs1 * gs1),

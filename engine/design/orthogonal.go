@@ -43,7 +43,8 @@ func (l *orthogonal) Stieltjes(g float64) (s1, s2 float64) {
 	if l.p0 == 0 {
 		return r, r * r
 	}
-	return l.p0/g + l.q*r, l.p0/g/g + l.q*r*r
+	ig := 1 / g
+	return l.p0*ig + l.q*r, l.p0*ig*ig + l.q*r*r
 }
 
 func (l *orthogonal) SingularValues(m, n int) []float64 {
