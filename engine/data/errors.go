@@ -49,9 +49,10 @@ type Limits struct {
 }
 
 // DefaultLimits returns the caps used when a field of Limits is zero: 4000 rows, 4000
-// columns, 16e6 entries (a 4000 x 4000 matrix of float64 takes 128 MB) and 256 MiB of text.
+// columns, 16e6 entries (a 4000 x 4000 matrix of float64 takes 128 MB) and 512 MiB of text
+// (enough for 16e6 numbers written at full precision, about 20 bytes each).
 func DefaultLimits() Limits {
-	return Limits{MaxRows: 4000, MaxCols: 4000, MaxEntries: 16_000_000, MaxBytes: 256 << 20}
+	return Limits{MaxRows: 4000, MaxCols: 4000, MaxEntries: 16_000_000, MaxBytes: 512 << 20}
 }
 
 func (l Limits) resolve() (Limits, error) {
