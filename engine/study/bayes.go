@@ -116,9 +116,16 @@ func (se *bayesSE) run(gamma1 float64) (BayesPoint, error) {
 	for it := 1; it <= bayesMaxIter; it++ {
 		t := 1 / gamma1
 		e1, gain := se.mx.at(t)
-		gamma2 := math.Max(gain, 0) / e1
+		// gamma2 = Inf when the error underflows (a discrete prior at very small t); the
+		// linear step then has its limit gamma1 = E_nu[lambda]/Delta (S1 ~ 1/g, T ~ E[lambda]/g).
+		gamma2 := math.Inf(1)
+		if e1 > 0 {
+			gamma2 = math.Max(gain, 0) / e1
+		}
 		var next float64
 		switch {
+		case delta > 0 && math.IsInf(gamma2, 1):
+			next = se.p.Design.Mean() / delta
 		case delta > 0:
 			tr := se.p.Design.At(delta * gamma2)
 			next = tr.T / (delta * tr.S1)
@@ -128,10 +135,10 @@ func (se *bayesSE) run(gamma1 float64) (BayesPoint, error) {
 			next = math.Inf(1)
 		}
 		bp = BayesPoint{MSE: e1, Gamma1: gamma1, Gamma2: gamma2, Iterations: it}
-		if !(next >= 0) || math.IsNaN(e1) {
+		if math.IsNaN(next) || next < 0 || math.IsNaN(e1) {
 			return BayesPoint{}, fmt.Errorf("study: the Bayes state evolution left the finite numbers at t = %v", t)
 		}
-		if e1 < bayesFloor*se.rho2 && next >= gamma1 {
+		if (e1 < bayesFloor*se.rho2 && next >= gamma1) || math.IsInf(next, 1) {
 			bp.MSE, bp.Gamma1, bp.Exact, bp.Converged = 0, math.Inf(1), true, true
 			break
 		}
@@ -154,11 +161,11 @@ func (se *bayesSE) run(gamma1 float64) (BayesPoint, error) {
 // mixtureMMSE evaluates the minimum mean-square error of a Gaussian-mixture prior in the
 // scalar channel r = x0 + sqrt(t) z.
 type mixtureMMSE struct {
-	c        []signal.Component // components of positive weight
-	gx, gw   []float64          // Gauss-Legendre nodes and weights on [-1, 1]
-	lq, mu   []float64          // scratch: log-density and posterior mean per component
-	breaks   []float64
-	panelsSD float64 // half-width of the window per component, in standard deviations
+	c      []signal.Component // components of positive weight
+	gx, gw []float64          // Gauss-Legendre nodes and weights on [-1, 1]
+	lq, mu []float64          // scratch: log-density and posterior mean per component
+	breaks []float64          // scratch: panel ends
+	whole  []float64          // scratch: the rule on each panel
 }
 
 func newMixtureMMSE(comps []signal.Component) (*mixtureMMSE, error) {
@@ -176,7 +183,7 @@ func newMixtureMMSE(comps []signal.Component) (*mixtureMMSE, error) {
 	}
 	const nodes = 16
 	m := &mixtureMMSE{c: c, gx: make([]float64, nodes), gw: make([]float64, nodes),
-		lq: make([]float64, len(c)), mu: make([]float64, len(c)), panelsSD: 12}
+		lq: make([]float64, len(c)), mu: make([]float64, len(c))}
 	quad.Legendre{}.FixedLocations(m.gx, m.gw, -1, 1)
 	return m, nil
 }
@@ -189,39 +196,66 @@ func (m *mixtureMMSE) at(t float64) (mmse, gain float64) {
 		within += k.Weight * k.Var * (t / s)
 		keep += k.Weight * (t / s)
 	}
-	mix := m.mixing(t)
+	mix := m.mixing(t, within)
 	return within + mix, keep - mix/t
 }
 
 // mixing integrates M(t) = int sum_k q_k(r) (mu_k(r) - xhat(r))^2 dr, q_k(r) = w_k N(r; m_k,
-// v_k + t), over panels one standard deviation wide around every component.
-func (m *mixtureMMSE) mixing(t float64) float64 {
+// v_k + t), to a relative accuracy of about 1e-12 of within + M. The panels are one standard
+// deviation wide around every component; a panel is halved where the 16-point rule on it
+// disagrees with the rule on its halves, because the posterior weights switch over a width
+// of (v + t)/|m_k - m_j|, which for point masses can be far below a standard deviation.
+func (m *mixtureMMSE) mixing(t, within float64) float64 {
 	if len(m.c) == 1 {
 		return 0
 	}
 	m.breaks = m.breaks[:0]
-	n := int(m.panelsSD)
 	for _, k := range m.c {
 		sd := math.Sqrt(k.Var + t)
-		for j := -n; j <= n; j++ {
+		for j := -windowSD; j <= windowSD; j++ {
 			m.breaks = append(m.breaks, k.Mean+float64(j)*sd)
 		}
 	}
 	slices.Sort(m.breaks)
-	var sum float64
+	m.breaks = slices.Compact(m.breaks)
+	m.whole = m.whole[:0]
+	var rough float64
 	for i := 1; i < len(m.breaks); i++ {
-		a, b := m.breaks[i-1], m.breaks[i]
-		if !(b > a) {
-			continue
-		}
-		h, c := (b-a)/2, (b+a)/2
-		var ps float64
-		for j, x := range m.gx {
-			ps += m.gw[j] * m.integrand(c+h*x, t)
-		}
-		sum += h * ps
+		q := m.panel(m.breaks[i-1], m.breaks[i], t)
+		m.whole = append(m.whole, q)
+		rough += q
+	}
+	tol := mixingTol * (within + rough) / float64(len(m.whole))
+	var sum float64
+	for i, q := range m.whole {
+		sum += m.refine(m.breaks[i], m.breaks[i+1], t, q, tol, 0)
 	}
 	return sum
+}
+
+const (
+	windowSD    = 12 // half-width of the window around each component, in standard deviations
+	mixingTol   = 1e-12
+	refineDepth = 30
+)
+
+// panel applies the 16-point Gauss-Legendre rule on [a, b].
+func (m *mixtureMMSE) panel(a, b, t float64) float64 {
+	h, c := (b-a)/2, (b+a)/2
+	var s float64
+	for j, x := range m.gx {
+		s += m.gw[j] * m.integrand(c+h*x, t)
+	}
+	return h * s
+}
+
+func (m *mixtureMMSE) refine(a, b, t, whole, tol float64, depth int) float64 {
+	c := (a + b) / 2
+	l, r := m.panel(a, c, t), m.panel(c, b, t)
+	if math.Abs(l+r-whole) <= tol || depth >= refineDepth {
+		return l + r
+	}
+	return m.refine(a, c, t, l, tol/2, depth+1) + m.refine(c, b, t, r, tol/2, depth+1)
 }
 
 func (m *mixtureMMSE) integrand(r, t float64) float64 {
