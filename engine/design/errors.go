@@ -6,4 +6,5 @@ type ParamError struct {
 	Field, Reason string
 }
 
+// Error returns "design: field: reason".
 func (e *ParamError) Error() string { return "design: " + e.Field + ": " + e.Reason }
