@@ -166,13 +166,12 @@ type image struct {
 	res        float64 // relative change from the argument
 }
 
-// apply evaluates the update map of the package comment at (g1, t1), starting the inversion of
-// S1 from g2.
-func (s *solver) apply(g1, t1, g2 float64) (image, error) {
+// apply evaluates the update map of the package comment at (g1, t1).
+func (s *solver) apply(g1, t1 float64) (image, error) {
 	p := s.p
 	m := signal.Expect(p.Signal, p.Penalty, g1, t1)
 	v := math.Max(m.A, zeroA) / g1
-	g2, err := invertS1(p.Design, v, g2)
+	g2, err := invertS1(p.Design, v)
 	if err != nil {
 		return image{}, err
 	}
@@ -205,7 +204,7 @@ func (s *solver) newton(g1, t1 float64, cur image) (float64, float64, image, boo
 		} else {
 			pt *= math.Exp(h)
 		}
-		im, err := s.apply(pg, pt, cur.g2)
+		im, err := s.apply(pg, pt)
 		if err != nil || !(im.t1 > 0) {
 			return 0, 0, image{}, false
 		}
@@ -224,7 +223,7 @@ func (s *solver) newton(g1, t1 float64, cur image) (float64, float64, image, boo
 	}
 	for try := 0; try < 4; try++ {
 		ng1, nt1 := g1*math.Exp(d0), t1*math.Exp(d1)
-		im, err := s.apply(ng1, nt1, cur.g2)
+		im, err := s.apply(ng1, nt1)
 		if err == nil && im.res < cur.res {
 			return ng1, nt1, im, true
 		}
@@ -240,7 +239,7 @@ func (s *solver) run(st State) (Result, error) {
 	prevRes := math.Inf(1)
 	zeroCount := 0
 	var r Result
-	im, err := s.apply(g1, t1, 0)
+	im, err := s.apply(g1, t1)
 	for it := 1; it <= s.o.MaxIter; it++ {
 		if err != nil {
 			return r, err
@@ -275,7 +274,7 @@ func (s *solver) run(st State) (Result, error) {
 		if t1 > runOff*scale {
 			return r, errRunOff
 		}
-		im, err = s.apply(g1, t1, im.g2)
+		im, err = s.apply(g1, t1)
 	}
 	return s.observe(r)
 }
@@ -288,7 +287,7 @@ func (s *solver) observe(r Result) (Result, error) {
 		return s.zeroResult(r.Iterations, r.G1, r.T1, m), nil
 	}
 	v := m.A / r.G1
-	g2, err := invertS1(p.Design, v, r.G2)
+	g2, err := invertS1(p.Design, v)
 	if err != nil {
 		return Result{}, err
 	}
@@ -337,35 +336,13 @@ func (s *solver) fill(r *Result, m signal.Moments) {
 	}
 }
 
-// invertS1 solves S1(g) = v for g >= 0 by Newton's method on 1/S1(g) - 1/v, which is nearly
-// linear in g, started from the previous solution; it falls back to design.InverseS1 when the
-// warm Newton steps do not settle. When the law has no atom at zero and v >= S1(0), the
-// solution sits on the boundary g = 0.
-func invertS1(l design.Law, v, guess float64) (float64, error) {
+// invertS1 solves S1(g) = v for g >= 0. When the law has no atom at zero and v >= S1(0), the
+// iterate lies past the design's reach and the solution is taken on the boundary g = 0.
+func invertS1(l design.Law, v float64) (float64, error) {
 	if l.Atom0() == 0 {
 		if s0, _ := l.Stieltjes(0); v >= s0 {
 			return 0, nil
 		}
-	}
-	g := guess
-	if !(g > 0) {
-		g = 1/v - l.Mean()
-		if !(g > 0) {
-			g = 1e-3 * l.Mean()
-		}
-	}
-	for i := 0; i < 30; i++ {
-		s1, s2 := l.Stieltjes(g)
-		h := 1/s1 - 1/v
-		step := h * s1 * s1 / s2
-		ng := g - step
-		if ng <= 0 {
-			ng = g / 4
-		}
-		if math.Abs(ng-g) <= 1e-14*g {
-			return ng, nil
-		}
-		g = ng
 	}
 	return design.InverseS1(l, v)
 }
