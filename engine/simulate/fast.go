@@ -16,8 +16,8 @@ import (
 // passing because estimators run on them show the errors of Haar designs at large n (common
 // practice; the package tests compare the two within error bars). The transform is done by
 // gonum's FFTPACK port, fast when its length minus one has only small prime factors, so the
-// cosine transform acts on a block of the first k coordinates with k - 1 5-smooth and k > n/2
-// (FFTPACK has fast passes for the factors 2, 3, 4 and 5 only);
+// cosine transform acts on a block of the first k coordinates, k - 1 a power of two times a
+// small odd factor, with k >= 8n/9;
 // the permutations of later rounds move every coordinate through the block.
 type Fast struct {
 	n, k  int
@@ -65,24 +65,20 @@ func NewFast(rng *rand.Rand, n, rounds int) *Fast {
 	return f
 }
 
-// smoothBlock returns the largest k <= n with k - 1 free of prime factors above 5 (a power of two
-// qualifies, so k > n/2 for n >= 3).
+// smoothBlock returns the largest k <= n with k - 1 = 2^a q, q one of the odd 5-smooth numbers
+// up to 45: FFTPACK's passes for 4 and 2 are its fastest, and these sizes leave at most one
+// number in nine out of the block (consecutive candidates differ by a factor of at most 9/8).
 func smoothBlock(n int) int {
 	if n < 3 {
 		return n
 	}
-	for k := n; k >= 3; k-- {
-		m := k - 1
-		for _, p := range []int{2, 3, 5} {
-			for m%p == 0 {
-				m /= p
-			}
-		}
-		if m == 1 {
-			return k
+	best := 2
+	for _, q := range []int{1, 3, 5, 9, 15, 25, 27, 45} {
+		for v := q; v+1 <= n; v *= 2 {
+			best = max(best, v+1)
 		}
 	}
-	return n
+	return best
 }
 
 // Dim returns the order of the matrix.

@@ -51,10 +51,10 @@ func TestOrthogonality(t *testing.T) {
 	}
 }
 
-// Values checked by hand: 972 = 2^2 3^5, 1000 = 2^3 5^3, 98415 = 3^9 5, 100000 = 2^5 5^5, and
-// no k in between has k - 1 free of primes above 5.
+// Values checked by hand: 960 = 2^6 15, 1000 = 2^3 125 is not a candidate (125 > 45), 98304 =
+// 2^15 3, 100000 = 2^5 3125 is not either; k - 1 = 2^a q with q odd in {1, 3, 5, 9, 15, 25, 27, 45}.
 func TestSmoothBlock(t *testing.T) {
-	for _, c := range []struct{ n, k int }{{3, 3}, {10, 10}, {12, 11}, {1000, 973}, {1014, 1001}, {100000, 98416}, {100003, 100001}} {
+	for _, c := range []struct{ n, k int }{{3, 3}, {10, 10}, {12, 11}, {1000, 961}, {1014, 961}, {100000, 98305}, {100003, 98305}, {1153, 1153}} {
 		if got := smoothBlock(c.n); got != c.k {
 			t.Errorf("smoothBlock(%d) = %d, want %d", c.n, got, c.k)
 		}
