@@ -22,6 +22,13 @@ const eps = 0x1p-52
 // saying that v is beyond the design's reach; with an atom at zero every v > 0 has a
 // solution g > 0.
 func InverseS1(l Law, v float64) (g float64, err error) {
+	return InverseS1Near(l, v, math.NaN())
+}
+
+// InverseS1Near is InverseS1 with Newton's method started at near when near lies inside the
+// bracket: a solver that inverts S1 at slowly moving values (a fixed-point iteration) saves
+// most of the steps. A near outside the bracket, or NaN, is ignored.
+func InverseS1Near(l Law, v, near float64) (g float64, err error) {
 	if math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 {
 		return 0, &ParamError{Field: "v", Reason: fmt.Sprintf("%v: S1 can only take finite positive values", v)}
 	}
@@ -39,6 +46,9 @@ func InverseS1(l Law, v float64) (g float64, err error) {
 	x := lo
 	if x == 0 {
 		x = hi / 2
+	}
+	if near > lo && near < hi {
+		x = near
 	}
 	for range 400 {
 		s1, s2 := l.Stieltjes(x)

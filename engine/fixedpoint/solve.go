@@ -166,12 +166,12 @@ type image struct {
 	res        float64 // relative change from the argument
 }
 
-// apply evaluates the update map of the package comment at (g1, t1).
-func (s *solver) apply(g1, t1 float64) (image, error) {
+// apply evaluates the update map of the package comment at (g1, t1); near is a guess of g2.
+func (s *solver) apply(g1, t1, near float64) (image, error) {
 	p := s.p
 	m := signal.Expect(p.Signal, p.Penalty, g1, t1)
 	v := math.Max(m.A, zeroA) / g1
-	g2, err := invertS1(p.Design, v)
+	g2, err := invertS1(p.Design, v, near)
 	if err != nil {
 		return image{}, err
 	}
@@ -204,7 +204,7 @@ func (s *solver) newton(g1, t1 float64, cur image) (float64, float64, image, boo
 		} else {
 			pt *= math.Exp(h)
 		}
-		im, err := s.apply(pg, pt)
+		im, err := s.apply(pg, pt, cur.g2)
 		if err != nil || !(im.t1 > 0) {
 			return 0, 0, image{}, false
 		}
@@ -223,7 +223,7 @@ func (s *solver) newton(g1, t1 float64, cur image) (float64, float64, image, boo
 	}
 	for try := 0; try < 4; try++ {
 		ng1, nt1 := g1*math.Exp(d0), t1*math.Exp(d1)
-		im, err := s.apply(ng1, nt1)
+		im, err := s.apply(ng1, nt1, cur.g2)
 		if err == nil && im.res < cur.res {
 			return ng1, nt1, im, true
 		}
@@ -239,7 +239,7 @@ func (s *solver) run(st State) (Result, error) {
 	prevRes := math.Inf(1)
 	zeroCount := 0
 	var r Result
-	im, err := s.apply(g1, t1)
+	im, err := s.apply(g1, t1, math.NaN())
 	for it := 1; it <= s.o.MaxIter; it++ {
 		if err != nil {
 			return r, err
@@ -274,7 +274,7 @@ func (s *solver) run(st State) (Result, error) {
 		if t1 > runOff*scale {
 			return r, errRunOff
 		}
-		im, err = s.apply(g1, t1)
+		im, err = s.apply(g1, t1, im.g2)
 	}
 	return s.observe(r)
 }
@@ -287,7 +287,7 @@ func (s *solver) observe(r Result) (Result, error) {
 		return s.zeroResult(r.Iterations, r.G1, r.T1, m), nil
 	}
 	v := m.A / r.G1
-	g2, err := invertS1(p.Design, v)
+	g2, err := invertS1(p.Design, v, r.G2)
 	if err != nil {
 		return Result{}, err
 	}
@@ -336,15 +336,16 @@ func (s *solver) fill(r *Result, m signal.Moments) {
 	}
 }
 
-// invertS1 solves S1(g) = v for g >= 0. When the law has no atom at zero and v >= S1(0), the
-// iterate lies past the design's reach and the solution is taken on the boundary g = 0.
-func invertS1(l design.Law, v float64) (float64, error) {
+// invertS1 solves S1(g) = v for g >= 0, starting from near (the previous solution). When the
+// law has no atom at zero and v >= S1(0), the iterate lies past the design's reach and the
+// solution is taken on the boundary g = 0.
+func invertS1(l design.Law, v, near float64) (float64, error) {
 	if l.Atom0() == 0 {
 		if s0, _ := l.Stieltjes(0); v >= s0 {
 			return 0, nil
 		}
 	}
-	return design.InverseS1(l, v)
+	return design.InverseS1Near(l, v, near)
 }
 
 func finitePos(x float64) bool { return x > 0 && !math.IsInf(x, 0) }
