@@ -15,9 +15,9 @@ import (
 //
 // Domain: l1 >= 0, l2 >= 0, len(y) = F.Rows, len(warm) = F.Cols when warm is given.
 // Special cases are: y = 0 returns x = 0 at once; a zero column keeps its coefficient at 0;
-// l1 = l2 = 0 is least squares, whose gap has no bounded dual point when F x = y has no
-// solution, so it converges only in the sense of a vanishing coordinate change (the gap is
-// then computed with the dual point scaled as for the LASSO, which stays valid).
+// l1 = l2 = 0 is least squares, whose only feasible dual point is 0, so the gap is
+// 1/2 ||y - F x||^2 and converges only when y lies in the range of F (otherwise the solver
+// reports that it reached MaxIter).
 func CoordinateDescent(ctx context.Context, f *Matrix, y []float64, l1, l2 float64, warm []float64, o SolverOptions) (Solution, error) {
 	m, n := f.Dims()
 	if len(y) != m {
