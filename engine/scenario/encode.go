@@ -1,0 +1,220 @@
+package scenario
+
+import (
+	"bytes"
+	"encoding/json"
+	"strconv"
+)
+
+// node is a JSON value in canonical order: an object (keys in order), a list, or a
+// literal already rendered.
+type node struct {
+	keys []string
+	vals []node
+	list []node
+	lit  string
+	kind jkind
+}
+
+func (n *node) set(key string, v node) {
+	n.keys = append(n.keys, key)
+	n.vals = append(n.vals, v)
+}
+
+func obj() node { return node{kind: jObject} }
+
+func str(s string) node {
+	b, _ := json.Marshal(s)
+	return node{kind: jString, lit: string(b)}
+}
+
+// flt renders a float as encoding/json does (shortest form that reads back exactly).
+func flt(x float64) node {
+	b, _ := json.Marshal(x)
+	return node{kind: jNumber, lit: string(b)}
+}
+
+func integer(x int64) node { return node{kind: jNumber, lit: strconv.FormatInt(x, 10)} }
+
+func boolean(b bool) node { return node{kind: jBool, lit: strconv.FormatBool(b)} }
+
+func floats(l []float64) node {
+	n := node{kind: jArray}
+	for _, x := range l {
+		n.list = append(n.list, flt(x))
+	}
+	return n
+}
+
+func (n node) write(b *bytes.Buffer, indent string, pretty bool) {
+	switch n.kind {
+	case jObject:
+		b.WriteByte('{')
+		inner := indent + "  "
+		for i, k := range n.keys {
+			if i > 0 {
+				b.WriteByte(',')
+			}
+			if pretty {
+				b.WriteString("\n" + inner)
+			}
+			b.WriteString(str(k).lit)
+			b.WriteByte(':')
+			if pretty {
+				b.WriteByte(' ')
+			}
+			n.vals[i].write(b, inner, pretty)
+		}
+		if pretty && len(n.keys) > 0 {
+			b.WriteString("\n" + indent)
+		}
+		b.WriteByte('}')
+	case jArray:
+		b.WriteByte('[')
+		for i, e := range n.list {
+			if i > 0 {
+				b.WriteByte(',')
+				if pretty {
+					b.WriteByte(' ')
+				}
+			}
+			e.write(b, indent, pretty)
+		}
+		b.WriteByte(']')
+	default:
+		b.WriteString(n.lit)
+	}
+}
+
+// Encode writes s in canonical form: keys in a fixed order (kind, version, title, notes,
+// design, signal, noise, penalty, study; parameters in registry order), optional values
+// left out when absent (notes when empty, study when nil, false log flags, an empty
+// solver), two-space indentation with lists on one line, and a final newline. Numbers are
+// written as encoding/json writes them, so Decode reads back exactly the same scenario.
+// An invalid s gives its *FieldError and no output.
+func (s Scenario) Encode() ([]byte, error) {
+	n, err := s.tree()
+	if err != nil {
+		return nil, err
+	}
+	var b bytes.Buffer
+	n.write(&b, "", true)
+	b.WriteByte('\n')
+	return b.Bytes(), nil
+}
+
+// compact is the canonical form without any space: the text inside a share link.
+func (s Scenario) compact() ([]byte, error) {
+	n, err := s.tree()
+	if err != nil {
+		return nil, err
+	}
+	var b bytes.Buffer
+	n.write(&b, "", false)
+	return b.Bytes(), nil
+}
+
+func (s Scenario) tree() (node, error) {
+	if err := s.Validate(); err != nil {
+		return node{}, err
+	}
+	t := obj()
+	t.set("kind", str(s.Kind))
+	t.set("version", integer(int64(s.Version)))
+	t.set("title", str(s.Title))
+	if s.Notes != "" {
+		t.set("notes", str(s.Notes))
+	}
+	d := obj()
+	d.set("shape", str(s.Design.Shape))
+	d.set("alpha", flt(s.Design.Alpha))
+	d.set("scale", str(s.Design.Scale))
+	addParams(&d, designs(), s.Design.Shape, s.Design.Params, s.Design.Lists)
+	t.set("design", d)
+	g := obj()
+	g.set("law", str(s.Signal.Law))
+	addParams(&g, signals(), s.Signal.Law, s.Signal.Params, s.Signal.Lists)
+	t.set("signal", g)
+	z := obj()
+	if s.Noise.SNR {
+		z.set("snr_db", flt(s.Noise.SNRdB))
+	} else {
+		z.set("variance", flt(s.Noise.Variance))
+	}
+	t.set("noise", z)
+	p := obj()
+	p.set("kind", str(s.Penalty.Kind))
+	addParams(&p, penalties(), s.Penalty.Kind, s.Penalty.Params, nil)
+	t.set("penalty", p)
+	if s.Study != nil {
+		t.set("study", s.Study.tree())
+	}
+	return t, nil
+}
+
+func addParams(n *node, f *family, kind string, params map[string]float64, lists map[string][]float64) {
+	k, _ := f.find(kind)
+	for _, p := range k.Params {
+		if p.List {
+			n.set(p.Name, floats(lists[p.Name]))
+		} else {
+			n.set(p.Name, flt(params[p.Name]))
+		}
+	}
+}
+
+func (st *Study) tree() node {
+	t := obj()
+	t.set("view", str(st.View))
+	if sw := st.Sweep; sw != nil {
+		n := obj()
+		n.set("over", str(sw.Over))
+		n.set("from", flt(sw.From))
+		n.set("to", flt(sw.To))
+		n.set("points", integer(int64(sw.Points)))
+		if sw.Log {
+			n.set("log", boolean(true))
+		}
+		t.set("sweep", n)
+	}
+	if m := st.Map; m != nil {
+		n := obj()
+		n.set("x", str(m.X))
+		n.set("x_from", flt(m.XFrom))
+		n.set("x_to", flt(m.XTo))
+		n.set("x_points", integer(int64(m.XPoints)))
+		if m.XLog {
+			n.set("x_log", boolean(true))
+		}
+		n.set("y", str(m.Y))
+		n.set("y_from", flt(m.YFrom))
+		n.set("y_to", flt(m.YTo))
+		n.set("y_points", integer(int64(m.YPoints)))
+		if m.YLog {
+			n.set("y_log", boolean(true))
+		}
+		t.set("map", n)
+	}
+	if b := st.Best; b != nil {
+		n := obj()
+		n.set("over", str(b.Over))
+		t.set("best", n)
+	}
+	if p := st.Plan; p != nil {
+		n := obj()
+		n.set("target_db", flt(p.TargetDB))
+		n.set("alpha_max", flt(p.AlphaMax))
+		t.set("plan", n)
+	}
+	if c := st.Check; c != nil {
+		n := obj()
+		n.set("n", integer(int64(c.N)))
+		n.set("trials", integer(int64(c.Trials)))
+		n.set("seed", integer(int64(c.Seed)))
+		if c.Solver != "" {
+			n.set("solver", str(c.Solver))
+		}
+		t.set("check", n)
+	}
+	return t
+}

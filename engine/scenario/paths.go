@@ -1,0 +1,238 @@
+package scenario
+
+import (
+	"maps"
+	"math"
+	"strings"
+)
+
+// PathInfo describes one number of the current scenario that can be read, set and swept.
+type PathInfo struct {
+	Name             string // the shortest name that resolves to it ("alpha", "l1", "design.min")
+	Path             string // the full JSON path ("design.alpha", "penalty.l1")
+	Label, Unit      string
+	Min, Max         float64
+	MinOpen, MaxOpen bool // the bound itself is excluded
+	Log              bool // best swept on a logarithmic axis
+}
+
+var (
+	noiseParam = param{Name: "variance", Label: "noise variance Delta", Min: 0, Max: MaxNoiseVar, Log: true}
+	snrParam   = param{Name: "snr_db", Label: "signal-to-noise ratio", Unit: "dB", Min: MinSNRdB, Max: MaxSNRdB}
+)
+
+// target is a resolved path.
+type target struct {
+	full   string // "penalty.l1"
+	object string // "design", "signal", "penalty", "noise"
+	p      param
+	scalar bool
+}
+
+// targets lists every number of s in the order the page offers them: the design, the
+// signal, the noise, the penalty.
+func (s Scenario) targets() []target {
+	var t []target
+	add := func(object string, f *family, kind string) {
+		k, ok := f.find(kind)
+		if !ok {
+			return
+		}
+		for _, p := range k.Params {
+			t = append(t, target{full: object + "." + p.Name, object: object, p: p, scalar: !p.List})
+		}
+	}
+	t = append(t, target{full: "design.alpha", object: "design", p: alphaParam, scalar: true})
+	add("design", designs(), s.Design.Shape)
+	add("signal", signals(), s.Signal.Law)
+	t = append(t, target{full: "noise.variance", object: "noise", p: noiseParam, scalar: true},
+		target{full: "noise.snr_db", object: "noise", p: snrParam, scalar: true})
+	add("penalty", penalties(), s.Penalty.Kind)
+	return t
+}
+
+// shortNames maps the names that need no object: "noise" and "snr_db" stand for the two
+// ways of stating the noise; "variance" alone means the signal's.
+func shortName(t target) string {
+	switch t.full {
+	case "noise.variance":
+		return "noise"
+	case "noise.snr_db":
+		return "snr_db"
+	}
+	return t.p.Name
+}
+
+// resolve finds the number that name stands for in s: a full path ("penalty.l1") or a
+// short name ("l1"). A short name must match one number of the current kinds.
+func (s Scenario) resolve(name string) (target, error) {
+	all := s.targets()
+	if strings.Contains(name, ".") {
+		for _, t := range all {
+			if t.full == name {
+				return t, nil
+			}
+		}
+		if name == "design.scale" {
+			return target{}, fieldErr(name, "is a word (rows, columns, as-given), not a number")
+		}
+		return target{}, fieldErr(clip(name, 60), "not a number of this scenario (%s)", s.pathList())
+	}
+	var found []target
+	for _, t := range all {
+		if shortName(t) == name {
+			found = append(found, t)
+		}
+	}
+	switch len(found) {
+	case 1:
+		return found[0], nil
+	case 0:
+		return target{}, fieldErr(clip(name, 60), "not a number of this scenario (%s)", s.pathList())
+	}
+	names := make([]string, len(found))
+	for i, t := range found {
+		names[i] = t.full
+	}
+	return target{}, fieldErr(name, "ambiguous: say %s", strings.Join(names, " or "))
+}
+
+func (s Scenario) pathList() string {
+	var n []string
+	for _, p := range s.Paths() {
+		n = append(n, p.Name)
+	}
+	return "it has " + strings.Join(n, ", ")
+}
+
+// Paths lists the numbers of s that Get, With and the sweeps accept, in the order design,
+// signal, noise, penalty. Lists (empirical values, mixture weights) are not among them.
+func (s Scenario) Paths() []PathInfo {
+	all := s.targets()
+	var out []PathInfo
+	for _, t := range all {
+		if !t.scalar {
+			continue
+		}
+		name := shortName(t)
+		if r, err := s.resolve(name); err != nil || r.full != t.full {
+			name = t.full
+		}
+		out = append(out, PathInfo{Name: name, Path: t.full, Label: t.p.Label, Unit: t.p.Unit,
+			Min: t.p.Min, Max: t.p.Max, MinOpen: t.p.MinOpen, MaxOpen: t.p.MaxOpen, Log: t.p.Log})
+	}
+	return out
+}
+
+// Get returns the number at path (a full path or a short name; see Paths).
+// Special cases are: "noise" when the noise is stated as snr_db, and "snr_db" when it is
+// stated as a variance, are derived through the signal's second moment and the design's
+// mean (see Noise); "snr_db" of a noiseless scenario is +Inf, and "noise" is 0 when the
+// signal has no power. Lists and words (design.scale) are errors.
+func (s Scenario) Get(path string) (float64, error) {
+	t, err := s.resolve(path)
+	if err != nil {
+		return 0, err
+	}
+	if !t.scalar {
+		return 0, fieldErr(t.full, "is a list, not a number")
+	}
+	switch t.full {
+	case "design.alpha":
+		return s.Design.Alpha, nil
+	case "noise.variance":
+		if !s.Noise.SNR {
+			return s.Noise.Variance, nil
+		}
+		return s.NoiseVariance()
+	case "noise.snr_db":
+		if s.Noise.SNR {
+			return s.Noise.SNRdB, nil
+		}
+		return s.snrDB()
+	}
+	switch t.object {
+	case "design":
+		return s.Design.Params[t.p.Name], nil
+	case "signal":
+		return s.Signal.Params[t.p.Name], nil
+	}
+	return s.Penalty.Params[t.p.Name], nil
+}
+
+// With returns a copy of s with the number at path set to v, validated as Decode
+// validates (the error is a *FieldError naming the field). Setting "noise" states the
+// noise as a variance and setting "snr_db" states it as an SNR, whichever form s used.
+func (s Scenario) With(path string, v float64) (Scenario, error) {
+	t, err := s.resolve(path)
+	if err != nil {
+		return s, err
+	}
+	if !t.scalar {
+		return s, fieldErr(t.full, "is a list, not a number")
+	}
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return s, fieldErr(t.full, "must be a finite number")
+	}
+	c := s.clone()
+	switch t.full {
+	case "design.alpha":
+		c.Design.Alpha = v
+	case "noise.variance":
+		c.Noise = Noise{Variance: v}
+	case "noise.snr_db":
+		c.Noise = Noise{SNRdB: v, SNR: true}
+	default:
+		switch t.object {
+		case "design":
+			c.Design.Params[t.p.Name] = v
+		case "signal":
+			c.Signal.Params[t.p.Name] = v
+		default:
+			c.Penalty.Params[t.p.Name] = v
+		}
+	}
+	if err := c.Validate(); err != nil {
+		return s, err
+	}
+	return c, nil
+}
+
+// clone copies s deeply, so that a change to the copy never shows through the original.
+func (s Scenario) clone() Scenario {
+	c := s
+	c.Design.Params = maps.Clone(s.Design.Params)
+	c.Design.Lists = cloneLists(s.Design.Lists)
+	c.Signal.Params = maps.Clone(s.Signal.Params)
+	c.Signal.Lists = cloneLists(s.Signal.Lists)
+	c.Penalty.Params = maps.Clone(s.Penalty.Params)
+	if s.Study != nil {
+		st := *s.Study
+		st.Sweep = clonePtr(st.Sweep)
+		st.Map = clonePtr(st.Map)
+		st.Best = clonePtr(st.Best)
+		st.Plan = clonePtr(st.Plan)
+		st.Check = clonePtr(st.Check)
+		c.Study = &st
+	}
+	return c
+}
+
+func cloneLists(m map[string][]float64) map[string][]float64 {
+	if m == nil {
+		return nil
+	}
+	c := make(map[string][]float64, len(m))
+	for k, v := range m {
+		c[k] = append([]float64(nil), v...)
+	}
+	return c
+}
+
+func clonePtr[T any](p *T) *T {
+	if p == nil {
+		return nil
+	}
+	c := *p
+	return &c
+}

@@ -1,0 +1,260 @@
+package scenario
+
+import (
+	"math"
+	"slices"
+	"strings"
+)
+
+var (
+	studyKeys = []string{"view", "sweep", "map", "best", "plan", "check"}
+	sweepKeys = []string{"over", "from", "to", "points", "log"}
+	mapKeys   = []string{"x", "x_from", "x_to", "x_points", "x_log", "y", "y_from", "y_to", "y_points", "y_log"}
+	bestKeys  = []string{"over"}
+	planKeys  = []string{"target_db", "alpha_max"}
+	checkKeys = []string{"n", "trials", "seed", "solver"}
+)
+
+// Range of study.plan.target_db, in dB, and the default of study.plan.alpha_max.
+const (
+	MinTargetDB     = -200.0
+	MaxTargetDB     = 100.0
+	DefaultAlphaMax = 10.0
+)
+
+func readStudy(v *jval) (Study, error) {
+	var st Study
+	r, err := newReader("study", v)
+	if err != nil {
+		return st, err
+	}
+	if err := r.restExcept(studyKeys); err != nil {
+		return st, err
+	}
+	if st.View, err = r.text("view", true); err != nil {
+		return st, err
+	}
+	if sv, ok := r.get("sweep"); ok {
+		sw, err := readSweep(sv)
+		if err != nil {
+			return st, err
+		}
+		st.Sweep = &sw
+	}
+	if mv, ok := r.get("map"); ok {
+		m, err := readMap(mv)
+		if err != nil {
+			return st, err
+		}
+		st.Map = &m
+	}
+	if bv, ok := r.get("best"); ok {
+		br, err := newReader("study.best", bv)
+		if err != nil {
+			return st, err
+		}
+		if err := br.restExcept(bestKeys); err != nil {
+			return st, err
+		}
+		var b Best
+		if b.Over, err = br.text("over", true); err != nil {
+			return st, err
+		}
+		st.Best = &b
+	}
+	if pv, ok := r.get("plan"); ok {
+		pr, err := newReader("study.plan", pv)
+		if err != nil {
+			return st, err
+		}
+		if err := pr.restExcept(planKeys); err != nil {
+			return st, err
+		}
+		p := Plan{AlphaMax: DefaultAlphaMax}
+		if p.TargetDB, _, err = pr.float("target_db", true); err != nil {
+			return st, err
+		}
+		if x, ok, err := pr.float("alpha_max", false); err != nil {
+			return st, err
+		} else if ok {
+			p.AlphaMax = x
+		}
+		st.Plan = &p
+	}
+	if cv, ok := r.get("check"); ok {
+		cr, err := newReader("study.check", cv)
+		if err != nil {
+			return st, err
+		}
+		if err := cr.restExcept(checkKeys); err != nil {
+			return st, err
+		}
+		var c Check
+		n, err := cr.integer("n", 2, MaxCheckN)
+		if err != nil {
+			return st, err
+		}
+		t, err := cr.integer("trials", 1, MaxTrials)
+		if err != nil {
+			return st, err
+		}
+		seed, err := cr.integer("seed", 0, MaxSeed)
+		if err != nil {
+			return st, err
+		}
+		c.N, c.Trials, c.Seed = int(n), int(t), uint64(seed)
+		if c.Solver, err = cr.text("solver", false); err != nil {
+			return st, err
+		}
+		st.Check = &c
+	}
+	return st, nil
+}
+
+func readSweep(v *jval) (Sweep, error) {
+	var sw Sweep
+	r, err := newReader("study.sweep", v)
+	if err != nil {
+		return sw, err
+	}
+	if err := r.restExcept(sweepKeys); err != nil {
+		return sw, err
+	}
+	if sw.Over, err = r.text("over", true); err != nil {
+		return sw, err
+	}
+	if sw.From, _, err = r.float("from", true); err != nil {
+		return sw, err
+	}
+	if sw.To, _, err = r.float("to", true); err != nil {
+		return sw, err
+	}
+	n, err := r.integer("points", 2, MaxSweepPoints)
+	if err != nil {
+		return sw, err
+	}
+	sw.Points = int(n)
+	sw.Log, err = r.boolean("log")
+	return sw, err
+}
+
+func readMap(v *jval) (Map, error) {
+	var m Map
+	r, err := newReader("study.map", v)
+	if err != nil {
+		return m, err
+	}
+	if err := r.restExcept(mapKeys); err != nil {
+		return m, err
+	}
+	axis := func(p string, over *string, from, to *float64, points *int, log *bool) error {
+		var err error
+		if *over, err = r.text(p, true); err != nil {
+			return err
+		}
+		if *from, _, err = r.float(p+"_from", true); err != nil {
+			return err
+		}
+		if *to, _, err = r.float(p+"_to", true); err != nil {
+			return err
+		}
+		n, err := r.integer(p+"_points", 2, MaxMapPoints)
+		if err != nil {
+			return err
+		}
+		*points = int(n)
+		*log, err = r.boolean(p + "_log")
+		return err
+	}
+	if err := axis("x", &m.X, &m.XFrom, &m.XTo, &m.XPoints, &m.XLog); err != nil {
+		return m, err
+	}
+	err = axis("y", &m.Y, &m.YFrom, &m.YTo, &m.YPoints, &m.YLog)
+	return m, err
+}
+
+func (s Scenario) validateStudy() error {
+	st := s.Study
+	if !slices.Contains(views, st.View) {
+		return fieldErr("study.view", "must be one of %s, not %q", strings.Join(views, ", "), clip(st.View, 40))
+	}
+	if sw := st.Sweep; sw != nil {
+		if _, err := s.checkAxis("study.sweep.over", sw.Over, "study.sweep.from", sw.From, "study.sweep.to", sw.To,
+			"study.sweep.points", sw.Points, MaxSweepPoints, sw.Log); err != nil {
+			return err
+		}
+	}
+	if m := st.Map; m != nil {
+		x, err := s.checkAxis("study.map.x", m.X, "study.map.x_from", m.XFrom, "study.map.x_to", m.XTo,
+			"study.map.x_points", m.XPoints, MaxMapPoints, m.XLog)
+		if err != nil {
+			return err
+		}
+		y, err := s.checkAxis("study.map.y", m.Y, "study.map.y_from", m.YFrom, "study.map.y_to", m.YTo,
+			"study.map.y_points", m.YPoints, MaxMapPoints, m.YLog)
+		if err != nil {
+			return err
+		}
+		if x.full == y.full {
+			return fieldErr("study.map.y", "names the same value as study.map.x (%s)", x.full)
+		}
+	}
+	if b := st.Best; b != nil {
+		if b.Over != "l1" && b.Over != "l2" {
+			return fieldErr("study.best.over", "must be l1 or l2, not %q", clip(b.Over, 40))
+		}
+		if _, ok := s.Penalty.Params[b.Over]; !ok {
+			return fieldErr("study.best.over", "penalty %s has no %s", s.Penalty.Kind, b.Over)
+		}
+	}
+	if p := st.Plan; p != nil {
+		if math.IsNaN(p.TargetDB) || p.TargetDB < MinTargetDB || p.TargetDB > MaxTargetDB {
+			return fieldErr("study.plan.target_db", "must be in [%s, %s] dB, not %s", num(MinTargetDB), num(MaxTargetDB), num(p.TargetDB))
+		}
+		if err := alphaParam.check("study.plan.alpha_max", p.AlphaMax); err != nil {
+			return err
+		}
+	}
+	if c := st.Check; c != nil {
+		switch {
+		case c.N < 2 || c.N > MaxCheckN:
+			return fieldErr("study.check.n", "must be between 2 and %d, not %d", MaxCheckN, c.N)
+		case c.Trials < 1 || c.Trials > MaxTrials:
+			return fieldErr("study.check.trials", "must be between 1 and %d, not %d", MaxTrials, c.Trials)
+		case c.Seed > MaxSeed:
+			return fieldErr("study.check.seed", "must be between 0 and %d, not %d", uint64(MaxSeed), c.Seed)
+		case c.Solver != "" && !slices.Contains(solvers, c.Solver):
+			return fieldErr("study.check.solver", "must be one of %s, not %q", strings.Join(solvers, ", "), clip(c.Solver, 40))
+		}
+	}
+	return nil
+}
+
+// checkAxis validates one swept value: the path exists in s, the ends lie in its range,
+// differ, and are positive on a log axis.
+func (s Scenario) checkAxis(overField, over, fromField string, from float64, toField string, to float64,
+	pointsField string, points, maxPoints int, log bool) (target, error) {
+	t, err := s.resolve(over)
+	if err != nil {
+		return t, fieldErr(overField, "%s", err.(*FieldError).Reason)
+	}
+	if !t.scalar {
+		return t, fieldErr(overField, "%s is a list, not a number that can be swept", t.full)
+	}
+	if err := t.p.check(fromField, from); err != nil {
+		return t, err
+	}
+	if err := t.p.check(toField, to); err != nil {
+		return t, err
+	}
+	if from == to {
+		return t, fieldErr(toField, "equals %s; a sweep needs two different ends", fromField)
+	}
+	if log && (from <= 0 || to <= 0) {
+		return t, fieldErr(fromField, "a log axis needs both ends above 0")
+	}
+	if points < 2 || points > maxPoints {
+		return t, fieldErr(pointsField, "must be between 2 and %d, not %d", maxPoints, points)
+	}
+	return t, nil
+}
