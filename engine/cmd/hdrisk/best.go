@@ -1,0 +1,87 @@
+package main
+
+import (
+	"context"
+	"flag"
+	"io"
+	"os"
+	"os/signal"
+
+	"hdrisk/engine/study"
+)
+
+// bestOutput is the output of best: over, value and mse are contract 3.
+type bestOutput struct {
+	Over       string            `json:"over"`
+	Value      number            `json:"value"`
+	MSE        number            `json:"mse"`
+	NMSE       number            `json:"nmse"`
+	NMSEdB     number            `json:"nmse_db"`
+	AtBound    string            `json:"at_bound"` // "", "lower" or "upper"
+	Note       string            `json:"note,omitempty"`
+	Lo         number            `json:"lo"`
+	Hi         number            `json:"hi"`
+	Converged  bool              `json:"converged"`
+	Iterations int               `json:"iterations"`
+	Penalty    map[string]number `json:"penalty"` // every weight of the penalty at the best point
+	Bayes      *bayesOutput      `json:"bayes,omitempty"`
+	Solves     int               `json:"fixed_points"`
+}
+
+// bayesOutput is the Bayes-optimal reference: what no estimator beats.
+type bayesOutput struct {
+	MSE         number `json:"mse"` // from the uninformed start: what the algorithm reaches
+	NMSEdB      number `json:"nmse_db"`
+	InformedMSE number `json:"informed_mse"`
+	Differ      bool   `json:"differ"` // the starts end apart: a first-order transition
+	Converged   bool   `json:"converged"`
+}
+
+// runBest finds the regularization weight with the lowest MSE and prints it as JSON.
+func runBest(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	fs := flag.NewFlagSet("best", flag.ContinueOnError)
+	over := fs.String("over", "", "the weight to vary: l1, l2, l1+l2 (both, at their ratio) or another positive field (default: l1 if the penalty has one, else l2)")
+	lo := fs.Float64("lo", 0, "lower end of the search (0: 1e-8)")
+	hi := fs.Float64("hi", 0, "upper end of the search (0: 1e4)")
+	bayes := fs.Bool("bayes", false, "add the Bayes-optimal error (Gaussian-mixture signals)")
+	name, err := onePositional(fs, args, "scenario file")
+	if err != nil {
+		return err
+	}
+	s, err := readScenario(name, stdin)
+	if err != nil {
+		return err
+	}
+	if st := s.Study; st != nil && st.Best != nil {
+		orDefault(flagsSet(fs), "over", over, st.Best.Over)
+	}
+	spec := study.BestSpec{Over: *over, Lo: *lo, Hi: *hi}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	defer stop()
+	b, err := study.Best(ctx, s, spec)
+	if err != nil {
+		return err
+	}
+	out := bestOutput{Over: b.Over, Value: number(b.Value), MSE: number(b.MSE),
+		NMSE: number(b.Result.NMSE), NMSEdB: number(b.Result.NMSEdB), AtBound: b.AtBound, Note: b.Note,
+		Lo: number(b.Lo), Hi: number(b.Hi),
+		Converged: b.Result.Converged, Iterations: b.Result.Iterations, Solves: b.Solves,
+		Penalty: map[string]number{}}
+	for k, v := range b.Scenario.Penalty.Params {
+		out.Penalty[k] = number(v)
+	}
+	if *bayes {
+		p, err := s.Problem()
+		if err != nil {
+			return err
+		}
+		r, err := study.Bayes(p)
+		if err != nil {
+			return err
+		}
+		out.Bayes = &bayesOutput{MSE: number(r.Uninformed.MSE), NMSEdB: number(r.Uninformed.NMSEdB),
+			InformedMSE: number(r.Informed.MSE), Differ: r.Differ,
+			Converged: r.Uninformed.Converged && r.Informed.Converged}
+	}
+	return writeJSON(stdout, out)
+}

@@ -1,0 +1,143 @@
+package main
+
+import (
+	"context"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+
+	"hdrisk/engine/simulate"
+)
+
+// checkStat is an observable averaged over trials, beside its prediction.
+type checkStat struct {
+	Mean      number `json:"mean"`
+	StdErr    number `json:"stderr"`
+	Predicted number `json:"predicted"`
+}
+
+type checkTrial struct {
+	MSE        number `json:"mse"`
+	Nonzero    number `json:"nonzero_fraction"`
+	TPP        number `json:"tpp"`
+	FDP        number `json:"fdp"`
+	Iterations int    `json:"iterations"`
+	Converged  bool   `json:"converged"`
+	Residual   number `json:"residual"`
+	Seconds    number `json:"seconds"`
+}
+
+type checkTrace struct {
+	Iteration int    `json:"iteration"`
+	MeanError number `json:"mean_error"`
+	StdErr    number `json:"stderr"`
+	Predicted number `json:"predicted"`
+}
+
+// checkResult is the output of check. mean_mse, stderr, trials, n and predicted_mse are
+// contract 3; the rest states how the instances were drawn and solved.
+type checkResult struct {
+	MeanMSE             number       `json:"mean_mse"`
+	StdErr              number       `json:"stderr"`
+	Trials              int          `json:"trials"`
+	N                   int          `json:"n"`
+	M                   int          `json:"m"`
+	PredictedMSE        number       `json:"predicted_mse"`
+	PredictionConverged bool         `json:"prediction_converged"`
+	Nonzero             checkStat    `json:"nonzero_fraction"`
+	TPP                 checkStat    `json:"tpp"`
+	FDP                 checkStat    `json:"fdp"`
+	Seed                uint64       `json:"seed"`
+	Solver              string       `json:"solver"`
+	Factors             string       `json:"factors"`
+	Spectrum            string       `json:"spectrum"`
+	Criterion           string       `json:"stop_criterion"`
+	Tol                 number       `json:"tol"`
+	MaxIter             int          `json:"max_iter"`
+	Converged           bool         `json:"converged"`
+	NotConverged        int          `json:"not_converged"`
+	Warnings            []string     `json:"warnings"`
+	Seconds             number       `json:"seconds"`
+	PerTrial            []checkTrial `json:"per_trial"`
+	Trace               []checkTrace `json:"vamp_trace,omitempty"`
+}
+
+// runCheck draws and solves finite instances of a scenario and prints their mean error beside
+// the prediction. Ctrl-C cancels between and inside solves.
+func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	fs := flag.NewFlagSet("check", flag.ContinueOnError)
+	n := fs.Int("n", 500, "unknowns per instance (m = round(alpha n))")
+	trials := fs.Int("trials", 10, "independent instances")
+	seed := fs.Uint64("seed", 1, "seed: trial t draws from PCG(seed, t), reproducible on every platform")
+	solverName := fs.String("solver", "cd", "cd (l1, ridge, elastic net), prox (any penalty) or vamp (any penalty)")
+	factorsName := fs.String("factors", "fast", "orthogonal factors: fast (O(n log n) transforms), haar-qr or haar-householder")
+	draws := fs.Bool("draw-spectrum", false, "draw the singular values i.i.d. from the law instead of taking its quantiles")
+	tol := fs.Float64("tol", 0, "solver tolerance (0: the default, 1e-8)")
+	maxIter := fs.Int("max-iter", 0, "solver iteration cap (0: the default, 10000)")
+	progress := fs.Bool("progress", false, "report each finished trial on stderr")
+	name, err := onePositional(fs, args, "scenario file")
+	if err != nil {
+		return err
+	}
+	if *tol < 0 || *maxIter < 0 {
+		return usagef("--tol and --max-iter must not be negative")
+	}
+	solver, err := simulate.ParseSolver(*solverName)
+	if err != nil {
+		return usagef("--solver: %q is not one of cd, prox, vamp", clip(*solverName))
+	}
+	factors, err := simulate.ParseFactors(*factorsName)
+	if err != nil {
+		return usagef("--factors: %q is not one of fast, haar-qr, haar-householder", clip(*factorsName))
+	}
+	s, err := readScenario(name, stdin)
+	if err != nil {
+		return err
+	}
+	p, err := s.Problem()
+	if err != nil {
+		return err
+	}
+	o := simulate.Options{N: *n, Trials: *trials, Seed: *seed, Solver: solver, Tol: *tol,
+		MaxIter: *maxIter, Factors: factors}
+	if *draws {
+		o.Spectrum = simulate.Draws
+	}
+	var report func(done, total int)
+	if *progress {
+		report = func(done, total int) { fmt.Fprintf(stderr, "hdrisk check: trial %d of %d done\n", done, total) }
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	defer stop()
+	r, err := simulate.Check(ctx, simulate.Problem{Problem: p, GaussianEntries: s.Design.Shape == "gaussian"}, o, report)
+	if err != nil {
+		return err
+	}
+	for _, w := range r.Warnings() {
+		fmt.Fprintf(stderr, "hdrisk check: warning: %s\n", w)
+	}
+	out := checkResult{
+		MeanMSE: number(r.MeanMSE), StdErr: number(r.StdErr), Trials: r.Trials, N: r.N, M: r.M,
+		PredictedMSE: number(r.Predicted.MSE), PredictionConverged: r.Predicted.Converged,
+		Nonzero:  checkStat{number(r.NonZero.Mean), number(r.NonZero.StdErr), number(r.Predicted.NonZero)},
+		TPP:      checkStat{number(r.TPP.Mean), number(r.TPP.StdErr), number(r.Predicted.TPP)},
+		FDP:      checkStat{number(r.FDP.Mean), number(r.FDP.StdErr), number(r.Predicted.FDP)},
+		Seed:     r.Seed, Solver: r.Solver, Factors: r.Factors, Spectrum: r.Spectrum,
+		Criterion: r.Criterion, Tol: number(r.Tol), MaxIter: r.MaxIter,
+		Converged: r.NotConverged == 0, NotConverged: r.NotConverged, Warnings: r.Warnings(),
+		Seconds: number(r.Seconds),
+	}
+	if out.Warnings == nil {
+		out.Warnings = []string{}
+	}
+	for _, t := range r.PerTrial {
+		out.PerTrial = append(out.PerTrial, checkTrial{number(t.MSE), number(t.NonZero), number(t.TPP),
+			number(t.FDP), t.Iterations, t.Converged, number(t.Residual), number(t.Seconds)})
+	}
+	for _, t := range r.Trace {
+		out.Trace = append(out.Trace, checkTrace{t.Iteration, number(t.MeanError), number(t.StdErr), number(t.Predicted)})
+	}
+	return writeJSON(stdout, out)
+}

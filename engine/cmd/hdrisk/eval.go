@@ -1,0 +1,61 @@
+package main
+
+import (
+	"flag"
+	"io"
+
+	"hdrisk/engine/fixedpoint"
+)
+
+// evalResult is the output of eval. Field names are contract 3; a number that is not
+// finite is written as null.
+type evalResult struct {
+	MSE             number `json:"mse"`
+	NMSE            number `json:"nmse"`
+	NMSEdB          number `json:"nmse_db"`
+	Susceptibility  number `json:"susceptibility"`
+	NonzeroFraction number `json:"nonzero_fraction"`
+	TPP             number `json:"tpp"`
+	FDP             number `json:"fdp"`
+	TrainError      number `json:"train_error"`
+	G1              number `json:"g1"`
+	T1              number `json:"t1"`
+	G2              number `json:"g2"`
+	Residual        number `json:"residual"`
+	Converged       bool   `json:"converged"`
+	Iterations      int    `json:"iterations"`
+	EstimateZero    bool   `json:"estimate_zero"`
+}
+
+// runEval solves the fixed point of one scenario and prints its observables.
+func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	fs := flag.NewFlagSet("eval", flag.ContinueOnError)
+	tol := fs.Float64("tol", 0, "relative change of (g1, t1) that counts as converged (0: the solver's default)")
+	maxIter := fs.Int("max-iter", 0, "largest number of iterations (0: the solver's default)")
+	name, err := onePositional(fs, args, "scenario file")
+	if err != nil {
+		return err
+	}
+	if *tol < 0 || *maxIter < 0 {
+		return usagef("--tol and --max-iter must not be negative")
+	}
+	s, err := readScenario(name, stdin)
+	if err != nil {
+		return err
+	}
+	p, err := s.Problem()
+	if err != nil {
+		return err
+	}
+	r, err := fixedpoint.Solve(p, fixedpoint.Options{Tol: *tol, MaxIter: *maxIter})
+	if err != nil {
+		return err
+	}
+	return writeJSON(stdout, evalResult{
+		MSE: number(r.MSE), NMSE: number(r.NMSE), NMSEdB: number(r.NMSEdB),
+		Susceptibility: number(r.Susceptibility), NonzeroFraction: number(r.NonZero),
+		TPP: number(r.TPP), FDP: number(r.FDP), TrainError: number(r.TrainError),
+		G1: number(r.G1), T1: number(r.T1), G2: number(r.G2), Residual: number(r.Residual),
+		Converged: r.Converged, Iterations: r.Iterations, EstimateZero: r.EstimateZero,
+	})
+}

@@ -1,0 +1,148 @@
+// Command hdrisk answers the questions of a scenario file from the command line: the
+// predicted error of one fixed point, share links, and (as commands are added) sweeps,
+// maps, the best regularization, measurement planning and finite-size checks.
+//
+// Usage:
+//
+//	hdrisk COMMAND [ARGUMENTS]
+//	hdrisk help
+//
+// Results go to stdout (JSON or CSV) only when the command succeeds; messages go to stderr,
+// and a failure exits with status 1 (2 for a usage mistake) leaving stdout empty.
+package main
+
+import (
+	"bytes"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+)
+
+// command is one subcommand. Adding a command is one file holding its run function and one
+// line in the commands table.
+type command struct {
+	name    string
+	args    string // synopsis of the arguments
+	summary string // one line
+	run     func(args []string, stdin io.Reader, stdout, stderr io.Writer) error
+}
+
+var commands = []command{
+	{"eval", "FILE|-", "one fixed point of the scenario, as JSON", runEval},
+	{"sweep", "FILE --over P --from A --to B [--log]", "the observables along one field, as CSV", runSweep},
+	{"map", "FILE --x P --x-from A ... --y Q ...", "the observables over a grid of two fields, as CSV", runMap},
+	{"best", "FILE [--over l1|l2|l1+l2]", "the regularization with the lowest MSE, as JSON", runBest},
+	{"plan", "FILE --target-db D", "the smallest alpha reaching D dB at its best regularization, as JSON", runPlan},
+	{"link", "FILE|-", "the share code (s1.…) of the scenario", runLink},
+	{"open", "LINK|-", "the scenario held by a share link or code, as JSON", runOpen},
+}
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+}
+
+// usageError is a mistake in the command line itself (exit status 2).
+type usageError struct{ msg string }
+
+func (e *usageError) Error() string { return e.msg }
+
+func usagef(format string, args ...any) error { return &usageError{fmt.Sprintf(format, args...)} }
+
+// run dispatches to a command and returns the exit status. The command writes into a
+// buffer that reaches stdout only on success, so a failure never leaves half a result.
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		usage(stderr)
+		return 2
+	}
+	name := args[0]
+	if name == "help" || name == "-h" || name == "--help" || name == "-help" {
+		usage(stdout)
+		return 0
+	}
+	for _, c := range commands {
+		if c.name != name {
+			continue
+		}
+		var out bytes.Buffer
+		err := c.run(args[1:], stdin, &out, stderr)
+		switch {
+		case errors.Is(err, flag.ErrHelp):
+			fmt.Fprintf(stdout, "usage: hdrisk %s %s\n%s\n", c.name, c.args, c.summary)
+			return 0
+		case err != nil:
+			fmt.Fprintf(stderr, "hdrisk %s: %v\n", c.name, err)
+			var ue *usageError
+			if errors.As(err, &ue) {
+				fmt.Fprintf(stderr, "usage: hdrisk %s %s\n", c.name, c.args)
+				return 2
+			}
+			return 1
+		}
+		if _, err := stdout.Write(out.Bytes()); err != nil {
+			fmt.Fprintf(stderr, "hdrisk %s: %v\n", c.name, err)
+			return 1
+		}
+		return 0
+	}
+	fmt.Fprintf(stderr, "hdrisk: unknown command %q\n", clip(name))
+	usage(stderr)
+	return 2
+}
+
+func usage(w io.Writer) {
+	var b strings.Builder
+	b.WriteString("usage: hdrisk COMMAND [ARGUMENTS]\n\ncommands:\n")
+	for _, c := range commands {
+		fmt.Fprintf(&b, "  %-6s %-40s %s\n", c.name, c.args, c.summary)
+	}
+	b.WriteString("\nFILE is a scenario file (JSON); - reads it from standard input.\n")
+	io.WriteString(w, b.String())
+}
+
+func clip(s string) string {
+	if r := []rune(s); len(r) > 40 {
+		return string(r[:40]) + "…"
+	}
+	return s
+}
+
+// parseArgs parses flags that may come before, between or after the positional arguments
+// ("hdrisk sweep FILE --over l1" as well as "hdrisk sweep --over l1 FILE") and returns the
+// positional ones. "-" is a positional argument (standard input).
+func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
+	fs.SetOutput(io.Discard)
+	var pos []string
+	for {
+		if err := fs.Parse(args); err != nil {
+			if errors.Is(err, flag.ErrHelp) {
+				return nil, err
+			}
+			return nil, &usageError{err.Error()}
+		}
+		args = fs.Args()
+		if len(args) == 0 {
+			return pos, nil
+		}
+		pos = append(pos, args[0])
+		args = args[1:]
+	}
+}
+
+// onePositional parses args and requires exactly one positional argument, named what.
+func onePositional(fs *flag.FlagSet, args []string, what string) (string, error) {
+	pos, err := parseArgs(fs, args)
+	if err != nil {
+		return "", err
+	}
+	switch len(pos) {
+	case 0:
+		return "", usagef("missing %s", what)
+	case 1:
+		return pos[0], nil
+	}
+	return "", usagef("expected one %s, got %d arguments", what, len(pos))
+}

@@ -1,0 +1,80 @@
+package main
+
+import (
+	"context"
+	"flag"
+	"io"
+	"os"
+	"os/signal"
+
+	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/study"
+)
+
+// runMap solves the scenario over a grid of two fields and prints a CSV with one line per
+// cell (X varying fastest): both fields, every observable, and the convergence columns.
+// Settings not given on the command line come from the scenario's study.map, when it has one.
+func runMap(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	fs := flag.NewFlagSet("map", flag.ContinueOnError)
+	x := fs.String("x", "", "the field along each row (alpha, l1, noise, ...)")
+	xFrom := fs.Float64("x-from", 0, "first value of x")
+	xTo := fs.Float64("x-to", 0, "last value of x")
+	xPoints := fs.Int("x-points", 50, "number of values of x")
+	xLog := fs.Bool("x-log", false, "space x geometrically")
+	y := fs.String("y", "", "the field from row to row")
+	yFrom := fs.Float64("y-from", 0, "first value of y")
+	yTo := fs.Float64("y-to", 0, "last value of y")
+	yPoints := fs.Int("y-points", 50, "number of values of y")
+	yLog := fs.Bool("y-log", false, "space y geometrically")
+	workers := fs.Int("workers", 0, "goroutines (0: one per CPU); the output does not depend on it")
+	tol := fs.Float64("tol", 0, "fixed-point tolerance (0: the solver's default)")
+	maxIter := fs.Int("max-iter", 0, "fixed-point iteration cap (0: the solver's default)")
+	progress := fs.Bool("progress", false, "report progress on stderr")
+	name, err := onePositional(fs, args, "scenario file")
+	if err != nil {
+		return err
+	}
+	if *tol < 0 || *maxIter < 0 || *workers < 0 {
+		return usagef("--tol, --max-iter and --workers must not be negative")
+	}
+	s, err := readScenario(name, stdin)
+	if err != nil {
+		return err
+	}
+	set := flagsSet(fs)
+	if st := s.Study; st != nil && st.Map != nil {
+		m := st.Map
+		orDefault(set, "x", x, m.X)
+		orDefault(set, "x-from", xFrom, m.XFrom)
+		orDefault(set, "x-to", xTo, m.XTo)
+		orDefault(set, "x-points", xPoints, m.XPoints)
+		orDefault(set, "x-log", xLog, m.XLog)
+		orDefault(set, "y", y, m.Y)
+		orDefault(set, "y-from", yFrom, m.YFrom)
+		orDefault(set, "y-to", yTo, m.YTo)
+		orDefault(set, "y-points", yPoints, m.YPoints)
+		orDefault(set, "y-log", yLog, m.YLog)
+	} else {
+		for _, f := range []string{"x", "x-from", "x-to", "y", "y-from", "y-to"} {
+			if !set[f] {
+				return usagef("give --x, --x-from, --x-to, --y, --y-from and --y-to (the scenario has no study.map)")
+			}
+		}
+	}
+	spec := study.MapSpec{
+		X:      study.Axis{Over: *x, From: *xFrom, To: *xTo, Points: *xPoints, Log: *xLog},
+		Y:      study.Axis{Over: *y, From: *yFrom, To: *yTo, Points: *yPoints, Log: *yLog},
+		Solver: fixedpoint.Options{Tol: *tol, MaxIter: *maxIter},
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	defer stop()
+	g, err := study.Map(ctx, s, spec, *workers, progressTo(stderr, *progress))
+	if err != nil {
+		return err
+	}
+	if err := study.WriteCSV(stdout, []string{*x, *y}, g.Cells); err != nil {
+		return err
+	}
+	warnUnconverged(stderr, g.Cells)
+	return nil
+}
