@@ -43,6 +43,7 @@ type BestResult struct {
 	MSE      float64           // the MSE there
 	AtBound  string            // "" when the minimum is interior to [Lo, Hi], else Lower or Upper
 	Note     string            // why a bound was reported short of Lo or Hi, in words
+	Lo, Hi   float64           // the search range used
 	Result   fixedpoint.Result // the fixed point at Value
 	Scenario scenario.Scenario // the scenario with the best weights in place
 	Solves   int               // fixed points computed
@@ -264,5 +265,5 @@ func (b *bestRun) golden(ctx context.Context, a, x, c, fx float64, px Point) (Po
 func (b *bestRun) result(p Point, bound, note string) BestResult {
 	sc, _ := b.at(p.X)
 	return BestResult{Over: b.spec.Over, Value: p.X, MSE: p.Result.MSE, AtBound: bound, Note: note,
-		Result: p.Result, Scenario: sc, Solves: b.solves}
+		Lo: b.spec.Lo, Hi: b.spec.Hi, Result: p.Result, Scenario: sc, Solves: b.solves}
 }
