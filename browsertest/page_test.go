@@ -2,6 +2,7 @@ package browsertest
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -17,6 +18,10 @@ import (
 	"github.com/chromedp/cdproto/network"
 	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
+	"github.com/chromedp/chromedp/kb"
+
+	"hdrisk/ui"
+	"hdrisk/wasm/job"
 )
 
 // figureNames are the headline figures the page must show (contract 3 and 4).
@@ -80,6 +85,10 @@ func pagePath(t *testing.T) string {
 func open(t *testing.T) (*browser, time.Time) {
 	t.Helper()
 	exe, page := chromium(t), pagePath(t)
+	profile, err := os.MkdirTemp("", "hdrisk-chromium-")
+	if err != nil {
+		t.Fatal(err)
+	}
 	opts := []chromedp.ExecAllocatorOption{
 		chromedp.ExecPath(exe),
 		chromedp.Flag("headless", true),
@@ -89,13 +98,21 @@ func open(t *testing.T) (*browser, time.Time) {
 		chromedp.Flag("disable-background-networking", true),
 		chromedp.Flag("disable-component-update", true),
 		chromedp.Flag("disable-sync", true),
-		chromedp.UserDataDir(t.TempDir()),
+		chromedp.UserDataDir(profile),
 		chromedp.WindowSize(1280, 1000),
 	}
 	actx, cancelA := chromedp.NewExecAllocator(context.Background(), opts...)
 	ctx, cancelC := chromedp.NewContext(actx)
 	ctx, cancelT := context.WithTimeout(ctx, 90*time.Second)
-	t.Cleanup(func() { cancelT(); cancelC(); cancelA() })
+	t.Cleanup(func() {
+		cancelT()
+		cancelC()
+		cancelA()
+		// Chromium's helper processes may still be writing the profile for a moment.
+		for i := 0; i < 20 && os.RemoveAll(profile) != nil; i++ {
+			time.Sleep(100 * time.Millisecond)
+		}
+	})
 
 	b := &browser{ctx: ctx, pageURL: "file://" + page}
 	chromedp.ListenTarget(ctx, func(ev any) {
@@ -239,6 +256,11 @@ func TestPageOffline(t *testing.T) {
 	}
 	t.Logf("page size: %d bytes (%.2f MB, budget 10 MB)", info.Size(), float64(info.Size())/1e6)
 	t.Logf("time from navigation to first result: %v (budget 4 s)", elapsed.Round(time.Millisecond))
+	var marks string
+	if err := chromedp.Run(b.ctx, chromedp.Evaluate(
+		`performance.getEntriesByType("mark").map(m=>m.name+" "+m.startTime.toFixed(0)+" ms").join(", ")`, &marks)); err == nil {
+		t.Logf("start-up marks (from navigation start): %s", marks)
+	}
 	if info.Size() > 10_000_000 {
 		t.Errorf("page is %d bytes, over the 10 MB budget", info.Size())
 	}
@@ -270,5 +292,162 @@ func TestPageOffline(t *testing.T) {
 	if !strings.Contains(b.text(t, ".assumptions"), "no network requests") {
 		t.Errorf("the assumptions do not state that the page makes no network requests")
 	}
+	b.checkLabels(t)
+
+	// The page's figures are the engine's: the same scenario solved natively must agree.
+	m := ui.NewModel()
+	b.compareNative(t, "first result", m, figs)
+
+	// An edit: the figures follow.
+	b.typeInto(t, "#in-penalty-elastic-net-l1", "0.2")
+	if state := b.settle(t); state != "ready" {
+		t.Fatalf("after l1 = 0.2: data-state=%s: %s", state, b.text(t, ".problem"))
+	}
+	if err := m.SetText("in-penalty-elastic-net-l1", "0.2"); err != nil {
+		t.Fatal(err)
+	}
+	b.compareNative(t, "after l1 = 0.2", m, b.figures(t))
+
+	// Text that is not a number: an error naming the field and no figures.
+	b.typeInto(t, "#in-noise-variance", "lots")
+	if state := b.settle(t); state != "error" {
+		t.Errorf("noise variance \"lots\": data-state=%s, want error", state)
+	}
+	if msg := b.text(t, ".problem"); !strings.Contains(msg, "noise.variance") {
+		t.Errorf("the message %q does not name noise.variance", msg)
+	}
+	if figs := b.figures(t); len(figs) != 0 {
+		t.Errorf("figures still shown for an invalid scenario: %v", figs)
+	}
+	b.screenshot(t, "invalid-input.png")
 	b.checkNoNetwork(t)
+}
+
+// TestWorkersAgreeWithEngine runs the "eval" job on the page's worker pool through the
+// hdriskJobs hook, cancels one job mid-flight, and checks that the workers keep answering
+// with the native engine's figures.
+func TestWorkersAgreeWithEngine(t *testing.T) {
+	b, start := open(t)
+	if state := b.settle(t); state != "ready" {
+		t.Fatalf("data-state=%s: %s", state, b.text(t, ".problem"))
+	}
+	m := ui.NewModel()
+	scen, err := m.JSON()
+	if err != nil {
+		t.Fatal(err)
+	}
+	args := fmt.Sprintf(`{"scenario":%s}`, scen)
+	var size int
+	if err := chromedp.Run(b.ctx, chromedp.Poll(`typeof hdriskJobs === "object" && hdriskJobs.size()`, &size,
+		chromedp.WithPollingTimeout(30*time.Second))); err != nil {
+		t.Fatalf("the worker pool never appeared: %v", err)
+	}
+	if size < 1 {
+		t.Fatalf("the pool has %d workers", size)
+	}
+	// One job cancelled as soon as it is posted (its worker is terminated and replaced), then
+	// twice as many jobs as workers, all of which must finish.
+	script := fmt.Sprintf(`(async function(){
+		const args = %q;
+		const one = () => new Promise((resolve) => hdriskJobs.start("eval", args, null, (e, r) => resolve({e, r})));
+		let late = false;
+		const id = hdriskJobs.start("eval", args, null, () => { late = true; });
+		hdriskJobs.cancel(id);
+		const all = await Promise.all(Array.from({length: %d}, one));
+		await new Promise((r) => setTimeout(r, 200));
+		return JSON.stringify({late, all, size: hdriskJobs.size()});
+	})()`, args, 2*size)
+	var out string
+	if err := chromedp.Run(b.ctx, chromedp.Evaluate(script, &out, func(p *runtime.EvaluateParams) *runtime.EvaluateParams {
+		return p.WithAwaitPromise(true)
+	})); err != nil {
+		t.Fatalf("running jobs: %v", err)
+	}
+	t.Logf("%d workers; %d eval jobs done %v after navigation", size, 2*size, time.Since(start).Round(time.Millisecond))
+	var res struct {
+		Late bool
+		All  []struct{ E, R string }
+		Size int
+	}
+	if err := json.Unmarshal([]byte(out), &res); err != nil {
+		t.Fatalf("%v: %s", err, out)
+	}
+	if res.Late {
+		t.Errorf("a cancelled job still reported back")
+	}
+	if res.Size != size {
+		t.Errorf("pool has %d workers after a cancel, had %d", res.Size, size)
+	}
+	for i, r := range res.All {
+		if r.E != "" {
+			t.Errorf("job %d: %s", i, r.E)
+			continue
+		}
+		var f map[string]any
+		if err := json.Unmarshal([]byte(r.R), &f); err != nil {
+			t.Fatal(err)
+		}
+		figs := map[string]string{}
+		for k, v := range f {
+			figs[k] = fmt.Sprint(v)
+		}
+		b.compareNative(t, fmt.Sprintf("worker job %d", i), m, figs)
+	}
+	b.checkNoNetwork(t)
+}
+
+// compareNative solves the model's scenario with the engine natively and compares the figures
+// the browser reported. WebAssembly uses the same IEEE arithmetic, but Go's math package has
+// assembly versions of some functions on amd64, so agreement is asked to 1e-9 relative.
+func (b *browser) compareNative(t *testing.T, what string, m *ui.Model, figs map[string]string) {
+	t.Helper()
+	data, err := m.JSON()
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := job.Eval(job.EvalArgs{Scenario: data})
+	if err != nil {
+		t.Fatalf("%s: native engine: %v", what, err)
+	}
+	for name, w := range map[string]float64{
+		"mse": want.MSE, "nmse_db": want.NMSEdB, "susceptibility": want.Susceptibility,
+		"nonzero_fraction": want.NonzeroFraction,
+	} {
+		got := number(t, figs, name)
+		if math.Abs(got-w) > 1e-9*math.Max(1, math.Abs(w)) {
+			t.Errorf("%s: %s = %v in the browser, %v natively", what, name, got, w)
+		}
+	}
+	if figs["converged"] != strconv.FormatBool(want.Converged) || figs["estimate_zero"] != strconv.FormatBool(want.EstimateZero) {
+		t.Errorf("%s: flags converged=%s estimate_zero=%s, natively %v %v", what, figs["converged"], figs["estimate_zero"], want.Converged, want.EstimateZero)
+	}
+}
+
+// typeInto replaces the text of an input as a person would, ending with Tab so that the
+// change event fires.
+func (b *browser) typeInto(t *testing.T, sel, text string) {
+	t.Helper()
+	var ok bool
+	if err := chromedp.Run(b.ctx,
+		chromedp.Evaluate(fmt.Sprintf(`(e=>{if(!e)return false;e.focus();e.select();return document.activeElement===e})(document.querySelector(%q))`, sel), &ok),
+	); err != nil || !ok {
+		t.Fatalf("focusing %s: %v (found and focused: %v)", sel, err, ok)
+	}
+	if err := chromedp.Run(b.ctx, chromedp.KeyEvent(text), chromedp.KeyEvent(kb.Tab)); err != nil {
+		t.Fatalf("typing into %s: %v", sel, err)
+	}
+}
+
+// checkLabels fails for any input or menu without a label, or one taken out of the tab order.
+func (b *browser) checkLabels(t *testing.T) {
+	t.Helper()
+	var bad []string
+	if err := chromedp.Run(b.ctx, chromedp.Evaluate(
+		`Array.from(document.querySelectorAll("input,select,textarea,button")).filter(e=>!(e.labels&&e.labels.length)||e.tabIndex<0).map(e=>e.id||e.outerHTML.slice(0,60))`,
+		&bad)); err != nil {
+		t.Fatal(err)
+	}
+	for _, x := range bad {
+		t.Errorf("control without a label or out of the tab order: %s", x)
+	}
 }

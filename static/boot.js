@@ -25,7 +25,9 @@
 		}
 		const stream = new Blob([packed]).stream().pipeThrough(new DecompressionStream("gzip"));
 		const bytes = await new Response(stream).arrayBuffer();
+		performance.mark("hdrisk:unpacked");
 		const module = await WebAssembly.compile(bytes);
+		performance.mark("hdrisk:compiled");
 
 		// vugu's renderer passes its helper script to window.eval, which the page policy forbids.
 		// The helper already ran as an inline script allowed by hash; accept exactly that text
@@ -45,6 +47,7 @@
 		};
 		const go = new Go();
 		const instance = await WebAssembly.instantiate(module, go.importObject);
+		performance.mark("hdrisk:instantiated");
 		go.run(instance).then(function () {
 			if (root.isConnected && root.getAttribute("data-state") !== "error") {
 				fail("The calculator stopped unexpectedly; reload the page.");

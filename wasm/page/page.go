@@ -6,6 +6,7 @@ package page
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
 
 	"github.com/hack-pad/safejs"
@@ -13,16 +14,13 @@ import (
 	"github.com/vugu/vugu/domrender"
 
 	"hdrisk/ui"
+	"hdrisk/wasm/job"
 	"hdrisk/wasm/pool"
 )
 
 // Run mounts the interface on #hdrisk and renders until the page goes away.
 func Run() error {
 	boot, err := pool.ReadBoot()
-	if err != nil {
-		return err
-	}
-	workers, err := pool.New(boot, 0)
 	if err != nil {
 		return err
 	}
@@ -36,10 +34,22 @@ func Run() error {
 	if err != nil {
 		return fmt.Errorf("page: build: %w", err)
 	}
-	root := &ui.Root{Model: ui.NewModel(), Eval: &evaluator{pool: workers, env: env}}
-	for ok := true; ok; ok = renderer.EventWait() {
+	root := &ui.Root{Model: ui.NewModel(), Eval: &evaluator{env: env}}
+	for ok, first := true, true; ok; ok, first = renderer.EventWait(), false {
 		if err := renderer.Render(build.RunBuild(root)); err != nil {
 			return fmt.Errorf("page: render: %w", err)
+		}
+		if first {
+			pool.Mark("hdrisk:first-render")
+			// Workers start only now: on a machine with few cores, starting them earlier
+			// delays the first figures, which do not need them.
+			workers, err := pool.New(boot, 0)
+			if err == nil {
+				err = exposeJobs(workers)
+			}
+			if err != nil {
+				return err
+			}
 		}
 	}
 	return nil
@@ -66,26 +76,30 @@ func Fail(err error) {
 	_, _ = root.Call("replaceChildren", p)
 }
 
-// evaluator runs the "eval" job on the workers for ui.Root.
+// evaluator runs the "eval" job for ui.Root inside the page's own program: one fixed point
+// takes microseconds, far less than a round trip to a worker that may still be starting, so
+// the first figures appear as soon as the page has rendered. Heavy kinds (sweeps, maps,
+// finite-size checks) go to the worker pool.
 type evaluator struct {
-	pool *pool.Pool
-	env  vugu.EventEnv
+	env vugu.EventEnv
 }
 
-// evalArgs are the arguments of the "eval" job (see wasm/job/eval.go).
-type evalArgs struct {
-	Scenario json.RawMessage `json:"scenario"`
-}
-
-// Evaluate implements ui.Evaluator. Cancel is called under the render lock and done is called
-// under it, so the cancelled flag needs no lock of its own.
+// Evaluate implements ui.Evaluator. The job runs on a goroutine of its own, which the Go
+// scheduler starts once the render loop waits for events. Cancel is called under the render
+// lock and done is called under it, so the cancelled flag needs no lock of its own.
 func (e *evaluator) Evaluate(scenario []byte, done func(ui.Figures, error)) func() {
 	cancelled := false
-	t := e.pool.Start("eval", evalArgs{Scenario: scenario}, nil, func(res json.RawMessage, err error) {
+	args, err := json.Marshal(job.EvalArgs{Scenario: scenario})
+	go func() {
 		var f ui.Figures
 		if err == nil {
-			if uerr := json.Unmarshal(res, &f); uerr != nil {
-				err = fmt.Errorf("eval result: %w", uerr)
+			var last job.Reply
+			job.Run(job.Request{Kind: "eval", Args: args}, func(r job.Reply) { last = r })
+			switch {
+			case last.Type == job.Failed:
+				err = errors.New(last.Error)
+			default:
+				err = json.Unmarshal(last.Result, &f)
 			}
 		}
 		e.env.Lock()
@@ -93,9 +107,6 @@ func (e *evaluator) Evaluate(scenario []byte, done func(ui.Figures, error)) func
 		if !cancelled {
 			done(f, err)
 		}
-	})
-	return func() {
-		cancelled = true
-		t.Cancel()
-	}
+	}()
+	return func() { cancelled = true }
 }

@@ -59,11 +59,12 @@ type Pool struct {
 	boot Boot
 	url  string // blob: URL of the worker script
 
-	mu      sync.Mutex
-	workers []*worker
-	queue   []*Task
-	nextID  uint64
-	broken  error // set when a worker could not start; every later job fails with it
+	mu       sync.Mutex
+	workers  []*worker
+	queue    []*Task
+	nextID   uint64
+	broken   error // set when a worker could not start; every later job fails with it
+	sawReady bool
 
 	// Callbacks wait in pending (guarded by mu) and are run in order by one goroutine, woken
 	// through wake; the queue is unbounded so that a slow callback never blocks a worker event.
@@ -242,6 +243,10 @@ func (p *Pool) receive(w *worker, text string, isErr bool) {
 	switch r.Type {
 	case job.Ready:
 		w.ready = true
+		if !p.sawReady {
+			p.sawReady = true
+			Mark("hdrisk:worker-ready")
+		}
 		p.dispatch()
 	case job.Fatal:
 		p.broken = errors.New(r.Error)
@@ -382,4 +387,12 @@ func (t *Task) Cancel() {
 		break
 	}
 	p.dispatch()
+}
+
+// Mark records a User Timing mark (the browser test logs them to show where start-up time
+// goes). Failure only loses the mark.
+func Mark(name string) {
+	if perf, err := safejs.Global().Get("performance"); err == nil {
+		_, _ = perf.Call("mark", name)
+	}
 }
