@@ -1,0 +1,164 @@
+package signal
+
+import (
+	"math"
+	"testing"
+
+	"hdrisk/engine/penalty"
+)
+
+// channelGivenX0 returns E_z[(prox(x0 + sqrt(t) z) - x0)^2] and E_z[prox'(x0 + sqrt(t) z)] by
+// quadrature over z split at the kinks: the channel moments for a fixed x0, with no mixture.
+func channelGivenX0(p penalty.Penalty, g, t, x0 float64) (mse, a float64) {
+	st := math.Sqrt(t)
+	var splits []float64
+	for _, k := range p.Kinks(g) {
+		splits = append(splits, (k-x0)/st)
+	}
+	mse = integrate(func(z float64) float64 {
+		d := p.Prox(x0+st*z, g) - x0
+		return d * d * normPDF(z)
+	}, -13, 13, 1, splits...)
+	a = integrate(func(z float64) float64 { return p.Deriv(x0+st*z, g) * normPDF(z) }, -13, 13, 1, splits...)
+	return mse, a
+}
+
+// The Gauss-Laguerre mixture of the Laplace law against the Laplace density itself: E over
+// x0 with density exp(-|x|/b)/(2b) of the channel moments at fixed x0, by nested quadrature.
+// The discretization error of the ScaleNodes-point mixture is the difference.
+func TestLaplaceMixtureAgainstDensity(t *testing.T) {
+	b := 0.8
+	l := must(Laplace(b))
+	for _, p := range []penalty.Penalty{must(penalty.L1(0.5)), must(penalty.Ridge(0.4)), must(penalty.Box(1, 0))} {
+		for _, gt := range [][2]float64{{1, 0.3}, {3, 1e-4}} {
+			g, tt := gt[0], gt[1]
+			// The moments at fixed x0 vary on the scale sqrt(t) near the kinks: split there.
+			var splits []float64
+			for _, k := range p.Kinks(g) {
+				for _, d := range []float64{0, 1, 2, 4, 8, 16} {
+					splits = append(splits, k-d*math.Sqrt(tt), k+d*math.Sqrt(tt))
+				}
+			}
+			cache := map[float64][2]float64{}
+			at := func(x float64) [2]float64 {
+				if v, ok := cache[x]; ok {
+					return v
+				}
+				m, d := channelGivenX0(p, g, tt, x)
+				cache[x] = [2]float64{m, d}
+				return cache[x]
+			}
+			dens := func(x float64) float64 { return math.Exp(-math.Abs(x)/b) / (2 * b) }
+			mse := integrate(func(x float64) float64 { return at(x)[0] * dens(x) }, -40*b, 40*b, b/2, append(splits, 0)...)
+			a := integrate(func(x float64) float64 { return at(x)[1] * dens(x) }, -40*b, 40*b, b/2, append(splits, 0)...)
+			m := Expect(l, p, g, tt)
+			t.Logf("%s g=%v t=%v: MSE rel err %.1e, A rel err %.1e", p.Name(), g, tt, math.Abs(m.MSE-mse)/mse, math.Abs(m.A-a)/a)
+			if !close(m.MSE, mse, 1e-8, 0) || !close(m.A, a, 1e-8, 0) {
+				t.Errorf("%s g=%v t=%v: mixture MSE %.12g A %.12g; density %.12g %.12g", p.Name(), g, tt, m.MSE, m.A, mse, a)
+			}
+		}
+	}
+}
+
+// The Student-t mixture against one with a step four times smaller and a lumped tail of 1e-22
+// instead of about 1e-14 (convergence of the trapezoidal rule), over degrees of freedom from near 2
+// to large and channel noises from small to large.
+func TestStudentTConvergence(t *testing.T) {
+	for _, dof := range []float64{2.2, 3, 5, 30} {
+		law := must(StudentT(dof, 0.9)).(studentT)
+		ref := studentT{mixture{studentTMixture(dof, 0.9, studentStep/4, 1e-22)}, dof, 0.9}
+		t.Logf("dof=%v: %d components (reference %d)", dof, len(law.comps), len(ref.comps))
+		for _, p := range []penalty.Penalty{must(penalty.L1(0.5)), must(penalty.Ridge(0.4)), must(penalty.Box(1, 0))} {
+			for _, gt := range [][2]float64{{1, 0.3}, {3, 1e-3}, {0.3, 5}} {
+				got := Expect(law, p, gt[0], gt[1])
+				want := Expect(ref, p, gt[0], gt[1])
+				t.Logf("dof=%v %s g=%v t=%v: MSE rel diff %.1e, A rel diff %.1e", dof, p.Name(), gt[0], gt[1],
+					math.Abs(got.MSE-want.MSE)/want.MSE, math.Abs(got.A-want.A)/want.A)
+				cmpMoments(t, "student-t "+p.Name(), got, want, 1e-7, 1e-12)
+			}
+		}
+	}
+}
+
+// The Gauss-Legendre atoms of the uniform law against the uniform density itself, by nested
+// quadrature split where the moments at fixed x0 change fast (within a few sqrt(t) of a kink).
+// The atoms resolve the law only down to their spacing (about halfwidth/30 in the middle), so
+// the error is at rounding level while sqrt(t) exceeds about halfwidth/12 and grows below; the
+// tolerances record what was measured.
+func TestUniformAtomsAgainstDensity(t *testing.T) {
+	hw := 1.2
+	l := must(Uniform(hw))
+	for _, tc := range []struct {
+		p      penalty.Penalty
+		g, t   float64
+		relTol float64
+	}{
+		{must(penalty.L1(0.5)), 1, 0.3, 1e-12},
+		{must(penalty.Box(0.8, 0)), 1, 0.3, 1e-12},
+		{must(penalty.L1(0.5)), 2, 0.01, 1e-12},
+		{must(penalty.Box(0.8, 0)), 2, 0.01, 1e-12},
+		{must(penalty.Ridge(0.3)), 2, 1e-4, 1e-12},
+		// sqrt(t) below the spacing of the atoms (about 0.04 here): measured 4.5e-5 and 1.0e-2.
+		{must(penalty.L1(0.5)), 2, 1e-3, 1e-4},
+		{must(penalty.L1(0.5)), 2, 1e-4, 3e-2},
+	} {
+		var splits []float64
+		for _, k := range tc.p.Kinks(tc.g) {
+			for _, d := range []float64{0, 1, 2, 4, 8, 16} {
+				splits = append(splits, k-d*math.Sqrt(tc.t), k+d*math.Sqrt(tc.t))
+			}
+		}
+		cache := map[float64][2]float64{}
+		at := func(x float64) [2]float64 {
+			if v, ok := cache[x]; !ok {
+				m, d := channelGivenX0(tc.p, tc.g, tc.t, x)
+				cache[x] = [2]float64{m, d}
+				return cache[x]
+			} else {
+				return v
+			}
+		}
+		mse := integrate(func(x float64) float64 { return at(x)[0] / (2 * hw) }, -hw, hw, 0.2, splits...)
+		a := integrate(func(x float64) float64 { return at(x)[1] / (2 * hw) }, -hw, hw, 0.2, splits...)
+		m := Expect(l, tc.p, tc.g, tc.t)
+		t.Logf("%s g=%v t=%v: MSE rel err %.1e, A rel err %.1e", tc.p.Name(), tc.g, tc.t, math.Abs(m.MSE-mse)/mse, math.Abs(m.A-a)/a)
+		if !close(m.MSE, mse, tc.relTol, 0) || !close(m.A, a, tc.relTol, 0) {
+			t.Errorf("%s g=%v t=%v: atoms MSE %.12g A %.12g; density %.12g %.12g", tc.p.Name(), tc.g, tc.t, m.MSE, m.A, mse, a)
+		}
+	}
+}
+
+// Second() is the law's own formula; the mixture's second moment sum w (mean^2 + var) must
+// reproduce it (exactly for exact laws and by construction for the quadratures), the weights
+// must sum to 1, and the symmetric laws must have mean 0.
+func TestSecondMoment(t *testing.T) {
+	for _, tc := range []struct {
+		l    Law
+		want float64 // from the textbook formula of each law (common practice)
+		sym  bool
+	}{
+		{must(Gauss(2.5)), 2.5, true},
+		{must(BernoulliGauss(0.1, 3)), 0.3, true},
+		{must(BernoulliRademacher(0.2, 1.5)), 0.2 * 2.25, true},
+		{must(Laplace(0.7)), 2 * 0.49, true},
+		{must(Uniform(1.2)), 1.44 / 3, true},
+		{must(StudentT(2.2, 0.9)), 0.81 * 2.2 / 0.2, true},
+		{must(StudentT(5, 0.9)), 0.81 * 5 / 3, true},
+		{must(StudentT(300, 0.9)), 0.81 * 300 / 298, true},
+		{must(GaussMixture([]float64{0.25, 0.75}, []float64{1, -2}, []float64{0.5, 0})), 0.25*1.5 + 0.75*4, false},
+		{must(Empirical([]float64{1, -3, 0, 2, 2})), (1 + 9 + 0 + 4 + 4) / 5.0, false},
+	} {
+		if got := tc.l.Second(); math.Abs(got-tc.want) > 1e-14*tc.want {
+			t.Errorf("%s: Second() = %.17g, formula %.17g", tc.l.Name(), got, tc.want)
+		}
+		var w, m1, m2 float64
+		for _, c := range tc.l.Mixture() {
+			w += c.Weight
+			m1 += c.Weight * c.Mean
+			m2 += c.Weight * (c.Mean*c.Mean + c.Var)
+		}
+		if math.Abs(w-1) > 1e-13 || math.Abs(m2-tc.want) > 1e-12*tc.want || (tc.sym && math.Abs(m1) > 1e-14) {
+			t.Errorf("%s: mixture weights sum %.17g, mean %.3g, second %.17g (law %.17g)", tc.l.Name(), w, m1, m2, tc.want)
+		}
+	}
+}
