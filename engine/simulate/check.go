@@ -63,7 +63,7 @@ type Options struct {
 	Solver   Solver
 	Tol      float64 // solver tolerance; 0 means DefaultTol
 	MaxIter  int     // solver iteration cap; 0 means DefaultMaxIter
-	Factors  Factors // how U and V are drawn; Gaussian entries ignore it unless FactorsFast
+	Factors  Factors // how U and V are drawn (see DesignDraw.GaussianEntries for Gaussian designs)
 	Rounds   int     // rounds of fast factors; 0 means DefaultRounds
 	Spectrum Spectrum
 }
@@ -132,7 +132,7 @@ func (r Report) Warnings() []string {
 // progress, when not nil, is called after each trial with the number done and the total. A
 // cancelled ctx stops the work and returns ctx.Err().
 //
-// Special cases are: sizes past the caps (MaxN, MaxM, MaxDenseEntries, MaxHaarN, MaxTrials) are
+// Special cases are: sizes past the caps (MaxN, MaxM, MaxDenseEntries, MaxHaarN, MaxSVDN, MaxTrials) are
 // refused with a *ParamError naming the cap; SolverCD with a penalty other than l1, ridge or
 // elastic net is refused; a prediction that fails is returned as its error.
 func Check(ctx context.Context, p Problem, o Options, progress func(done, total int)) (Report, error) {
@@ -144,7 +144,7 @@ func Check(ctx context.Context, p Problem, o Options, progress func(done, total 
 		return Report{}, paramErr("trials", "%d is outside 1..%d (the cap)", o.Trials, MaxTrials)
 	}
 	draw := DesignDraw{Law: p.Design, GaussianEntries: p.GaussianEntries, Factors: o.Factors, Rounds: o.Rounds, Spectrum: o.Spectrum}
-	if err := checkSize(draw, o.N, o.Solver == SolverCD); err != nil {
+	if err := checkSize(draw, o.N, o.Solver == SolverCD, o.Solver == SolverVAMP); err != nil {
 		return Report{}, err
 	}
 	var l1, l2 float64
@@ -166,7 +166,7 @@ func Check(ctx context.Context, p Problem, o Options, progress func(done, total 
 	rep := Report{N: o.N, M: Rows(p.Design.Alpha(), o.N), Trials: o.Trials, Seed: o.Seed,
 		Solver: o.Solver.String(), Factors: o.Factors.String(), Spectrum: o.Spectrum.String(),
 		Tol: so.Tol, MaxIter: so.MaxIter, Predicted: pred}
-	if p.GaussianEntries && o.Factors != FactorsFast {
+	if draw.Entries(o.N) {
 		rep.Factors = "entries"
 	}
 	var traces [][]float64

@@ -38,11 +38,11 @@ func checkCases(t testing.TB) []checkCase {
 	lasso, le := penalty.L1(0.05)
 	enet, ee := penalty.ElasticNet(0.05, 0.1)
 	return []checkCase{
-		{"gaussian-lasso-cd", problem(t, gl, ge, lasso, le, true), Options{N: 500, Trials: 10, Seed: 1, Factors: FactorsQR}},
+		{"gaussian-lasso-cd", problem(t, gl, ge, lasso, le, true), Options{N: 500, Trials: 10, Seed: 1}},
 		{"orthogonal-lasso-cd-fast", problem(t, ol, oe, lasso, le, false), Options{N: 500, Trials: 10, Seed: 2}},
 		{"orthogonal-enet-prox-haar", problem(t, ol, oe, enet, ee, false), Options{N: 500, Trials: 6, Seed: 3, Solver: SolverProx, Factors: FactorsQR}},
 		{"uniformsv-enet-vamp-fast", problem(t, ul, ue, enet, ee, false), Options{N: 500, Trials: 10, Seed: 4, Solver: SolverVAMP}},
-		{"gaussian-enet-vamp", problem(t, gl, ge, enet, ee, true), Options{N: 500, Trials: 4, Seed: 5, Solver: SolverVAMP, Factors: FactorsQR}},
+		{"gaussian-enet-vamp", problem(t, gl, ge, enet, ee, true), Options{N: 500, Trials: 4, Seed: 5, Solver: SolverVAMP}},
 	}
 }
 
@@ -158,6 +158,7 @@ func TestCheckRefusesPastCaps(t *testing.T) {
 		{"zero trials", p, Options{N: 100, Trials: 0}, "trials"},
 		{"cd dense", p, Options{N: 20000, Trials: 1}, "cap of 25000000"},
 		{"gaussian entries", pg, Options{N: 10000, Trials: 1, Solver: SolverProx, Factors: FactorsQR}, "cap of 25000000"},
+		{"gaussian svd", pg, Options{N: 3000, Trials: 1, Solver: SolverVAMP}, "cap of 2000"},
 		{"haar", p, Options{N: 5000, Trials: 1, Solver: SolverProx, Factors: FactorsHouseholder}, "cap of 4000"},
 		{"cd huber", ph, Options{N: 100, Trials: 1}, "cd solves l1, ridge and elastic-net"},
 	}
@@ -240,5 +241,24 @@ func TestElasticNetWeights(t *testing.T) {
 	box, _ := penalty.Box(1, 0.1)
 	if _, _, ok := elasticNetWeights(box); ok {
 		t.Error("box penalty taken for an elastic net")
+	}
+}
+
+// A Gaussian design is drawn entry by entry while it fits in memory, and as U S V^T with fast
+// factors past MaxDenseEntries; the report says which.
+func TestGaussianEntriesReported(t *testing.T) {
+	g, _ := design.Gaussian(0.5, design.Rows)
+	d := DesignDraw{Law: g, GaussianEntries: true}
+	if !d.Entries(1000) || d.Entries(10000) {
+		t.Errorf("entries at n = 1000: %v, at n = 10000: %v", d.Entries(1000), d.Entries(10000))
+	}
+	d.Factors = FactorsQR
+	if !d.Entries(10000) {
+		t.Error("Haar factors requested: a Gaussian design must be drawn entry by entry")
+	}
+	lasso, le := penalty.L1(0.05)
+	rep, err := Check(context.Background(), problem(t, g, nil, lasso, le, true), Options{N: 200, Trials: 1, Solver: SolverProx}, nil)
+	if err != nil || rep.Factors != "entries" {
+		t.Errorf("report factors %q, error %v", rep.Factors, err)
 	}
 }

@@ -72,6 +72,7 @@ const (
 	MaxM            = 1_000_000  // measurements m
 	MaxDenseEntries = 25_000_000 // m n for a design held in full (coordinate descent, Gaussian entries): 200 MB
 	MaxHaarN        = 4000       // order of a Haar factor drawn with QR or Householder reflections
+	MaxSVDN         = 2000       // order of a Gaussian design factorized for VAMP
 	MaxTrials       = 10_000
 )
 
@@ -90,7 +91,10 @@ type Instance struct {
 type DesignDraw struct {
 	Law design.Law
 	// GaussianEntries draws F entry by entry, i.i.d. N(0, Mean/m), so that E[F^T F] = Mean I
-	// matches the law (the Marchenko-Pastur shape); otherwise F = U S V^T.
+	// matches the law (the Marchenko-Pastur shape); otherwise F = U S V^T. Past
+	// MaxDenseEntries, with fast factors, a Gaussian design is drawn as U S V^T with the
+	// Marchenko-Pastur spectrum instead, which has the same law up to that of its spectrum
+	// (a Gaussian matrix is rotationally invariant); Entries reports which.
 	GaussianEntries bool
 	Factors         Factors
 	Rounds          int // rounds of a Fast factor; 0 means DefaultRounds
@@ -102,8 +106,18 @@ func Rows(alpha float64, n int) int {
 	return max(1, int(math.Round(alpha*float64(n))))
 }
 
-// checkSize refuses sizes past the caps, naming the cap.
-func checkSize(d DesignDraw, n int, needDense bool) error {
+// Entries reports whether a design with n unknowns is drawn entry by entry.
+func (d DesignDraw) Entries(n int) bool {
+	if !d.GaussianEntries {
+		return false
+	}
+	m := Rows(d.Law.Alpha(), n)
+	return d.Factors != FactorsFast || float64(m)*float64(n) <= MaxDenseEntries
+}
+
+// checkSize refuses sizes past the caps, naming the cap. needDense is set for a solver that
+// reads columns; needSVD for one that needs the factors of F.
+func checkSize(d DesignDraw, n int, needDense, needSVD bool) error {
 	if n < 1 {
 		return paramErr("n", "%d: need at least 1 unknown", n)
 	}
@@ -114,12 +128,15 @@ func checkSize(d DesignDraw, n int, needDense bool) error {
 	if m > MaxM {
 		return paramErr("n", "m = round(alpha n) = %d is past the cap of %d measurements", m, MaxM)
 	}
-	dense := needDense || (d.GaussianEntries && d.Factors != FactorsFast)
-	if dense && float64(m)*float64(n) > MaxDenseEntries {
+	entries := d.Entries(n)
+	if (needDense || entries) && float64(m)*float64(n) > MaxDenseEntries {
 		return paramErr("n", "a design held in full needs m n = %d x %d entries, past the cap of %d (use fast factors with the prox or vamp solver)", m, n, MaxDenseEntries)
 	}
-	if !d.GaussianEntries && d.Factors != FactorsFast && max(m, n) > MaxHaarN {
+	if !entries && d.Factors != FactorsFast && max(m, n) > MaxHaarN {
 		return paramErr("n", "Haar factors of order %d are past the cap of %d (use fast factors)", max(m, n), MaxHaarN)
+	}
+	if entries && needSVD && max(m, n) > MaxSVDN {
+		return paramErr("n", "the SVD of a Gaussian design of order %d is past the cap of %d (use fast factors, or the cd or prox solver)", max(m, n), MaxSVDN)
 	}
 	return nil
 }
@@ -133,12 +150,12 @@ func Draw(rng *rand.Rand, d DesignDraw, sig signal.Law, noise float64, n int) (*
 	if !(noise >= 0) || math.IsInf(noise, 0) {
 		return nil, paramErr("noise", "variance %g must be finite and >= 0", noise)
 	}
-	if err := checkSize(d, n, false); err != nil {
+	if err := checkSize(d, n, false, false); err != nil {
 		return nil, err
 	}
 	m := Rows(d.Law.Alpha(), n)
 	inst := &Instance{M: m, N: n, X0: sig.Sample(rng, n), Y: make([]float64, m)}
-	if d.GaussianEntries && d.Factors != FactorsFast {
+	if d.Entries(n) {
 		sd := math.Sqrt(d.Law.Mean() / float64(m))
 		a := &Matrix{Rows: m, Cols: n, Data: normals(rng, m*n)}
 		for i := range a.Data {

@@ -46,7 +46,7 @@ func TestDrawGaussianEntriesScale(t *testing.T) {
 		d, _ := design.Gaussian(0.5, sc)
 		sig, _ := signal.Gauss(0)
 		const n = 400
-		inst, err := Draw(rand.New(rand.NewPCG(2, 0)), DesignDraw{Law: d, GaussianEntries: true, Factors: FactorsQR}, sig, 0.25, n)
+		inst, err := Draw(rand.New(rand.NewPCG(2, 0)), DesignDraw{Law: d, GaussianEntries: true}, sig, 0.25, n)
 		if err != nil {
 			t.Fatal(err)
 		}
