@@ -383,3 +383,24 @@ func BenchmarkSolve(b *testing.B) {
 		})
 	}
 }
+
+// A warm start from a problem that recovers the signal exactly must not carry its zero error
+// into one that does not: the noiseless floor stops only a falling error.
+func TestWarmStartAcrossRecoveryThreshold(t *testing.T) {
+	base := Problem{Design: must(design.Gaussian(0.5, design.Columns)), Penalty: must(penalty.L1(1e-7))}
+	base.Signal = must(signal.BernoulliGauss(0.1, 1))
+	rec := solve(t, base)
+	if rec.NMSE > 1e-9 {
+		t.Fatalf("density 0.1 at alpha 0.5 should recover: NMSE %g", rec.NMSE)
+	}
+	base.Signal = must(signal.BernoulliGauss(0.3, 1))
+	cold := solve(t, base)
+	st := rec.State()
+	warm, err := Solve(base, Options{Start: &st})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if cold.NMSE < 1e-3 || relDiff(warm.MSE, cold.MSE) > 1e-6 {
+		t.Errorf("density 0.3: warm start gives MSE %g, cold start %g", warm.MSE, cold.MSE)
+	}
+}
