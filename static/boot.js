@@ -2,6 +2,7 @@
 // Loads the inlined Go program: base64 -> gzip -> WebAssembly.Module, compiled once. The same
 // module is later posted to the compute workers, which instantiate it without recompiling.
 (async function () {
+	performance.mark("hdrisk:boot");
 	const root = document.getElementById("hdrisk");
 	function fail(message) {
 		root.setAttribute("data-state", "error");
@@ -14,7 +15,7 @@
 		if (typeof DecompressionStream !== "function" || typeof WebAssembly !== "object") {
 			throw new Error("this browser lacks DecompressionStream or WebAssembly; use a current Chromium, Firefox or Safari");
 		}
-		const text = document.getElementById("hdrisk-wasm").textContent.trim();
+		const text = document.getElementById("hdrisk-wasm").textContent;
 		let packed;
 		if (typeof Uint8Array.fromBase64 === "function") {
 			packed = Uint8Array.fromBase64(text);
@@ -23,10 +24,12 @@
 			packed = new Uint8Array(s.length);
 			for (let i = 0; i < s.length; i++) packed[i] = s.charCodeAt(i);
 		}
+		performance.mark("hdrisk:decoded");
 		const stream = new Blob([packed]).stream().pipeThrough(new DecompressionStream("gzip"));
-		const bytes = await new Response(stream).arrayBuffer();
-		performance.mark("hdrisk:unpacked");
-		const module = await WebAssembly.compile(bytes);
+		// Streaming compilation overlaps decompressing and compiling; the Response is built
+		// here from the stream, nothing is fetched.
+		const module = await WebAssembly.compileStreaming(
+			new Response(stream, { headers: { "Content-Type": "application/wasm" } }));
 		performance.mark("hdrisk:compiled");
 
 		// vugu's renderer passes its helper script to window.eval, which the page policy forbids.

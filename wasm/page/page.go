@@ -35,15 +35,20 @@ func Run() error {
 		return fmt.Errorf("page: build: %w", err)
 	}
 	root := &ui.Root{Model: ui.NewModel(), Eval: &evaluator{env: env}}
-	for ok, first := true, true; ok; ok, first = renderer.EventWait(), false {
-		if err := renderer.Render(build.RunBuild(root)); err != nil {
+	var workers *pool.Pool
+	for ok := true; ok; ok = renderer.EventWait() {
+		// Building reads the components, which evaluations change under the write lock.
+		env.RLock()
+		out, state := build.RunBuild(root), root.State()
+		env.RUnlock()
+		if err := renderer.Render(out); err != nil {
 			return fmt.Errorf("page: render: %w", err)
 		}
-		if first {
-			pool.Mark("hdrisk:first-render")
-			// Workers start only now: on a machine with few cores, starting them earlier
-			// delays the first figures, which do not need them.
-			workers, err := pool.New(boot, 0)
+		if workers == nil && state != "busy" {
+			pool.Mark("hdrisk:first-result")
+			// Workers start only once the first figures are on screen: on a machine with
+			// few cores, starting them earlier delays those figures, which do not need them.
+			workers, err = pool.New(boot, 0)
 			if err == nil {
 				err = exposeJobs(workers)
 			}
