@@ -127,8 +127,8 @@ func (s Scenario) Paths() []PathInfo {
 // Get returns the number at path (a full path or a short name; see Paths).
 // Special cases are: "noise" when the noise is stated as snr_db, and "snr_db" when it is
 // stated as a variance, are derived through the signal's second moment and the design's
-// mean (see Noise); "snr_db" of a noiseless scenario is +Inf, and "noise" is 0 when the
-// signal has no power. Lists and words (design.scale) are errors.
+// mean (see Noise); "snr_db" of a noiseless scenario is +Inf and that of a signal without
+// power -Inf. Lists and words (design.scale) are errors.
 func (s Scenario) Get(path string) (float64, error) {
 	t, err := s.resolve(path)
 	if err != nil {
