@@ -33,7 +33,7 @@ type Penalty interface {
 
 // MaxPieces is the largest number of linear pieces of any piecewise-linear prox in this
 // package.
-const MaxPieces = 4
+const MaxPieces = 3
 
 // Linear is the piecewise-linear form of a prox held by value, so that the hot path of
 // package signal needs no allocation: P[:N] are the pieces.

@@ -164,3 +164,26 @@ func TestFarTail(t *testing.T) {
 		t.Errorf("MSE = %v, series %v", m.MSE, soft2)
 	}
 }
+
+// The two branches of tailMoments agree where both are usable, and j2 obeys the identity
+// j2 = (1 + x^2) q - x phi with the continued fraction as well (common practice: the partial
+// moments of the normal tail).
+func TestTailMomentsBranches(t *testing.T) {
+	cf := func(x float64) (float64, float64) {
+		k := 0.0
+		for n := 8 + int(500/(x*x)); n >= 2; n-- {
+			k = float64(n) / (x + k)
+		}
+		k1 := 1 / (x + k)
+		return k1, k1 * k
+	}
+	for _, x := range []float64{3, 3.5, 4} {
+		phi := normPDF(x)
+		q := math.Erfc(x/math.Sqrt2) / 2
+		_, j1, j2 := tailMoments(x, phi, q)
+		c1, c2 := cf(x)
+		if !close(j1, q*c1, 1e-13, 0) || !close(j2, q*c2, 5e-13, 0) {
+			t.Errorf("x=%v: direct (%.16g, %.16g), continued fraction (%.16g, %.16g)", x, j1, j2, q*c1, q*c2)
+		}
+	}
+}
