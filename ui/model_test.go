@@ -4,7 +4,9 @@ import (
 	"strings"
 	"testing"
 
+	"hdrisk/engine/penalty"
 	"hdrisk/engine/scenario"
+	"hdrisk/engine/signal"
 )
 
 // Every menu choice, with its default inputs, must make a scenario the engine accepts: the
@@ -95,4 +97,78 @@ func TestUnknownChoices(t *testing.T) {
 	if err := m.SetScale("diagonal"); err == nil || !strings.Contains(err.Error(), "design.scale") {
 		t.Errorf("unknown scale: %v", err)
 	}
+}
+
+// The menus must offer exactly the kinds and parameters of the engine's registries (signal
+// laws, penalty kinds): a law added there fails here until the page has its label and
+// starting value in Groups.
+func TestMenusFollowEngineRegistries(t *testing.T) {
+	type kp = map[string][]string
+	fromUI := func(group string) kp {
+		g, _ := FindGroup(group)
+		out := kp{}
+		for _, k := range g.Kinds {
+			for _, p := range k.Params {
+				out[k.Name] = append(out[k.Name], p.Name)
+			}
+			if _, ok := out[k.Name]; !ok {
+				out[k.Name] = nil
+			}
+		}
+		return out
+	}
+	laws := kp{}
+	for _, k := range signal.Laws() {
+		laws[k.Name] = nil
+		for _, p := range k.Params {
+			laws[k.Name] = append(laws[k.Name], p.Name)
+		}
+	}
+	pens := kp{}
+	for _, k := range penalty.Kinds() {
+		pens[k.Name] = nil
+		for _, p := range k.Params {
+			pens[k.Name] = append(pens[k.Name], p.Name)
+		}
+	}
+	for _, c := range []struct {
+		group string
+		want  kp
+	}{{"signal", laws}, {"penalty", pens}} {
+		got := fromUI(c.group)
+		for name, params := range c.want {
+			have, ok := got[name]
+			if !ok {
+				t.Errorf("%s: the engine has %q, the page's menu does not", c.group, name)
+				continue
+			}
+			if !sameSet(have, params) {
+				t.Errorf("%s %s: page asks for %v, engine takes %v", c.group, name, have, params)
+			}
+		}
+		for name := range got {
+			if _, ok := c.want[name]; !ok {
+				t.Errorf("%s: the page offers %q, the engine has no such kind", c.group, name)
+			}
+		}
+	}
+}
+
+func sameSet(a, b []string) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	seen := map[string]int{}
+	for _, x := range a {
+		seen[x]++
+	}
+	for _, x := range b {
+		seen[x]--
+	}
+	for _, n := range seen {
+		if n != 0 {
+			return false
+		}
+	}
+	return true
 }
