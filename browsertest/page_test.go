@@ -15,6 +15,7 @@ import (
 	"testing"
 	"time"
 
+	cdplog "github.com/chromedp/cdproto/log"
 	"github.com/chromedp/cdproto/network"
 	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
@@ -127,12 +128,16 @@ func open(t *testing.T) (*browser, time.Time) {
 				parts = append(parts, strings.Trim(string(a.Value), `"`))
 			}
 			b.log(&b.console, string(e.Type)+": "+strings.Join(parts, " "))
+		case *cdplog.EventEntryAdded:
+			// Policy violations and blocked loads are browser messages, not console calls.
+			b.log(&b.console, string(e.Entry.Source)+" "+string(e.Entry.Level)+": "+e.Entry.Text)
 		case *runtime.EventExceptionThrown:
 			b.log(&b.console, "exception: "+e.ExceptionDetails.Error())
 		}
 	})
 	// Start the browser and turn the network off before the page is opened.
 	if err := chromedp.Run(ctx,
+		cdplog.Enable(),
 		network.Enable(),
 		network.EmulateNetworkConditions(true, 0, 0, 0),
 	); err != nil {
@@ -205,10 +210,11 @@ func (b *browser) checkNoNetwork(t *testing.T) {
 	if !seen {
 		t.Errorf("the network domain did not record the page itself; the request check saw nothing (requests: %q)", requests)
 	}
+	if violations(console) > 0 {
+		t.Errorf("the browser reported blocked loads or policy violations:\n%s", strings.Join(console, "\n"))
+	}
 	for _, c := range console {
-		if strings.Contains(c, "Content Security Policy") || strings.Contains(c, "Refused to") {
-			t.Errorf("policy violation: %s", c)
-		}
+		t.Logf("browser: %s", c)
 	}
 }
 
@@ -394,6 +400,34 @@ func TestWorkersAgreeWithEngine(t *testing.T) {
 		b.compareNative(t, fmt.Sprintf("worker job %d", i), m, figs)
 	}
 	b.checkNoNetwork(t)
+
+	// The violation check must be able to fail: provoke one and look for it.
+	if err := chromedp.Run(b.ctx, chromedp.Evaluate(`(new Image()).src = "https://example.invalid/probe.png"; true`, nil)); err != nil {
+		t.Fatal(err)
+	}
+	deadline := time.Now().Add(5 * time.Second)
+	for {
+		_, console := b.snapshot()
+		if violations(console) > 0 {
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Errorf("a blocked image load was not reported; the policy check is blind:\n%s", strings.Join(console, "\n"))
+			break
+		}
+		time.Sleep(50 * time.Millisecond)
+	}
+}
+
+// violations counts the browser's messages about the page policy or blocked loads.
+func violations(console []string) int {
+	n := 0
+	for _, c := range console {
+		if strings.Contains(c, "Content Security Policy") || strings.Contains(c, "Refused to") {
+			n++
+		}
+	}
+	return n
 }
 
 // compareNative solves the model's scenario with the engine natively and compares the figures
