@@ -17,6 +17,7 @@ type param struct {
 	MaxLen            int  // for lists
 	Optional          bool // may be left out; Default is then used and written back
 	Default           float64
+	full              string // the JSON path, "penalty.l1", set when the registry is read
 }
 
 // kindSpec is one entry of a registry: a shape, a law or a penalty kind.

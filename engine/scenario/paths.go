@@ -29,25 +29,37 @@ type target struct {
 	scalar bool
 }
 
-// targets lists every number of s in the order the page offers them: the design, the
-// signal, the noise, the penalty.
-func (s Scenario) targets() []target {
-	var t []target
-	add := func(object string, f *family, kind string) {
-		k, ok := f.find(kind)
+// eachTarget calls fn with every number of s in the order the page offers them (the
+// design, the signal, the noise, the penalty) until fn returns false. It allocates
+// nothing: sweeps resolve a path at every point.
+func (s Scenario) eachTarget(fn func(t target) bool) {
+	kind := func(object string, f *family, name string) bool {
+		k, ok := f.find(name)
 		if !ok {
-			return
+			return true
 		}
 		for _, p := range k.Params {
-			t = append(t, target{full: object + "." + p.Name, object: object, p: p, scalar: !p.List})
+			if !fn(target{full: p.full, object: object, p: p, scalar: !p.List}) {
+				return false
+			}
 		}
+		return true
 	}
-	t = append(t, target{full: "design.alpha", object: "design", p: alphaParam, scalar: true})
-	add("design", designs(), s.Design.Shape)
-	add("signal", signals(), s.Signal.Law)
-	t = append(t, target{full: "noise.variance", object: "noise", p: noiseParam, scalar: true},
-		target{full: "noise.snr_db", object: "noise", p: snrParam, scalar: true})
-	add("penalty", penalties(), s.Penalty.Kind)
+	_ = fn(target{full: "design.alpha", object: "design", p: alphaParam, scalar: true}) &&
+		kind("design", designs(), s.Design.Shape) &&
+		kind("signal", signals(), s.Signal.Law) &&
+		fn(target{full: "noise.variance", object: "noise", p: noiseParam, scalar: true}) &&
+		fn(target{full: "noise.snr_db", object: "noise", p: snrParam, scalar: true}) &&
+		kind("penalty", penalties(), s.Penalty.Kind)
+}
+
+// targets lists every number of s, in the order of eachTarget.
+func (s Scenario) targets() []target {
+	var t []target
+	s.eachTarget(func(x target) bool {
+		t = append(t, x)
+		return true
+	})
 	return t
 }
 
@@ -66,35 +78,34 @@ func shortName(t target) string {
 // resolve finds the number that name stands for in s: a full path ("penalty.l1") or a
 // short name ("l1"). A short name must match one number of the current kinds.
 func (s Scenario) resolve(name string) (target, error) {
-	all := s.targets()
-	if strings.Contains(name, ".") {
-		for _, t := range all {
-			if t.full == name {
-				return t, nil
+	var found target
+	n := 0
+	dotted := strings.Contains(name, ".")
+	s.eachTarget(func(t target) bool {
+		if (dotted && t.full == name) || (!dotted && shortName(t) == name) {
+			if n == 0 {
+				found = t
 			}
+			n++
 		}
-		if name == "design.scale" {
-			return target{}, fieldErr(name, "is a word (rows, columns, as-given), not a number")
-		}
-		return target{}, fieldErr(clip(name, 60), "not a number of this scenario (%s)", s.pathList())
+		return true
+	})
+	switch {
+	case n == 1:
+		return found, nil
+	case n > 1:
+		var names []string
+		s.eachTarget(func(t target) bool {
+			if shortName(t) == name {
+				names = append(names, t.full)
+			}
+			return true
+		})
+		return target{}, fieldErr(name, "ambiguous: say %s", strings.Join(names, " or "))
+	case name == "design.scale":
+		return target{}, fieldErr(name, "is a word (rows, columns, as-given), not a number")
 	}
-	var found []target
-	for _, t := range all {
-		if shortName(t) == name {
-			found = append(found, t)
-		}
-	}
-	switch len(found) {
-	case 1:
-		return found[0], nil
-	case 0:
-		return target{}, fieldErr(clip(name, 60), "not a number of this scenario (%s)", s.pathList())
-	}
-	names := make([]string, len(found))
-	for i, t := range found {
-		names[i] = t.full
-	}
-	return target{}, fieldErr(name, "ambiguous: say %s", strings.Join(names, " or "))
+	return target{}, fieldErr(clip(name, 60), "not a number of this scenario (%s)", s.pathList())
 }
 
 func (s Scenario) pathList() string {

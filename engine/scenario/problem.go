@@ -53,10 +53,7 @@ func (s Scenario) laws() (laws, error) {
 // registries and the noise variance Delta (derived from snr_db when the noise is stated
 // that way; see Noise). Special cases are: an invalid s gives its *FieldError.
 func (s Scenario) Problem() (fixedpoint.Problem, error) {
-	if err := s.Validate(); err != nil {
-		return fixedpoint.Problem{}, err
-	}
-	l, err := s.laws()
+	l, err := s.check()
 	if err != nil {
 		return fixedpoint.Problem{}, err
 	}

@@ -24,7 +24,7 @@ func designs() *family {
 				k.Params = append(k.Params, param{Name: p.Name, Label: p.Help, Unit: p.Unit,
 					Min: p.Min, Max: p.Max, MinOpen: p.MinOpen, MaxOpen: p.MaxOpen,
 					Log: logScale(p.Min, p.Max), List: p.List, MaxLen: p.MaxLen,
-					Optional: p.Optional, Default: p.Default})
+					Optional: p.Optional, Default: p.Default, full: f.Object + "." + p.Name})
 			}
 			f.Kinds = append(f.Kinds, k)
 		}
@@ -41,7 +41,7 @@ func penalties() *family {
 			for _, p := range pk.Params {
 				k.Params = append(k.Params, param{Name: p.Name, Label: p.Help, Unit: p.Unit,
 					Min: p.Min, Max: p.Max, MinOpen: p.MinOpen, MaxOpen: p.MaxOpen,
-					Log: logScale(p.Min, p.Max), Optional: p.Optional, Default: p.Default})
+					Log: logScale(p.Min, p.Max), Optional: p.Optional, Default: p.Default, full: f.Object + "." + p.Name})
 			}
 			f.Kinds = append(f.Kinds, k)
 		}

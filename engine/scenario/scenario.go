@@ -155,25 +155,34 @@ func num(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 // parameters each needs, ranges, list lengths, and whatever the engine's constructors
 // refuse (for example max <= min), and the study settings against the scenario's paths.
 func (s Scenario) Validate() error {
+	_, err := s.check()
+	return err
+}
+
+// check is Validate returning the laws it built on the way.
+func (s Scenario) check() (laws, error) {
 	if s.Kind != Kind {
-		return fieldErr("kind", "must be %q, not %q", Kind, clip(s.Kind, 40))
+		return laws{}, fieldErr("kind", "must be %q, not %q", Kind, clip(s.Kind, 40))
 	}
 	if s.Version != Version {
-		return fieldErr("version", "this program reads version %d, not %d", Version, s.Version)
+		return laws{}, fieldErr("version", "this program reads version %d, not %d", Version, s.Version)
 	}
 	if err := checkText("title", s.Title, MaxTitle, false); err != nil {
-		return err
+		return laws{}, err
 	}
 	if err := checkText("notes", s.Notes, MaxNotes, true); err != nil {
-		return err
+		return laws{}, err
 	}
-	if _, err := s.laws(); err != nil {
-		return err
+	l, err := s.laws()
+	if err != nil {
+		return laws{}, err
 	}
 	if s.Study != nil {
-		return s.validateStudy()
+		if err := s.validateStudy(); err != nil {
+			return laws{}, err
+		}
 	}
-	return nil
+	return l, nil
 }
 
 func checkText(field, t string, max int, multiline bool) error {

@@ -20,7 +20,7 @@ func signals() *family {
 			for _, p := range sk.Params {
 				k.Params = append(k.Params, param{Name: p.Name, Label: p.Help, Unit: p.Unit,
 					Min: p.Min, Max: p.Max, MinOpen: p.MinOpen, MaxOpen: p.MaxOpen,
-					Log: !p.List && logScale(p.Min, p.Max), List: p.List, MaxLen: p.MaxLen})
+					Log: !p.List && logScale(p.Min, p.Max), List: p.List, MaxLen: p.MaxLen, full: f.Object + "." + p.Name})
 			}
 			f.Kinds = append(f.Kinds, k)
 		}
