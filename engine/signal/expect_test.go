@@ -187,3 +187,37 @@ func TestTailMomentsBranches(t *testing.T) {
 		}
 	}
 }
+
+// For the power penalty with 1 < q < 2 (no linear pieces) Expect falls back to ExpectQuad; its
+// MSE and A are checked against direct integrals over z for each atom of an empirical law
+// (gonum quad, finer sub-intervals, graded towards r = 0 where prox' behaves like a small
+// power of |r|). The posterior split of ExpectQuad for Gaussian components is checked with the
+// piecewise-linear penalties, against closed forms that are checked against 2-D integrals.
+func TestPowerPenaltyQuadrature(t *testing.T) {
+	atoms := []float64{-1.3, 0, 0.25, 0.9}
+	l := must(Empirical(atoms))
+	for _, tc := range []struct{ q, g, t float64 }{{1.1, 0.5, 2}, {1.1, 2, 0.05}, {1.5, 3, 0.02}, {1.9, 1, 0.3}} {
+		p := must(penalty.Power(0.4, tc.q))
+		m := Expect(l, p, tc.g, tc.t)
+		if mq := ExpectQuad(l, p, tc.g, tc.t); m != mq {
+			t.Errorf("q=%v: Expect %+v differs from ExpectQuad %+v", tc.q, m, mq)
+		}
+		st := math.Sqrt(tc.t)
+		var mse, a float64
+		for _, x0 := range atoms {
+			splits := []float64{-x0 / st}
+			for k := 1; k <= 26; k++ {
+				d := math.Pow(4, -float64(k)) / st
+				splits = append(splits, -x0/st-d, -x0/st+d)
+			}
+			mse += integrate(func(z float64) float64 {
+				d := p.Prox(x0+st*z, tc.g) - x0
+				return d * d * normPDF(z)
+			}, -13, 13, 0.1, splits...) / float64(len(atoms))
+			a += integrate(func(z float64) float64 { return p.Deriv(x0+st*z, tc.g) * normPDF(z) }, -13, 13, 0.1, splits...) / float64(len(atoms))
+		}
+		if !close(m.MSE, mse, 1e-10, 0) || !close(m.A, a, 1e-10, 0) {
+			t.Errorf("%+v: ExpectQuad MSE %.12g A %.12g, direct integral %.12g %.12g", tc, m.MSE, m.A, mse, a)
+		}
+	}
+}
