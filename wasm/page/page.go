@@ -8,6 +8,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"os"
 
 	"github.com/hack-pad/safejs"
 	"github.com/vugu/vugu"
@@ -35,7 +36,7 @@ func Run() error {
 		return fmt.Errorf("page: build: %w", err)
 	}
 	root := &ui.Root{Model: ui.NewModel(), Eval: &evaluator{env: env}}
-	var workers *pool.Pool
+	started := false
 	for ok := true; ok; ok = renderer.EventWait() {
 		// Building reads the components, which evaluations change under the write lock.
 		env.RLock()
@@ -44,17 +45,20 @@ func Run() error {
 		if err := renderer.Render(out); err != nil {
 			return fmt.Errorf("page: render: %w", err)
 		}
-		if workers == nil && state != "busy" {
+		if !started && state != "busy" {
 			pool.Mark("hdrisk:first-result")
 			// Workers start only once the first figures are on screen: on a machine with
 			// few cores, starting them earlier delays those figures, which do not need them.
-			workers, err = pool.New(boot, 0)
+			// Without workers the figures still work; only the heavy jobs are missing, so
+			// a failure here is reported on the console, not in place of the page.
+			workers, err := pool.New(boot, 0)
 			if err == nil {
 				err = exposeJobs(workers)
 			}
 			if err != nil {
-				return err
+				fmt.Fprintln(os.Stderr, "hdrisk: compute workers unavailable:", err)
 			}
+			started = true
 		}
 	}
 	return nil

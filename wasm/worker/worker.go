@@ -37,10 +37,12 @@ func Serve() error {
 		go func() { requests <- text }()
 		return nil
 	})
-	if err != nil {
-		return fmt.Errorf("worker: onmessage: %w", err)
+	if err == nil {
+		err = self.Set("onmessage", onMessage)
 	}
-	if err := self.Set("onmessage", onMessage); err != nil {
+	if err != nil {
+		// Tell the page, or its jobs would wait for a worker that never becomes ready.
+		post(job.Reply{Type: job.Fatal, Error: "worker: onmessage: " + err.Error()})
 		return fmt.Errorf("worker: onmessage: %w", err)
 	}
 	post(job.Reply{Type: job.Ready})
