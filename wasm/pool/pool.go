@@ -373,6 +373,11 @@ func (t *Task) Cancel() {
 		if w != old {
 			continue
 		}
+		// Unhook first: a message already queued for dispatch must not reach a released
+		// Go function, which would stop the whole program.
+		for _, ev := range []string{"message", "error"} {
+			_, _ = old.js.Call("removeEventListener", ev, old.handler)
+		}
 		_, _ = old.js.Call("terminate")
 		old.handler.Release()
 		fresh, err := p.spawn()
