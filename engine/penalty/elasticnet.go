@@ -53,6 +53,8 @@ func (p elasticNet) Prox(r, g float64) float64 {
 		return c * (r - theta)
 	case r < -theta:
 		return c * (r + theta)
+	case math.IsNaN(r):
+		return r
 	}
 	return 0
 }
@@ -122,7 +124,7 @@ func (p nonnegL1) Name() string { return "nonneg-l1" }
 
 func (p nonnegL1) Prox(r, g float64) float64 {
 	theta := p.l1 / g
-	if r > theta {
+	if r > theta || math.IsNaN(r) {
 		return g / (g + p.l2) * (r - theta)
 	}
 	return 0

@@ -13,7 +13,11 @@ type Piece struct{ Lo, Hi, Slope, Intercept float64 }
 func (p Piece) Zero() bool { return p.Slope == 0 && p.Intercept == 0 }
 
 // Penalty is a separable convex penalty f seen through its proximal operator at precision g.
-// Every method requires g > 0 and finite; results for other g are unspecified.
+// Every method requires g > 0 and finite; results for other g are unspecified. r is in the
+// units of x0.
+//
+// Special cases are: Prox(+-Inf, g) = +-Inf except for the box (+-bound); Prox(NaN, g) = NaN;
+// Deriv at a kink is the slope of the piece on its right.
 type Penalty interface {
 	// Name is the registry kind, for example "elastic-net".
 	Name() string

@@ -396,3 +396,20 @@ func TestStartG(t *testing.T) {
 		t.Errorf("power start jumps at q = 2: %v vs %v", ga, gb)
 	}
 }
+
+func TestProxInfinities(t *testing.T) {
+	for _, c := range cases(t) {
+		for _, r := range []float64{math.Inf(1), math.Inf(-1)} {
+			want := r
+			if c.lo != c.hi {
+				want = math.Max(c.lo, math.Min(c.hi, r))
+			}
+			if got := c.p.Prox(r, 1.3); got != want {
+				t.Errorf("%s: Prox(%v) = %v, want %v", c.name, r, got, want)
+			}
+		}
+		if got := c.p.Prox(math.NaN(), 1.3); !math.IsNaN(got) {
+			t.Errorf("%s: Prox(NaN) = %v", c.name, got)
+		}
+	}
+}

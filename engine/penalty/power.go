@@ -54,7 +54,7 @@ func (p power) Prox(r, g float64) float64 {
 		return p.exact.Prox(r, g)
 	}
 	a := math.Abs(r)
-	if p.weight == 0 || a == 0 {
+	if p.weight == 0 || a == 0 || math.IsInf(a, 1) || math.IsNaN(a) {
 		return r
 	}
 	k := p.q * p.weight / g

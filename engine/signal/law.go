@@ -26,7 +26,8 @@ type Law interface {
 	Exact() bool
 	// Second returns rho2 = E[x0^2] from the law's own formula (not from the mixture).
 	Second() float64
-	// Sample returns n independent draws from the law itself (not from its discretization).
+	// Sample returns n independent draws from the law itself (not from its discretization);
+	// n <= 0 gives an empty slice.
 	Sample(rng *rand.Rand, n int) []float64
 }
 

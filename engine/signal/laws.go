@@ -315,6 +315,8 @@ type gaussMixture struct {
 // GaussMixture returns the mixture sum_i weights[i] N(means[i], variances[i]). The three lists
 // have the same length, 1 to MaxMixture; weights are >= 0 and sum to 1 within 1e-9 (they are
 // then rescaled to sum to 1 exactly); means are finite; variances >= 0 finite (0 is a point mass).
+//
+// Special cases are: components of weight 0 are dropped from the mixture.
 func GaussMixture(weights, means, variances []float64) (Law, error) {
 	n := len(weights)
 	switch {
