@@ -153,7 +153,9 @@ func num(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 // Validate reports the first problem of s as a *FieldError, or nil. It checks everything
 // Decode checks: kind and version, text limits, known shape, law and kind, exactly the
 // parameters each needs, ranges, list lengths, and whatever the engine's constructors
-// refuse (for example max <= min), and the study settings against the scenario's paths.
+// refuse (for example min > max), and the study settings against the scenario's paths.
+// Special cases are: a Go value must hold every parameter of its kinds, optional ones
+// included (Decode fills their defaults in; Validate does not guess them).
 func (s Scenario) Validate() error {
 	_, err := s.check()
 	return err
