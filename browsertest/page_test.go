@@ -304,8 +304,8 @@ func TestPageOffline(t *testing.T) {
 	m := ui.NewModel()
 	b.compareNative(t, "first result", m, figs)
 
-	// An edit: the figures follow.
-	b.typeInto(t, "#in-penalty-elastic-net-l1", "0.2")
+	// An edit confirmed with Enter, as the page's hint says: the figures follow.
+	b.typeThen(t, "#in-penalty-elastic-net-l1", "0.2", kb.Enter)
 	if state := b.settle(t); state != "ready" {
 		t.Fatalf("after l1 = 0.2: data-state=%s: %s", state, b.text(t, ".problem"))
 	}
@@ -457,9 +457,15 @@ func (b *browser) compareNative(t *testing.T, what string, m *ui.Model, figs map
 	}
 }
 
-// typeInto replaces the text of an input as a person would, ending with Tab so that the
-// change event fires.
+// typeInto replaces the text of an input as a person would, ending with Tab (leaving the box)
+// so that the change event fires.
 func (b *browser) typeInto(t *testing.T, sel, text string) {
+	t.Helper()
+	b.typeThen(t, sel, text, kb.Tab)
+}
+
+// typeThen replaces the text of an input and then presses key.
+func (b *browser) typeThen(t *testing.T, sel, text, key string) {
 	t.Helper()
 	var ok bool
 	if err := chromedp.Run(b.ctx,
@@ -467,7 +473,7 @@ func (b *browser) typeInto(t *testing.T, sel, text string) {
 	); err != nil || !ok {
 		t.Fatalf("focusing %s: %v (found and focused: %v)", sel, err, ok)
 	}
-	if err := chromedp.Run(b.ctx, chromedp.KeyEvent(text), chromedp.KeyEvent(kb.Tab)); err != nil {
+	if err := chromedp.Run(b.ctx, chromedp.KeyEvent(text), chromedp.KeyEvent(key)); err != nil {
 		t.Fatalf("typing into %s: %v", sel, err)
 	}
 }
