@@ -13,8 +13,10 @@ import "log"
 // Root is the whole page: the scenario editor, the headline figures and the assumptions.
 // Eval must be set before the first render.
 type Root struct {
-	Model *Model
-	Eval  Evaluator
+	Model   *Model
+	Eval    Evaluator
+	Jobs    Jobs    // compute workers; nil until they have started
+	Browser Browser // address bar, clipboard, storage, files; nil in native tests
 
 	Figures Figures
 	have    bool   // Figures belong to the scenario now in the editor

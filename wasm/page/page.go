@@ -54,6 +54,9 @@ func Run() error {
 			workers, err := pool.New(boot, 0)
 			if err == nil {
 				err = exposeJobs(workers)
+				env.Lock()
+				root.Jobs = &jobs{pool: workers, env: env}
+				env.UnlockRender()
 			}
 			if err != nil {
 				fmt.Fprintln(os.Stderr, "hdrisk: compute workers unavailable:", err)

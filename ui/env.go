@@ -1,0 +1,36 @@
+package ui
+
+// Jobs runs heavy work (sweeps, maps, finite-size checks, singular values of a user's matrix)
+// on the page's compute workers. kind names a job registered in wasm/job; args is encoded to
+// JSON as its arguments. progress (may be nil) and done are called with the page's render lock
+// held, so they may change component state directly; done is called exactly once unless the
+// returned cancel is called first, after which neither is called again.
+type Jobs interface {
+	Start(kind string, args any, progress func(done, total int), done func(result []byte, err error)) (cancel func())
+}
+
+// Browser is what the interface needs from the browser beyond the DOM that vugu renders.
+// wasm/page implements it over safejs; tests use a fake. Callbacks are called with the
+// render lock held.
+type Browser interface {
+	// Address is the page's address without its fragment; Fragment is the fragment without
+	// its '#'.
+	Address() string
+	Fragment() string
+	// SetFragment puts frag in the address bar: as a new history entry when push is true,
+	// in place of the current one otherwise.
+	SetFragment(frag string, push bool)
+	// OnFragment registers f to be called with the new fragment when the user moves through
+	// the history (back and forward) or edits the fragment by hand.
+	OnFragment(f func(frag string))
+	// Copy puts text on the clipboard.
+	Copy(text string, done func(error))
+	// Load and Store read and write the browser's local storage for this page.
+	Load(key string) (string, bool)
+	Store(key, value string) error
+	// Download offers data to the user as a file.
+	Download(name, mime string, data []byte) error
+	// ReadFile reads the first file chosen in the <input type="file"> with the given id,
+	// reading at most limit bytes; a longer file is refused with an error that says so.
+	ReadFile(inputID string, limit int64, done func(name string, data []byte, err error))
+}
