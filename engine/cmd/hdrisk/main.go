@@ -51,6 +51,12 @@ type usageError struct{ msg string }
 
 func (e *usageError) Error() string { return e.msg }
 
+// helpError is a request for a command's help; it carries the command's flags.
+type helpError struct{ flags string }
+
+func (e *helpError) Error() string        { return flag.ErrHelp.Error() }
+func (e *helpError) Is(target error) bool { return target == flag.ErrHelp }
+
 func usagef(format string, args ...any) error { return &usageError{fmt.Sprintf(format, args...)} }
 
 // run dispatches to a command and returns the exit status. The command writes into a
@@ -74,6 +80,10 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		switch {
 		case errors.Is(err, flag.ErrHelp):
 			fmt.Fprintf(stdout, "usage: hdrisk %s %s\n%s\n", c.name, c.args, c.summary)
+			var he *helpError
+			if errors.As(err, &he) && he.flags != "" {
+				fmt.Fprintf(stdout, "\nflags:\n%s", he.flags)
+			}
 			return 0
 		case err != nil:
 			fmt.Fprintf(stderr, "hdrisk %s: %v\n", c.name, err)
@@ -99,9 +109,10 @@ func usage(w io.Writer) {
 	var b strings.Builder
 	b.WriteString("usage: hdrisk COMMAND [ARGUMENTS]\n\ncommands:\n")
 	for _, c := range commands {
-		fmt.Fprintf(&b, "  %-6s %-40s %s\n", c.name, c.args, c.summary)
+		fmt.Fprintf(&b, "  %s %s\n      %s\n", c.name, c.args, c.summary)
 	}
 	b.WriteString("\nFILE is a scenario file (JSON); - reads it from standard input.\n")
+	b.WriteString("hdrisk COMMAND --help lists the flags of one command.\n")
 	io.WriteString(w, b.String())
 }
 
@@ -121,7 +132,10 @@ func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 	for {
 		if err := fs.Parse(args); err != nil {
 			if errors.Is(err, flag.ErrHelp) {
-				return nil, err
+				var b strings.Builder
+				fs.SetOutput(&b)
+				fs.PrintDefaults()
+				return nil, &helpError{flags: b.String()}
 			}
 			return nil, &usageError{err.Error()}
 		}

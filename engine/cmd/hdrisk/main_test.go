@@ -169,6 +169,9 @@ func TestHelpAndFlagsAfterFile(t *testing.T) {
 	if code, out, _ := call(t, "", "eval", "-h"); code != 0 || !strings.Contains(out, "usage: hdrisk eval") {
 		t.Errorf("eval -h: %d %q", code, out)
 	}
+	if code, out, _ := call(t, "", "check", "--help"); code != 0 || !strings.Contains(out, "-trials") {
+		t.Errorf("check --help does not list its flags: %d %q", code, out)
+	}
 	f := examples(t)[0]
 	code, a, errs := call(t, "", "eval", f, "--max-iter", "5000")
 	if code != 0 {
