@@ -35,7 +35,7 @@ func Run() error {
 	if err != nil {
 		return fmt.Errorf("page: build: %w", err)
 	}
-	root := &ui.Root{Model: ui.NewModel(), Eval: &evaluator{env: env}}
+	root := &ui.Root{Model: ui.NewModel(), Eval: &evaluator{env: env}, Browser: newBrowser(env)}
 	started := false
 	for ok := true; ok; ok = renderer.EventWait() {
 		// Building reads the components, which evaluations change under the write lock.
