@@ -1,0 +1,135 @@
+package job
+
+import (
+	"context"
+	"encoding/json"
+	"strings"
+	"testing"
+
+	"hdrisk/engine/scenario"
+	"hdrisk/engine/simulate"
+)
+
+// lassoScenario is an invented example: a sparse signal measured by an orthogonal design,
+// estimated by the LASSO.
+const lassoScenario = `{"kind":"hdrisk.scenario","version":1,"title":"invented example",` +
+	`"design":{"shape":"orthogonal","alpha":0.5,"scale":"rows"},` +
+	`"signal":{"law":"bernoulli-gauss","density":0.1,"variance":1},` +
+	`"noise":{"variance":0.01},"penalty":{"kind":"l1","l1":0.1}}`
+
+func runJob(t *testing.T, kind string, args any) (Reply, []Reply) {
+	t.Helper()
+	raw, err := json.Marshal(args)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var replies []Reply
+	Run(Request{ID: 3, Kind: kind, Args: raw}, func(r Reply) { replies = append(replies, r) })
+	return replies[len(replies)-1], replies
+}
+
+// The check job hands on simulate.Check's report unchanged; this checks the glue (the
+// engine's check has its own tests against the prediction).
+func TestCheckPassesEngineReportThrough(t *testing.T) {
+	s, err := scenario.Decode([]byte(lassoScenario))
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := s.Problem()
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := simulate.Check(context.Background(), simulate.Problem{Problem: p},
+		simulate.Options{N: 60, Trials: 3, Seed: 7, Solver: simulate.SolverCD}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	last, replies := runJob(t, "check", CheckArgs{Scenario: json.RawMessage(lassoScenario), N: 60, Trials: 3, Seed: 7, Solver: "cd"})
+	if last.Type != Result {
+		t.Fatalf("check failed: %+v", last)
+	}
+	var got CheckResult
+	if err := json.Unmarshal(last.Result, &got); err != nil {
+		t.Fatal(err)
+	}
+	if float64(got.MeanMSE) != want.MeanMSE || float64(got.StdErr) != want.StdErr ||
+		float64(got.PredictedMSE) != want.Predicted.MSE || got.M != want.M || got.N != 60 {
+		t.Errorf("job %+v, engine mean %v stderr %v predicted %v m %d", got, want.MeanMSE, want.StdErr, want.Predicted.MSE, want.M)
+	}
+	if len(got.PerTrial) != 3 || float64(got.PerTrial[2].MSE) != want.PerTrial[2].MSE {
+		t.Errorf("per-trial values differ: %+v vs %+v", got.PerTrial, want.PerTrial)
+	}
+	if got.Criterion != want.Criterion || got.Criterion == "" || got.MaxIter != want.MaxIter {
+		t.Errorf("stopping rule %q/%d, engine %q/%d", got.Criterion, got.MaxIter, want.Criterion, want.MaxIter)
+	}
+	if got.Converged != (want.NotConverged == 0) || got.Warnings == nil {
+		t.Errorf("converged %v, warnings %v; engine not converged %d", got.Converged, got.Warnings, want.NotConverged)
+	}
+	if float64(got.TPP.Predicted) != want.Predicted.TPP || float64(got.FDP.Mean) != want.FDP.Mean {
+		t.Errorf("tpp/fdp %+v %+v", got.TPP, got.FDP)
+	}
+	// Progress counts trials; the last one reports all done.
+	var prog []Reply
+	for _, r := range replies {
+		if r.Type == Progress {
+			prog = append(prog, r)
+		}
+	}
+	if len(prog) == 0 || prog[len(prog)-1].Done != 3 || prog[len(prog)-1].Total != 3 {
+		t.Errorf("progress replies %+v, want the last to be 3 of 3", prog)
+	}
+}
+
+// Over and At move the scenario before the check, and Curve sweeps the scenario as given.
+func TestCheckAtAnotherValueWithCurve(t *testing.T) {
+	base, _ := scenario.Decode([]byte(lassoScenario))
+	moved, err := base.With("l1", 0.3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, _ := moved.Problem()
+	want, err := simulate.Check(context.Background(), simulate.Problem{Problem: p},
+		simulate.Options{N: 40, Trials: 2, Seed: 1, Solver: simulate.SolverProx}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := Check(CheckArgs{Scenario: json.RawMessage(lassoScenario), N: 40, Trials: 2, Seed: 1, Solver: "prox",
+		Over: "l1", At: 0.3, Curve: &CurveSpec{Over: "l1", From: 0.01, To: 1, Points: 5, Log: true}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if float64(got.MeanMSE) != want.MeanMSE || float64(got.PredictedMSE) != want.Predicted.MSE {
+		t.Errorf("at l1 = 0.3: job mean %v predicted %v, engine %v %v", got.MeanMSE, got.PredictedMSE, want.MeanMSE, want.Predicted.MSE)
+	}
+	if len(got.Curve) != 5 || got.Curve[0].X != 0.01 || got.Curve[4].X != 1 {
+		t.Fatalf("curve %+v, want 5 points from 0.01 to 1", got.Curve)
+	}
+	// The curve's point at the moved value equals the check's own prediction.
+	r, err := Check(CheckArgs{Scenario: json.RawMessage(lassoScenario), N: 40, Trials: 1, Solver: "cd",
+		Over: "l1", At: 0.1, Curve: &CurveSpec{Over: "l1", From: 0.1, To: 0.2, Points: 2}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := float64(r.Curve[0].MSE) - float64(r.PredictedMSE); d > 1e-9 || d < -1e-9 || !r.Curve[0].OK {
+		t.Errorf("curve at l1 = 0.1 gives %v, the check's prediction %v", r.Curve[0].MSE, r.PredictedMSE)
+	}
+}
+
+func TestCheckRefusals(t *testing.T) {
+	for _, c := range []struct {
+		args CheckArgs
+		want string
+	}{
+		{CheckArgs{N: 10, Trials: 1}, "scenario: missing"},
+		{CheckArgs{Scenario: json.RawMessage(lassoScenario), N: 10, Trials: 1, Solver: "newton"}, "solver"},
+		{CheckArgs{Scenario: json.RawMessage(lassoScenario), N: 10, Trials: 1, Factors: "dense"}, "factors"},
+		{CheckArgs{Scenario: json.RawMessage(lassoScenario), N: 10, Trials: 0}, "trials"},
+		{CheckArgs{Scenario: json.RawMessage(lassoScenario), N: 10, Trials: 1, Over: "width", At: 1}, "width"},
+		{CheckArgs{Scenario: json.RawMessage(strings.Replace(lassoScenario, `"l1","l1"`, `"huber","width":1,"l1"`, 1)), N: 10, Trials: 1, Solver: "cd"}, "cd"},
+	} {
+		last, _ := runJob(t, "check", c.args)
+		if last.Type != Failed || !strings.Contains(last.Error, c.want) {
+			t.Errorf("%+v: reply %+v, want an error naming %q", c.args, last, c.want)
+		}
+	}
+}
