@@ -7,6 +7,9 @@ type Figures struct {
 	NMSEdB          float64 `json:"nmse_db"`          // 10 log10(MSE / E[x0^2])
 	Susceptibility  float64 `json:"susceptibility"`   // V = E[prox'] / g1
 	NonzeroFraction float64 `json:"nonzero_fraction"` // share of coordinates the estimate keeps
+	TPP             float64 `json:"tpp"`              // P(estimate != 0 | x0 != 0); 0 when undefined
+	FDP             float64 `json:"fdp"`              // P(x0 = 0 | estimate != 0); 0 when undefined
+	TrainError      float64 `json:"train_error"`      // (1/m) ||y - F xhat||^2
 	Converged       bool    `json:"converged"`
 	Iterations      int     `json:"iterations"`
 	EstimateZero    bool    `json:"estimate_zero"` // the penalty sets the whole estimate to zero

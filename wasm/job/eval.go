@@ -20,6 +20,9 @@ type Figures struct {
 	NMSEdB          float64 `json:"nmse_db"`
 	Susceptibility  float64 `json:"susceptibility"`
 	NonzeroFraction float64 `json:"nonzero_fraction"`
+	TPP             float64 `json:"tpp"`
+	FDP             float64 `json:"fdp"`
+	TrainError      float64 `json:"train_error"`
 	Converged       bool    `json:"converged"`
 	Iterations      int     `json:"iterations"`
 	EstimateZero    bool    `json:"estimate_zero"`
@@ -48,6 +51,7 @@ func Eval(args EvalArgs) (Figures, error) {
 	}
 	return Figures{
 		MSE: r.MSE, NMSEdB: r.NMSEdB, Susceptibility: r.Susceptibility, NonzeroFraction: r.NonZero,
+		TPP: r.TPP, FDP: r.FDP, TrainError: r.TrainError,
 		Converged: r.Converged, Iterations: r.Iterations, EstimateZero: r.EstimateZero,
 	}, nil
 }

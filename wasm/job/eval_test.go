@@ -39,7 +39,8 @@ func TestEvalPassesEngineFiguresThrough(t *testing.T) {
 		t.Fatal(err)
 	}
 	if got.MSE != want.MSE || got.NMSEdB != want.NMSEdB || got.Susceptibility != want.Susceptibility ||
-		got.NonzeroFraction != want.NonZero || got.Converged != want.Converged ||
+		got.NonzeroFraction != want.NonZero || got.TPP != want.TPP || got.FDP != want.FDP ||
+		got.TrainError != want.TrainError || got.Converged != want.Converged ||
 		got.Iterations != want.Iterations || got.EstimateZero != want.EstimateZero {
 		t.Errorf("eval job = %+v, engine = %+v", got, want)
 	}
