@@ -1,0 +1,191 @@
+package job
+
+import (
+	"context"
+	"encoding/json"
+	"math"
+	"reflect"
+	"strings"
+	"testing"
+
+	"hdrisk/engine/scenario"
+	"hdrisk/engine/study"
+)
+
+// These tests check the glue of the study kinds: that the numbers of engine/study cross the
+// JSON protocol unchanged. The mathematics is tested in engine/study.
+
+const studyScenario = `{"kind":"hdrisk.scenario","version":1,"title":"invented example",` +
+	`"design":{"shape":"gaussian","alpha":0.5,"scale":"rows"},` +
+	`"signal":{"law":"bernoulli-gauss","density":0.1,"variance":1},` +
+	`"noise":{"variance":0.01},"penalty":{"kind":"elastic-net","l1":0.1,"l2":0}}`
+
+func decoded(t *testing.T) scenario.Scenario {
+	t.Helper()
+	s, err := scenario.Decode([]byte(studyScenario))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+// run sends args through the job protocol and decodes the result into out; it returns the
+// progress replies seen, or the error text of a failed job.
+func run(t *testing.T, kind string, args any, out any) (progress int, failure string) {
+	t.Helper()
+	raw, err := json.Marshal(args)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var last Reply
+	Run(Request{ID: 1, Kind: kind, Args: raw}, func(r Reply) {
+		if r.Type == Progress {
+			progress++
+		}
+		last = r
+	})
+	if last.Type == Failed {
+		return progress, last.Error
+	}
+	if last.Type != Result {
+		t.Fatalf("%s ended with %+v", kind, last)
+	}
+	if err := json.Unmarshal(last.Result, out); err != nil {
+		t.Fatal(err)
+	}
+	return progress, ""
+}
+
+func samePoint(a, b study.Point) bool {
+	eq := func(x, y float64) bool { return x == y || (math.IsNaN(x) && math.IsNaN(y)) }
+	ra, rb := a.Result, b.Result
+	return eq(a.X, b.X) && eq(a.Y, b.Y) && a.Failed == b.Failed && eq(ra.MSE, rb.MSE) && eq(ra.NMSE, rb.NMSE) &&
+		eq(ra.NMSEdB, rb.NMSEdB) && eq(ra.Susceptibility, rb.Susceptibility) && eq(ra.G1, rb.G1) &&
+		eq(ra.T1, rb.T1) && eq(ra.G2, rb.G2) && eq(ra.NonZero, rb.NonZero) && eq(ra.TPP, rb.TPP) &&
+		eq(ra.FDP, rb.FDP) && eq(ra.TrainError, rb.TrainError) && ra.Iterations == rb.Iterations &&
+		ra.Converged == rb.Converged && eq(ra.Residual, rb.Residual) && ra.EstimateZero == rb.EstimateZero
+}
+
+func TestSweepJobMatchesEngine(t *testing.T) {
+	ax := Axis{Over: "l1", From: 1e-3, To: 10, Points: 40, Log: true}
+	want, err := study.Sweep(context.Background(), decoded(t), study.SweepSpec{Axis: ax.study()}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got SweepResult
+	if _, fail := run(t, "sweep", SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: ax}, &got); fail != "" {
+		t.Fatal(fail)
+	}
+	if len(got.Points) != len(want) {
+		t.Fatalf("%d points, want %d", len(got.Points), len(want))
+	}
+	for i := range want {
+		if p := got.Points[i].Point(); !samePoint(p, want[i]) {
+			t.Errorf("point %d: job %+v, engine %+v", i, p, want[i])
+		}
+	}
+	var none SweepResult
+	if _, fail := run(t, "sweep", SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: Axis{Over: "nothing", From: 1, To: 2, Points: 3}}, &none); !strings.Contains(fail, "nothing") {
+		t.Errorf("an unknown field should be named: %q", fail)
+	}
+}
+
+// Blocks of rows computed apart must put together the map that study.Map computes at once.
+func TestMapBlocksAssembleEngineMap(t *testing.T) {
+	x := Axis{Over: "l1", From: 1e-2, To: 1, Points: 7, Log: true}
+	y := Axis{Over: "alpha", From: 0.2, To: 1.5, Points: 5}
+	want, err := study.Map(context.Background(), decoded(t), study.MapSpec{X: x.study(), Y: y.study()}, 1, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var cells []Cell
+	for _, b := range [][2]int{{0, 2}, {2, 3}, {3, 5}} {
+		var got MapResult
+		n, fail := run(t, "map_rows", MapArgs{Scenario: json.RawMessage(studyScenario), X: x, Y: y, RowFrom: b[0], RowTo: b[1]}, &got)
+		if fail != "" {
+			t.Fatal(fail)
+		}
+		if got.RowFrom != b[0] || got.RowTo != b[1] || len(got.Cells) != (b[1]-b[0])*7 || n < 1 {
+			t.Fatalf("block %v: rows %d..%d, %d cells, %d progress replies", b, got.RowFrom, got.RowTo, len(got.Cells), n)
+		}
+		cells = append(cells, got.Cells...)
+	}
+	for k, c := range cells {
+		if !samePoint(c.Point(), want.Cells[k]) {
+			t.Errorf("cell %d: job %+v, engine %+v", k, c.Point(), want.Cells[k])
+		}
+	}
+	var bad MapResult
+	if _, fail := run(t, "map_rows", MapArgs{Scenario: json.RawMessage(studyScenario), X: x, Y: y, RowFrom: 3, RowTo: 9}, &bad); !strings.Contains(fail, "rows") {
+		t.Errorf("a block past the last row should be refused naming the rows: %q", fail)
+	}
+}
+
+func TestBestPlanBayesJobsMatchEngine(t *testing.T) {
+	s := decoded(t)
+	wb, err := study.Best(context.Background(), s, study.BestSpec{Over: "l1"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b BestOut
+	if _, fail := run(t, "best", BestArgs{Scenario: json.RawMessage(studyScenario), Over: "l1"}, &b); fail != "" {
+		t.Fatal(fail)
+	}
+	if float64(b.Value) != wb.Value || float64(b.MSE) != wb.MSE || b.AtBound != wb.AtBound || b.Solves != wb.Solves {
+		t.Errorf("best job %+v, engine %+v", b, wb)
+	}
+
+	wp, err := study.Plan(context.Background(), s, study.PlanSpec{Target: -15, AlphaMax: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var p PlanOut
+	if _, fail := run(t, "plan", PlanArgs{Scenario: json.RawMessage(studyScenario), Target: -15, AlphaMax: 3}, &p); fail != "" {
+		t.Fatal(fail)
+	}
+	if float64(p.Alpha) != wp.Alpha || p.Reached != wp.Reached || p.Reason != wp.Reason || float64(p.Best.Value) != wp.Best.Value {
+		t.Errorf("plan job %+v, engine %+v", p, wp)
+	}
+	if !p.Reached {
+		t.Errorf("the invented example should reach -15 dB below alpha = 3: %s", p.Reason)
+	}
+	var far PlanOut
+	if _, fail := run(t, "plan", PlanArgs{Scenario: json.RawMessage(studyScenario), Target: -80, AlphaMax: 0.3}, &far); fail != "" {
+		t.Fatal(fail)
+	}
+	if far.Reached || far.Reason == "" {
+		t.Errorf("-80 dB below alpha 0.3 with noise 0.01 should not be reached, and say why: %+v", far)
+	}
+
+	pr, _ := s.Problem()
+	wy, err := study.Bayes(pr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var y BayesOut
+	if _, fail := run(t, "bayes", BayesArgs{Scenario: json.RawMessage(studyScenario)}, &y); fail != "" {
+		t.Fatal(fail)
+	}
+	if float64(y.Uninformed.MSE) != wy.Uninformed.MSE || float64(y.Informed.NMSEdB) != wy.Informed.NMSEdB || y.Differ != wy.Differ {
+		t.Errorf("bayes job %+v, engine %+v", y, wy)
+	}
+	lap := strings.Replace(studyScenario, `"law":"bernoulli-gauss","density":0.1,"variance":1`, `"law":"laplace","scale":1`, 1)
+	if _, fail := run(t, "bayes", BayesArgs{Scenario: json.RawMessage(lap)}, &y); !strings.Contains(fail, "signal") {
+		t.Errorf("a Laplace signal has no Bayes reference here; the error should name the signal: %q", fail)
+	}
+}
+
+func TestFloatCarriesNonFinite(t *testing.T) {
+	in := []Float{Float(math.NaN()), Float(math.Inf(1)), 1.0 / 3, -0.0, 5e-324}
+	b, err := json.Marshal(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out []Float
+	if err := json.Unmarshal(b, &out); err != nil {
+		t.Fatal(err)
+	}
+	if !math.IsNaN(float64(out[0])) || !math.IsNaN(float64(out[1])) || !reflect.DeepEqual(out[2:], in[2:]) {
+		t.Errorf("%s read back as %v", b, out)
+	}
+}
