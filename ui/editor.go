@@ -1,23 +1,67 @@
 package ui
 
-import "github.com/vugu/vugu"
+import (
+	"strings"
+	"unicode"
+	"unicode/utf8"
 
-func (c *Editor) menuLabel(g Group) string {
-	switch g.KindKey {
-	case "shape":
-		return "Shape of the spectrum"
-	case "law":
-		return "Distribution"
-	default:
-		return "Kind"
-	}
-}
+	"github.com/vugu/vugu"
+)
 
 func (c *Editor) inputMode(f Field) string {
 	if f.List {
 		return "text"
 	}
 	return "decimal"
+}
+
+func (c *Editor) invalidText(id string) string {
+	if c.Invalid[id] != "" {
+		return "true"
+	}
+	return "false"
+}
+
+func (c *Editor) describedBy(id string) string {
+	if c.Invalid[id] != "" {
+		return "err-" + id + " help-" + id
+	}
+	return "help-" + id
+}
+
+func (c *Editor) staleText() string {
+	if c.PlotsStale {
+		return "true"
+	}
+	return "false"
+}
+
+func (c *Editor) caption(what string, p lawPlot) string {
+	if p.URL == "" {
+		return p.Alt
+	}
+	if c.PlotsStale {
+		return what + " (last valid scenario; the inputs above are not valid)"
+	}
+	return what
+}
+
+func (c *Editor) scaleHelp() string {
+	for _, k := range Scales {
+		if k.Name == c.Model.Scale {
+			return capital(k.Help) + "."
+		}
+	}
+	return ""
+}
+
+// capital returns s with its first letter in upper case.
+func capital(s string) string {
+	r, n := utf8.DecodeRuneInString(s)
+	if n == 0 {
+		return s
+	}
+	return string(unicode.ToUpper(r)) + strings.TrimSuffix(s[n:], ".")
 }
 
 func (c *Editor) pick(e vugu.DOMEvent, group string) {

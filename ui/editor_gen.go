@@ -11,9 +11,16 @@ import js "github.com/vugu/vugu/js"
 import "log"
 
 // Editor shows the inputs of the scenario in Model and calls Changed after every edit.
+// Every input states its unit, range and meaning from the engine's registries; an input in
+// Invalid is marked in place with its message.
 type Editor struct {
 	Model   *Model
 	Changed func()
+	Invalid map[string]string // input id -> message naming the field and the reason
+	Problem string            // a problem of the scenario no single input can be blamed for
+
+	DesignPlot, SignalPlot lawPlot
+	PlotsStale             bool // the plots show the last valid scenario, not the inputs
 }
 
 func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -42,6 +49,7 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 			_ = g
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "fieldset", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "group"}}}
 			vgparent.AppendChild(vgn)
+			vgn.AddAttrInterface("data-group", g.Name)
 			{
 				vgparent := vgn
 				_ = vgparent
@@ -52,7 +60,7 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 				vgn.SetInnerHTML(g.Title)
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 				vgparent.AppendChild(vgn)
-				if g.KindKey != "" {
+				if g.Menu != "" {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field"}}}
 					vgparent.AppendChild(vgn)
 					{
@@ -63,11 +71,12 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "label", Attr: []vugu.VGAttribute(nil)}
 						vgparent.AppendChild(vgn)
 						vgn.AddAttrInterface("for", "pick-"+g.Name)
-						vgn.SetInnerHTML(c.menuLabel(g))
+						vgn.SetInnerHTML(g.Menu)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 						vgparent.AppendChild(vgn)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute(nil)}
 						vgparent.AppendChild(vgn)
+						vgn.AddAttrInterface("aria-describedby", "help-pick-"+g.Name)
 						vgn.AddAttrInterface("id", "pick-"+g.Name)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -99,6 +108,12 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 							vgparent.AppendChild(vgn)
 						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "help"}}}
+						vgparent.AppendChild(vgn)
+						vgn.AddAttrInterface("id", "help-pick-"+g.Name)
+						vgn.SetInnerHTML(c.Model.KindHelp(g.Name))
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)
 					}
@@ -118,7 +133,7 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.SetInnerHTML(vugu.HTML("Scale of the matrix"))
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 						vgparent.AppendChild(vgn)
-						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "pick-scale"}}}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "pick-scale"}, vugu.VGAttribute{Namespace: "", Key: "aria-describedby", Val: "help-pick-scale"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -150,6 +165,11 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 							vgparent.AppendChild(vgn)
 						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "help"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "help-pick-scale"}}}
+						vgparent.AppendChild(vgn)
+						vgn.SetInnerHTML(c.scaleHelp())
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)
 					}
@@ -163,6 +183,7 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					_ = f
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field"}}}
 					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("data-invalid", c.invalidText(f.ID))
 					{
 						vgparent := vgn
 						_ = vgparent
@@ -171,11 +192,26 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "label", Attr: []vugu.VGAttribute(nil)}
 						vgparent.AppendChild(vgn)
 						vgn.AddAttrInterface("for", f.ID)
-						vgn.SetInnerHTML(f.Label)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "span", Attr: []vugu.VGAttribute(nil)}
+							vgparent.AppendChild(vgn)
+							vgn.SetInnerHTML(f.Label)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: " "}
+							vgparent.AppendChild(vgn)
+							if f.Unit != "" {
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "span", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "unit"}}}
+								vgparent.AppendChild(vgn)
+								vgn.SetInnerHTML("(" + f.Unit + ")")
+							}
+						}
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 						vgparent.AppendChild(vgn)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "type", Val: "text"}, vugu.VGAttribute{Namespace: "", Key: "spellcheck", Val: "false"}, vugu.VGAttribute{Namespace: "", Key: "autocomplete", Val: "off"}}}
 						vgparent.AppendChild(vgn)
+						vgn.AddAttrInterface("aria-describedby", c.describedBy(f.ID))
+						vgn.AddAttrInterface("aria-invalid", c.invalidText(f.ID))
 						vgn.AddAttrInterface("data-path", f.Path)
 						vgn.AddAttrInterface("id", f.ID)
 						vgn.AddAttrInterface("inputmode", c.inputMode(f))
@@ -187,10 +223,76 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "change",
+							EventType: "input",
 							Func:      func(event vugu.DOMEvent) { c.typed(event, f.ID) },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "help"}}}
+						vgparent.AppendChild(vgn)
+						vgn.AddAttrInterface("id", "help-"+f.ID)
+						vgn.SetInnerHTML(f.Range() + ". " + capital(f.Help) + ".")
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						if c.Invalid[f.ID] != "" {
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field-error"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "alert"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("id", "err-"+f.ID)
+							vgn.SetInnerHTML(c.Invalid[f.ID])
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+				}
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+				vgparent.AppendChild(vgn)
+				if g.Name == "design" {
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "figure", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "law-plot"}}}
+					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("data-stale", c.staleText())
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						if c.DesignPlot.URL != "" {
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "img", Attr: []vugu.VGAttribute{{Namespace: "", Key: "width", Val: "260"}, vugu.VGAttribute{Namespace: "", Key: "height", Val: "150"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("alt", c.DesignPlot.Alt)
+							vgn.AddAttrInterface("src", c.DesignPlot.URL)
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "figcaption", Attr: []vugu.VGAttribute(nil)}
+						vgparent.AppendChild(vgn)
+						vgn.SetInnerHTML(c.caption("Singular values of this design", c.DesignPlot))
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+				}
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+				vgparent.AppendChild(vgn)
+				if g.Name == "signal" {
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "figure", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "law-plot"}}}
+					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("data-stale", c.staleText())
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						if c.SignalPlot.URL != "" {
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "img", Attr: []vugu.VGAttribute{{Namespace: "", Key: "width", Val: "260"}, vugu.VGAttribute{Namespace: "", Key: "height", Val: "150"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("alt", c.SignalPlot.Alt)
+							vgn.AddAttrInterface("src", c.SignalPlot.URL)
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "figcaption", Attr: []vugu.VGAttribute(nil)}
+						vgparent.AppendChild(vgn)
+						vgn.SetInnerHTML(c.caption("Law of one signal entry", c.SignalPlot))
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)
 					}
@@ -201,9 +303,16 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		}
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 		vgparent.AppendChild(vgn)
+		if c.Problem != "" {
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field-error"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "alert"}}}
+			vgparent.AppendChild(vgn)
+			vgn.SetInnerHTML(c.Problem)
+		}
+		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+		vgparent.AppendChild(vgn)
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "hint"}}}
 		vgparent.AppendChild(vgn)
-		vgn.SetInnerHTML(vugu.HTML("Lists take numbers separated by commas or spaces. The figures update when you leave a box or press Enter."))
+		vgn.SetInnerHTML(vugu.HTML("Lists take numbers separated by commas or spaces. The figures follow as you type."))
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}
 		vgparent.AppendChild(vgn)
 	}

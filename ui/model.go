@@ -1,25 +1,44 @@
 package ui
 
 import (
-	"encoding/json"
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
 	"strings"
+
+	"hdrisk/engine/design"
+	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/penalty"
+	"hdrisk/engine/scenario"
+	"hdrisk/engine/signal"
 )
 
 // Param is one editable number (or list of numbers) of a scenario, under its contract-1 name.
+// Everything but Label and Default comes from the engine's registries, so a parameter added
+// there appears here with its unit, range and explanation.
 type Param struct {
-	Name    string // JSON key within its group, e.g. "l1"
-	Label   string // what the input is called on the page
-	Default string // the starting text of the input
-	List    bool   // a list of numbers, separated by commas or spaces
+	Name     string // JSON key within its group, e.g. "l1"
+	Label    string // what the input is called on the page
+	Unit     string // e.g. "loss per unit of |x|"; "" when the number has none
+	Help     string // one line, plain words
+	Default  string // the starting text of the input
+	List     bool   // a list of numbers, separated by commas or spaces
+	MaxLen   int    // the longest list the engine accepts (lists only)
+	Optional bool   // the engine would take its default if it were left out
+
+	Min, Max         float64 // domain of the number (of each entry of a list)
+	MinOpen, MaxOpen bool
+
+	def float64 // the registry's default of an optional number
 }
 
-// Kind is one choice of a group's menu (a design shape, a signal law, a penalty kind).
+// Kind is one choice of a group's menu (a design shape, a signal law, a penalty kind, a form
+// of the noise).
 type Kind struct {
 	Name   string // contract-1 value, e.g. "elastic-net"
 	Label  string
+	Help   string // one line from the registry
 	Params []Param
 }
 
@@ -27,113 +46,277 @@ type Kind struct {
 type Group struct {
 	Name    string  // JSON object name
 	Title   string  // heading on the page
-	KindKey string  // JSON key naming the kind ("shape", "law", "kind"); empty if none
+	KindKey string  // JSON key naming the kind ("shape", "law", "kind"); empty if none is written
+	Menu    string  // label of the group's menu; empty if the group has none
 	Kinds   []Kind  // menu; empty if the group has no kinds
 	Common  []Param // parameters every kind of the group has
 }
 
-// Groups lists the editable parts of a scenario in page order. The names and kinds are those
-// of contract 1 (architecture.md); labels are the page's own.
-var Groups = []Group{
-	{
-		Name: "design", Title: "Measurement design", KindKey: "shape",
-		Common: []Param{{Name: "alpha", Label: "Sampling ratio m/n", Default: "0.4"}},
-		Kinds: []Kind{
-			{Name: "orthogonal", Label: "Orthogonal rows"},
-			{Name: "gaussian", Label: "Gaussian entries"},
-			{Name: "uniform-sv", Label: "Uniform singular values", Params: []Param{
-				{Name: "min", Label: "Smallest singular value", Default: "0.5"},
-				{Name: "max", Label: "Largest singular value", Default: "1.5"}}},
-			{Name: "uniform-ev", Label: "Uniform eigenvalues of FᵀF", Params: []Param{
-				{Name: "min", Label: "Smallest eigenvalue", Default: "0.25"},
-				{Name: "max", Label: "Largest eigenvalue", Default: "2.25"}}},
-			{Name: "geometric-sv", Label: "Geometric singular values", Params: []Param{
-				{Name: "condition", Label: "Condition number", Default: "10"}}},
-			{Name: "empirical-sv", Label: "Listed singular values", Params: []Param{
-				{Name: "values", Label: "Singular values", Default: "1, 0.8, 0.6, 0.4", List: true}}},
-		},
-	},
-	{
-		Name: "signal", Title: "Signal entries", KindKey: "law",
-		Kinds: []Kind{
-			{Name: "bernoulli-gauss", Label: "Sparse Gaussian", Params: []Param{
-				{Name: "density", Label: "Share of nonzero entries", Default: "0.05"},
-				{Name: "variance", Label: "Variance of a nonzero entry", Default: "1"}}},
-			{Name: "gauss", Label: "Gaussian", Params: []Param{
-				{Name: "variance", Label: "Variance", Default: "1"}}},
-			{Name: "bernoulli-rademacher", Label: "Sparse ±amplitude", Params: []Param{
-				{Name: "density", Label: "Share of nonzero entries", Default: "0.05"},
-				{Name: "amplitude", Label: "Amplitude", Default: "1"}}},
-			{Name: "laplace", Label: "Laplace", Params: []Param{
-				{Name: "scale", Label: "Scale", Default: "1"}}},
-			{Name: "uniform", Label: "Uniform", Params: []Param{
-				{Name: "halfwidth", Label: "Half-width", Default: "1"}}},
-			{Name: "student-t", Label: "Student t", Params: []Param{
-				{Name: "dof", Label: "Degrees of freedom", Default: "5"},
-				{Name: "scale", Label: "Scale", Default: "1"}}},
-			{Name: "gauss-mixture", Label: "Gaussian mixture", Params: []Param{
-				{Name: "weights", Label: "Weights", Default: "0.9, 0.1", List: true},
-				{Name: "means", Label: "Means", Default: "0, 0", List: true},
-				{Name: "variances", Label: "Variances", Default: "0, 1", List: true}}},
-			{Name: "empirical", Label: "Listed sample values", Params: []Param{
-				{Name: "values", Label: "Sample values", Default: "0, 0, 0, 1, -1", List: true}}},
-		},
-	},
-	{
-		Name: "noise", Title: "Measurement noise",
-		Common: []Param{{Name: "variance", Label: "Noise variance", Default: "0.01"}},
-	},
-	{
-		Name: "penalty", Title: "Penalty", KindKey: "kind",
-		Kinds: []Kind{
-			{Name: "elastic-net", Label: "Elastic net", Params: []Param{
-				{Name: "l1", Label: "L1 weight", Default: "0.05"},
-				{Name: "l2", Label: "L2 weight", Default: "0"}}},
-			{Name: "l1", Label: "L1 (LASSO)", Params: []Param{
-				{Name: "l1", Label: "L1 weight", Default: "0.05"}}},
-			{Name: "ridge", Label: "Ridge", Params: []Param{
-				{Name: "l2", Label: "L2 weight", Default: "0.1"}}},
-			{Name: "nonneg-l1", Label: "Nonnegative L1", Params: []Param{
-				{Name: "l1", Label: "L1 weight", Default: "0.05"},
-				{Name: "l2", Label: "L2 weight", Default: "0"}}},
-			{Name: "box", Label: "Box constraint", Params: []Param{
-				{Name: "bound", Label: "Bound on |x|", Default: "1"},
-				{Name: "l2", Label: "L2 weight", Default: "0"}}},
-			{Name: "huber", Label: "Huber", Params: []Param{
-				{Name: "l1", Label: "Weight", Default: "0.05"},
-				{Name: "width", Label: "Width of the quadratic part", Default: "0.1"}}},
-			{Name: "power", Label: "Power |x|^q", Params: []Param{
-				{Name: "weight", Label: "Weight", Default: "0.05"},
-				{Name: "q", Label: "Exponent q (1 to 2)", Default: "1.5"}}},
-		},
-	},
+// The page's own words for the registries' kinds and parameters, and the starting text of
+// each input. The registries carry names, units, ranges and one-line explanations; a kind or
+// parameter missing here is shown under its registry name with a value from its range, so
+// adding a law to the engine needs no edit here. Keys are "group.kind" for kinds,
+// "group.kind.param" or "group.param" for parameters (the longer key wins).
+var (
+	kindLabels = map[string]string{
+		"design.gaussian":             "Gaussian entries",
+		"design.orthogonal":           "Orthogonal rows",
+		"design.uniform-sv":           "Uniform singular values",
+		"design.uniform-ev":           "Uniform eigenvalues of FᵀF",
+		"design.geometric-sv":         "Geometric singular values",
+		"design.empirical-sv":         "Listed singular values",
+		"signal.gauss":                "Gaussian",
+		"signal.bernoulli-gauss":      "Sparse Gaussian",
+		"signal.bernoulli-rademacher": "Sparse ±amplitude",
+		"signal.laplace":              "Laplace",
+		"signal.uniform":              "Uniform",
+		"signal.student-t":            "Student t",
+		"signal.gauss-mixture":        "Gaussian mixture",
+		"signal.empirical":            "Listed sample values",
+		"noise.variance":              "Variance",
+		"noise.snr_db":                "Signal-to-noise ratio",
+		"penalty.l1":                  "L1 (LASSO)",
+		"penalty.ridge":               "Ridge",
+		"penalty.elastic-net":         "Elastic net",
+		"penalty.nonneg-l1":           "Nonnegative L1",
+		"penalty.box":                 "Box constraint",
+		"penalty.huber":               "Huber",
+		"penalty.power":               "Power |x|^q",
+	}
+	paramLabels = map[string]string{
+		"design.alpha":               "Sampling ratio m/n",
+		"design.uniform-sv.min":      "Smallest singular value",
+		"design.uniform-sv.max":      "Largest singular value",
+		"design.uniform-ev.min":      "Smallest eigenvalue",
+		"design.uniform-ev.max":      "Largest eigenvalue",
+		"design.condition":           "Condition number",
+		"design.empirical-sv.values": "Singular values",
+		"signal.density":             "Share of nonzero entries",
+		"signal.variance":            "Variance of a nonzero entry",
+		"signal.gauss.variance":      "Variance",
+		"signal.amplitude":           "Amplitude",
+		"signal.scale":               "Scale",
+		"signal.halfwidth":           "Half-width",
+		"signal.dof":                 "Degrees of freedom",
+		"signal.weights":             "Weights",
+		"signal.means":               "Means",
+		"signal.variances":           "Variances",
+		"signal.empirical.values":    "Sample values",
+		"noise.variance":             "Noise variance",
+		"noise.snr_db":               "SNR",
+		"penalty.l1":                 "L1 weight",
+		"penalty.l2":                 "L2 weight",
+		"penalty.huber.l1":           "Weight",
+		"penalty.bound":              "Bound on |x|",
+		"penalty.width":              "Width of the quadratic part",
+		"penalty.weight":             "Weight",
+		"penalty.q":                  "Exponent q",
+	}
+	paramDefaults = map[string]string{
+		"design.alpha":               "0.4",
+		"design.uniform-sv.min":      "0.5",
+		"design.uniform-sv.max":      "1.5",
+		"design.uniform-ev.min":      "0.25",
+		"design.uniform-ev.max":      "2.25",
+		"design.condition":           "10",
+		"design.empirical-sv.values": "1, 0.8, 0.6, 0.4",
+		"signal.density":             "0.05",
+		"signal.variance":            "1",
+		"signal.amplitude":           "1",
+		"signal.scale":               "1",
+		"signal.halfwidth":           "1",
+		"signal.dof":                 "5",
+		"signal.weights":             "0.9, 0.1",
+		"signal.means":               "0, 0",
+		"signal.variances":           "0, 1",
+		"signal.empirical.values":    "0, 0, 0, 1, -1",
+		"noise.variance":             "0.01",
+		"noise.snr_db":               "20",
+		"penalty.l1":                 "0.05",
+		"penalty.l2":                 "0",
+		"penalty.ridge.l2":           "0.1",
+		"penalty.bound":              "1",
+		"penalty.width":              "0.1",
+		"penalty.weight":             "0.05",
+		"penalty.q":                  "1.5",
+	}
+	// startKinds are the choices the page opens with: an invented sparse example.
+	startKinds = map[string]string{"design": "orthogonal", "signal": "bernoulli-gauss", "noise": "variance", "penalty": "elastic-net"}
+)
+
+// Groups lists the editable parts of a scenario in page order, built from the engine's
+// registries (design.Shapes, signal.Laws, penalty.Kinds) and the scenario's limits.
+var Groups = buildGroups()
+
+func lookup(m map[string]string, group, kind, param string) (string, bool) {
+	if v, ok := m[group+"."+kind+"."+param]; ok && kind != "" {
+		return v, true
+	}
+	v, ok := m[group+"."+param]
+	return v, ok
+}
+
+func newParam(group, kind string, p Param) Param {
+	if l, ok := lookup(paramLabels, group, kind, p.Name); ok {
+		p.Label = l
+	} else {
+		p.Label = p.Name
+	}
+	if d, ok := lookup(paramDefaults, group, kind, p.Name); ok {
+		p.Default = d
+	} else {
+		p.Default = fallbackDefault(p)
+	}
+	return p
+}
+
+// fallbackDefault is the starting text of a parameter the page has no value for: the
+// registry's default, else a number inside its domain.
+func fallbackDefault(p Param) string {
+	var v float64
+	switch {
+	case p.Optional:
+		v = p.def
+	case p.Min <= 1 && 1 <= p.Max && !(p.Max == 1 && p.MaxOpen) && !(p.Min == 1 && p.MinOpen):
+		v = 1
+	case !math.IsInf(p.Min, 0) && !math.IsInf(p.Max, 0):
+		v = (p.Min + p.Max) / 2
+	case !math.IsInf(p.Min, 0):
+		v = p.Min + 1
+	default:
+		v = p.Max - 1
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64)
+}
+
+func kindLabel(group, name string) string {
+	if l, ok := kindLabels[group+"."+name]; ok {
+		return l
+	}
+	return name
+}
+
+func buildGroups() []Group {
+	d := Group{Name: "design", Title: "Measurement design", KindKey: "shape", Menu: "Shape of the spectrum",
+		Common: []Param{newParam("design", "", Param{Name: "alpha", Unit: "measurements per unknown",
+			Help: "how many measurements m there are for each of the n unknowns", Min: 0, MinOpen: true, Max: scenario.MaxAlpha})}}
+	for _, s := range design.Shapes() {
+		k := Kind{Name: s.Name, Label: kindLabel("design", s.Name), Help: s.Help}
+		for _, p := range s.Params {
+			k.Params = append(k.Params, newParam("design", s.Name, Param{Name: p.Name, Unit: p.Unit, Help: p.Help,
+				List: p.List, MaxLen: p.MaxLen, Optional: p.Optional, Min: p.Min, Max: p.Max,
+				MinOpen: p.MinOpen, MaxOpen: p.MaxOpen, def: p.Default}))
+		}
+		d.Kinds = append(d.Kinds, k)
+	}
+	x := Group{Name: "signal", Title: "Signal entries", KindKey: "law", Menu: "Distribution"}
+	for _, l := range signal.Laws() {
+		k := Kind{Name: l.Name, Label: kindLabel("signal", l.Name), Help: l.Help}
+		for _, p := range l.Params {
+			k.Params = append(k.Params, newParam("signal", l.Name, Param{Name: p.Name, Unit: p.Unit, Help: p.Help,
+				List: p.List, MaxLen: p.MaxLen, Min: p.Min, Max: p.Max, MinOpen: p.MinOpen, MaxOpen: p.MaxOpen}))
+		}
+		x.Kinds = append(x.Kinds, k)
+	}
+	n := Group{Name: "noise", Title: "Measurement noise", Menu: "Stated as", Kinds: []Kind{
+		{Name: "variance", Label: kindLabel("noise", "variance"), Help: "the variance of each noise entry",
+			Params: []Param{newParam("noise", "variance", Param{Name: "variance", Unit: "units of y squared",
+				Help: "variance Δ of each entry of the noise w", Min: 0, Max: scenario.MaxNoiseVar})}},
+		{Name: "snr_db", Label: kindLabel("noise", "snr_db"), Help: "the power of F x0 over the power of the noise",
+			Params: []Param{newParam("noise", "snr_db", Param{Name: "snr_db", Unit: "dB",
+				Help: "10 log10 of E‖F x0‖² / E‖w‖²; higher is cleaner", Min: scenario.MinSNRdB, Max: scenario.MaxSNRdB})}},
+	}}
+	pen := Group{Name: "penalty", Title: "Penalty", KindKey: "kind", Menu: "Kind"}
+	for _, pk := range penalty.Kinds() {
+		k := Kind{Name: pk.Name, Label: kindLabel("penalty", pk.Name), Help: pk.Help}
+		for _, p := range pk.Params {
+			k.Params = append(k.Params, newParam("penalty", pk.Name, Param{Name: p.Name, Unit: p.Unit, Help: p.Help,
+				Optional: p.Optional, Min: p.Min, Max: p.Max, MinOpen: p.MinOpen, MaxOpen: p.MaxOpen, def: p.Default}))
+		}
+		pen.Kinds = append(pen.Kinds, k)
+	}
+	return []Group{d, x, n, pen}
+}
+
+// Range states the domain of p in words, e.g. "in (0, 1]", "≥ 0", "each > 0, at most 100000
+// numbers".
+func (p Param) Range() string {
+	r := p.scalarRange()
+	if p.List {
+		r = "each " + r
+		if p.MaxLen > 0 {
+			r += fmt.Sprintf(", at most %d numbers", p.MaxLen)
+		}
+	}
+	return r
+}
+
+func (p Param) scalarRange() string {
+	num := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	lo, hi := !math.IsInf(p.Min, -1), !math.IsInf(p.Max, 1)
+	var r string
+	switch {
+	case lo && hi:
+		open, close := "[", "]"
+		if p.MinOpen {
+			open = "("
+		}
+		if p.MaxOpen {
+			close = ")"
+		}
+		r = "in " + open + num(p.Min) + ", " + num(p.Max) + close
+	case lo && p.MinOpen:
+		r = "> " + num(p.Min)
+	case lo:
+		r = "≥ " + num(p.Min)
+	case hi && p.MaxOpen:
+		r = "< " + num(p.Max)
+	case hi:
+		r = "≤ " + num(p.Max)
+	default:
+		r = "any number"
+	}
+	return r
+}
+
+// inDomain tells whether v lies in the domain of p.
+func (p Param) inDomain(v float64) bool {
+	if v < p.Min || v > p.Max || (p.MinOpen && v == p.Min) || (p.MaxOpen && v == p.Max) {
+		return false
+	}
+	return true
 }
 
 // Scales are the choices of design.scale (contract 1, method.md section 1).
 var Scales = []Kind{
-	{Name: "rows", Label: "Rows of unit norm (E λ = m/n)"},
-	{Name: "columns", Label: "Columns of unit norm (E λ = 1)"},
-	{Name: "as-given", Label: "As given"},
+	{Name: scenario.ScaleRows, Label: "Rows of unit norm (E λ = m/n)", Help: "each row of F has unit norm on average: more measurements carry more information"},
+	{Name: scenario.ScaleColumns, Label: "Columns of unit norm (E λ = 1)", Help: "each column of F has unit norm on average: the usual convention of compressed sensing"},
+	{Name: scenario.ScaleAsGiven, Label: "As given", Help: "the singular values are used exactly as stated"},
 }
 
 // Model is the scenario being edited: the chosen kind of each group and the text of every
 // input. Texts are kept per kind and parameter, so switching a menu back and forth keeps
-// what was typed.
+// what was typed. Title, Notes and Study travel with the scenario unchanged.
 type Model struct {
 	Title string
+	Notes string
 	Scale string
+	Study *scenario.Study
 	kinds map[string]string // group -> kind name
-	texts map[string]string // "group/kind/param" (kind empty for common params) -> text
+	texts map[string]string // "group/kind/param" -> text
 }
 
-// NewModel returns the starting scenario: the first kind of each menu with its defaults.
-// It is an invented example, not data from any study.
+// NewModel returns the starting scenario. It is an invented example, not data from any
+// study.
 func NewModel() *Model {
-	m := &Model{Title: "Invented example: sparse signal, orthogonal design", Scale: "rows",
+	m := &Model{Title: "Invented example: sparse signal, orthogonal design", Scale: scenario.ScaleRows,
 		kinds: map[string]string{}, texts: map[string]string{}}
 	for _, g := range Groups {
 		if len(g.Kinds) > 0 {
 			m.kinds[g.Name] = g.Kinds[0].Name
+			if _, ok := g.kind(startKinds[g.Name]); ok {
+				m.kinds[g.Name] = startKinds[g.Name]
+			}
 		}
 	}
 	return m
@@ -149,8 +332,24 @@ func FindGroup(name string) (Group, bool) {
 	return Group{}, false
 }
 
+func (g Group) kind(name string) (Kind, bool) {
+	for _, k := range g.Kinds {
+		if k.Name == name {
+			return k, true
+		}
+	}
+	return Kind{}, false
+}
+
 // Kind returns the kind chosen in group g ("" for a group without kinds).
 func (m *Model) Kind(g string) string { return m.kinds[g] }
+
+// KindHelp returns the registry's one-line explanation of the kind chosen in group g.
+func (m *Model) KindHelp(g string) string {
+	grp, _ := FindGroup(g)
+	k, _ := grp.kind(m.kinds[g])
+	return k.Help
+}
 
 // SetKind chooses kind in group g. Special cases are: an unknown group or kind is an error
 // and changes nothing.
@@ -159,13 +358,15 @@ func (m *Model) SetKind(g, kind string) error {
 	if !ok {
 		return fmt.Errorf("%s: unknown part of the scenario", g)
 	}
-	for _, k := range grp.Kinds {
-		if k.Name == kind {
-			m.kinds[g] = kind
-			return nil
+	if _, ok := grp.kind(kind); !ok {
+		key := grp.KindKey
+		if key == "" {
+			key = "form"
 		}
+		return fmt.Errorf("%s.%s: unknown choice %q", g, key, kind)
 	}
-	return fmt.Errorf("%s.%s: unknown choice %q", g, grp.KindKey, kind)
+	m.kinds[g] = kind
+	return nil
 }
 
 // SetScale chooses design.scale. Special cases are: an unknown scale is an error.
@@ -183,9 +384,8 @@ func (m *Model) SetScale(s string) error {
 type Field struct {
 	ID    string // element id, unique on the page
 	Path  string // contract-1 path, e.g. "penalty.l1"
-	Label string
 	Text  string
-	List  bool
+	Param // label, unit, domain and explanation
 	key   string
 }
 
@@ -200,19 +400,17 @@ func (m *Model) Fields(g string) []Field {
 			text = p.Default
 		}
 		id := "in-" + g + "-" + p.Name
-		if kind != "" {
+		if kind != "" && grp.KindKey != "" {
 			id = "in-" + g + "-" + kind + "-" + p.Name
 		}
-		out = append(out, Field{ID: id, Path: g + "." + p.Name, Label: p.Label, Text: text, List: p.List, key: key})
+		out = append(out, Field{ID: id, Path: g + "." + p.Name, Text: text, Param: p, key: key})
 	}
 	for _, p := range grp.Common {
 		add("", p)
 	}
-	for _, k := range grp.Kinds {
-		if k.Name == m.kinds[g] {
-			for _, p := range k.Params {
-				add(k.Name, p)
-			}
+	if k, ok := grp.kind(m.kinds[g]); ok {
+		for _, p := range k.Params {
+			add(k.Name, p)
 		}
 	}
 	return out
@@ -232,59 +430,218 @@ func (m *Model) SetText(id, text string) error {
 	return fmt.Errorf("no input %q in the current scenario", id)
 }
 
-// maxList is the longest list the editor sends; the engine states its own cap and names it
-// if this one is larger.
-const maxList = 10000
-
-// JSON returns the scenario file (contract 1, version 1) for the current inputs. Only the
-// form of the numbers is checked here; their ranges are the engine's to check.
-// Special cases are: text that is not a finite number, or an empty or overlong list, is an
-// error naming the field, e.g. "penalty.l1: not a number: "abc"".
-func (m *Model) JSON() ([]byte, error) {
-	doc := map[string]any{"kind": "hdrisk.scenario", "version": 1, "title": m.Title}
-	for _, g := range Groups {
-		obj := map[string]any{}
-		if g.KindKey != "" {
-			obj[g.KindKey] = m.kinds[g.Name]
-		}
-		if g.Name == "design" {
-			obj["scale"] = m.Scale
-		}
-		for _, f := range m.Fields(g.Name) {
-			v, err := parseField(f)
-			if err != nil {
-				return nil, err
-			}
-			obj[f.Path[len(g.Name)+1:]] = v
-		}
-		doc[g.Name] = obj
+// Load replaces the model's contents with the scenario s (for a link, a file or an
+// example). Special cases are: a kind the page does not offer is an error and changes nothing.
+func (m *Model) Load(s scenario.Scenario) error {
+	noise := "variance"
+	if s.Noise.SNR {
+		noise = "snr_db"
 	}
-	return json.Marshal(doc)
+	kinds := map[string]string{"design": s.Design.Shape, "signal": s.Signal.Law, "noise": noise, "penalty": s.Penalty.Kind}
+	for g, k := range kinds {
+		grp, _ := FindGroup(g)
+		if _, ok := grp.kind(k); !ok {
+			return fmt.Errorf("%s: the page offers no %q", g, k)
+		}
+	}
+	if err := m.SetScale(s.Design.Scale); err != nil {
+		return err
+	}
+	m.kinds = kinds
+	m.Title, m.Notes, m.Study = s.Title, s.Notes, s.Study
+	num := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	list := func(vs []float64) string {
+		w := make([]string, len(vs))
+		for i, v := range vs {
+			w[i] = num(v)
+		}
+		return strings.Join(w, ", ")
+	}
+	params := map[string]map[string]float64{"design": s.Design.Params, "signal": s.Signal.Params, "penalty": s.Penalty.Params,
+		"noise": {"variance": s.Noise.Variance, "snr_db": s.Noise.SNRdB}}
+	lists := map[string]map[string][]float64{"design": s.Design.Lists, "signal": s.Signal.Lists}
+	params["design"] = mergeAlpha(s.Design.Params, s.Design.Alpha)
+	for _, g := range Groups {
+		for _, f := range m.Fields(g.Name) {
+			if f.List {
+				if v, ok := lists[g.Name][f.Name]; ok {
+					m.texts[f.key] = list(v)
+				}
+			} else if v, ok := params[g.Name][f.Name]; ok {
+				m.texts[f.key] = num(v)
+			}
+		}
+	}
+	return nil
 }
 
-func parseField(f Field) (any, error) {
+func mergeAlpha(p map[string]float64, alpha float64) map[string]float64 {
+	out := map[string]float64{"alpha": alpha}
+	for k, v := range p {
+		out[k] = v
+	}
+	return out
+}
+
+// maxList is the longest list the editor reads; the engine states its own, usually smaller,
+// cap per parameter.
+const maxList = 100000
+
+// Checked is the outcome of checking the inputs: the scenario they make, or why not.
+type Checked struct {
+	Scenario scenario.Scenario  // valid only when Err is nil
+	JSON     []byte             // contract-1 file of Scenario
+	Problem  fixedpoint.Problem // its laws, built by the engine
+	// Invalid maps the id of every input that cannot be accepted to a message naming its
+	// field and the reason, e.g. "penalty.l1: -1 is out of range: must be ≥ 0".
+	Invalid map[string]string
+	Err     error // nil when the scenario is valid; else its first problem
+}
+
+// Check reads every input, checks each against its domain, then lets the engine check the
+// scenario as a whole (rules across fields, such as min <= max or weights summing to 1).
+// Special cases are: several inputs may be invalid at once and each is reported; a problem
+// the engine cannot pin on one input is reported in Err only.
+func (m *Model) Check() Checked {
+	c := Checked{Invalid: map[string]string{}}
+	s := scenario.Scenario{Kind: scenario.Kind, Version: scenario.Version, Title: m.Title, Notes: m.Notes, Study: m.Study,
+		Design:  scenario.Design{Shape: m.kinds["design"], Scale: m.Scale},
+		Signal:  scenario.Signal{Law: m.kinds["signal"]},
+		Penalty: scenario.Penalty{Kind: m.kinds["penalty"]}}
+	var first error
+	for _, g := range Groups {
+		for _, f := range m.Fields(g.Name) {
+			num, list, err := parseField(f)
+			if err != nil {
+				c.Invalid[f.ID] = err.Error()
+				if first == nil {
+					first = err
+				}
+				continue
+			}
+			setValue(&s, g.Name, f.Name, num, list, f.List)
+		}
+	}
+	if first != nil {
+		c.Err = first
+		return c
+	}
+	p, err := s.Problem()
+	if err != nil {
+		var fe *scenario.FieldError
+		if errors.As(err, &fe) {
+			if id, ok := m.inputFor(fe.Field); ok {
+				c.Invalid[id] = err.Error()
+			}
+		}
+		c.Err = err
+		return c
+	}
+	data, err := s.Encode()
+	if err != nil {
+		c.Err = err
+		return c
+	}
+	c.Scenario, c.JSON, c.Problem = s, data, p
+	return c
+}
+
+// inputFor returns the id of the input that holds the JSON path field ("signal.values[3]"
+// is the input of "signal.values").
+func (m *Model) inputFor(field string) (string, bool) {
+	if i := strings.IndexByte(field, '['); i >= 0 {
+		field = field[:i]
+	}
+	for _, g := range Groups {
+		for _, f := range m.Fields(g.Name) {
+			if f.Path == field {
+				return f.ID, true
+			}
+		}
+	}
+	return "", false
+}
+
+func setValue(s *scenario.Scenario, group, name string, num float64, list []float64, isList bool) {
+	switch group {
+	case "design":
+		if name == "alpha" {
+			s.Design.Alpha = num
+			return
+		}
+		if isList {
+			if s.Design.Lists == nil {
+				s.Design.Lists = map[string][]float64{}
+			}
+			s.Design.Lists[name] = list
+			return
+		}
+		if s.Design.Params == nil {
+			s.Design.Params = map[string]float64{}
+		}
+		s.Design.Params[name] = num
+	case "signal":
+		if isList {
+			if s.Signal.Lists == nil {
+				s.Signal.Lists = map[string][]float64{}
+			}
+			s.Signal.Lists[name] = list
+			return
+		}
+		if s.Signal.Params == nil {
+			s.Signal.Params = map[string]float64{}
+		}
+		s.Signal.Params[name] = num
+	case "noise":
+		if name == "snr_db" {
+			s.Noise = scenario.Noise{SNRdB: num, SNR: true}
+		} else {
+			s.Noise = scenario.Noise{Variance: num}
+		}
+	case "penalty":
+		if s.Penalty.Params == nil {
+			s.Penalty.Params = map[string]float64{}
+		}
+		s.Penalty.Params[name] = num
+	}
+}
+
+// JSON returns the scenario file (contract 1, version 1) for the current inputs.
+// Special cases are: invalid inputs give the first problem, naming the field, e.g.
+// "penalty.l1: not a number: "abc"".
+func (m *Model) JSON() ([]byte, error) {
+	c := m.Check()
+	return c.JSON, c.Err
+}
+
+func parseField(f Field) (float64, []float64, error) {
 	if !f.List {
-		return parseNumber(f.Path, f.Text)
+		v, err := parseNumber(f.Path, f.Text, f.Param)
+		return v, nil, err
 	}
-	words := strings.FieldsFunc(f.Text, func(r rune) bool { return r == ',' || r == ';' || r == ' ' || r == '\t' || r == '\n' })
+	words := strings.FieldsFunc(f.Text, func(r rune) bool { return r == ',' || r == ';' || r == ' ' || r == '\t' || r == '\n' || r == '\r' })
 	if len(words) == 0 {
-		return nil, fmt.Errorf("%s: the list is empty", f.Path)
+		return 0, nil, fmt.Errorf("%s: the list is empty; type numbers separated by commas", f.Path)
 	}
-	if len(words) > maxList {
-		return nil, fmt.Errorf("%s: %d numbers, more than the %d the page accepts", f.Path, len(words), maxList)
+	limit := maxList
+	if f.MaxLen > 0 && f.MaxLen < limit {
+		limit = f.MaxLen
+	}
+	if len(words) > limit {
+		return 0, nil, fmt.Errorf("%s: %d numbers, more than the %d accepted", f.Path, len(words), limit)
 	}
 	vs := make([]float64, len(words))
 	for i, w := range words {
-		v, err := parseNumber(fmt.Sprintf("%s[%d]", f.Path, i), w)
+		v, err := parseNumber(fmt.Sprintf("%s[%d]", f.Path, i), w, f.Param)
 		if err != nil {
-			return nil, err
+			return 0, nil, err
 		}
 		vs[i] = v
 	}
-	return vs, nil
+	return 0, vs, nil
 }
 
-func parseNumber(path, text string) (float64, error) {
+func parseNumber(path, text string, p Param) (float64, error) {
 	t := strings.TrimSpace(text)
 	if t == "" {
 		return 0, fmt.Errorf("%s: empty; type a number", path)
@@ -295,6 +652,9 @@ func parseNumber(path, text string) (float64, error) {
 	}
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return 0, fmt.Errorf("%s: not a finite number: %q", path, t)
+	}
+	if !p.inDomain(v) {
+		return 0, fmt.Errorf("%s: %s is out of range: must be %s", path, t, p.scalarRange())
 	}
 	return v, nil
 }

@@ -1,9 +1,14 @@
 package ui
 
 import (
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
+	"hdrisk/engine/design"
 	"hdrisk/engine/penalty"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/signal"
@@ -171,4 +176,226 @@ func sameSet(a, b []string) bool {
 		}
 	}
 	return true
+}
+
+// Every kind of the three registries appears in its menu with every parameter, and each
+// input states the registry's unit, explanation and domain: adding a law to the engine
+// needs no edit of the page.
+func TestEveryRegistryKindInMenus(t *testing.T) {
+	type regParam struct {
+		name, unit, help string
+		min, max         float64
+		minOpen, maxOpen bool
+	}
+	check := func(group, kind, help string, params []regParam) {
+		g, _ := FindGroup(group)
+		k, ok := g.kind(kind)
+		if !ok {
+			t.Errorf("%s: the engine has %q, the menu does not", group, kind)
+			return
+		}
+		if k.Help != help || k.Label == "" {
+			t.Errorf("%s %s: help %q label %q, registry help %q", group, kind, k.Help, k.Label, help)
+		}
+		if len(k.Params) != len(params) {
+			t.Errorf("%s %s: %d inputs, the registry has %d parameters", group, kind, len(k.Params), len(params))
+			return
+		}
+		m := NewModel()
+		if err := m.SetKind(group, kind); err != nil {
+			t.Fatal(err)
+		}
+		fields := map[string]Field{}
+		for _, f := range m.Fields(group) {
+			fields[f.Name] = f
+		}
+		for _, p := range params {
+			f, ok := fields[p.name]
+			if !ok {
+				t.Errorf("%s %s: no input for %s", group, kind, p.name)
+				continue
+			}
+			if f.Unit != p.unit || f.Help != p.help || f.Min != p.min || f.Max != p.max || f.MinOpen != p.minOpen || f.MaxOpen != p.maxOpen {
+				t.Errorf("%s %s %s: input %+v differs from the registry %+v", group, kind, p.name, f.Param, p)
+			}
+			if f.Label == "" || f.Range() == "" || f.Path != group+"."+p.name {
+				t.Errorf("%s %s %s: label %q range %q path %q", group, kind, p.name, f.Label, f.Range(), f.Path)
+			}
+		}
+	}
+	for _, s := range design.Shapes() {
+		var ps []regParam
+		for _, p := range s.Params {
+			ps = append(ps, regParam{p.Name, p.Unit, p.Help, p.Min, p.Max, p.MinOpen, p.MaxOpen})
+		}
+		check("design", s.Name, s.Help, ps)
+	}
+	for _, l := range signal.Laws() {
+		var ps []regParam
+		for _, p := range l.Params {
+			ps = append(ps, regParam{p.Name, p.Unit, p.Help, p.Min, p.Max, p.MinOpen, p.MaxOpen})
+		}
+		check("signal", l.Name, l.Help, ps)
+	}
+	for _, k := range penalty.Kinds() {
+		var ps []regParam
+		for _, p := range k.Params {
+			ps = append(ps, regParam{p.Name, p.Unit, p.Help, p.Min, p.Max, p.MinOpen, p.MaxOpen})
+		}
+		check("penalty", k.Name, k.Help, ps)
+	}
+	for _, g := range []string{"design", "signal", "penalty"} {
+		grp, _ := FindGroup(g)
+		want := map[string]int{"design": len(design.Shapes()), "signal": len(signal.Laws()), "penalty": len(penalty.Kinds())}[g]
+		if len(grp.Kinds) != want {
+			t.Errorf("%s: %d menu entries, the registry has %d", g, len(grp.Kinds), want)
+		}
+	}
+}
+
+// A parameter the page has no words for still gets a label and a starting value inside its
+// domain.
+func TestFallbacksForUnknownParameters(t *testing.T) {
+	for _, p := range []Param{
+		{Name: "a", Min: 0, Max: math.Inf(1), MaxOpen: true},
+		{Name: "b", Min: 2, MinOpen: true, Max: math.Inf(1), MaxOpen: true},
+		{Name: "c", Min: 1, MinOpen: true, Max: 2},
+		{Name: "d", Min: math.Inf(-1), Max: -5},
+		{Name: "e", Min: 0, Max: 1, MaxOpen: true},
+		{Name: "f", Min: 0, Max: 10, Optional: true, def: 3},
+	} {
+		q := newParam("penalty", "invented-kind", p)
+		v, err := strconv.ParseFloat(q.Default, 64)
+		if err != nil || !q.inDomain(v) || q.Label != p.Name {
+			t.Errorf("%s: default %q (in domain: %v), label %q", p.Name, q.Default, err == nil && q.inDomain(v), q.Label)
+		}
+	}
+}
+
+func TestRangeText(t *testing.T) {
+	cases := []struct {
+		p    Param
+		want string
+	}{
+		{Param{Min: 0, Max: 1, MinOpen: true}, "in (0, 1]"},
+		{Param{Min: 0, Max: math.Inf(1), MaxOpen: true}, "≥ 0"},
+		{Param{Min: 2, MinOpen: true, Max: math.Inf(1), MaxOpen: true}, "> 2"},
+		{Param{Min: math.Inf(-1), Max: math.Inf(1), MinOpen: true, MaxOpen: true}, "any number"},
+		{Param{Min: -100, Max: 200}, "in [-100, 200]"},
+		{Param{Min: 0, Max: 1, List: true, MaxLen: 1000}, "each in [0, 1], at most 1000 numbers"},
+	}
+	for _, c := range cases {
+		if got := c.p.Range(); got != c.want {
+			t.Errorf("Range(%+v) = %q, want %q", c.p, got, c.want)
+		}
+	}
+}
+
+// Several inputs can be wrong at once: each is marked with a message naming its field and
+// the reason, and a rule across fields is pinned on the input the engine names.
+func TestInvalidFieldsMarked(t *testing.T) {
+	m := NewModel()
+	_ = m.SetText("in-design-alpha", "-1")
+	_ = m.SetText("in-signal-bernoulli-gauss-density", "abc")
+	c := m.Check()
+	if c.Err == nil || c.JSON != nil {
+		t.Fatalf("invalid inputs accepted: %s", c.JSON)
+	}
+	for id, want := range map[string]string{
+		"in-design-alpha":                   "design.alpha: -1 is out of range: must be in (0, 100]",
+		"in-signal-bernoulli-gauss-density": `signal.density: not a number: "abc"`,
+	} {
+		if c.Invalid[id] != want {
+			t.Errorf("%s: message %q, want %q", id, c.Invalid[id], want)
+		}
+	}
+	if len(c.Invalid) != 2 {
+		t.Errorf("marked %v, want exactly the two bad inputs", c.Invalid)
+	}
+
+	m = NewModel()
+	_ = m.SetKind("design", "uniform-sv")
+	_ = m.SetText("in-design-uniform-sv-min", "3")
+	c = m.Check()
+	if c.Err == nil || len(c.Invalid) != 1 {
+		t.Fatalf("min > max: error %v, marks %v", c.Err, c.Invalid)
+	}
+	for id, msg := range c.Invalid {
+		if !strings.HasPrefix(id, "in-design-uniform-sv-") || !strings.HasPrefix(msg, "design.m") {
+			t.Errorf("min > max marked %s: %q", id, msg)
+		}
+	}
+
+	m = NewModel()
+	_ = m.SetKind("signal", "gauss-mixture")
+	_ = m.SetText("in-signal-gauss-mixture-weights", "0.5, 0.2")
+	c = m.Check()
+	if msg := c.Invalid["in-signal-gauss-mixture-weights"]; !strings.HasPrefix(msg, "signal.weights") {
+		t.Errorf("weights not summing to 1: marks %v, error %v", c.Invalid, c.Err)
+	}
+	_ = m.SetText("in-signal-gauss-mixture-weights", "0.5, 1.5")
+	if msg := m.Check().Invalid["in-signal-gauss-mixture-weights"]; msg != "signal.weights[1]: 1.5 is out of range: must be in [0, 1]" {
+		t.Errorf("weight out of range: %q", msg)
+	}
+}
+
+// The noise can be stated as a variance or as an SNR in dB; the SNR reaches the engine as
+// noise.snr_db.
+func TestNoiseAsSNR(t *testing.T) {
+	m := NewModel()
+	if err := m.SetKind("noise", "snr_db"); err != nil {
+		t.Fatal(err)
+	}
+	if err := m.SetText("in-noise-snr_db", "30"); err != nil {
+		t.Fatal(err)
+	}
+	c := m.Check()
+	if c.Err != nil || !c.Scenario.Noise.SNR || c.Scenario.Noise.SNRdB != 30 || !strings.Contains(string(c.JSON), `"snr_db": 30`) {
+		t.Fatalf("SNR: %v %+v %s", c.Err, c.Scenario.Noise, c.JSON)
+	}
+	// rows scale: SNR = rho2 / Delta (contract 1), rho2 = 0.05 for the starting signal.
+	if want := 0.05 / 1000; math.Abs(c.Problem.Noise-want) > 1e-15 {
+		t.Errorf("Delta = %v, want %v", c.Problem.Noise, want)
+	}
+	_ = m.SetText("in-noise-snr_db", "300")
+	if msg := m.Check().Invalid["in-noise-snr_db"]; msg != "noise.snr_db: 300 is out of range: must be in [-100, 200]" {
+		t.Errorf("SNR out of range: %q", msg)
+	}
+}
+
+// Loading a scenario file and reading the inputs back gives the same scenario.
+func TestLoadRoundTrip(t *testing.T) {
+	files, err := filepath.Glob(filepath.Join("..", "testdata", "scenarios", "*.json"))
+	if err != nil || len(files) == 0 {
+		t.Fatalf("no example scenarios: %v", err)
+	}
+	for _, name := range files {
+		data, err := os.ReadFile(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s, err := scenario.Decode(data)
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		m := NewModel()
+		if err := m.Load(s); err != nil {
+			t.Errorf("%s: %v", name, err)
+			continue
+		}
+		c := m.Check()
+		if c.Err != nil {
+			t.Errorf("%s: reloaded scenario invalid: %v", name, c.Err)
+			continue
+		}
+		want, _ := s.Encode()
+		if string(c.JSON) != string(want) {
+			t.Errorf("%s: round trip\n got %s\nwant %s", name, c.JSON, want)
+		}
+	}
+	m := NewModel()
+	bad := scenario.Scenario{Design: scenario.Design{Shape: "triangular", Scale: "rows"}}
+	if err := m.Load(bad); err == nil || m.Kind("design") != "orthogonal" {
+		t.Errorf("unknown shape loaded: %v, design now %q", err, m.Kind("design"))
+	}
 }

@@ -1,33 +1,87 @@
 package ui
 
 import (
+	"fmt"
 	"strconv"
 )
 
-// row is one line of the figure list: Value is the full-precision text for data-value,
-// Shown the rounded text for people.
+// row is one headline figure: Value is the full-precision text for data-value, Shown the
+// rounded text for people, Applies "false" when the number is defined but says nothing for
+// this scenario (TPP of a dense signal).
 type row struct {
-	Name, Label, Value, Shown string
+	Name, Label, Value, Shown, Unit, Help, Applies, Kind string
+}
+
+func (c *Results) staleText() string { return strconv.FormatBool(c.Stale) }
+
+func (c *Results) convergedText() string {
+	if !c.Have {
+		return ""
+	}
+	return strconv.FormatBool(c.Figures.Converged)
+}
+
+func (c *Results) problemText() string {
+	if c.Have {
+		return "The inputs are not a valid scenario, so the figures below are those of the last valid one. " + c.Problem
+	}
+	return "Cannot compute this scenario: " + c.Problem
+}
+
+func (c *Results) summaryText() string {
+	if c.Stale {
+		return "Last valid scenario — " + c.Summary
+	}
+	return c.Summary
+}
+
+func (c *Results) unconvergedText() string {
+	return fmt.Sprintf("Not converged: the solver stopped after %d iterations without settling. "+
+		"These numbers are not a prediction; change the regularization or the noise and look again.", c.Figures.Iterations)
 }
 
 func (c *Results) rows() []row {
 	f := c.Figures
-	num := func(name, label string, v float64, digits int) row {
-		return row{name, label, strconv.FormatFloat(v, 'g', -1, 64), strconv.FormatFloat(v, 'g', digits, 64)}
+	full := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	num := func(name, label string, v float64, unit, help string) row {
+		return row{Name: name, Label: label, Value: full(v), Shown: strconv.FormatFloat(v, 'g', 4, 64),
+			Unit: unit, Help: help, Applies: "true", Kind: "number"}
 	}
-	yes := func(b bool) string {
+	flag := func(name, label string, b bool, yes, no, help string) row {
+		shown := no
 		if b {
-			return "yes"
+			shown = yes
 		}
-		return "no"
+		return row{Name: name, Label: label, Value: strconv.FormatBool(b), Shown: shown, Help: help, Applies: "true", Kind: "flag"}
+	}
+	support := func(r row) row {
+		if !c.Support {
+			r.Applies, r.Shown = "false", "n/a"
+			r.Unit = "needs a sparse signal and a penalty that zeroes entries"
+		}
+		return r
+	}
+	nmse := num("nmse_db", "Normalized error", f.NMSEdB, "dB, 10 log₁₀(MSE / E[x0²])", "the error relative to the signal's power; lower is better")
+	nmse.Shown = strconv.FormatFloat(f.NMSEdB, 'f', 2, 64) + " dB"
+	nz := num("nonzero_fraction", "Nonzero estimates", f.NonzeroFraction, "share of entries", "the share of entries the estimate does not set to zero")
+	if !c.Zeroes {
+		nz.Unit = "share of entries; this penalty zeroes none"
+	}
+	conv := flag("converged", "Converged", f.Converged, "yes", "NO", "whether the solver of the fixed point settled")
+	if !f.Converged {
+		conv.Kind = "warning"
 	}
 	return []row{
-		num("mse", "Mean squared error", f.MSE, 4),
-		{"nmse_db", "Normalized error", strconv.FormatFloat(f.NMSEdB, 'g', -1, 64), strconv.FormatFloat(f.NMSEdB, 'f', 2, 64) + " dB"},
-		num("nonzero_fraction", "Share of nonzero estimates", f.NonzeroFraction, 4),
-		num("susceptibility", "Susceptibility", f.Susceptibility, 4),
-		{"converged", "Solver converged", strconv.FormatBool(f.Converged), yes(f.Converged)},
-		{"iterations", "Iterations", strconv.Itoa(f.Iterations), strconv.Itoa(f.Iterations)},
-		{"estimate_zero", "Estimate is zero", strconv.FormatBool(f.EstimateZero), yes(f.EstimateZero)},
+		num("mse", "Mean squared error", f.MSE, "per entry, units of x0²", "(1/n)‖x̂ − x0‖² in the large-size limit"),
+		nmse,
+		nz,
+		support(num("tpp", "True positives", f.TPP, "share of nonzero entries of x0 found", "P(x̂ ≠ 0 | x0 ≠ 0)")),
+		support(num("fdp", "False discoveries", f.FDP, "share of nonzero estimates that are wrong", "P(x0 = 0 | x̂ ≠ 0)")),
+		num("train_error", "Training error", f.TrainError, "(1/m)‖y − F x̂‖²", "the mean squared residual on the measurements"),
+		num("susceptibility", "Susceptibility", f.Susceptibility, "V = E[prox′] / g₁", "how strongly the estimate responds to a change in the data"),
+		conv,
+		{Name: "iterations", Label: "Iterations", Value: strconv.Itoa(f.Iterations), Shown: strconv.Itoa(f.Iterations),
+			Unit: "of the fixed point", Help: "iterations the solver took", Applies: "true", Kind: "number"},
+		flag("estimate_zero", "Estimate is zero", f.EstimateZero, "yes", "no", "the penalty sets every entry to zero"),
 	}
 }

@@ -11,11 +11,17 @@ import js "github.com/vugu/vugu/js"
 import "log"
 
 // Results shows the headline figures, each with data-figure and data-value (contract 4).
+// When the scenario in the editor is invalid (Stale), the figures of the last valid scenario
+// stay, under its summary and marked as such.
 type Results struct {
 	Figures Figures
-	Have    bool
-	Busy    bool
-	Problem string
+	Have    bool   // Figures hold a result
+	Busy    bool   // a new result is on its way
+	Stale   bool   // Figures belong to the last valid scenario, not to the inputs
+	Problem string // why the inputs have no figures of their own
+	Summary string // the scenario Figures belong to, in words
+	Support bool   // TPP and FDP apply (sparse signal, penalty with a zero region)
+	Zeroes  bool   // the penalty can set entries exactly to zero
 }
 
 func (c *Results) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -25,39 +31,65 @@ func (c *Results) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	var vgiterkey interface{}
 	_ = vgiterkey
 	var vgn *vugu.VGNode
-	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "results"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "results-heading"}, vugu.VGAttribute{Namespace: "", Key: "aria-live", Val: "polite"}}}
+	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "results"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "results-heading"}}}
 	vgout.Out = append(vgout.Out, vgn) // root for output
+	vgn.AddAttrInterface("data-converged", c.convergedText())
+	vgn.AddAttrInterface("data-stale", c.staleText())
 	{
 		vgparent := vgn
 		_ = vgparent
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 		vgparent.AppendChild(vgn)
-		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "h2", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "results-heading"}}}
+		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "results-head"}}}
 		vgparent.AppendChild(vgn)
-		vgn.SetInnerHTML(vugu.HTML("Predicted error"))
-		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
-		vgparent.AppendChild(vgn)
-		if c.Busy {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note"}}}
+		{
+			vgparent := vgn
+			_ = vgparent
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 			vgparent.AppendChild(vgn)
-			{
-				vgparent := vgn
-				_ = vgparent
-				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Computing…"}
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "h2", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "results-heading"}}}
+			vgparent.AppendChild(vgn)
+			vgn.SetInnerHTML(vugu.HTML("Predicted error"))
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			if c.Busy {
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note busy-note"}}}
 				vgparent.AppendChild(vgn)
+				{
+					vgparent := vgn
+					_ = vgparent
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Computing…"}
+					vgparent.AppendChild(vgn)
+				}
 			}
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+			vgparent.AppendChild(vgn)
 		}
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 		vgparent.AppendChild(vgn)
 		if c.Problem != "" {
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "problem"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "alert"}}}
 			vgparent.AppendChild(vgn)
-			vgn.SetInnerHTML("Cannot compute this scenario: " + c.Problem)
+			vgn.SetInnerHTML(c.problemText())
 		}
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 		vgparent.AppendChild(vgn)
 		if c.Have {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "dl", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figures"}}}
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "summary"}}}
+			vgparent.AppendChild(vgn)
+			vgn.SetInnerHTML(c.summaryText())
+		}
+		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+		vgparent.AppendChild(vgn)
+		if c.Have && !c.Figures.Converged {
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "problem unconverged"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "alert"}}}
+			vgparent.AppendChild(vgn)
+			vgn.SetInnerHTML(c.unconvergedText())
+		}
+		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+		vgparent.AppendChild(vgn)
+		if c.Have {
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "dl", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figures"}, vugu.VGAttribute{Namespace: "", Key: "aria-live", Val: "polite"}}}
 			vgparent.AppendChild(vgn)
 			{
 				vgparent := vgn
@@ -71,6 +103,8 @@ func (c *Results) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					_ = r
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figure"}}}
 					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("data-kind", r.Kind)
+					vgn.AddAttrInterface("title", r.Help)
 					{
 						vgparent := vgn
 						_ = vgparent
@@ -83,26 +117,20 @@ func (c *Results) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgparent.AppendChild(vgn)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "dd", Attr: []vugu.VGAttribute(nil)}
 						vgparent.AppendChild(vgn)
+						vgn.AddAttrInterface("data-applies", r.Applies)
 						vgn.AddAttrInterface("data-figure", r.Name)
 						vgn.AddAttrInterface("data-value", r.Value)
 						vgn.SetInnerHTML(r.Shown)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "dd", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "unit"}}}
+						vgparent.AppendChild(vgn)
+						vgn.SetInnerHTML(r.Unit)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)
 					}
 				}
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
-				vgparent.AppendChild(vgn)
-			}
-		}
-		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
-		vgparent.AppendChild(vgn)
-		if c.Have && !c.Figures.Converged {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "problem"}}}
-			vgparent.AppendChild(vgn)
-			{
-				vgparent := vgn
-				_ = vgparent
-				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "The solver stopped before converging; treat the figures as rough."}
 				vgparent.AppendChild(vgn)
 			}
 		}

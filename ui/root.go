@@ -1,17 +1,39 @@
 package ui
 
-import "github.com/vugu/vugu"
+import (
+	"fmt"
+	"strconv"
+	"strings"
+
+	"github.com/vugu/vugu"
+
+	"hdrisk/engine/scenario"
+)
+
+// viewTab is one tab of the views area.
+type viewTab struct{ Name, Label string }
+
+// viewTabs are the views below the figures, in tab order. A tab shows only once its panel
+// in root.vugu holds its view (page.css), so views can arrive one at a time.
+var viewTabs = []viewTab{
+	{"curve", "Curve"}, {"map", "Map"}, {"plan", "Plan"}, {"check", "Finite-size check"},
+	{"data", "Your data"}, {"share", "Save and share"}, {"about", "Assumptions"},
+}
 
 // Init starts the first evaluation as the page comes up.
 func (c *Root) Init(vugu.InitCtx) {
 	if c.Model == nil {
 		c.Model = NewModel()
 	}
+	if c.tab == "" {
+		c.tab = viewTabs[0].Name
+	}
 	c.changed()
 }
 
 // State is the page root's data-state (contract 4): "busy" while figures are being computed,
-// "error" when the scenario has no figures (the message says why), "ready" otherwise.
+// "error" when the scenario in the editor has no figures of its own (the message says why),
+// "ready" otherwise.
 func (c *Root) State() string {
 	switch {
 	case c.busy:
@@ -23,31 +45,132 @@ func (c *Root) State() string {
 	}
 }
 
-// changed drops the figures of the old scenario and evaluates the new one, cancelling an
-// evaluation still running. It is called with the render lock held.
+// Tab returns the name of the selected view.
+func (c *Root) Tab() string { return c.tab }
+
+// showTab selects the view named name. Special cases are: an unknown name changes nothing.
+func (c *Root) showTab(name string) {
+	for _, v := range viewTabs {
+		if v.Name == name {
+			c.tab = name
+		}
+	}
+}
+
+func (c *Root) selectedText(name string) string { return strconv.FormatBool(c.tab == name) }
+
+// fieldless is the problem of the scenario that no single input can be blamed for, shown
+// at the foot of the editor; "" when there is none.
+func (c *Root) fieldless() string {
+	if c.checked.Err == nil || len(c.checked.Invalid) > 0 {
+		return ""
+	}
+	return c.checked.Err.Error()
+}
+
+// Reload puts s in the editor (a link, a file, an example) and evaluates it.
+// Special cases are: a scenario whose kinds the page does not offer is an error and the
+// editor keeps what it had.
+func (c *Root) Reload(s scenario.Scenario) error {
+	if err := c.Model.Load(s); err != nil {
+		return err
+	}
+	c.changed()
+	return nil
+}
+
+// changed checks the editor's inputs and evaluates the scenario they make, cancelling an
+// evaluation still running. An invalid scenario keeps the last valid one's figures and
+// plots on screen, marked as such. It is called with the render lock held.
 func (c *Root) changed() {
 	if c.cancel != nil {
 		c.cancel()
 		c.cancel = nil
 	}
-	c.have = false
-	data, err := c.Model.JSON()
-	if err != nil {
-		c.busy, c.problem = false, err.Error()
+	c.checked = c.Model.Check()
+	if err := c.checked.Err; err != nil {
+		c.busy, c.problem, c.stale = false, err.Error(), c.have
 		return
 	}
+	c.updatePlots()
 	if c.Eval == nil {
-		c.busy, c.problem = false, "the calculator is not connected"
+		c.busy, c.problem, c.stale = false, "the calculator is not connected", c.have
 		return
 	}
 	c.busy, c.problem = true, ""
-	c.cancel = c.Eval.Evaluate(data, func(f Figures, err error) {
+	chk := c.checked
+	c.cancel = c.Eval.Evaluate(chk.JSON, func(f Figures, err error) {
 		c.cancel = nil
 		c.busy = false
 		if err != nil {
-			c.problem = err.Error()
+			c.problem, c.stale = err.Error(), c.have
 			return
 		}
-		c.Figures, c.have = f, true
+		c.Figures, c.have, c.stale = f, true, false
+		c.summary = Summary(chk.Scenario)
+		c.support = hasZeroAtom(chk) && chk.Problem.Penalty.HasZeroRegion()
+		c.zeroes = chk.Problem.Penalty.HasZeroRegion()
 	})
+}
+
+// hasZeroAtom tells whether the signal law puts mass exactly at zero: TPP and FDP are then
+// meaningful.
+func hasZeroAtom(c Checked) bool {
+	if c.Problem.Signal == nil || !c.Problem.Signal.Exact() {
+		return false
+	}
+	for _, m := range c.Problem.Signal.Mixture() {
+		if m.Weight > 0 && m.Var == 0 && m.Mean == 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// updatePlots redraws the design and signal figures when their laws changed. A figure that
+// cannot be drawn says so in its text alternative and shows no image.
+func (c *Root) updatePlots() {
+	s := c.checked.Scenario
+	key := fmt.Sprint(s.Design, "|", s.Signal)
+	if key == c.plotKey {
+		return
+	}
+	c.plotKey = key
+	var err error
+	if c.designPlot, err = designPlot(c.checked.Problem.Design); err != nil {
+		c.designPlot = lawPlot{Alt: "No figure of the design: " + err.Error()}
+	}
+	if c.signalPlot, err = signalPlot(c.checked.Problem.Signal); err != nil {
+		c.signalPlot = lawPlot{Alt: "No figure of the signal: " + err.Error()}
+	}
+}
+
+// Summary states a scenario in one line of words, for the figures' caption and for print.
+func Summary(s scenario.Scenario) string {
+	num := func(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
+	part := func(group, kind string, params map[string]float64, lists map[string][]float64) string {
+		label := kindLabel(group, kind)
+		var bits []string
+		grp, _ := FindGroup(group)
+		k, _ := grp.kind(kind)
+		for _, p := range k.Params {
+			if p.List {
+				bits = append(bits, fmt.Sprintf("%s: %d values", p.Name, len(lists[p.Name])))
+			} else {
+				bits = append(bits, p.Name+" "+num(params[p.Name]))
+			}
+		}
+		if len(bits) == 0 {
+			return label
+		}
+		return label + " (" + strings.Join(bits, ", ") + ")"
+	}
+	noise := "noise variance " + num(s.Noise.Variance)
+	if s.Noise.SNR {
+		noise = "SNR " + num(s.Noise.SNRdB) + " dB"
+	}
+	return fmt.Sprintf("Design: %s, m/n = %s, %s scale. Signal: %s. Noise: %s. Penalty: %s.",
+		part("design", s.Design.Shape, s.Design.Params, s.Design.Lists), num(s.Design.Alpha), s.Design.Scale,
+		part("signal", s.Signal.Law, s.Signal.Params, s.Signal.Lists), noise,
+		part("penalty", s.Penalty.Kind, s.Penalty.Params, nil))
 }

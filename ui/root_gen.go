@@ -10,7 +10,8 @@ import "github.com/vugu/vugu"
 import js "github.com/vugu/vugu/js"
 import "log"
 
-// Root is the whole page: the scenario editor, the headline figures and the assumptions.
+// Root is the whole page: the scenario editor beside the headline figures, and below the
+// figures the views in tabs (curve, map, plan, check, data, share, assumptions).
 // Eval must be set before the first render.
 type Root struct {
 	Model   *Model
@@ -19,10 +20,19 @@ type Root struct {
 	Browser Browser // address bar, clipboard, storage, files; nil in native tests
 
 	Figures Figures
-	have    bool   // Figures belong to the scenario now in the editor
-	busy    bool   // an evaluation is running
-	problem string // why there are no figures, in words; empty when there is no problem
+	have    bool    // Figures hold the result of some valid scenario
+	stale   bool    // the scenario now in the editor is invalid; Figures are the last valid one's
+	busy    bool    // an evaluation is running
+	problem string  // why the scenario in the editor has no figures, in words; "" when none
+	summary string  // the scenario Figures belong to, in words
+	support bool    // TPP and FDP apply to the scenario of Figures
+	zeroes  bool    // its penalty can set entries exactly to zero
+	checked Checked // the editor's inputs, checked
 	cancel  func()
+
+	designPlot, signalPlot lawPlot
+	plotKey                string // the laws the two plots show
+	tab                    string // the view whose tab is selected
 }
 
 func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -42,69 +52,252 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgparent.AppendChild(vgn)
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "header", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "masthead"}}}
 		vgparent.AppendChild(vgn)
-		vgn.SetInnerHTML(vugu.HTML("\n\t\t\x3Ch1\x3Ehdrisk\x3C/h1\x3E\n\t\t\x3Cp class=\"lede\"\x3EPredicted estimation error of penalized least squares (LASSO, ridge, elastic net and\n\t\trelatives) when the number of unknowns is large. Change a setting and the figures follow.\x3C/p\x3E\n\t"))
-		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
-		vgparent.AppendChild(vgn)
-		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "columns"}}}
-		vgparent.AppendChild(vgn)
 		{
 			vgparent := vgn
 			_ = vgparent
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 			vgparent.AppendChild(vgn)
-			{
-				vgcompKey := vugu.MakeCompKey(0x36BC354B220474B2^vgin.CurrentPositionHash(), vgiterkey)
-				// ask BuildEnv for prior instance of this specific component
-				vgcomp, _ := vgin.BuildEnv.CachedComponent(vgcompKey).(*Editor)
-				if vgcomp == nil {
-					// create new one if needed
-					vgcomp = new(Editor)
-					vgin.BuildEnv.WireComponent(vgcomp)
-				}
-				vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
-				vgcomp.Changed = c.changed
-				vgcomp.Model = c.Model
-				vgout.Components = append(vgout.Components, vgcomp)
-				vgn = &vugu.VGNode{Component: vgcomp}
-				vgparent.AppendChild(vgn)
-			}
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "brand"}}}
+			vgparent.AppendChild(vgn)
+			vgn.SetInnerHTML(vugu.HTML("\n\t\t\t\x3Ch1\x3Ehdrisk\x3C/h1\x3E\n\t\t\t\x3Cp class=\"lede\"\x3EPredicted estimation error of penalized least squares (LASSO, ridge, elastic net and\n\t\t\trelatives) when the number of unknowns is large. Change a setting and the figures follow as you type.\x3C/p\x3E\n\t\t"))
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 			vgparent.AppendChild(vgn)
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "offline"}}}
+			vgparent.AppendChild(vgn)
 			{
-				vgcompKey := vugu.MakeCompKey(0x95FB2BA47CA30CD2^vgin.CurrentPositionHash(), vgiterkey)
-				// ask BuildEnv for prior instance of this specific component
-				vgcomp, _ := vgin.BuildEnv.CachedComponent(vgcompKey).(*Results)
-				if vgcomp == nil {
-					// create new one if needed
-					vgcomp = new(Results)
-					vgin.BuildEnv.WireComponent(vgcomp)
-				}
-				vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
-				vgcomp.Busy = c.busy
-				vgcomp.Figures = c.Figures
-				vgcomp.Have = c.have
-				vgcomp.Problem = c.problem
-				vgout.Components = append(vgout.Components, vgcomp)
-				vgn = &vugu.VGNode{Component: vgcomp}
+				vgparent := vgn
+				_ = vgparent
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Computed in this page, offline: no network requests.\n\t\t\t"}
 				vgparent.AppendChild(vgn)
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "type", Val: "button"}, vugu.VGAttribute{Namespace: "", Key: "class", Val: "linkish"}}}
+				vgparent.AppendChild(vgn)
+				vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+					EventType: "click",
+					Func:      func(event vugu.DOMEvent) { c.showTab("about") },
+					// TODO: implement capture, etc. mostly need to decide syntax
+				})
+				{
+					vgparent := vgn
+					_ = vgparent
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Assumptions and cautions"}
+					vgparent.AppendChild(vgn)
+				}
 			}
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 			vgparent.AppendChild(vgn)
 		}
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 		vgparent.AppendChild(vgn)
+		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "workspace"}}}
+		vgparent.AppendChild(vgn)
 		{
-			vgcompKey := vugu.MakeCompKey(0xCAE027BBC80A9095^vgin.CurrentPositionHash(), vgiterkey)
-			// ask BuildEnv for prior instance of this specific component
-			vgcomp, _ := vgin.BuildEnv.CachedComponent(vgcompKey).(*Assumptions)
-			if vgcomp == nil {
-				// create new one if needed
-				vgcomp = new(Assumptions)
-				vgin.BuildEnv.WireComponent(vgcomp)
+			vgparent := vgn
+			_ = vgparent
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "side"}}}
+			vgparent.AppendChild(vgn)
+			{
+				vgparent := vgn
+				_ = vgparent
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+				vgparent.AppendChild(vgn)
+				{
+					vgcompKey := vugu.MakeCompKey(0x36BC354B220474B2^vgin.CurrentPositionHash(), vgiterkey)
+					// ask BuildEnv for prior instance of this specific component
+					vgcomp, _ := vgin.BuildEnv.CachedComponent(vgcompKey).(*Editor)
+					if vgcomp == nil {
+						// create new one if needed
+						vgcomp = new(Editor)
+						vgin.BuildEnv.WireComponent(vgcomp)
+					}
+					vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+					vgcomp.Changed = c.changed
+					vgcomp.DesignPlot = c.designPlot
+					vgcomp.Invalid = c.checked.Invalid
+					vgcomp.Model = c.Model
+					vgcomp.PlotsStale = c.checked.Err != nil
+					vgcomp.Problem = c.fieldless()
+					vgcomp.SignalPlot = c.signalPlot
+					vgout.Components = append(vgout.Components, vgcomp)
+					vgn = &vugu.VGNode{Component: vgcomp}
+					vgparent.AppendChild(vgn)
+				}
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+				vgparent.AppendChild(vgn)
 			}
-			vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
-			vgout.Components = append(vgout.Components, vgcomp)
-			vgn = &vugu.VGNode{Component: vgcomp}
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "main"}}}
+			vgparent.AppendChild(vgn)
+			{
+				vgparent := vgn
+				_ = vgparent
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+				vgparent.AppendChild(vgn)
+				{
+					vgcompKey := vugu.MakeCompKey(0x95FB2BA47CA30CD2^vgin.CurrentPositionHash(), vgiterkey)
+					// ask BuildEnv for prior instance of this specific component
+					vgcomp, _ := vgin.BuildEnv.CachedComponent(vgcompKey).(*Results)
+					if vgcomp == nil {
+						// create new one if needed
+						vgcomp = new(Results)
+						vgin.BuildEnv.WireComponent(vgcomp)
+					}
+					vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+					vgcomp.Busy = c.busy
+					vgcomp.Figures = c.Figures
+					vgcomp.Have = c.have
+					vgcomp.Problem = c.problem
+					vgcomp.Stale = c.stale
+					vgcomp.Summary = c.summary
+					vgcomp.Support = c.support
+					vgcomp.Zeroes = c.zeroes
+					vgout.Components = append(vgout.Components, vgcomp)
+					vgn = &vugu.VGNode{Component: vgcomp}
+					vgparent.AppendChild(vgn)
+				}
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+				vgparent.AppendChild(vgn)
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "views"}, vugu.VGAttribute{Namespace: "", Key: "aria-label", Val: "Studies, checks and sharing"}}}
+				vgparent.AppendChild(vgn)
+				{
+					vgparent := vgn
+					_ = vgparent
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "tabs"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tablist"}, vugu.VGAttribute{Namespace: "", Key: "aria-label", Val: "Views"}}}
+					vgparent.AppendChild(vgn)
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t\t"}
+						vgparent.AppendChild(vgn)
+						for vgiterkeyt, v := range viewTabs {
+							var vgiterkey interface{} = vgiterkeyt
+							_ = vgiterkey
+							v := v
+							_ = v
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "type", Val: "button"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tab"}, vugu.VGAttribute{Namespace: "", Key: "class", Val: "tab"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("aria-controls", "panel-"+v.Name)
+							vgn.AddAttrInterface("aria-selected", c.selectedText(v.Name))
+							vgn.AddAttrInterface("data-tab", v.Name)
+							vgn.AddAttrInterface("id", "tab-"+v.Name)
+							vgn.SetInnerHTML(v.Label)
+							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+								EventType: "click",
+								Func:      func(event vugu.DOMEvent) { c.showTab(v.Name) },
+								// TODO: implement capture, etc. mostly need to decide syntax
+							})
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(4), Data: " One panel per view. A view's root element carries data-view=\"NAME\" (UI.md); its\n\t\t\t\t     tab is shown once the panel holds it (see page.css). Put the view's element\n\t\t\t\t     inside its panel. "}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-curve"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-curve"}}}
+					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("hidden", c.tab != "curve")
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-map"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-map"}}}
+					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("hidden", c.tab != "map")
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-plan"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-plan"}}}
+					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("hidden", c.tab != "plan")
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-check"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-check"}}}
+					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("hidden", c.tab != "check")
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-data"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-data"}}}
+					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("hidden", c.tab != "data")
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-share"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-share"}}}
+					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("hidden", c.tab != "share")
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel panel-about"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-about"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-about"}}}
+					vgparent.AppendChild(vgn)
+					vgn.AddAttrInterface("hidden", c.tab != "about")
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t\t"}
+						vgparent.AppendChild(vgn)
+						{
+							vgcompKey := vugu.MakeCompKey(0xCAE027BBC80A9095^vgin.CurrentPositionHash(), vgiterkey)
+							// ask BuildEnv for prior instance of this specific component
+							vgcomp, _ := vgin.BuildEnv.CachedComponent(vgcompKey).(*Assumptions)
+							if vgcomp == nil {
+								// create new one if needed
+								vgcomp = new(Assumptions)
+								vgin.BuildEnv.WireComponent(vgcomp)
+							}
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+							vgout.Components = append(vgout.Components, vgcomp)
+							vgn = &vugu.VGNode{Component: vgcomp}
+							vgparent.AppendChild(vgn)
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+					vgparent.AppendChild(vgn)
+				}
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+				vgparent.AppendChild(vgn)
+			}
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 			vgparent.AppendChild(vgn)
 		}
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}

@@ -2,6 +2,7 @@ package ui
 
 import (
 	"errors"
+	"strings"
 	"testing"
 )
 
@@ -29,14 +30,18 @@ func TestRootStates(t *testing.T) {
 		t.Fatalf("after Init: state %s, %d evaluations", c.State(), len(ev.calls))
 	}
 	ev.dones[0](Figures{MSE: 0.5, Converged: true, Iterations: 3}, nil)
-	if c.State() != "ready" || !c.have || c.Figures.MSE != 0.5 {
-		t.Fatalf("after a result: state %s, have %v", c.State(), c.have)
+	if c.State() != "ready" || !c.have || c.stale || c.Figures.MSE != 0.5 {
+		t.Fatalf("after a result: state %s, have %v, stale %v", c.State(), c.have, c.stale)
+	}
+	first := c.summary
+	if !strings.Contains(first, "m/n = 0.4") || !strings.Contains(first, "noise variance 0.01") {
+		t.Errorf("summary %q does not state the scenario", first)
 	}
 
-	// An edit cancels nothing finished, hides the old figures and starts a new evaluation.
+	// An edit starts a new evaluation and keeps the old figures on screen until it ends.
 	_ = c.Model.SetText("in-noise-variance", "0.1")
 	c.changed()
-	if c.have || c.State() != "busy" || len(ev.calls) != 2 || ev.cancelled[0] {
+	if !c.have || c.State() != "busy" || len(ev.calls) != 2 || ev.cancelled[0] {
 		t.Fatalf("after an edit: have %v, state %s, calls %d", c.have, c.State(), len(ev.calls))
 	}
 	// A second edit while busy cancels the running evaluation.
@@ -46,34 +51,103 @@ func TestRootStates(t *testing.T) {
 		t.Errorf("the running evaluation was not cancelled")
 	}
 	ev.dones[2](Figures{}, errors.New("penalty.l1: must be positive"))
-	if c.State() != "error" || c.have || c.problem != "penalty.l1: must be positive" {
-		t.Errorf("after an engine error: state %s, have %v, problem %q", c.State(), c.have, c.problem)
+	if c.State() != "error" || !c.stale || c.problem != "penalty.l1: must be positive" || c.Figures.MSE != 0.5 {
+		t.Errorf("after an engine error: state %s, stale %v, problem %q, mse %v", c.State(), c.stale, c.problem, c.Figures.MSE)
 	}
 
-	// Text that is not a number never reaches the evaluator.
+	// Text that is not a number never reaches the evaluator; the input is marked and the
+	// last valid figures stay, with the summary of their scenario.
 	_ = c.Model.SetText("in-noise-variance", "x")
 	c.changed()
-	if len(ev.calls) != 3 || c.State() != "error" {
-		t.Errorf("bad text: %d evaluations, state %s", len(ev.calls), c.State())
+	if len(ev.calls) != 3 || c.State() != "error" || !c.stale || c.summary != first {
+		t.Errorf("bad text: %d evaluations, state %s, stale %v, summary %q", len(ev.calls), c.State(), c.stale, c.summary)
+	}
+	if msg := c.checked.Invalid["in-noise-variance"]; !strings.Contains(msg, "noise.variance") {
+		t.Errorf("the noise input is not marked: %q", msg)
+	}
+	// Fixing it brings fresh figures and clears the marks.
+	_ = c.Model.SetText("in-noise-variance", "0.3")
+	c.changed()
+	ev.dones[3](Figures{MSE: 0.7, Converged: true}, nil)
+	if c.State() != "ready" || c.stale || len(c.checked.Invalid) != 0 || c.Figures.MSE != 0.7 || !strings.Contains(c.summary, "0.3") {
+		t.Errorf("after the fix: state %s, stale %v, marks %v, summary %q", c.State(), c.stale, c.checked.Invalid, c.summary)
 	}
 }
 
+// Without an evaluator the page says so instead of showing nothing.
+func TestRootWithoutEvaluator(t *testing.T) {
+	c := &Root{}
+	c.Init(nil)
+	if c.State() != "error" || !strings.Contains(c.problem, "not connected") {
+		t.Errorf("state %s, problem %q", c.State(), c.problem)
+	}
+}
+
+func TestTabs(t *testing.T) {
+	c := &Root{Eval: &recorder{}}
+	c.Init(nil)
+	if c.Tab() != viewTabs[0].Name || c.selectedText(viewTabs[0].Name) != "true" {
+		t.Errorf("first tab %q not selected", viewTabs[0].Name)
+	}
+	c.showTab("about")
+	if c.Tab() != "about" || c.selectedText("curve") != "false" {
+		t.Errorf("about not selected: %q", c.Tab())
+	}
+	c.showTab("nowhere")
+	if c.Tab() != "about" {
+		t.Errorf("an unknown tab changed the selection to %q", c.Tab())
+	}
+}
+
+// Every figure of `hdrisk eval` that the page shows carries its name and its value at full
+// precision (contract 4); TPP and FDP say when they do not apply; flags read true/false.
 func TestResultsCarryFullPrecision(t *testing.T) {
-	r := &Results{Figures: Figures{MSE: 0.006618111408899176, NMSEdB: -8.782359305628198, Iterations: 23, Converged: true}}
+	f := Figures{MSE: 0.006618111408899176, NMSEdB: -8.782359305628198, Iterations: 23, Converged: true,
+		NonzeroFraction: 0.0812345678901234, TPP: 0.75, FDP: 0.125, TrainError: 0.0031234567890123, Susceptibility: 1.2345678901234567}
+	r := &Results{Figures: f, Have: true, Support: true, Zeroes: true}
 	got := map[string]row{}
 	for _, x := range r.rows() {
 		got[x.Name] = x
 	}
-	if got["mse"].Value != "0.006618111408899176" || got["mse"].Shown != "0.006618" {
-		t.Errorf("mse row = %+v", got["mse"])
+	want := map[string]string{"mse": "0.006618111408899176", "nmse_db": "-8.782359305628198", "nonzero_fraction": "0.0812345678901234",
+		"tpp": "0.75", "fdp": "0.125", "train_error": "0.0031234567890123", "susceptibility": "1.2345678901234567",
+		"converged": "true", "iterations": "23", "estimate_zero": "false"}
+	if len(got) != len(want) {
+		t.Errorf("%d figures, want the %d names of hdrisk eval", len(got), len(want))
 	}
-	if got["nmse_db"].Shown != "-8.78 dB" || got["nmse_db"].Value != "-8.782359305628198" {
-		t.Errorf("nmse_db row = %+v", got["nmse_db"])
+	for name, v := range want {
+		if got[name].Value != v || got[name].Applies != "true" {
+			t.Errorf("%s: data-value %q applies %s, want %q", name, got[name].Value, got[name].Applies, v)
+		}
 	}
-	if got["converged"].Value != "true" || got["estimate_zero"].Value != "false" || got["iterations"].Value != "23" {
-		t.Errorf("flags = %+v %+v %+v", got["converged"], got["estimate_zero"], got["iterations"])
+	if got["mse"].Shown != "0.006618" || got["nmse_db"].Shown != "-8.78 dB" {
+		t.Errorf("shown: mse %q, nmse %q", got["mse"].Shown, got["nmse_db"].Shown)
 	}
-	if len(got) != 7 {
-		t.Errorf("%d figures, want the 7 of contract 3", len(got))
+	r.Support = false
+	for _, x := range r.rows() {
+		if (x.Name == "tpp" || x.Name == "fdp") && (x.Applies != "false" || x.Shown != "n/a" || x.Value == "") {
+			t.Errorf("%s for a dense signal: %+v", x.Name, x)
+		}
+	}
+}
+
+// A result that did not converge is said to be one, in words and in the converged figure.
+func TestResultsUnconverged(t *testing.T) {
+	r := &Results{Figures: Figures{MSE: 0.1, Iterations: 2000}, Have: true}
+	var conv row
+	for _, x := range r.rows() {
+		if x.Name == "converged" {
+			conv = x
+		}
+	}
+	if conv.Value != "false" || conv.Shown != "NO" || conv.Kind != "warning" {
+		t.Errorf("converged row = %+v", conv)
+	}
+	if !strings.Contains(r.unconvergedText(), "2000 iterations") || r.convergedText() != "false" {
+		t.Errorf("message %q, data-converged %q", r.unconvergedText(), r.convergedText())
+	}
+	r.Stale, r.Summary, r.Problem = true, "Design: x.", "penalty.l1: bad"
+	if !strings.HasPrefix(r.summaryText(), "Last valid scenario") || !strings.Contains(r.problemText(), "last valid") {
+		t.Errorf("stale texts: %q / %q", r.summaryText(), r.problemText())
 	}
 }

@@ -1,0 +1,247 @@
+package ui
+
+import (
+	"bytes"
+	"encoding/base64"
+	"errors"
+	"fmt"
+	"image/color"
+	"math"
+	"math/rand/v2"
+	"slices"
+
+	"gonum.org/v1/gonum/stat/distuv"
+	gplot "gonum.org/v1/plot"
+	"gonum.org/v1/plot/font"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgsvg"
+
+	"hdrisk/engine/design"
+	"hdrisk/engine/signal"
+)
+
+// The editor's two small figures: the law of the design's singular values and the law of
+// the signal's entries. They are drawn here, not by the studies' figure package, because
+// they need bars and atoms rather than curves; colours are those of the Okabe-Ito palette
+// (Okabe and Ito 2008, "Color Universal Design").
+var (
+	editorBlue       = color.RGBA{0x00, 0x72, 0xB2, 0xFF}
+	editorVermillion = color.RGBA{0xD5, 0x5E, 0x00, 0xFF}
+	editorSky        = color.RGBA{0x56, 0xB4, 0xE9, 0xFF}
+)
+
+// Size of an editor figure, in points; shown at the width of the editor column.
+const (
+	editorPlotW = 260
+	editorPlotH = 150
+	// editorPlotN is the number of columns of the instance whose singular values are shown.
+	editorPlotN = 400
+	// editorMaxAtoms: a law with at most this many distinct values is drawn as atoms.
+	editorMaxAtoms = 12
+	// editorSamples is the number of draws histogrammed for a law known only by sampling.
+	editorSamples = 20000
+)
+
+// lawPlot is a figure of a law as an <img>: its data: URL and a text alternative.
+type lawPlot struct {
+	URL, Alt string
+}
+
+// designPlot draws the singular values of an m x n instance of law (n = 400, m = alpha n),
+// taken from the quantiles of the law (design.Law.SingularValues): a histogram normalised to
+// a density, or atoms with their share when the values take few distinct levels.
+func designPlot(law design.Law) (lawPlot, error) {
+	n := editorPlotN
+	m := max(1, int(math.Round(law.Alpha()*float64(n))))
+	sv := law.SingularValues(m, n)
+	if len(sv) == 0 {
+		return lawPlot{}, errors.New("the design has no singular values to show")
+	}
+	p := newEditorPlot("singular value", "density")
+	lo, hi := slices.Min(sv), slices.Max(sv)
+	if atoms, ok := distinct(sv); ok {
+		if err := addAtoms(p, atoms, editorBlue); err != nil {
+			return lawPlot{}, err
+		}
+		p.Y.Label.Text = "share"
+	} else {
+		h, err := plotter.NewHist(plotter.Values(sv), 24)
+		if err != nil {
+			return lawPlot{}, err
+		}
+		h.Normalize(1)
+		h.FillColor, h.LineStyle.Color = editorSky, editorBlue
+		p.Add(h)
+	}
+	alt := fmt.Sprintf("Singular values of a %d x %d instance of this design, from %.3g to %.3g (after scaling).", m, n, lo, hi)
+	return render(p, alt)
+}
+
+// signalPlot draws the law of one signal entry from its Gaussian-mixture form
+// (signal.Law.Mixture): point masses as atoms with their probability, the rest as a density.
+// A law whose mixture is a discretization with point masses (not the law itself) is drawn
+// as a histogram of draws from the law instead, so that no artefact of the discretization
+// shows.
+func signalPlot(law signal.Law) (lawPlot, error) {
+	comps := law.Mixture()
+	var atoms []plotter.XY
+	var cont []signal.Component
+	for _, c := range comps {
+		if c.Weight <= 0 {
+			continue
+		}
+		if c.Var == 0 {
+			atoms = append(atoms, plotter.XY{X: c.Mean, Y: c.Weight})
+		} else {
+			cont = append(cont, c)
+		}
+	}
+	p := newEditorPlot("value of an entry", "density")
+	if !law.Exact() && len(atoms) > 0 {
+		x := law.Sample(rand.New(rand.NewPCG(1, 2)), editorSamples)
+		h, err := plotter.NewHist(plotter.Values(x), 40)
+		if err != nil {
+			return lawPlot{}, err
+		}
+		h.Normalize(1)
+		h.FillColor, h.LineStyle.Color = editorSky, editorBlue
+		p.Add(h)
+		return render(p, fmt.Sprintf("Histogram of %d draws of one signal entry.", editorSamples))
+	}
+	alt := "Law of one signal entry:"
+	if len(cont) > 0 {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		var total float64
+		for _, c := range cont {
+			total += c.Weight
+		}
+		for _, c := range cont {
+			if c.Weight < 1e-3*total {
+				continue
+			}
+			sd := math.Sqrt(c.Var)
+			lo, hi = math.Min(lo, c.Mean-4*sd), math.Max(hi, c.Mean+4*sd)
+		}
+		for _, a := range atoms {
+			lo, hi = math.Min(lo, a.X), math.Max(hi, a.X)
+		}
+		if rms := math.Sqrt(law.Second()); rms > 0 {
+			lo, hi = math.Max(lo, -8*rms), math.Min(hi, 8*rms)
+		}
+		const points = 241
+		line := make(plotter.XYs, points)
+		for i := range line {
+			x := lo + (hi-lo)*float64(i)/(points-1)
+			var d float64
+			for _, c := range cont {
+				d += c.Weight * distuv.Normal{Mu: c.Mean, Sigma: math.Sqrt(c.Var)}.Prob(x)
+			}
+			line[i] = plotter.XY{X: x, Y: d}
+		}
+		l, err := plotter.NewLine(line)
+		if err != nil {
+			return lawPlot{}, err
+		}
+		l.Color, l.Width = editorBlue, vg.Points(1.5)
+		l.FillColor = color.RGBA{0x56, 0xB4, 0xE9, 0x60}
+		p.Add(l)
+		alt += fmt.Sprintf(" a density carrying probability %.3g, drawn from %.3g to %.3g;", total, lo, hi)
+	}
+	if len(atoms) > 0 {
+		if err := addAtoms(p, atoms, editorVermillion); err != nil {
+			return lawPlot{}, err
+		}
+		if len(cont) == 0 {
+			p.Y.Label.Text = "probability"
+		} else {
+			p.Y.Label.Text = "density; atoms: probability"
+		}
+		alt += fmt.Sprintf(" %d point mass(es), the largest %.3g at %.3g;", len(atoms), maxWeight(atoms).Y, maxWeight(atoms).X)
+	}
+	return render(p, alt)
+}
+
+func maxWeight(a []plotter.XY) plotter.XY {
+	best := a[0]
+	for _, x := range a[1:] {
+		if x.Y > best.Y {
+			best = x
+		}
+	}
+	return best
+}
+
+// distinct returns the distinct values of v with their share, when there are at most
+// editorMaxAtoms of them (values within 1e-9 relative count as one).
+func distinct(v []float64) ([]plotter.XY, bool) {
+	s := slices.Clone(v)
+	slices.Sort(s)
+	var out []plotter.XY
+	for _, x := range s {
+		if k := len(out) - 1; k >= 0 && math.Abs(x-out[k].X) <= 1e-9*math.Max(1, math.Abs(x)) {
+			out[k].Y++
+			continue
+		}
+		if len(out) == editorMaxAtoms {
+			return nil, false
+		}
+		out = append(out, plotter.XY{X: x, Y: 1})
+	}
+	for i := range out {
+		out[i].Y /= float64(len(s))
+	}
+	return out, true
+}
+
+// addAtoms draws each point mass as a stem from zero up to its weight, topped by a dot.
+func addAtoms(p *gplot.Plot, atoms []plotter.XY, col color.Color) error {
+	for _, a := range atoms {
+		l, err := plotter.NewLine(plotter.XYs{{X: a.X, Y: 0}, a})
+		if err != nil {
+			return err
+		}
+		l.Color, l.Width = col, vg.Points(2)
+		p.Add(l)
+	}
+	s, err := plotter.NewScatter(plotter.XYs(atoms))
+	if err != nil {
+		return err
+	}
+	s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}
+	p.Add(s)
+	p.Y.Min = 0
+	if len(atoms) == 1 {
+		// A single atom needs room on both sides to be seen as one.
+		w := math.Max(0.5*math.Abs(atoms[0].X), 0.5)
+		p.X.Min, p.X.Max = atoms[0].X-w, atoms[0].X+w
+	}
+	return nil
+}
+
+func newEditorPlot(x, y string) *gplot.Plot {
+	p := gplot.New()
+	for _, f := range []*font.Font{&p.X.Label.TextStyle.Font, &p.Y.Label.TextStyle.Font, &p.X.Tick.Label.Font, &p.Y.Tick.Label.Font} {
+		f.Typeface, f.Variant, f.Size = "Liberation", "Sans", vg.Points(9)
+	}
+	p.X.Label.Text, p.Y.Label.Text = x, y
+	p.X.Padding, p.Y.Padding = vg.Points(2), vg.Points(2)
+	return p
+}
+
+func render(p *gplot.Plot, alt string) (lp lawPlot, err error) {
+	// gonum/plot panics on some degenerate ranges; that is a figure we cannot draw, not a crash.
+	defer func() {
+		if r := recover(); r != nil {
+			err = fmt.Errorf("the figure cannot be drawn: %v", r)
+		}
+	}()
+	c := vgsvg.New(editorPlotW, editorPlotH)
+	p.Draw(draw.New(c))
+	var b bytes.Buffer
+	if _, err := c.WriteTo(&b); err != nil {
+		return lawPlot{}, err
+	}
+	return lawPlot{URL: "data:image/svg+xml;base64," + base64.StdEncoding.EncodeToString(b.Bytes()), Alt: alt}, nil
+}
