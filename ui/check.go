@@ -1,0 +1,543 @@
+package ui
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"math"
+	"slices"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/vugu/vugu"
+
+	"hdrisk/engine/scenario"
+	"hdrisk/ui/plot"
+	"hdrisk/wasm/job"
+)
+
+// Run states of a view (contract 4 hooks: data-run).
+const (
+	RunIdle      = "idle"
+	RunRunning   = "running"
+	RunDone      = "done"
+	RunCancelled = "cancelled"
+	RunError     = "error"
+)
+
+// Choices of the check's solver and orthogonal factors, with the page's labels.
+var (
+	CheckSolvers = []Kind{
+		{Name: "cd", Label: "Coordinate descent (L1, ridge, elastic net)"},
+		{Name: "prox", Label: "Accelerated proximal gradient (any penalty)"},
+		{Name: "vamp", Label: "Vector AMP (any penalty)"},
+	}
+	CheckFactors = []Kind{
+		{Name: "fast", Label: "Fast random transforms"},
+		{Name: "haar-qr", Label: "Haar by QR (slow, exact)"},
+		{Name: "haar-householder", Label: "Haar by reflections"},
+	}
+)
+
+// Limits of the check the page asks for: a finite-size check is a look at the prediction,
+// not a production run, and must fit in the page's memory and patience.
+const (
+	maxCheckN      = 20000
+	maxCheckTrials = 1000
+	maxCheckPoints = 12
+	curvePoints    = 60
+)
+
+// checkPoint is one check on the figure: the value of the swept number and the result.
+type checkPoint struct {
+	At     float64
+	Result job.CheckResult
+}
+
+// checkStart prepares a check: defaults, or the settings the scenario carries in study.check.
+func (c *CheckView) checkStart() {
+	if c.nText != "" {
+		return
+	}
+	c.nText, c.trialsText, c.seedText, c.Solver, c.Factors = "500", "20", "1", "cd", "fast"
+	c.run = RunIdle
+	if c.Model != nil && c.Model.Study != nil && c.Model.Study.Check != nil {
+		k := c.Model.Study.Check
+		c.nText, c.trialsText, c.seedText = strconv.Itoa(k.N), strconv.Itoa(k.Trials), strconv.FormatUint(k.Seed, 10)
+		if k.Solver != "" {
+			c.Solver = k.Solver
+		}
+	}
+}
+
+// Init implements vugu's initializer.
+func (c *CheckView) Init(vugu.InitCtx) { c.checkStart() }
+
+// Run is the data-run hook: idle, running, done, cancelled or error.
+func (c *CheckView) Run() string { return c.run }
+
+// Settings texts, as the inputs show them.
+func (c *CheckView) NText() string      { return c.nText }
+func (c *CheckView) TrialsText() string { return c.trialsText }
+func (c *CheckView) SeedText() string   { return c.seedText }
+func (c *CheckView) AtText() string     { return c.atText }
+
+// SetSetting stores the text of one input of the check: "n", "trials", "seed", "solver",
+// "factors", "over" or "at". Special cases are: an unknown name is an error.
+func (c *CheckView) SetSetting(name, text string) error {
+	c.checkStart()
+	switch name {
+	case "n":
+		c.nText = text
+	case "trials":
+		c.trialsText = text
+	case "seed":
+		c.seedText = text
+	case "solver":
+		c.Solver = text
+	case "factors":
+		c.Factors = text
+	case "over":
+		c.Over = text
+	case "at":
+		c.atText = text
+	default:
+		return fmt.Errorf("no setting %q", name)
+	}
+	return nil
+}
+
+func wholeNumber(field, text string, lo, hi int) (int, error) {
+	t := strings.TrimSpace(text)
+	v, err := strconv.Atoi(t)
+	if err != nil {
+		return 0, fmt.Errorf("%s: %q is not a whole number", field, t)
+	}
+	if v < lo || v > hi {
+		return 0, fmt.Errorf("%s: must be between %d and %d, not %d", field, lo, hi, v)
+	}
+	return v, nil
+}
+
+// settings reads the inputs. Errors name the input.
+func (c *CheckView) settings() (scenario.Check, []float64, error) {
+	var k scenario.Check
+	var err error
+	if k.N, err = wholeNumber("n", c.nText, 2, maxCheckN); err != nil {
+		return k, nil, err
+	}
+	if k.Trials, err = wholeNumber("trials", c.trialsText, 1, maxCheckTrials); err != nil {
+		return k, nil, err
+	}
+	seed, err := strconv.ParseUint(strings.TrimSpace(c.seedText), 10, 64)
+	if err != nil || seed > scenario.MaxSeed {
+		return k, nil, fmt.Errorf("seed: must be a whole number from 0 to %d, not %q", uint64(scenario.MaxSeed), strings.TrimSpace(c.seedText))
+	}
+	k.Seed, k.Solver = seed, c.Solver
+	if !slices.ContainsFunc(CheckSolvers, func(s Kind) bool { return s.Name == c.Solver }) {
+		return k, nil, fmt.Errorf("solver: %q is not one of cd, prox, vamp", c.Solver)
+	}
+	if c.Over == "" {
+		return k, nil, nil
+	}
+	words := strings.FieldsFunc(c.atText, func(r rune) bool { return r == ',' || r == ';' || r == ' ' || r == '\t' || r == '\n' })
+	if len(words) == 0 {
+		return k, nil, fmt.Errorf("at: list the values of %s to check at", c.Over)
+	}
+	if len(words) > maxCheckPoints {
+		return k, nil, fmt.Errorf("at: %d values; the page checks at most %d at a time", len(words), maxCheckPoints)
+	}
+	xs := make([]float64, len(words))
+	for i, w := range words {
+		v, err := strconv.ParseFloat(w, 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			return k, nil, fmt.Errorf("at: %q is not a number", w)
+		}
+		xs[i] = v
+	}
+	slices.Sort(xs)
+	return k, slices.Compact(xs), nil
+}
+
+// Paths lists the numbers of the current scenario a check can be repeated over.
+func (c *CheckView) Paths() []scenario.PathInfo {
+	if c.Model == nil {
+		return nil
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		return nil
+	}
+	return ch.Scenario.Paths()
+}
+
+// Start runs the check: one job, or one per value of Over, one after the other. The
+// settings go into the scenario's study.check so that they travel with it.
+func (c *CheckView) Start() {
+	c.checkStart()
+	if c.cancel != nil {
+		return
+	}
+	c.problem, c.points, c.figure, c.figErr = "", nil, nil, ""
+	k, xs, err := c.settings()
+	if err != nil {
+		c.run, c.problem = RunError, err.Error()
+		return
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		c.run, c.problem = RunError, "the scenario is not valid: "+ch.Err.Error()
+		return
+	}
+	st := scenario.Study{}
+	if c.Model.Study != nil {
+		st = *c.Model.Study
+	}
+	st.View, st.Check = "check", &k
+	c.Model.Study = &st
+	if c.Jobs == nil {
+		c.run, c.problem = RunError, "the compute workers are still starting; press Run again in a moment"
+		return
+	}
+	c.scen, c.xs, c.settingsUsed = ch.JSON, xs, k
+	c.started = c.now()
+	c.run = RunRunning
+	c.next()
+}
+
+func (c *CheckView) now() time.Time {
+	if c.Clock != nil {
+		return c.Clock()
+	}
+	return time.Now()
+}
+
+// args returns the job arguments of the next point.
+func (c *CheckView) args() job.CheckArgs {
+	k := c.settingsUsed
+	a := job.CheckArgs{Scenario: c.scen, N: k.N, Trials: k.Trials, Seed: k.Seed, Solver: k.Solver, Factors: c.Factors}
+	if len(c.xs) > 0 {
+		a.Over, a.At = c.Over, c.xs[len(c.points)]
+		if len(c.points) == 0 {
+			a.Curve = c.curveSpec()
+		}
+	}
+	return a
+}
+
+// curveSpec spans the checked values, geometrically for numbers that span decades.
+func (c *CheckView) curveSpec() *job.CurveSpec {
+	lo, hi := c.xs[0], c.xs[len(c.xs)-1]
+	log := lo > 0
+	for _, p := range c.Paths() {
+		if p.Name == c.Over || p.Path == c.Over {
+			log = log && p.Log
+		}
+	}
+	if lo == hi {
+		if log {
+			lo, hi = lo/2, hi*2
+		} else {
+			d := math.Max(math.Abs(lo)/2, 0.1)
+			lo, hi = lo-d, hi+d
+		}
+	}
+	return &job.CurveSpec{Over: c.Over, From: lo, To: hi, Points: curvePoints, Log: log}
+}
+
+func (c *CheckView) next() {
+	c.trial, c.trials = 0, c.settingsUsed.Trials
+	if len(c.points) == 0 {
+		c.curve = nil
+	}
+	finished := false // a fake or a failing pool may answer before Start returns
+	cancel := c.Jobs.Start("check", c.args(), func(done, total int) {
+		c.trial, c.trials = done, total
+	}, func(res []byte, err error) {
+		finished, c.cancel = true, nil
+		if err == nil {
+			var r job.CheckResult
+			if err = json.Unmarshal(res, &r); err == nil {
+				c.points = append(c.points, checkPoint{At: float64(r.At), Result: r})
+				if r.Curve != nil {
+					c.curve = r.Curve
+				}
+			}
+		}
+		if err != nil {
+			c.run, c.problem = RunError, err.Error()
+			c.elapsed = c.now().Sub(c.started)
+			c.draw()
+			return
+		}
+		if len(c.xs) > len(c.points) {
+			c.next()
+			return
+		}
+		c.run, c.elapsed = RunDone, c.now().Sub(c.started)
+		c.draw()
+	})
+	if !finished {
+		c.cancel = cancel
+	}
+}
+
+// Cancel stops a running check; the points already finished stay on show.
+func (c *CheckView) Cancel() {
+	if c.cancel == nil {
+		return
+	}
+	c.cancel()
+	c.cancel = nil
+	c.run, c.elapsed = RunCancelled, c.now().Sub(c.started)
+	c.draw()
+}
+
+// Status is the progress line, e.g. "Value 2 of 4 (l1 = 0.05): trial 7 of 20".
+func (c *CheckView) Status() string {
+	switch c.run {
+	case RunRunning:
+		s := fmt.Sprintf("Trial %d of %d", c.trial, c.trials)
+		if c.trial == 0 {
+			s = fmt.Sprintf("Drawing the first of %d trials", c.trials)
+		}
+		if len(c.xs) > 0 {
+			s = fmt.Sprintf("Value %d of %d (%s = %s): %s", len(c.points)+1, len(c.xs), c.Over, fmtNum(c.xs[len(c.points)]), strings.ToLower(s[:1])+s[1:])
+		}
+		return s + "…"
+	case RunDone:
+		return fmt.Sprintf("Finished in %.2f s.", c.elapsed.Seconds())
+	case RunCancelled:
+		return fmt.Sprintf("Cancelled after %.2f s; %d of %d values finished.", c.elapsed.Seconds(), len(c.points), max(len(c.xs), 1))
+	}
+	return ""
+}
+
+// Problem says why the check failed or cannot start; "" when there is no problem.
+func (c *CheckView) Problem() string { return c.problem }
+
+// Latest is the most recent finished check, shown in full.
+func (c *CheckView) Latest() (job.CheckResult, bool) {
+	if len(c.points) == 0 {
+		return job.CheckResult{}, false
+	}
+	return c.points[len(c.points)-1].Result, true
+}
+
+// checkRow is one line of the results: the observed mean beside the prediction.
+type checkRow struct {
+	Label, Name, Value, Shown, PredName, PredValue, PredShown string
+}
+
+func fmtNum(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
+
+func fullNum(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// Rows are the headline numbers of the latest check, each with its data-figure hooks.
+func (c *CheckView) Rows() []checkRow {
+	r, ok := c.Latest()
+	if !ok {
+		return nil
+	}
+	stat := func(label, name string, s job.CheckStat) checkRow {
+		return checkRow{Label: label, Name: "check_" + name, Value: fullNum(float64(s.Mean)),
+			Shown:    fmtNum(float64(s.Mean)) + " ± " + fmtNum(float64(s.StdErr)),
+			PredName: "check_predicted_" + name, PredValue: fullNum(float64(s.Predicted)), PredShown: fmtNum(float64(s.Predicted))}
+	}
+	return []checkRow{
+		{Label: "Mean squared error", Name: "check_mean_mse", Value: fullNum(float64(r.MeanMSE)),
+			Shown:    fmtNum(float64(r.MeanMSE)) + " ± " + fmtNum(float64(r.StdErr)),
+			PredName: "check_predicted_mse", PredValue: fullNum(float64(r.PredictedMSE)), PredShown: fmtNum(float64(r.PredictedMSE))},
+		stat("Fraction nonzero", "nonzero_fraction", r.Nonzero),
+		stat("True positive proportion", "tpp", r.TPP),
+		stat("False discovery proportion", "fdp", r.FDP),
+	}
+}
+
+// Facts are the lines that say how the latest check was run, as name, data-value and text.
+func (c *CheckView) Facts() [][3]string {
+	r, ok := c.Latest()
+	if !ok {
+		return nil
+	}
+	conv := "every trial met its stopping rule"
+	if !r.Converged {
+		conv = fmt.Sprintf("%d of %d trials stopped at the iteration limit (%d) before meeting the rule; their estimates are not solutions and are included in the means", r.NotConverged, r.Trials, r.MaxIter)
+	}
+	out := [][3]string{
+		{"check_stderr", fullNum(float64(r.StdErr)), "Standard error of the mean: " + fmtNum(float64(r.StdErr))},
+		{"check_size", fmt.Sprint(r.N), fmt.Sprintf("%d trials of n = %d unknowns, m = %d measurements, seed %d, %s factors", r.Trials, r.N, r.M, r.Seed, r.Factors)},
+		{"check_rule", r.Criterion, fmt.Sprintf("Solver %s stops when its %s is at most %g (at most %d iterations)", r.Solver, r.Criterion, float64(r.Tol), r.MaxIter)},
+		{"check_converged", strconv.FormatBool(r.Converged), "Convergence: " + conv},
+		{"check_seconds", fullNum(float64(r.Seconds)), fmt.Sprintf("Time in the worker: %.2f s", float64(r.Seconds))},
+	}
+	if !r.PredictionConverged {
+		out = append(out, [3]string{"check_prediction_converged", "false", "The prediction's fixed point did not converge; treat it as rough"})
+	}
+	if len(c.points) > 1 || c.Over != "" {
+		out = append(out, [3]string{"check_at", fullNum(float64(r.At)), fmt.Sprintf("At %s = %s", r.Over, fmtNum(float64(r.At)))})
+	}
+	return out
+}
+
+// PerTrial are the latest check's trials as text lines.
+func (c *CheckView) PerTrial() []string {
+	r, ok := c.Latest()
+	if !ok {
+		return nil
+	}
+	var out []string
+	for i, t := range r.PerTrial {
+		s := fmt.Sprintf("Trial %d: MSE %s, nonzero %s, TPP %s, FDP %s, %d iterations", i+1,
+			fmtNum(float64(t.MSE)), fmtNum(float64(t.Nonzero)), fmtNum(float64(t.TPP)), fmtNum(float64(t.FDP)), t.Iterations)
+		if !t.Converged {
+			s += " — stopped at the iteration limit, not converged"
+		}
+		out = append(out, s)
+	}
+	return out
+}
+
+// PointRows are the finished checks of a run over several values: value, mean ± s.e.,
+// prediction.
+func (c *CheckView) PointRows() [][3]string {
+	if len(c.xs) == 0 {
+		return nil
+	}
+	var out [][3]string
+	for _, p := range c.points {
+		r := p.Result
+		out = append(out, [3]string{fmtNum(p.At), fmtNum(float64(r.MeanMSE)) + " ± " + fmtNum(float64(r.StdErr)), fmtNum(float64(r.PredictedMSE))})
+	}
+	return out
+}
+
+// figureSpec is the figure of the finished points: over Over, the predicted curve with the
+// checks' means and error bars (±1 standard error); without Over, each trial's error beside
+// the predicted level.
+func (c *CheckView) figureSpec() (plot.Line, bool) {
+	if len(c.points) == 0 {
+		return plot.Line{}, false
+	}
+	if len(c.xs) == 0 {
+		r := c.points[0].Result
+		var x, y []float64
+		for i, t := range r.PerTrial {
+			x, y = append(x, float64(i+1)), append(y, float64(t.MSE))
+		}
+		return plot.Line{Title: "Error of each trial beside the prediction", XLabel: "trial", YLabel: "MSE",
+			Series: []plot.Series{{Name: "trial", X: x, Y: y, Marks: true, NoLine: true}},
+			HLines: []plot.Mark{{At: float64(r.PredictedMSE), Label: "predicted"}, {At: float64(r.MeanMSE), Label: "mean of trials"}}}, true
+	}
+	var cx, cy, mx, my, me []float64
+	for _, p := range c.curve {
+		cx, cy = append(cx, float64(p.X)), append(cy, float64(p.MSE))
+		if !p.OK {
+			cy[len(cy)-1] = math.NaN()
+		}
+	}
+	for _, p := range c.points {
+		mx, my, me = append(mx, p.At), append(my, float64(p.Result.MeanMSE)), append(me, float64(p.Result.StdErr))
+	}
+	cs := c.curveSpec()
+	return plot.Line{Title: "Predicted error and finite-size checks", XLabel: c.Over, YLabel: "MSE", XLog: cs.Log,
+		Series: []plot.Series{
+			{Name: "predicted", X: cx, Y: cy},
+			{Name: fmt.Sprintf("mean of %d trials ± 1 s.e.", c.settingsUsed.Trials), X: mx, Y: my, Err: me, Marks: true, NoLine: true},
+		}}, true
+}
+
+// draw builds the figure of the finished points.
+func (c *CheckView) draw() {
+	c.figure, c.figErr, c.figURL = nil, "", ""
+	spec, ok := c.figureSpec()
+	if !ok {
+		return
+	}
+	f, err := spec.Build()
+	if err == nil {
+		var svg []byte
+		if svg, err = f.SVG(); err == nil {
+			c.figure, c.figURL = f, plot.DataURL("image/svg+xml", svg)
+		}
+	}
+	if err != nil {
+		c.figErr = "the figure could not be drawn: " + err.Error()
+	}
+}
+
+// FigureURL is the figure as a data: URL for <img src>; "" when there is none.
+func (c *CheckView) FigureURL() string { return c.figURL }
+
+// FigureProblem says why there is no figure after a check.
+func (c *CheckView) FigureProblem() string { return c.figErr }
+
+// CSV is the per-trial table of every finished check.
+func (c *CheckView) CSV() []byte {
+	var b bytes.Buffer
+	w := csv.NewWriter(&b)
+	_ = w.Write([]string{"over", "at", "trial", "mse", "nonzero_fraction", "tpp", "fdp", "iterations", "converged", "residual", "seconds",
+		"mean_mse", "stderr", "predicted_mse", "n", "m", "seed", "solver", "factors", "stop_criterion", "tol"})
+	for _, p := range c.points {
+		r := p.Result
+		at := ""
+		if r.Over != "" {
+			at = fullNum(p.At)
+		}
+		for i, t := range r.PerTrial {
+			_ = w.Write([]string{r.Over, at, strconv.Itoa(i + 1), fullNum(float64(t.MSE)), fullNum(float64(t.Nonzero)),
+				fullNum(float64(t.TPP)), fullNum(float64(t.FDP)), strconv.Itoa(t.Iterations), strconv.FormatBool(t.Converged),
+				fullNum(float64(t.Residual)), fullNum(float64(t.Seconds)), fullNum(float64(r.MeanMSE)), fullNum(float64(r.StdErr)),
+				fullNum(float64(r.PredictedMSE)), strconv.Itoa(r.N), strconv.Itoa(r.M), strconv.FormatUint(r.Seed, 10),
+				r.Solver, r.Factors, r.Criterion, fullNum(float64(r.Tol))})
+		}
+	}
+	w.Flush()
+	return b.Bytes()
+}
+
+// Export offers the check's results (csv) or its figure (svg, png) as a file.
+func (c *CheckView) Export(what string) {
+	if c.Browser == nil {
+		c.problem = "exporting needs the browser"
+		return
+	}
+	var (
+		data []byte
+		err  error
+		name = "hdrisk-check." + what
+		mime string
+	)
+	switch what {
+	case "csv":
+		data, mime = c.CSV(), "text/csv"
+	case "svg", "png":
+		if c.figure == nil {
+			return
+		}
+		if what == "svg" {
+			data, err = c.figure.SVG()
+			mime = "image/svg+xml"
+		} else {
+			data, err = c.figure.PNG(0)
+			mime = "image/png"
+		}
+	default:
+		return
+	}
+	if err == nil {
+		err = c.Browser.Download(name, mime, data)
+	}
+	if err != nil {
+		c.problem = "export: " + err.Error()
+	}
+}
+
+// Running reports whether a check is under way.
+func (c *CheckView) Running() bool { return c.cancel != nil }
+
+func (c *CheckView) typed(e vugu.DOMEvent, name string) {
+	_ = c.SetSetting(name, e.PropString("target", "value"))
+}
