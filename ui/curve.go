@@ -1,0 +1,742 @@
+package ui
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"math"
+	"slices"
+	"strconv"
+	"time"
+
+	"github.com/vugu/vugu"
+
+	"hdrisk/engine/scenario"
+	"hdrisk/engine/study"
+	"hdrisk/ui/plot"
+	"hdrisk/wasm/job"
+)
+
+// sweepPoints is the number of points a new sweep proposes.
+const sweepPoints = 200
+
+// maxCurveSeries bounds the curves drawn at once (the palette has eight colours).
+const maxCurveSeries = 8
+
+// curveSeries is one swept curve: the scenario it belongs to and its points.
+type curveSeries struct {
+	Label  string
+	Scen   scenario.Scenario
+	Points []study.Point
+	cancel func()
+	err    string
+	done   bool
+}
+
+// curveInit reads the sweep settings from the scenario's study.sweep, or proposes a sweep
+// of the first penalty weight.
+func (c *CurveView) curveInit() {
+	if c.inited || c.Model == nil {
+		return
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		return
+	}
+	c.inited, c.Quantity, c.run = true, "nmse_db", RunIdle
+	s := ch.Scenario
+	if st := s.Study; st != nil && st.Sweep != nil {
+		w := st.Sweep
+		c.ax = axisText{Over: w.Over, From: full(w.From), To: full(w.To), Points: strconv.Itoa(w.Points), Log: w.Log}
+		return
+	}
+	over := study.DefaultOver(s)
+	if over == "" {
+		over = "alpha"
+	}
+	c.setOver(s, over)
+}
+
+// setOver chooses the swept number and proposes a range around its current value.
+func (c *CurveView) setOver(s scenario.Scenario, over string) {
+	for _, p := range s.Paths() {
+		if p.Name == over {
+			v, _ := s.Get(over)
+			c.ax = defaultAxis(p, v, sweepPoints)
+			return
+		}
+	}
+	c.ax.Over = over
+}
+
+// Init implements vugu's initializer.
+func (c *CurveView) Init(vugu.InitCtx) { c.curveInit() }
+
+// Run is the data-run hook: idle, running, done, cancelled or error.
+func (c *CurveView) Run() string {
+	if c.run == "" {
+		return RunIdle
+	}
+	return c.run
+}
+
+// Running reports whether any job of the view is on its way.
+func (c *CurveView) Running() bool { return c.run == RunRunning }
+
+// Axis returns the texts of the sweep's inputs.
+func (c *CurveView) Axis() axisText { c.curveInit(); return c.ax }
+
+// Paths are the numbers of the current scenario that can be swept.
+func (c *CurveView) Paths() []scenario.PathInfo {
+	if c.Model == nil {
+		return nil
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		return nil
+	}
+	return ch.Scenario.Paths()
+}
+
+// Quantities are the numbers a curve can show on its y axis.
+func (c *CurveView) Quantities() []study.Observable { return study.Observables() }
+
+// Set stores one setting: "over", "from", "to", "points", "log", "ylog" or "quantity".
+// Choosing "over" proposes a range for it. Special cases are: an unknown name is an error.
+func (c *CurveView) Set(name, text string) error {
+	c.curveInit()
+	switch name {
+	case "over":
+		if c.Model != nil {
+			if ch := c.Model.Check(); ch.Err == nil {
+				c.setOver(ch.Scenario, text)
+				break
+			}
+		}
+		c.ax.Over = text
+	case "from":
+		c.ax.From = text
+	case "to":
+		c.ax.To = text
+	case "points":
+		c.ax.Points = text
+	case "log":
+		c.ax.Log = text == "true"
+	case "ylog":
+		c.YLog = text == "true"
+		c.redraw()
+	case "quantity":
+		c.Quantity = text
+		c.redraw()
+	default:
+		return fmt.Errorf("no setting %q", name)
+	}
+	return nil
+}
+
+func (c *CurveView) typed(e vugu.DOMEvent, name string) {
+	_ = c.Set(name, e.PropString("target", "value"))
+}
+
+func (c *CurveView) ticked(e vugu.DOMEvent, name string) {
+	_ = c.Set(name, strconv.FormatBool(e.PropBool("target", "checked")))
+}
+
+func (c *CurveView) now() time.Time {
+	if c.Clock != nil {
+		return c.Clock()
+	}
+	return time.Now()
+}
+
+// spec reads the settings and the scenario in the editor.
+func (c *CurveView) spec() (scenario.Scenario, job.Axis, error) {
+	if c.Model == nil {
+		return scenario.Scenario{}, job.Axis{}, fmt.Errorf("no scenario")
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		return scenario.Scenario{}, job.Axis{}, fmt.Errorf("the scenario in the editor has a problem: %v", ch.Err)
+	}
+	over, from, to, n, err := c.ax.parse("sweep", scenario.MaxSweepPoints)
+	if err != nil {
+		return scenario.Scenario{}, job.Axis{}, err
+	}
+	return ch.Scenario, job.Axis{Over: over, From: from, To: to, Points: n, Log: c.ax.Log}, nil
+}
+
+// Start sweeps the scenario in the editor (replacing the curve of the current scenario and
+// keeping the kept ones), with the best regularization when the sweep is over l1 or l2 and
+// the Bayes-optimal error when the signal law has one and the sweep leaves it unchanged.
+// The settings go into the scenario's study (view, sweep, best).
+func (c *CurveView) Start() {
+	c.curveInit()
+	c.problem, c.note = "", ""
+	s, ax, err := c.spec()
+	if err != nil {
+		c.problem = err.Error()
+		return
+	}
+	if c.Jobs == nil {
+		c.problem = "the compute workers are still starting; try again in a moment"
+		return
+	}
+	st := studyOf(c.Model, "curve")
+	st.Sweep = &scenario.Sweep{Over: ax.Over, From: ax.From, To: ax.To, Points: ax.Points, Log: ax.Log}
+	isWeight := (ax.Over == "l1" || ax.Over == "l2") && study.DefaultOver(s) != "" && c.hasPenaltyField(s, ax.Over)
+	if isWeight {
+		st.Best = &scenario.Best{Over: ax.Over}
+	}
+	c.Model.Study = st
+
+	c.stopAll()
+	c.axis = ax
+	c.best, c.bestErr, c.bayes, c.bayesNote = nil, "", nil, ""
+	c.current = &curveSeries{Label: c.label(s, "this scenario"), Scen: s}
+	c.seconds = 0
+	c.startSweep(c.current, true)
+	if isWeight {
+		c.startBest(s, ax.Over)
+	}
+	if c.penaltyField(s, ax.Over) {
+		c.startBayes(s)
+	} else {
+		c.bayesNote = "The Bayes-optimal error is drawn when the sweep varies a penalty setting only; " + pathLabel(s, ax.Over) + " changes the problem itself."
+	}
+	c.run = RunRunning
+	c.redraw()
+}
+
+// hasPenaltyField reports whether the penalty of s has the weight name.
+func (c *CurveView) hasPenaltyField(s scenario.Scenario, name string) bool {
+	_, ok := s.Penalty.Params[name]
+	return ok
+}
+
+// penaltyField reports whether name is a parameter of the penalty of s (so that the Bayes
+// error, which does not depend on the penalty, is the same all along the sweep).
+func (c *CurveView) penaltyField(s scenario.Scenario, name string) bool {
+	for _, p := range s.Paths() {
+		if p.Name == name || p.Path == name {
+			return len(p.Path) > 8 && p.Path[:8] == "penalty."
+		}
+	}
+	return false
+}
+
+// label names a curve by what sets it apart.
+func (c *CurveView) label(s scenario.Scenario, fallback string) string {
+	g, _ := FindGroup("design")
+	k, ok := g.kind(s.Design.Shape)
+	if !ok {
+		return fallback
+	}
+	pen := kindLabel("penalty", s.Penalty.Kind)
+	var bits []string
+	for _, name := range slices.Sorted(mapKeys(s.Penalty.Params)) {
+		if name != c.axis.Over {
+			bits = append(bits, name+" "+num4(s.Penalty.Params[name]))
+		}
+	}
+	l := k.Label + ", " + pen
+	if len(bits) > 0 {
+		l += " (" + joinComma(bits) + ")"
+	}
+	return l
+}
+
+func mapKeys(m map[string]float64) func(func(string) bool) {
+	return func(yield func(string) bool) {
+		for k := range m {
+			if !yield(k) {
+				return
+			}
+		}
+	}
+}
+
+func joinComma(s []string) string {
+	out := ""
+	for i, t := range s {
+		if i > 0 {
+			out += ", "
+		}
+		out += t
+	}
+	return out
+}
+
+// startSweep runs the sweep of one series as a job; timed is set for the main curve, whose
+// time in the page is reported.
+func (c *CurveView) startSweep(cs *curveSeries, timed bool) {
+	data, err := bareJSON(cs.Scen)
+	if err != nil {
+		cs.err, cs.done = err.Error(), true
+		return
+	}
+	t0 := c.now()
+	cs.cancel = c.Jobs.Start("sweep", job.SweepArgs{Scenario: data, Axis: c.axis}, func(done, total int) {
+		if timed {
+			c.progress, c.total = done, total
+		}
+	}, func(res []byte, err error) {
+		cs.cancel, cs.done = nil, true
+		if timed {
+			c.seconds = c.now().Sub(t0).Seconds()
+		}
+		if err != nil {
+			cs.err = err.Error()
+		} else {
+			var r job.SweepResult
+			if err := json.Unmarshal(res, &r); err != nil {
+				cs.err = err.Error()
+			} else {
+				cs.Points = make([]study.Point, len(r.Points))
+				for i, p := range r.Points {
+					cs.Points[i] = p.Point()
+				}
+			}
+		}
+		c.settle()
+	})
+}
+
+func (c *CurveView) startBest(s scenario.Scenario, over string) {
+	data, err := bareJSON(s)
+	if err != nil {
+		c.bestErr = err.Error()
+		return
+	}
+	c.bestCancel = c.Jobs.Start("best", job.BestArgs{Scenario: data, Over: over}, nil, func(res []byte, err error) {
+		c.bestCancel = nil
+		var b job.BestOut
+		if err == nil {
+			err = json.Unmarshal(res, &b)
+		}
+		if err != nil {
+			c.bestErr = "no best " + over + ": " + err.Error()
+		} else {
+			c.best = &b
+		}
+		c.settle()
+	})
+}
+
+func (c *CurveView) startBayes(s scenario.Scenario) {
+	data, err := bareJSON(s)
+	if err != nil {
+		return
+	}
+	c.bayesCancel = c.Jobs.Start("bayes", job.BayesArgs{Scenario: data}, nil, func(res []byte, err error) {
+		c.bayesCancel = nil
+		var b job.BayesOut
+		if err == nil {
+			err = json.Unmarshal(res, &b)
+		}
+		if err != nil {
+			c.bayesNote = "No Bayes-optimal reference: " + err.Error()
+		} else {
+			c.bayes = &b
+		}
+		c.settle()
+	})
+}
+
+// Keep turns the current curve into a kept one, drawn beside the next sweeps.
+func (c *CurveView) Keep() {
+	if c.current == nil || !c.current.done || c.current.err != "" {
+		return
+	}
+	if len(c.kept)+1 >= maxCurveSeries {
+		c.problem = fmt.Sprintf("at most %d curves at once: clear some first", maxCurveSeries)
+		return
+	}
+	c.kept = append(c.kept, c.current)
+	c.current = nil
+	c.redraw()
+}
+
+// Compare sweeps the same axis for every other design shape with the same m/n and scale
+// (shapes at the editor's default settings; listed singular values are left out).
+func (c *CurveView) Compare() {
+	c.curveInit()
+	c.problem = ""
+	s, ax, err := c.spec()
+	if err != nil {
+		c.problem = err.Error()
+		return
+	}
+	if c.Jobs == nil {
+		c.problem = "the compute workers are still starting; try again in a moment"
+		return
+	}
+	if c.current == nil || c.axis != ax {
+		c.Start()
+		if c.problem != "" {
+			return
+		}
+	}
+	g, _ := FindGroup("design")
+	for _, k := range g.Kinds {
+		if k.Name == s.Design.Shape || len(c.kept)+2 > maxCurveSeries {
+			continue
+		}
+		o, ok := withShape(s, k.Name)
+		if !ok {
+			continue
+		}
+		cs := &curveSeries{Label: c.label(o, k.Label), Scen: o}
+		c.kept = append(c.kept, cs)
+		c.startSweep(cs, false)
+	}
+	c.run = RunRunning
+	c.redraw()
+}
+
+// Clear drops the kept curves.
+func (c *CurveView) Clear() {
+	for _, cs := range c.kept {
+		if cs.cancel != nil {
+			cs.cancel()
+		}
+	}
+	c.kept = nil
+	c.settle()
+}
+
+// Cancel stops every job of the view; finished curves stay.
+func (c *CurveView) Cancel() {
+	if c.run != RunRunning {
+		return
+	}
+	c.stopAll()
+	c.run = RunCancelled
+	c.redraw()
+}
+
+func (c *CurveView) stopAll() {
+	for _, cs := range c.all() {
+		if cs.cancel != nil {
+			cs.cancel()
+			cs.cancel = nil
+			if !cs.done {
+				cs.done, cs.err = true, "cancelled"
+			}
+		}
+	}
+	for _, f := range []*func(){&c.bestCancel, &c.bayesCancel} {
+		if *f != nil {
+			(*f)()
+			*f = nil
+		}
+	}
+}
+
+func (c *CurveView) all() []*curveSeries {
+	out := append([]*curveSeries(nil), c.kept...)
+	if c.current != nil {
+		out = append(out, c.current)
+	}
+	return out
+}
+
+// settle updates the run state after a job ends and redraws.
+func (c *CurveView) settle() {
+	busy := c.bestCancel != nil || c.bayesCancel != nil
+	for _, cs := range c.all() {
+		busy = busy || !cs.done
+	}
+	switch {
+	case busy:
+		c.run = RunRunning
+	case c.current != nil && c.current.err != "" && c.current.err != "cancelled":
+		c.run, c.problem = RunError, c.current.err
+	case c.run == RunCancelled:
+	default:
+		c.run = RunDone
+	}
+	c.redraw()
+}
+
+// quantity returns the observable shown on the y axis.
+func (c *CurveView) quantity() study.Observable {
+	for _, o := range study.Observables() {
+		if o.Name == c.Quantity {
+			return o
+		}
+	}
+	return study.Observables()[2]
+}
+
+// figureSpec is the line figure of every finished curve.
+func (c *CurveView) figureSpec() (plot.Line, bool) {
+	q := c.quantity()
+	var ss []plot.Series
+	for _, cs := range c.all() {
+		if len(cs.Points) == 0 {
+			continue
+		}
+		x, y, miss := seriesOf(cs.Points, q)
+		ss = append(ss, plot.Series{Name: cs.Label, X: x, Y: y, Missing: miss})
+	}
+	if len(ss) == 0 {
+		return plot.Line{}, false
+	}
+	l := plot.Line{Title: q.Label + " against " + pathLabel(c.current0(), c.axis.Over), XLabel: pathLabel(c.current0(), c.axis.Over),
+		YLabel: q.Label, XLog: c.axis.Log, YLog: c.YLog, Series: ss}
+	if c.best != nil && c.best.AtBound == "" {
+		l.VLines = append(l.VLines, plot.Mark{At: float64(c.best.Value), Label: "best " + c.best.Over + " = " + num4(float64(c.best.Value))})
+	}
+	if c.bayes != nil {
+		var v float64
+		switch q.Name {
+		case "mse":
+			v = float64(c.bayes.Uninformed.MSE)
+		case "nmse":
+			v = float64(c.bayes.Uninformed.NMSE)
+		case "nmse_db":
+			v = float64(c.bayes.Uninformed.NMSEdB)
+		default:
+			v = math.NaN()
+		}
+		if !math.IsNaN(v) {
+			l.HLines = append(l.HLines, plot.Mark{At: v, Label: "Bayes-optimal"})
+		}
+	}
+	return l, true
+}
+
+// current0 is the scenario of the latest sweep (or of the first kept one).
+func (c *CurveView) current0() scenario.Scenario {
+	if c.current != nil {
+		return c.current.Scen
+	}
+	if len(c.kept) > 0 {
+		return c.kept[0].Scen
+	}
+	return scenario.Scenario{}
+}
+
+// seriesOf splits points into the values of q (NaN where the point is not OK) and the x of
+// points without a converged value.
+func seriesOf(pts []study.Point, q study.Observable) (x, y, missing []float64) {
+	for _, p := range pts {
+		x = append(x, p.X)
+		if p.OK() {
+			y = append(y, q.Of(p.Result))
+		} else {
+			y = append(y, math.NaN())
+			missing = append(missing, p.X)
+		}
+	}
+	return x, y, missing
+}
+
+func (c *CurveView) redraw() {
+	l, ok := c.figureSpec()
+	if !ok {
+		c.box.clear()
+		return
+	}
+	c.box.show(l.Build())
+}
+
+// FigureURL is the figure as a data: URL; "" when there is none.
+func (c *CurveView) FigureURL() string { return c.box.url }
+
+// FigureProblem says why there is no figure.
+func (c *CurveView) FigureProblem() string { return c.box.problem }
+
+// Readout is the value under the pointer, in words.
+func (c *CurveView) Readout() string { return c.box.readout }
+
+func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
+
+func (c *CurveView) leave() { c.box.leave() }
+
+// say describes a pointer position: its coordinates, and the computed point of the
+// current curve nearest to it in x.
+func (c *CurveView) say(x, y float64) string {
+	q := c.quantity()
+	t := fmt.Sprintf("pointer: %s = %s, %s = %s", c.axis.Over, num4(x), q.Label, num4(y))
+	cs := c.current
+	if cs == nil && len(c.kept) > 0 {
+		cs = c.kept[0]
+	}
+	if cs == nil || len(cs.Points) == 0 {
+		return t
+	}
+	best, bd := 0, math.Inf(1)
+	for i, p := range cs.Points {
+		d := math.Abs(p.X - x)
+		if c.axis.Log && p.X > 0 && x > 0 {
+			d = math.Abs(math.Log(p.X / x))
+		}
+		if d < bd {
+			best, bd = i, d
+		}
+	}
+	p := cs.Points[best]
+	v := "no converged value (" + p.Status() + ")"
+	if p.OK() {
+		v = q.Label + " " + num4(q.Of(p.Result))
+	}
+	return t + "; nearest computed point: " + c.axis.Over + " = " + num4(p.X) + ", " + v
+}
+
+// Status says how far the sweep is, or how long it took.
+func (c *CurveView) Status() string {
+	switch c.run {
+	case RunRunning:
+		if c.total > 0 {
+			return fmt.Sprintf("Sweeping: %d of %d points…", c.progress, c.total)
+		}
+		return "Sweeping…"
+	case RunDone:
+		if c.current == nil || len(c.current.Points) == 0 {
+			return ""
+		}
+		bad := 0
+		for _, p := range c.current.Points {
+			if !p.OK() {
+				bad++
+			}
+		}
+		t := fmt.Sprintf("%d points in %.3f s.", len(c.current.Points), c.seconds)
+		if bad > 0 {
+			t += fmt.Sprintf(" %d points have no converged fixed point: they are marked ▵ on the bottom edge, not drawn.", bad)
+		}
+		return t
+	case RunCancelled:
+		return "Cancelled."
+	}
+	return ""
+}
+
+// Seconds is the time the last sweep took in the page, from start to result (data hook).
+func (c *CurveView) Seconds() string { return full(c.seconds) }
+
+// Problem says what stopped the view, in words.
+func (c *CurveView) Problem() string { return c.problem }
+
+// Notes are remarks about the references drawn (or not drawn).
+func (c *CurveView) Notes() []string {
+	var out []string
+	if c.bestErr != "" {
+		out = append(out, c.bestErr)
+	}
+	if c.best != nil && c.best.AtBound != "" {
+		out = append(out, fmt.Sprintf("The lowest error over %s lies at the %s end of the search (%s = %s)%s; no marker is drawn.",
+			c.best.Over, c.best.AtBound, c.best.Over, num4(float64(c.best.Value)), noteSuffix(c.best.Note)))
+	}
+	if c.bayesNote != "" {
+		out = append(out, c.bayesNote)
+	}
+	if c.bayes != nil && c.bayes.Differ {
+		out = append(out, "The Bayes-optimal state evolution has two fixed points here; the line shows the one reached from no prior knowledge ("+
+			num4(float64(c.bayes.Informed.NMSEdB))+" dB from an informed start).")
+	}
+	for _, cs := range c.kept {
+		if cs.err != "" {
+			out = append(out, cs.Label+": "+cs.err)
+		}
+	}
+	return out
+}
+
+func noteSuffix(n string) string {
+	if n == "" {
+		return ""
+	}
+	return ": " + n
+}
+
+// Answers are the key numbers with their hooks: name, full value, text.
+func (c *CurveView) Answers() [][3]string {
+	var out [][3]string
+	if c.best != nil {
+		out = append(out, [3]string{"curve_best_value", full(float64(c.best.Value)),
+			fmt.Sprintf("Best %s: %s (NMSE %s dB)", c.best.Over, num4(float64(c.best.Value)), num4(float64(c.best.NMSEdB)))})
+	}
+	if c.bayes != nil {
+		out = append(out, [3]string{"curve_bayes_nmse_db", full(float64(c.bayes.Uninformed.NMSEdB)),
+			"Bayes-optimal error: " + num4(float64(c.bayes.Uninformed.NMSEdB)) + " dB"})
+	}
+	if c.current != nil && len(c.current.Points) > 0 && c.run == RunDone {
+		out = append(out, [3]string{"curve_seconds", full(c.seconds), fmt.Sprintf("Time in the page: %.3f s", c.seconds)})
+	}
+	return out
+}
+
+// Curves lists the drawn curves by label.
+func (c *CurveView) Curves() []string {
+	var out []string
+	for _, cs := range c.all() {
+		out = append(out, cs.Label)
+	}
+	return out
+}
+
+// HasKept reports whether there are kept curves.
+func (c *CurveView) HasKept() bool { return len(c.kept) > 0 }
+
+// CanKeep reports whether the current curve can be kept.
+func (c *CurveView) CanKeep() bool {
+	return c.current != nil && c.current.done && c.current.err == "" && c.run != RunRunning
+}
+
+// CSV writes every curve with every observable (study.WriteCSV) under one header, with a
+// first column naming the curve.
+func (c *CurveView) CSV() ([]byte, error) {
+	var b bytes.Buffer
+	for _, cs := range c.all() {
+		if len(cs.Points) == 0 {
+			continue
+		}
+		var part bytes.Buffer
+		if err := study.WriteCSV(&part, []string{c.axis.Over}, cs.Points); err != nil {
+			return nil, err
+		}
+		lines := bytes.SplitAfter(part.Bytes(), []byte("\n"))
+		for k, ln := range lines {
+			if len(ln) == 0 || (k == 0 && b.Len() > 0) {
+				continue
+			}
+			if k == 0 {
+				b.WriteString("curve,")
+			} else {
+				b.WriteString(csvField(cs.Label) + ",")
+			}
+			b.Write(ln)
+		}
+	}
+	if b.Len() == 0 {
+		return nil, fmt.Errorf("no curve to save yet")
+	}
+	return b.Bytes(), nil
+}
+
+// Export saves the figure ("svg", "png") or the curves' data ("csv").
+func (c *CurveView) Export(what string) {
+	if err := c.box.save(c.Browser, "hdrisk-curve", what, c.CSV); err != nil {
+		c.problem = err.Error()
+	}
+}
+
+// csvField quotes one CSV field as RFC 4180 asks (quotes doubled, the field in quotes).
+func csvField(s string) string {
+	var b bytes.Buffer
+	w := csv.NewWriter(&b)
+	_ = w.Write([]string{s})
+	w.Flush()
+	return string(bytes.TrimRight(b.Bytes(), "\n"))
+}
+
+// readoutText is the readout, or how to get one.
+func (c *CurveView) readoutText() string {
+	if c.box.readout == "" {
+		return "Point at the figure to read its values."
+	}
+	return c.box.readout
+}

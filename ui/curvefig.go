@@ -1,0 +1,244 @@
+package ui
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/vugu/vugu"
+
+	"hdrisk/engine/scenario"
+	"hdrisk/ui/plot"
+)
+
+// figureBox is a built figure shown as an <img>, with the readout of the value under the
+// pointer and the exports. The curve, map and plan views share it.
+type figureBox struct {
+	fig     *plot.Figure
+	url     string // data: URL of the SVG; "" when there is no figure
+	problem string // why there is no figure
+	readout string // the values under the pointer, in words
+}
+
+// show builds spec and keeps its SVG as a data: URL.
+func (b *figureBox) show(f *plot.Figure, err error) {
+	b.fig, b.url, b.problem, b.readout = nil, "", "", ""
+	if err == nil {
+		var svg []byte
+		if svg, err = f.SVG(); err == nil {
+			b.fig, b.url = f, plot.DataURL("image/svg+xml", svg)
+			return
+		}
+	}
+	b.problem = "the figure could not be drawn: " + err.Error()
+}
+
+// clear removes the figure.
+func (b *figureBox) clear() { *b = figureBox{} }
+
+// point updates the readout from a pointer event on the overlay that covers the image
+// exactly: offsetX/offsetY are the pointer position in it, clientWidth/clientHeight its
+// displayed size. say turns data coordinates into words.
+func (b *figureBox) point(e vugu.DOMEvent, say func(x, y float64) string) {
+	b.pointAt(e.PropFloat64("offsetX"), e.PropFloat64("offsetY"),
+		e.PropFloat64("target", "clientWidth"), e.PropFloat64("target", "clientHeight"), say)
+}
+
+// pointAt is point with the numbers taken out of the event.
+func (b *figureBox) pointAt(px, py, w, h float64, say func(x, y float64) string) {
+	if b.fig == nil {
+		b.readout = ""
+		return
+	}
+	x, y, inside := b.fig.Frame().At(px, py, w, h)
+	if !inside {
+		b.readout = ""
+		return
+	}
+	b.readout = say(x, y)
+}
+
+// leave clears the readout when the pointer leaves the figure.
+func (b *figureBox) leave() { b.readout = "" }
+
+// save offers the figure (svg, png) or its data (csv) as a download.
+func (b *figureBox) save(br Browser, base, what string, csv func() ([]byte, error)) error {
+	if br == nil {
+		return fmt.Errorf("saving a file needs the browser")
+	}
+	var (
+		data []byte
+		err  error
+		mime string
+	)
+	switch what {
+	case "csv":
+		data, err = csv()
+		mime = "text/csv"
+	case "svg", "png":
+		if b.fig == nil {
+			return fmt.Errorf("there is no figure to save yet")
+		}
+		if what == "svg" {
+			data, err = b.fig.SVG()
+			mime = "image/svg+xml"
+		} else {
+			data, err = b.fig.PNG(0)
+			mime = "image/png"
+		}
+	default:
+		return fmt.Errorf("cannot save as %q", what)
+	}
+	if err != nil {
+		return err
+	}
+	return br.Download(base+"."+what, mime, data)
+}
+
+// num formats a number for the page, to 4 significant digits.
+func num4(v float64) string {
+	if math.IsNaN(v) {
+		return "—"
+	}
+	return strconv.FormatFloat(v, 'g', 4, 64)
+}
+
+// full formats a number in full precision, for data-value hooks and files.
+func full(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// axisText holds the texts of the inputs of one axis of a study.
+type axisText struct {
+	Over, From, To, Points string
+	Log                    bool
+}
+
+// parse reads the axis, naming the input of a bad number (prefix: "sweep", "map x", ...).
+// The ranges are the engine's to check.
+func (a axisText) parse(prefix string, maxPoints int) (over string, from, to float64, points int, err error) {
+	if a.Over == "" {
+		return "", 0, 0, 0, fmt.Errorf("%s: choose the number to vary", prefix)
+	}
+	f := func(name, t string) (float64, error) {
+		v, err := strconv.ParseFloat(strings.TrimSpace(t), 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			return 0, fmt.Errorf("%s %s: %q is not a number", prefix, name, strings.TrimSpace(t))
+		}
+		return v, nil
+	}
+	if from, err = f("from", a.From); err != nil {
+		return
+	}
+	if to, err = f("to", a.To); err != nil {
+		return
+	}
+	points, err = strconv.Atoi(strings.TrimSpace(a.Points))
+	if err != nil || points < 2 || points > maxPoints {
+		return "", 0, 0, 0, fmt.Errorf("%s points: a whole number from 2 to %d, not %q", prefix, maxPoints, strings.TrimSpace(a.Points))
+	}
+	if from == to {
+		return "", 0, 0, 0, fmt.Errorf("%s: from and to must differ", prefix)
+	}
+	if a.Log && !(from > 0 && to > 0) {
+		return "", 0, 0, 0, fmt.Errorf("%s: a logarithmic axis needs from > 0 and to > 0", prefix)
+	}
+	if from > to {
+		from, to = to, from
+	}
+	return a.Over, from, to, points, nil
+}
+
+// defaultAxis proposes a range for a path: its Log flag, and a span within its domain
+// around the current value v.
+func defaultAxis(p scenario.PathInfo, v float64, points int) axisText {
+	lo, hi := v/10, v*10
+	if p.Log {
+		if !(v > 0) {
+			lo, hi = 1e-3, 10
+		}
+	} else {
+		lo, hi = v/2, v*2
+		if v == 0 {
+			lo, hi = 0, 1
+		}
+	}
+	if p.Name == "alpha" {
+		lo, hi = 0.1, 2
+	}
+	if !math.IsInf(p.Max, 0) && hi > p.Max {
+		hi = p.Max
+	}
+	if lo < p.Min || (p.MinOpen && lo == p.Min) {
+		lo = p.Min
+		if p.MinOpen || p.Log {
+			lo = math.Max(p.Min, hi*1e-3)
+			if lo == p.Min {
+				lo = p.Min + (hi-p.Min)/100
+			}
+		}
+	}
+	return axisText{Over: p.Name, From: full(round3(lo)), To: full(round3(hi)), Points: strconv.Itoa(points), Log: p.Log && lo > 0}
+}
+
+// round3 rounds to 3 significant digits, so that proposed ranges read well.
+func round3(v float64) float64 {
+	if v == 0 || math.IsNaN(v) || math.IsInf(v, 0) {
+		return v
+	}
+	s, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 3, 64), 64)
+	return s
+}
+
+// pathLabel returns the label of a path of s, or the path itself.
+func pathLabel(s scenario.Scenario, name string) string {
+	for _, p := range s.Paths() {
+		if p.Name == name || p.Path == name {
+			return p.Label
+		}
+	}
+	return name
+}
+
+// bareJSON encodes s without its study: the jobs need the problem only, and a study that
+// names a field of another penalty must not make a job fail.
+func bareJSON(s scenario.Scenario) ([]byte, error) {
+	s.Study = nil
+	return s.Encode()
+}
+
+// withShape returns s with another design shape, its parameters at the editor's defaults and
+// the same alpha and scale. Special cases are: shapes with a list parameter (listed singular
+// values) have no default to offer and give ok = false.
+func withShape(s scenario.Scenario, shape string) (scenario.Scenario, bool) {
+	g, _ := FindGroup("design")
+	k, found := g.kind(shape)
+	if !found {
+		return s, false
+	}
+	params := map[string]float64{}
+	for _, p := range k.Params {
+		if p.List {
+			return s, false
+		}
+		v, err := strconv.ParseFloat(strings.TrimSpace(p.Default), 64)
+		if err != nil {
+			return s, false
+		}
+		params[p.Name] = v
+	}
+	s.Design = scenario.Design{Shape: shape, Alpha: s.Design.Alpha, Scale: s.Design.Scale, Params: params}
+	if s.Validate() != nil {
+		return s, false
+	}
+	return s, true
+}
+
+// studyOf returns a copy of the model's study to change (View set to view), for writing back.
+func studyOf(m *Model, view string) *scenario.Study {
+	st := scenario.Study{}
+	if m.Study != nil {
+		st = *m.Study
+	}
+	st.View = view
+	return &st
+}
