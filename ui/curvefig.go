@@ -177,7 +177,9 @@ func defaultAxis(p scenario.PathInfo, v float64, points int) axisText {
 			}
 		}
 	}
-	return axisText{Over: p.Name, From: full(round3(lo)), To: full(round3(hi)), Points: strconv.Itoa(points), Log: p.Log && lo > 0}
+	// m/n reads best on even steps, where the threshold at 1 sits mid-range.
+	log := p.Log && lo > 0 && p.Name != "alpha"
+	return axisText{Over: p.Name, From: full(round3(lo)), To: full(round3(hi)), Points: strconv.Itoa(points), Log: log}
 }
 
 // round3 rounds to 3 significant digits, so that proposed ranges read well.

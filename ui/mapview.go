@@ -1,0 +1,489 @@
+package ui
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"math"
+	"strconv"
+	"time"
+
+	"github.com/vugu/vugu"
+
+	"hdrisk/engine/scenario"
+	"hdrisk/engine/study"
+	"hdrisk/ui/plot"
+	"hdrisk/wasm/job"
+)
+
+// mapPoints is the number of values per axis a new map proposes.
+const mapPoints = 100
+
+// mapBlocks is the most blocks of rows a map is split into. The pool runs one block per
+// worker and queues the rest, so more blocks than workers even out the load (rows differ
+// in cost) and make the progress smoother, at the price of a little messaging per block.
+const mapBlocks = 32
+
+// mapInit reads the map settings from the scenario's study.map, or proposes the first
+// penalty weight against m/n.
+func (c *Mapview) mapInit() {
+	if c.inited || c.Model == nil {
+		return
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		return
+	}
+	c.inited, c.Quantity, c.run = true, "nmse_db", RunIdle
+	s := ch.Scenario
+	if st := s.Study; st != nil && st.Map != nil {
+		m := st.Map
+		c.ax[0] = axisText{Over: m.X, From: full(m.XFrom), To: full(m.XTo), Points: strconv.Itoa(m.XPoints), Log: m.XLog}
+		c.ax[1] = axisText{Over: m.Y, From: full(m.YFrom), To: full(m.YTo), Points: strconv.Itoa(m.YPoints), Log: m.YLog}
+		return
+	}
+	x := study.DefaultOver(s)
+	if x == "" {
+		x = "noise"
+	}
+	c.setOver(s, 0, x)
+	c.setOver(s, 1, "alpha")
+}
+
+func (c *Mapview) setOver(s scenario.Scenario, k int, over string) {
+	for _, p := range s.Paths() {
+		if p.Name == over {
+			v, _ := s.Get(over)
+			c.ax[k] = defaultAxis(p, v, mapPoints)
+			return
+		}
+	}
+	c.ax[k].Over = over
+}
+
+// Init implements vugu's initializer.
+func (c *Mapview) Init(vugu.InitCtx) { c.mapInit() }
+
+// Run is the data-run hook: idle, running, done, cancelled or error.
+func (c *Mapview) Run() string {
+	if c.run == "" {
+		return RunIdle
+	}
+	return c.run
+}
+
+// Running reports whether the map is being computed.
+func (c *Mapview) Running() bool { return c.run == RunRunning }
+
+// X and Y return the texts of the two axes' inputs.
+func (c *Mapview) X() axisText { c.mapInit(); return c.ax[0] }
+func (c *Mapview) Y() axisText { c.mapInit(); return c.ax[1] }
+
+// Paths are the numbers of the current scenario a map can vary.
+func (c *Mapview) Paths() []scenario.PathInfo {
+	if c.Model == nil {
+		return nil
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		return nil
+	}
+	return ch.Scenario.Paths()
+}
+
+// Quantities are the numbers the colours can show.
+func (c *Mapview) Quantities() []study.Observable { return study.Observables() }
+
+// Set stores one setting: "x.over", "x.from", "x.to", "x.points", "x.log", the same for
+// "y.", or "quantity". Special cases are: an unknown name is an error.
+func (c *Mapview) Set(name, text string) error {
+	c.mapInit()
+	if name == "quantity" {
+		c.Quantity = text
+		c.redraw()
+		return nil
+	}
+	if len(name) < 3 || (name[:2] != "x." && name[:2] != "y.") {
+		return fmt.Errorf("no setting %q", name)
+	}
+	k := 0
+	if name[0] == 'y' {
+		k = 1
+	}
+	a := &c.ax[k]
+	switch name[2:] {
+	case "over":
+		if c.Model != nil {
+			if ch := c.Model.Check(); ch.Err == nil {
+				c.setOver(ch.Scenario, k, text)
+				break
+			}
+		}
+		a.Over = text
+	case "from":
+		a.From = text
+	case "to":
+		a.To = text
+	case "points":
+		a.Points = text
+	case "log":
+		a.Log = text == "true"
+	default:
+		return fmt.Errorf("no setting %q", name)
+	}
+	return nil
+}
+
+func (c *Mapview) typed(e vugu.DOMEvent, name string) {
+	_ = c.Set(name, e.PropString("target", "value"))
+}
+
+func (c *Mapview) ticked(e vugu.DOMEvent, name string) {
+	_ = c.Set(name, strconv.FormatBool(e.PropBool("target", "checked")))
+}
+
+func (c *Mapview) now() time.Time {
+	if c.Clock != nil {
+		return c.Clock()
+	}
+	return time.Now()
+}
+
+// Start computes the map of the scenario in the editor, split into blocks of rows that
+// run on all the compute workers. The settings go into the scenario's study.map.
+func (c *Mapview) Start() {
+	c.mapInit()
+	c.problem = ""
+	if c.Model == nil {
+		return
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		c.problem = "the scenario in the editor has a problem: " + ch.Err.Error()
+		return
+	}
+	var ax [2]job.Axis
+	for k, p := range []string{"map x", "map y"} {
+		over, from, to, n, err := c.ax[k].parse(p, scenario.MaxMapPoints)
+		if err != nil {
+			c.problem = err.Error()
+			return
+		}
+		ax[k] = job.Axis{Over: over, From: from, To: to, Points: n, Log: c.ax[k].Log}
+	}
+	if ax[0].Over == ax[1].Over {
+		c.problem = "map: choose two different numbers for the two axes"
+		return
+	}
+	if c.Jobs == nil {
+		c.problem = "the compute workers are still starting; try again in a moment"
+		return
+	}
+	s := ch.Scenario
+	data, err := bareJSON(s)
+	if err != nil {
+		c.problem = err.Error()
+		return
+	}
+	st := studyOf(c.Model, "map")
+	st.Map = &scenario.Map{X: ax[0].Over, XFrom: ax[0].From, XTo: ax[0].To, XPoints: ax[0].Points, XLog: ax[0].Log,
+		Y: ax[1].Over, YFrom: ax[1].From, YTo: ax[1].To, YPoints: ax[1].Points, YLog: ax[1].Log}
+	c.Model.Study = st
+
+	c.stop()
+	c.scen, c.axes = s, ax
+	c.cells = make([]study.Point, ax[0].Points*ax[1].Points)
+	c.done, c.total, c.seconds = 0, ax[1].Points, 0
+	c.box.clear()
+	c.started = c.now()
+	c.run = RunRunning
+	rows := ax[1].Points
+	nb := min(rows, mapBlocks)
+	c.blocks = make([]func(), nb)
+	c.blockRows = make([]int, nb)
+	c.pending = nb
+	for b := 0; b < nb; b++ {
+		from, to := b*rows/nb, (b+1)*rows/nb
+		b := b
+		c.blocks[b] = c.Jobs.Start("map_rows", job.MapArgs{Scenario: data, X: ax[0], Y: ax[1], RowFrom: from, RowTo: to},
+			func(done, _ int) {
+				c.done += done - c.blockRows[b]
+				c.blockRows[b] = done
+			},
+			func(res []byte, err error) { c.block(b, from, to, res, err) })
+	}
+}
+
+// block takes in the cells of one finished block.
+func (c *Mapview) block(b, from, to int, res []byte, err error) {
+	c.blocks[b] = nil
+	c.pending--
+	var r job.MapResult
+	if err == nil {
+		err = json.Unmarshal(res, &r)
+	}
+	if err == nil && (r.RowFrom != from || r.RowTo != to || len(r.Cells) != (to-from)*c.axes[0].Points) {
+		err = fmt.Errorf("rows %d to %d came back incomplete", from, to)
+	}
+	if err != nil {
+		c.stop()
+		c.run, c.problem = RunError, "the map failed: "+err.Error()
+		return
+	}
+	for k, cell := range r.Cells {
+		c.cells[from*c.axes[0].Points+k] = cell.Point()
+	}
+	c.done += (to - from) - c.blockRows[b]
+	c.blockRows[b] = to - from
+	if c.pending > 0 {
+		return
+	}
+	c.seconds = c.now().Sub(c.started).Seconds()
+	c.run = RunDone
+	c.redraw()
+}
+
+// Cancel stops the map; the page stays as it was before it started.
+func (c *Mapview) Cancel() {
+	if c.run != RunRunning {
+		return
+	}
+	c.stop()
+	c.run = RunCancelled
+}
+
+func (c *Mapview) stop() {
+	for i, f := range c.blocks {
+		if f != nil {
+			f()
+			c.blocks[i] = nil
+		}
+	}
+	c.pending = 0
+}
+
+// Progress returns the rows done and the rows in all.
+func (c *Mapview) Progress() (done, total int) { return c.done, c.total }
+
+func (c *Mapview) quantity() study.Observable {
+	for _, o := range study.Observables() {
+		if o.Name == c.Quantity {
+			return o
+		}
+	}
+	return study.Observables()[2]
+}
+
+// grid returns the axes' values and the quantity at every cell (NaN where there is none).
+func (c *Mapview) grid() (xs, ys, z []float64) {
+	nx, ny := c.axes[0].Points, c.axes[1].Points
+	q := c.quantity()
+	xs, ys, z = make([]float64, nx), make([]float64, ny), make([]float64, nx*ny)
+	for k, p := range c.cells {
+		i, j := k%nx, k/nx
+		xs[i], ys[j] = p.X, p.Y
+		z[k] = math.NaN()
+		if p.OK() {
+			z[k] = q.Of(p.Result)
+		}
+	}
+	return xs, ys, z
+}
+
+// weightAxis returns 0 or 1 for the axis that varies the penalty's l1 or l2, -1 if none.
+func (c *Mapview) weightAxis() int {
+	for k, a := range c.axes {
+		if a.Over == "l1" || a.Over == "l2" {
+			if _, ok := c.scen.Penalty.Params[a.Over]; ok {
+				return k
+			}
+		}
+	}
+	return -1
+}
+
+// Ridge returns the best regularization along the weight axis: for every value of the
+// other axis, the weight with the lowest MSE among the converged cells (no point where
+// none converged). Special cases are: no weight axis gives nil.
+func (c *Mapview) Ridge() (x, y []float64) {
+	k := c.weightAxis()
+	if k < 0 || len(c.cells) == 0 {
+		return nil, nil
+	}
+	nx, ny := c.axes[0].Points, c.axes[1].Points
+	at := func(i, j int) study.Point { return c.cells[j*nx+i] }
+	outer, inner := ny, nx
+	if k == 1 {
+		outer, inner = nx, ny
+	}
+	for o := 0; o < outer; o++ {
+		best, bm := -1, math.Inf(1)
+		for n := 0; n < inner; n++ {
+			i, j := n, o
+			if k == 1 {
+				i, j = o, n
+			}
+			if p := at(i, j); p.OK() && p.Result.MSE < bm {
+				best, bm = n, p.Result.MSE
+			}
+		}
+		if best < 0 {
+			continue
+		}
+		i, j := best, o
+		if k == 1 {
+			i, j = o, best
+		}
+		p := at(i, j)
+		x, y = append(x, p.X), append(y, p.Y)
+	}
+	return x, y
+}
+
+func (c *Mapview) redraw() {
+	if c.run != RunDone || len(c.cells) == 0 {
+		return
+	}
+	xs, ys, z := c.grid()
+	q := c.quantity()
+	title := q.Label
+	h := plot.Heat{Title: title, XLabel: pathLabel(c.scen, c.axes[0].Over), YLabel: pathLabel(c.scen, c.axes[1].Over),
+		ZLabel: q.Label, X: xs, Y: ys, Z: z, XLog: c.axes[0].Log, YLog: c.axes[1].Log}
+	if rx, ry := c.Ridge(); len(rx) > 0 {
+		h.Lines = []plot.Series{{X: rx, Y: ry}}
+		h.Title += "; orange: lowest error along " + c.axes[c.weightAxis()].Over
+	}
+	c.box.show(h.Build())
+}
+
+// FigureURL is the map as a data: URL; "" when there is none.
+func (c *Mapview) FigureURL() string { return c.box.url }
+
+// FigureProblem says why there is no figure.
+func (c *Mapview) FigureProblem() string { return c.box.problem }
+
+func (c *Mapview) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
+
+func (c *Mapview) leave() { c.box.leave() }
+
+// readoutText is the readout, or how to get one.
+func (c *Mapview) readoutText() string {
+	if c.box.readout == "" {
+		return "Point at the map to read its values."
+	}
+	return c.box.readout
+}
+
+// say names the cell under the pointer and its value.
+func (c *Mapview) say(x, y float64) string {
+	nx := c.axes[0].Points
+	near := func(v float64, k int, log bool) int {
+		best, bd := 0, math.Inf(1)
+		for i := 0; i < [2]int{nx, c.axes[1].Points}[k]; i++ {
+			p := c.cells[i]
+			if k == 1 {
+				p = c.cells[i*nx]
+			}
+			w := [2]float64{p.X, p.Y}[k]
+			d := math.Abs(w - v)
+			if log && w > 0 && v > 0 {
+				d = math.Abs(math.Log(w / v))
+			}
+			if d < bd {
+				best, bd = i, d
+			}
+		}
+		return best
+	}
+	i, j := near(x, 0, c.axes[0].Log), near(y, 1, c.axes[1].Log)
+	p := c.cells[j*nx+i]
+	q := c.quantity()
+	v := "no converged value (" + p.Status() + ")"
+	if p.OK() {
+		v = q.Label + " " + num4(q.Of(p.Result))
+	}
+	return fmt.Sprintf("%s = %s, %s = %s: %s", c.axes[0].Over, num4(p.X), c.axes[1].Over, num4(p.Y), v)
+}
+
+// Status says how far the map is, or how long it took.
+func (c *Mapview) Status() string {
+	switch c.run {
+	case RunRunning:
+		return fmt.Sprintf("Computing: %d of %d rows…", c.done, c.total)
+	case RunCancelled:
+		return fmt.Sprintf("Cancelled after %d of %d rows.", c.done, c.total)
+	case RunDone:
+		bad := 0
+		for _, p := range c.cells {
+			if !p.OK() {
+				bad++
+			}
+		}
+		t := fmt.Sprintf("%d × %d cells in %.2f s.", c.axes[0].Points, c.axes[1].Points, c.seconds)
+		if bad > 0 {
+			t += fmt.Sprintf(" %d cells have no converged fixed point: they are grey, and left out of the lowest-error line.", bad)
+		}
+		return t
+	}
+	return ""
+}
+
+// Problem says what stopped the view.
+func (c *Mapview) Problem() string { return c.problem }
+
+// Seconds is the time the last map took in the page (data hook).
+func (c *Mapview) Seconds() string { return full(c.seconds) }
+
+// Answers are the key numbers with their hooks: name, full value, text.
+func (c *Mapview) Answers() [][3]string {
+	if c.run != RunDone {
+		return nil
+	}
+	q := c.quantity()
+	lo, at := math.Inf(1), -1
+	for k, p := range c.cells {
+		if p.OK() && p.Result.MSE < lo {
+			lo, at = p.Result.MSE, k
+		}
+	}
+	out := [][3]string{{"map_seconds", full(c.seconds), fmt.Sprintf("Time in the page: %.2f s", c.seconds)}}
+	if at >= 0 {
+		p := c.cells[at]
+		out = append(out, [3]string{"map_lowest_mse", full(p.Result.MSE), fmt.Sprintf("Lowest error on the map: %s %s at %s = %s, %s = %s",
+			q.Label, num4(q.Of(p.Result)), c.axes[0].Over, num4(p.X), c.axes[1].Over, num4(p.Y))})
+	}
+	return out
+}
+
+// CSV writes every cell with every observable (study.WriteCSV).
+func (c *Mapview) CSV() ([]byte, error) {
+	if c.run != RunDone {
+		return nil, fmt.Errorf("no finished map to save yet")
+	}
+	var b bytes.Buffer
+	if err := study.WriteCSV(&b, []string{c.axes[0].Over, c.axes[1].Over}, c.cells); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
+}
+
+// Export saves the map ("svg", "png") or its data ("csv").
+func (c *Mapview) Export(what string) {
+	if err := c.box.save(c.Browser, "hdrisk-map", what, c.CSV); err != nil {
+		c.problem = err.Error()
+	}
+}
+
+// mapAxisInputs is one axis's group of inputs.
+type mapAxisInputs struct {
+	Key, Set, Legend string
+	Axis             axisText
+}
+
+func (c *Mapview) axesForInputs() []mapAxisInputs {
+	c.mapInit()
+	return []mapAxisInputs{
+		{Key: "map-x", Set: "x.", Legend: "Across (x)", Axis: c.ax[0]},
+		{Key: "map-y", Set: "y.", Legend: "Up (y)", Axis: c.ax[1]},
+	}
+}
