@@ -1,0 +1,369 @@
+package ui
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/vugu/vugu"
+
+	"hdrisk/engine/scenario"
+	"hdrisk/engine/study"
+	"hdrisk/wasm/job"
+)
+
+// Planner defaults: a target in dB and the largest m/n searched.
+const (
+	planTargetDB = -20.0
+	planAlphaMax = 10.0
+)
+
+// planRow is the answer for one design shape.
+type planRow struct {
+	Shape, Label string
+	Current      bool
+	Scen         scenario.Scenario
+	Out          *job.PlanOut
+	Err          string
+	cancel       func()
+}
+
+// planInit reads the planner settings from the scenario's study.plan and study.best.
+func (c *PlanView) planInit() {
+	if c.inited || c.Model == nil {
+		return
+	}
+	c.inited, c.run, c.Unit = true, RunIdle, "db"
+	c.targetText, c.alphaMaxText = full(planTargetDB), full(planAlphaMax)
+	if st := c.Model.Study; st != nil {
+		if st.Plan != nil {
+			c.targetText = full(st.Plan.TargetDB)
+			if st.Plan.AlphaMax > 0 {
+				c.alphaMaxText = full(st.Plan.AlphaMax)
+			}
+		}
+		if st.Best != nil {
+			c.Over = st.Best.Over
+		}
+	}
+}
+
+// Init implements vugu's initializer.
+func (c *PlanView) Init(vugu.InitCtx) { c.planInit() }
+
+// Run is the data-run hook.
+func (c *PlanView) Run() string {
+	if c.run == "" {
+		return RunIdle
+	}
+	return c.run
+}
+
+// Running reports whether plans are being computed.
+func (c *PlanView) Running() bool { return c.run == RunRunning }
+
+// TargetText and AlphaMaxText are the inputs' texts.
+func (c *PlanView) TargetText() string   { c.planInit(); return c.targetText }
+func (c *PlanView) AlphaMaxText() string { c.planInit(); return c.alphaMaxText }
+
+// Weights are the regularizations the planner can tune for the current penalty: name and
+// label ("" lets the engine choose).
+func (c *PlanView) Weights() [][2]string {
+	out := [][2]string{{"", "the penalty's main weight"}}
+	if c.Model == nil {
+		return out
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		return out
+	}
+	p := ch.Scenario.Penalty.Params
+	_, l1 := p["l1"]
+	_, l2 := p["l2"]
+	if l1 {
+		out = append(out, [2]string{"l1", "L1 weight"})
+	}
+	if l2 {
+		out = append(out, [2]string{"l2", "L2 weight"})
+	}
+	if l1 && l2 {
+		out = append(out, [2]string{study.Ratio, "L1 and L2 together, keeping their ratio"})
+	}
+	return out
+}
+
+// Set stores one setting: "target", "unit" (db or mse), "alpha_max" or "over".
+// Special cases are: an unknown name is an error.
+func (c *PlanView) Set(name, text string) error {
+	c.planInit()
+	switch name {
+	case "target":
+		c.targetText = text
+	case "unit":
+		c.Unit = text
+	case "alpha_max":
+		c.alphaMaxText = text
+	case "over":
+		c.Over = text
+	default:
+		return fmt.Errorf("no setting %q", name)
+	}
+	return nil
+}
+
+func (c *PlanView) typed(e vugu.DOMEvent, name string) {
+	_ = c.Set(name, e.PropString("target", "value"))
+}
+
+// Start asks, for the current design and for each other shape at the same m/n scale, the
+// smallest m/n whose best-regularized error reaches the target. Each shape is one job; the
+// settings go into the scenario's study.plan (the target in dB).
+func (c *PlanView) Start() {
+	c.planInit()
+	c.problem = ""
+	if c.Model == nil {
+		return
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		c.problem = "the scenario in the editor has a problem: " + ch.Err.Error()
+		return
+	}
+	target, err := strconv.ParseFloat(strings.TrimSpace(c.targetText), 64)
+	if err != nil || math.IsNaN(target) || math.IsInf(target, 0) {
+		c.problem = fmt.Sprintf("target: %q is not a number", strings.TrimSpace(c.targetText))
+		return
+	}
+	amax, err := strconv.ParseFloat(strings.TrimSpace(c.alphaMaxText), 64)
+	if err != nil || !(amax > 0 && amax <= scenario.MaxAlpha) {
+		c.problem = fmt.Sprintf("largest m/n: a number in (0, %g], not %q", float64(scenario.MaxAlpha), strings.TrimSpace(c.alphaMaxText))
+		return
+	}
+	isMSE := c.Unit == "mse"
+	if isMSE && !(target > 0) {
+		c.problem = "target: an MSE target must be > 0"
+		return
+	}
+	s := ch.Scenario
+	db := target
+	if isMSE {
+		db = 10 * math.Log10(target/ch.Problem.Signal.Second())
+	}
+	if c.Jobs == nil {
+		c.problem = "the compute workers are still starting; try again in a moment"
+		return
+	}
+	st := studyOf(c.Model, "plan")
+	st.Plan = &scenario.Plan{TargetDB: db, AlphaMax: amax}
+	if c.Over == "l1" || c.Over == "l2" {
+		st.Best = &scenario.Best{Over: c.Over}
+	}
+	if err := (scenario.Scenario{Kind: s.Kind, Version: s.Version, Title: s.Title, Design: s.Design, Signal: s.Signal,
+		Noise: s.Noise, Penalty: s.Penalty, Study: st}).Validate(); err != nil {
+		c.problem = err.Error()
+		return
+	}
+	c.Model.Study = st
+
+	c.stop()
+	c.target, c.mse, c.alphaMax = target, isMSE, amax
+	c.rows = nil
+	g, _ := FindGroup("design")
+	cur, _ := g.kind(s.Design.Shape)
+	c.rows = append(c.rows, &planRow{Shape: s.Design.Shape, Label: cur.Label + " (this scenario)", Current: true, Scen: s})
+	for _, k := range g.Kinds {
+		if k.Name == s.Design.Shape {
+			continue
+		}
+		if o, ok := withShape(s, k.Name); ok {
+			c.rows = append(c.rows, &planRow{Shape: k.Name, Label: k.Label, Scen: o})
+		}
+	}
+	c.run = RunRunning
+	for _, r := range c.rows {
+		r := r
+		data, err := bareJSON(r.Scen)
+		if err != nil {
+			r.Err = err.Error()
+			continue
+		}
+		r.cancel = c.Jobs.Start("plan", job.PlanArgs{Scenario: data, Target: target, MSE: isMSE, AlphaMax: amax, Over: c.Over}, nil,
+			func(res []byte, err error) {
+				r.cancel = nil
+				var out job.PlanOut
+				if err == nil {
+					err = json.Unmarshal(res, &out)
+				}
+				if err != nil {
+					r.Err = err.Error()
+				} else {
+					r.Out = &out
+				}
+				c.settle()
+			})
+	}
+	c.settle()
+}
+
+func (c *PlanView) settle() {
+	for _, r := range c.rows {
+		if r.cancel != nil {
+			return
+		}
+	}
+	if c.run == RunRunning {
+		c.run = RunDone
+		if len(c.rows) > 0 && c.rows[0].Err != "" {
+			c.run, c.problem = RunError, c.rows[0].Err
+		}
+	}
+}
+
+// Cancel stops the plans still running.
+func (c *PlanView) Cancel() {
+	if c.run != RunRunning {
+		return
+	}
+	c.stop()
+	c.run = RunCancelled
+}
+
+func (c *PlanView) stop() {
+	for _, r := range c.rows {
+		if r.cancel != nil {
+			r.cancel()
+			r.cancel = nil
+			if r.Out == nil && r.Err == "" {
+				r.Err = "cancelled"
+			}
+		}
+	}
+}
+
+// Problem says what stopped the view.
+func (c *PlanView) Problem() string { return c.problem }
+
+// planLine is one row of the answer table.
+type planLine struct {
+	Label, Name, Value, Alpha, Weight, Error, Note string
+	Reached                                        bool
+}
+
+// Lines are the answers, one per design shape, with their data-figure hooks:
+// plan_alpha (this scenario) and plan_alpha_SHAPE (every shape); data-value is the m/n
+// found, or "not reached".
+func (c *PlanView) Lines() []planLine {
+	var out []planLine
+	for _, r := range c.rows {
+		l := planLine{Label: r.Label, Name: "plan_alpha_" + r.Shape}
+		switch {
+		case r.Out != nil && r.Out.Reached:
+			o := r.Out
+			l.Reached, l.Value, l.Alpha = true, full(float64(o.Alpha)), num4(float64(o.Alpha))
+			l.Weight = fmt.Sprintf("%s = %s", o.Best.Over, num4(float64(o.Best.Value)))
+			l.Error = num4(float64(o.Best.NMSEdB)) + " dB"
+			l.Note = o.Reason
+		case r.Out != nil:
+			o := r.Out
+			l.Value, l.Alpha = "not reached", "not reached up to m/n = "+num4(c.alphaMax)
+			l.Note = o.Reason
+			l.Error = "lowest " + num4(float64(o.Best.NMSEdB)) + " dB"
+		case r.Err != "":
+			l.Value, l.Alpha, l.Note = "error", "—", r.Err
+		default:
+			l.Value, l.Alpha = "running", "computing…"
+		}
+		out = append(out, l)
+	}
+	return out
+}
+
+// Headline is this scenario's answer with its hook (name, value, text); ok is false before
+// there is one.
+func (c *PlanView) Headline() (h [3]string, ok bool) {
+	if len(c.rows) == 0 || c.rows[0].Out == nil {
+		return h, false
+	}
+	o := c.rows[0].Out
+	unit := " dB"
+	if c.mse {
+		unit = " (MSE)"
+	}
+	if !o.Reached {
+		return [3]string{"plan_alpha", "not reached", fmt.Sprintf("The target %s%s is not reached up to m/n = %s. %s", num4(c.target), unit, num4(c.alphaMax), o.Reason)}, true
+	}
+	return [3]string{"plan_alpha", full(float64(o.Alpha)), fmt.Sprintf("To reach %s%s this design needs m/n = %s measurements per unknown, with %s = %s.",
+		num4(c.target), unit, num4(float64(o.Alpha)), o.Best.Over, num4(float64(o.Best.Value)))}, true
+}
+
+// Status says how far the plans are.
+func (c *PlanView) Status() string {
+	switch c.run {
+	case RunRunning:
+		n := 0
+		for _, r := range c.rows {
+			if r.cancel == nil {
+				n++
+			}
+		}
+		return fmt.Sprintf("Planning: %d of %d designs done…", n, len(c.rows))
+	case RunCancelled:
+		return "Cancelled."
+	}
+	return ""
+}
+
+// CSV writes the answers: design, target, unit, alpha_max, reached, alpha, weight, value,
+// nmse_db at the answer, solves and the engine's reason.
+func (c *PlanView) CSV() ([]byte, error) {
+	if len(c.rows) == 0 {
+		return nil, fmt.Errorf("no plan to save yet")
+	}
+	var b bytes.Buffer
+	w := csv.NewWriter(&b)
+	unit := "db"
+	if c.mse {
+		unit = "mse"
+	}
+	_ = w.Write([]string{"design", "target", "unit", "alpha_max", "reached", "alpha", "weight", "weight_value", "nmse_db", "solves", "reason"})
+	for _, r := range c.rows {
+		rec := []string{r.Shape, full(c.target), unit, full(c.alphaMax)}
+		if r.Out == nil {
+			rec = append(rec, "", "", "", "", "", "", r.Err)
+		} else {
+			o := r.Out
+			alpha := ""
+			if o.Reached {
+				alpha = full(float64(o.Alpha))
+			}
+			rec = append(rec, strconv.FormatBool(o.Reached), alpha, o.Best.Over, full(float64(o.Best.Value)),
+				full(float64(o.Best.NMSEdB)), strconv.Itoa(o.Solves), o.Reason)
+		}
+		_ = w.Write(rec)
+	}
+	w.Flush()
+	return b.Bytes(), w.Error()
+}
+
+// Export saves the answers as CSV.
+func (c *PlanView) Export() {
+	if c.Browser == nil {
+		c.problem = "saving a file needs the browser"
+		return
+	}
+	data, err := c.CSV()
+	if err == nil {
+		err = c.Browser.Download("hdrisk-plan.csv", "text/csv", data)
+	}
+	if err != nil {
+		c.problem = err.Error()
+	}
+}
+
+func (c *PlanView) hasHeadline() bool { _, ok := c.Headline(); return ok }
+
+func (c *PlanView) headline() [3]string { h, _ := c.Headline(); return h }
