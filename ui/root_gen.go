@@ -196,41 +196,23 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 					vgparent.AppendChild(vgn)
-					vgn = &vugu.VGNode{Type: vugu.VGNodeType(4), Data: " One panel per view. A view's root element carries data-view=\"NAME\" (UI.md); its\n\t\t\t\t     tab is shown once the panel holds it (see page.css). Put the view's element\n\t\t\t\t     inside its panel. "}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(4), Data: " One panel per view: put the view's element inside its panel. A tab shows once\n\t\t\t\t     its panel holds something; an empty selected panel shows the assumptions\n\t\t\t\t     instead (page.css), so keep a panel without a view free of any whitespace. "}
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-curve"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-curve"}}}
 					vgparent.AppendChild(vgn)
 					vgn.AddAttrInterface("hidden", c.tab != "curve")
-					{
-						vgparent := vgn
-						_ = vgparent
-						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
-						vgparent.AppendChild(vgn)
-					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-map"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-map"}}}
 					vgparent.AppendChild(vgn)
 					vgn.AddAttrInterface("hidden", c.tab != "map")
-					{
-						vgparent := vgn
-						_ = vgparent
-						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
-						vgparent.AppendChild(vgn)
-					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-plan"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-plan"}}}
 					vgparent.AppendChild(vgn)
 					vgn.AddAttrInterface("hidden", c.tab != "plan")
-					{
-						vgparent := vgn
-						_ = vgparent
-						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
-						vgparent.AppendChild(vgn)
-					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-check"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-check"}}}
