@@ -350,3 +350,32 @@ func TestCurveCancelAndCompare(t *testing.T) {
 		t.Errorf("one point should be refused naming the points: %q", c.Problem())
 	}
 }
+
+// A curve over l1 drawn earlier must not make the scenario invalid once the penalty has no
+// l1: the study part that no longer fits is left out of the scenario, the rest stays.
+func TestStudyThatNoLongerFitsIsDropped(t *testing.T) {
+	m := modelOf(t, lassoScenario)
+	jobs := &queueJobs{}
+	c := &CurveView{Model: m, Jobs: jobs}
+	c.Start()
+	p := &PlanView{Model: m, Jobs: jobs}
+	p.Start()
+	jobs.flush()
+	if err := m.SetKind("penalty", "ridge"); err != nil {
+		t.Fatal(err)
+	}
+	ch := m.Check()
+	if ch.Err != nil {
+		t.Fatalf("the scenario became invalid: %v", ch.Err)
+	}
+	st := ch.Scenario.Study
+	if st == nil || st.Sweep != nil || st.Best != nil || st.Plan == nil {
+		t.Errorf("the sweep over l1 should be dropped and the plan kept: %+v", st)
+	}
+	if err := m.SetKind("penalty", "l1"); err != nil {
+		t.Fatal(err)
+	}
+	if st := m.Check().Scenario.Study; st == nil || st.Sweep == nil {
+		t.Errorf("back on l1 the sweep fits again and should be there: %+v", st)
+	}
+}

@@ -526,6 +526,7 @@ func (m *Model) Check() Checked {
 		c.Err = first
 		return c
 	}
+	s.Study = fitStudy(s) // a study run earlier must not invalidate an edited scenario
 	p, err := s.Problem()
 	if err != nil {
 		var fe *scenario.FieldError
