@@ -203,16 +203,79 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-curve"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-curve"}}}
 					vgparent.AppendChild(vgn)
 					vgn.AddAttrInterface("hidden", c.tab != "curve")
+					{
+						vgparent := vgn
+						_ = vgparent
+						{
+							vgcompKey := vugu.MakeCompKey(0xC56D13B4D1B792E6^vgin.CurrentPositionHash(), vgiterkey)
+							// ask BuildEnv for prior instance of this specific component
+							vgcomp, _ := vgin.BuildEnv.CachedComponent(vgcompKey).(*CurveView)
+							if vgcomp == nil {
+								// create new one if needed
+								vgcomp = new(CurveView)
+								vgin.BuildEnv.WireComponent(vgcomp)
+							}
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+							vgcomp.Browser = c.Browser
+							vgcomp.Jobs = c.Jobs
+							vgcomp.Model = c.Model
+							vgout.Components = append(vgout.Components, vgcomp)
+							vgn = &vugu.VGNode{Component: vgcomp}
+							vgparent.AppendChild(vgn)
+						}
+					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-map"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-map"}}}
 					vgparent.AppendChild(vgn)
 					vgn.AddAttrInterface("hidden", c.tab != "map")
+					{
+						vgparent := vgn
+						_ = vgparent
+						{
+							vgcompKey := vugu.MakeCompKey(0x9D8C3160D575C0AF^vgin.CurrentPositionHash(), vgiterkey)
+							// ask BuildEnv for prior instance of this specific component
+							vgcomp, _ := vgin.BuildEnv.CachedComponent(vgcompKey).(*Mapview)
+							if vgcomp == nil {
+								// create new one if needed
+								vgcomp = new(Mapview)
+								vgin.BuildEnv.WireComponent(vgcomp)
+							}
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+							vgcomp.Browser = c.Browser
+							vgcomp.Jobs = c.Jobs
+							vgcomp.Model = c.Model
+							vgout.Components = append(vgout.Components, vgcomp)
+							vgn = &vugu.VGNode{Component: vgcomp}
+							vgparent.AppendChild(vgn)
+						}
+					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-plan"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-plan"}}}
 					vgparent.AppendChild(vgn)
 					vgn.AddAttrInterface("hidden", c.tab != "plan")
+					{
+						vgparent := vgn
+						_ = vgparent
+						{
+							vgcompKey := vugu.MakeCompKey(0x38EB7890B1E65E5D^vgin.CurrentPositionHash(), vgiterkey)
+							// ask BuildEnv for prior instance of this specific component
+							vgcomp, _ := vgin.BuildEnv.CachedComponent(vgcompKey).(*PlanView)
+							if vgcomp == nil {
+								// create new one if needed
+								vgcomp = new(PlanView)
+								vgin.BuildEnv.WireComponent(vgcomp)
+							}
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+							vgcomp.Browser = c.Browser
+							vgcomp.Jobs = c.Jobs
+							vgcomp.Model = c.Model
+							vgout.Components = append(vgout.Components, vgcomp)
+							vgn = &vugu.VGNode{Component: vgcomp}
+							vgparent.AppendChild(vgn)
+						}
+					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-check"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-check"}}}
