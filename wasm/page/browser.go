@@ -419,4 +419,33 @@ func (b *browser) ReadFile(inputID string, limit int64, done func(name string, d
 	}, func(err error) { finish(name, nil, fmt.Errorf("%s could not be read: %w", name, err)) })
 }
 
-var _ ui.Browser = (*browser)(nil)
+// InputText implements ui.InputReader: the length of the input's text is read first, and the
+// text itself only when it is at most limit UTF-16 code units long.
+func (b *browser) InputText(id string, limit int) (string, int, error) {
+	doc, err := global("document")
+	if err != nil {
+		return "", 0, err
+	}
+	el, err := doc.Call("getElementById", id)
+	if err != nil || el.IsNull() || el.IsUndefined() {
+		return "", 0, fmt.Errorf("no box %q on the page", id)
+	}
+	v, err := el.Get("value")
+	if err != nil {
+		return "", 0, err
+	}
+	n, err := v.Length()
+	if err != nil {
+		return "", 0, err
+	}
+	if n > limit {
+		return "", n, nil
+	}
+	text, err := v.String()
+	return text, n, err
+}
+
+var (
+	_ ui.Browser     = (*browser)(nil)
+	_ ui.InputReader = (*browser)(nil)
+)

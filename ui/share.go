@@ -1,0 +1,651 @@
+package ui
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"strings"
+	"time"
+	"unicode"
+	"unicode/utf8"
+
+	"github.com/vugu/vugu"
+
+	"hdrisk/engine"
+	"hdrisk/engine/scenario"
+)
+
+// Keys, limits and timing of sharing.
+const (
+	// AutosaveKey is the local-storage key of the working scenario and its last figures.
+	AutosaveKey = "hdrisk.autosave"
+	// AutosaveBeforeKey keeps the working scenario that a link opened on load replaced, so
+	// that opening someone's link never loses one's own work.
+	AutosaveBeforeKey = "hdrisk.autosave.before-link"
+	// MaxPaste is the longest text the paste box reads, in bytes: a link (scenario.MaxLinkInput)
+	// or a scenario file (scenario.MaxBytes), both 4 MB. Longer text is refused before any
+	// decoding.
+	MaxPaste = scenario.MaxLinkInput
+	// PushPause is how long the scenario must stay unchanged before an edit starts a new
+	// history entry; quicker edits replace the current one, so Back skips over keystrokes of
+	// one thought and returns to the scenario as it was before.
+	PushPause = 3 * time.Second
+	// FileInputID and PasteInputID are the element ids of the share panel's file box and
+	// paste box.
+	FileInputID  = "share-file"
+	PasteInputID = "share-paste"
+)
+
+// saved is what autosave keeps in local storage.
+type saved struct {
+	Kind     string          `json:"kind"` // "hdrisk.autosave"
+	Version  int             `json:"version"`
+	Engine   string          `json:"engine"`
+	Saved    string          `json:"saved"` // RFC 3339
+	Scenario json.RawMessage `json:"scenario"`
+	Results  *Figures        `json:"results,omitempty"` // figures of Scenario, when computed
+}
+
+// Report is the JSON report the page exports: the scenario, its figures and the engine
+// version that computed them.
+type Report struct {
+	Kind     string          `json:"kind"` // "hdrisk.report"
+	Version  int             `json:"version"`
+	Engine   string          `json:"engine"`
+	Scenario json.RawMessage `json:"scenario"`
+	Results  Figures         `json:"results"`
+	Created  string          `json:"created"` // RFC 3339, UTC
+}
+
+// Share moves the working scenario in and out of the page: the address (a link opened on
+// load, back and forward), a link to copy, a paste box for a link, code or file text,
+// scenario files, the JSON report, the example menu and autosave. Nothing it reads changes
+// the open scenario unless all of it is valid; every refusal is a message naming what is
+// wrong. Browser may be nil (the panel then says that sharing is unavailable).
+type Share struct {
+	Model   *Model
+	Browser Browser
+	Changed func()            // evaluate the model again (Root.changed)
+	Show    func(view string) // select a view's tab: this panel's ("share") to show a refusal
+	Figures Figures
+	Have    bool // Figures belong to the scenario in Model
+
+	Message string // the last refusal, in words; "" when none
+	Notice  string // the last success, in words
+	Link    string // the full address of the working scenario; "" when there is none
+	NoLink  string // why there is no link (invalid scenario, too long), in words
+	Copied  string // result of the last copy: done, or how to copy by hand
+
+	Now func() time.Time // clock; time.Now when nil
+
+	seen      string    // fingerprint of the model when last published
+	lastWrite time.Time // when the address was last written
+	figsSaved bool      // the last autosave holds the figures of the working scenario
+	hasBefore bool      // a scenario replaced by a link on load is kept (see Before)
+	started   bool
+}
+
+// Init opens the scenario the page starts with (see Start).
+func (c *Share) Init(vugu.InitCtx) { c.Start() }
+
+// Compute publishes edits as the page renders (see Observe).
+func (c *Share) Compute(vugu.ComputeCtx) { c.Observe() }
+
+func (c *Share) now() time.Time {
+	if c.Now != nil {
+		return c.Now()
+	}
+	return time.Now()
+}
+
+// Start opens what the page starts with: the link in the address if there is one, else the
+// scenario autosaved in this browser, else the model as it is. A link that cannot be read
+// keeps the autosaved (or starting) scenario and says what is wrong with the link. A good
+// link that replaces different autosaved work keeps that work under AutosaveBeforeKey.
+// Special cases are: a second call does nothing; without a Browser nothing is opened.
+func (c *Share) Start() {
+	if c.started {
+		return
+	}
+	c.started = true
+	if c.Browser == nil {
+		return
+	}
+	c.Browser.OnFragment(c.Navigated)
+	defer func() { _, c.hasBefore = c.Before() }()
+	own, ownErr := c.restore()
+	frag := c.Browser.Fragment()
+	if frag == "" {
+		switch {
+		case ownErr != nil:
+			c.fail("The scenario saved in this browser could not be restored, so the page starts afresh", ownErr)
+		case own:
+			c.Notice = "Restored the scenario you were working on: " + c.Model.Title
+		}
+		c.changed()
+		c.publish(false)
+		return
+	}
+	s, err := scenario.DecodeLink(frag)
+	if err != nil {
+		kept := "the starting scenario"
+		if own {
+			kept = "the scenario saved in this browser"
+		}
+		c.fail("The link could not be opened; the page shows "+kept+" instead", err)
+		c.show("share")
+		c.changed()
+		// The address keeps the bad link until the next change, so the user can look at it.
+		c.seen = c.fingerprint()
+		return
+	}
+	ownFP := c.fingerprint()
+	if err := c.Model.Load(s); err != nil {
+		c.fail("The link could not be opened", err)
+		c.changed()
+		return
+	}
+	c.Notice = "Opened the scenario in the link: " + s.Title
+	c.showStudy(s)
+	if own && c.fingerprint() != ownFP {
+		if before, ok := c.Browser.Load(AutosaveKey); ok && c.Browser.Store(AutosaveBeforeKey, before) == nil {
+			c.Notice += ". The scenario you were working on is kept: reopen it below."
+		} else {
+			c.Message = "The scenario you were working on could not be kept aside in this browser; the link replaced it."
+			c.show("share")
+		}
+	}
+	c.changed()
+	c.publish(false)
+}
+
+// restore loads the autosaved scenario into the model. It reports whether one was loaded;
+// an unreadable save is an error and changes nothing.
+func (c *Share) restore() (bool, error) {
+	text, ok := c.Browser.Load(AutosaveKey)
+	if !ok {
+		return false, nil
+	}
+	var sv saved
+	if err := json.Unmarshal([]byte(text), &sv); err != nil {
+		return false, fmt.Errorf("it is not the page's own record (%v)", err)
+	}
+	if sv.Kind != AutosaveKey {
+		return false, fmt.Errorf("it is not the page's own record (kind %q)", clip(sv.Kind, 40))
+	}
+	s, err := scenario.Decode(sv.Scenario)
+	if err != nil {
+		return false, err
+	}
+	if err := c.Model.Load(s); err != nil {
+		return false, err
+	}
+	return true, nil
+}
+
+// Before returns the scenario a link opened on load replaced, if one was kept.
+func (c *Share) Before() (scenario.Scenario, bool) {
+	if c.Browser == nil {
+		return scenario.Scenario{}, false
+	}
+	text, ok := c.Browser.Load(AutosaveBeforeKey)
+	if !ok {
+		return scenario.Scenario{}, false
+	}
+	var sv saved
+	if json.Unmarshal([]byte(text), &sv) != nil {
+		return scenario.Scenario{}, false
+	}
+	s, err := scenario.Decode(sv.Scenario)
+	return s, err == nil
+}
+
+// ReopenBefore opens the scenario a link replaced (see Before) as a new history entry.
+func (c *Share) ReopenBefore() {
+	s, ok := c.Before()
+	if !ok {
+		c.fail("There is no earlier scenario kept in this browser", nil)
+		return
+	}
+	if c.open(s, "Reopened the scenario you were working on before the link") {
+		_ = c.Browser.Store(AutosaveBeforeKey, "")
+		c.hasBefore = false
+	}
+}
+
+// fingerprint sums up everything of the model that travels, cheaply enough for every render.
+func (c *Share) fingerprint() string {
+	var b strings.Builder
+	b.WriteString(c.Model.Title)
+	b.WriteByte(0)
+	b.WriteString(c.Model.Notes)
+	b.WriteByte(0)
+	b.WriteString(c.Model.Scale)
+	for _, g := range Groups {
+		b.WriteByte(0)
+		b.WriteString(c.Model.Kind(g.Name))
+		for _, f := range c.Model.Fields(g.Name) {
+			b.WriteByte(0)
+			b.WriteString(f.Text)
+		}
+	}
+	b.WriteByte(0)
+	if c.Model.Study != nil {
+		st, _ := json.Marshal(c.Model.Study)
+		b.Write(st)
+	}
+	return b.String()
+}
+
+// Observe publishes the working scenario when it has changed since it was last published:
+// the address follows it (a new history entry after a pause of PushPause, else in place of
+// the current one), the link is renewed and the scenario is autosaved. It also autosaves the
+// figures once they arrive. Invalid scenarios are neither published nor saved.
+func (c *Share) Observe() {
+	if !c.started || c.Browser == nil {
+		return
+	}
+	if fp := c.fingerprint(); fp != c.seen {
+		c.publish(c.now().Sub(c.lastWrite) >= PushPause)
+		return
+	}
+	if c.Have && !c.figsSaved {
+		c.autosave()
+	}
+}
+
+// publish writes the working scenario to the address (push: as a new history entry) and
+// autosaves it.
+func (c *Share) publish(push bool) {
+	c.seen = c.fingerprint()
+	chk := c.Model.Check()
+	if chk.Err != nil {
+		c.Link, c.NoLink = "", "The link follows once the scenario is valid: "+chk.Err.Error()
+		return
+	}
+	code, err := scenario.EncodeLink(chk.Scenario)
+	if err != nil {
+		c.Link, c.NoLink = "", "This scenario is too long for a link ("+reason(err)+"). Save it as a file below and send the file."
+		// An address holding an older scenario would reopen that one on reload.
+		c.Browser.SetFragment("", false)
+	} else {
+		c.Link, c.NoLink = c.Browser.Address()+"#"+code, ""
+		c.Browser.SetFragment(code, push)
+	}
+	c.lastWrite = c.now()
+	c.Copied = ""
+	c.autosave()
+}
+
+// autosave keeps the working scenario, with its figures when they are computed, in local
+// storage.
+func (c *Share) autosave() {
+	chk := c.Model.Check()
+	if chk.Err != nil {
+		return
+	}
+	sv := saved{Kind: AutosaveKey, Version: 1, Engine: engine.Version, Saved: c.now().UTC().Format(time.RFC3339), Scenario: chk.JSON}
+	if c.Have {
+		f := c.Figures
+		sv.Results = &f
+	}
+	data, err := json.Marshal(sv)
+	if err != nil && sv.Results != nil {
+		// A figure JSON cannot hold (an infinite error): keep the scenario, which matters most.
+		sv.Results = nil
+		data, err = json.Marshal(sv)
+	}
+	if err == nil {
+		err = c.Browser.Store(AutosaveKey, string(data))
+	}
+	if err != nil {
+		c.fail("The scenario could not be saved in this browser; save it as a file to keep it", err)
+	}
+	c.figsSaved = c.Have
+}
+
+func (c *Share) show(view string) {
+	if c.Show != nil {
+		c.Show(view)
+	}
+}
+
+// showStudy selects the view a scenario was last studied in, so that a link to a map opens
+// on the map.
+func (c *Share) showStudy(s scenario.Scenario) {
+	if s.Study != nil && s.Study.View != "" {
+		c.show(s.Study.View)
+	}
+}
+
+// changed has the page evaluate the new working scenario; its figures are not known until
+// the evaluation reports.
+func (c *Share) changed() {
+	c.Have = false
+	if c.Changed != nil {
+		c.Changed()
+	}
+}
+
+// fail shows a refusal: what was being done and why. err may be nil.
+func (c *Share) fail(what string, err error) {
+	c.Notice = ""
+	msg := what
+	if err != nil {
+		msg += ": " + describe(err)
+	}
+	if !strings.HasSuffix(msg, ".") {
+		msg += "."
+	}
+	c.Message = msg
+}
+
+// describe words an error of the engine for the page: the link's reason ("it is cut off:
+// …"), or the field of the scenario and its reason.
+func describe(err error) string {
+	var le *scenario.LinkError
+	if errors.As(err, &le) {
+		return le.Reason
+	}
+	var fe *scenario.FieldError
+	if errors.As(err, &fe) {
+		if fe.Field == "" {
+			return "the scenario: " + fe.Reason
+		}
+		return "in the scenario, " + fe.Field + ": " + fe.Reason
+	}
+	return err.Error()
+}
+
+func reason(err error) string {
+	var le *scenario.LinkError
+	if errors.As(err, &le) {
+		return le.Reason
+	}
+	return err.Error()
+}
+
+// open makes s the working scenario as a deliberate change: a new history entry, a new link
+// and an autosave. Special cases are: a scenario the editor cannot hold changes nothing and
+// is reported.
+func (c *Share) open(s scenario.Scenario, notice string) bool {
+	if err := c.Model.Load(s); err != nil {
+		c.fail("The scenario could not be opened", err)
+		return false
+	}
+	c.Message, c.Notice = "", notice
+	c.changed()
+	if c.Browser != nil {
+		c.publish(true)
+	}
+	return true
+}
+
+// Navigated opens the scenario of a history entry (back, forward, or an address edited by
+// hand) without adding an entry. A fragment that cannot be read changes nothing.
+func (c *Share) Navigated(frag string) {
+	defer func() {
+		if c.Message != "" {
+			c.show("share")
+		}
+	}()
+	if frag == "" {
+		c.fail("This page address holds no scenario (it was too long for a link), so the open scenario stays", nil)
+		return
+	}
+	s, err := scenario.DecodeLink(frag)
+	if err != nil {
+		c.fail("The address could not be opened, so the open scenario stays", err)
+		return
+	}
+	if err := c.Model.Load(s); err != nil {
+		c.fail("The address could not be opened, so the open scenario stays", err)
+		return
+	}
+	c.Message, c.Notice = "", "Opened from the history: "+s.Title
+	c.showStudy(s)
+	c.changed()
+	// The address already holds this scenario: renew the link and the autosave only.
+	c.seen = c.fingerprint()
+	if code, err := scenario.EncodeLink(s); err == nil {
+		c.Link, c.NoLink = c.Browser.Address()+"#"+code, ""
+	}
+	c.lastWrite = c.now()
+	c.autosave()
+}
+
+// InputReader reads a text box of the page. The share panel uses it, when the Browser offers
+// it, to read the paste box only when asked to open it, and to learn the length of the text
+// before reading it: the page's event records copy a box's whole text at every event, which
+// for a paste of many megabytes takes seconds.
+type InputReader interface {
+	// InputText returns the text of the input with the given id and its length in UTF-16
+	// code units (never more than its length in UTF-8 bytes). Text longer than limit units
+	// is not read: text is then "".
+	InputText(id string, limit int) (text string, length int, err error)
+}
+
+// OpenPaste opens the text of the paste box (see OpenText).
+// Special cases are: a Browser that cannot read the box is reported.
+func (c *Share) OpenPaste() {
+	r, ok := c.Browser.(InputReader)
+	if !ok {
+		c.fail("The paste box cannot be read here", nil)
+		return
+	}
+	text, n, err := r.InputText(PasteInputID, MaxPaste)
+	if err != nil {
+		c.fail("The paste box could not be read", err)
+		return
+	}
+	if n > MaxPaste {
+		c.refuseSize(n)
+		return
+	}
+	c.OpenText(text)
+}
+
+func (c *Share) refuseSize(chars int) {
+	c.fail(fmt.Sprintf("The pasted text has %d characters, more than a link or scenario may have (%d bytes, 4 MB); nothing was read, so the open scenario stays", chars, MaxPaste), nil)
+}
+
+// OpenText opens a pasted link, code ("s1.…") or scenario file text as a new history entry.
+// Special cases are: text over MaxPaste bytes is refused before anything is decoded; empty
+// or unreadable text, or an invalid scenario, is refused with the reason and changes nothing.
+func (c *Share) OpenText(text string) {
+	if len(text) > MaxPaste {
+		c.refuseSize(utf8.RuneCountInString(text))
+		return
+	}
+	t := strings.TrimSpace(text)
+	if t == "" {
+		c.fail("Nothing to open: the paste box is empty. Paste a link, a code starting with "+scenario.LinkPrefix+" or the text of a scenario file", nil)
+		return
+	}
+	var s scenario.Scenario
+	var err error
+	what := "The pasted link could not be opened, so the open scenario stays"
+	if strings.HasPrefix(t, "{") {
+		what = "The pasted scenario could not be opened, so the open scenario stays"
+		s, err = decodeFile([]byte(t))
+	} else {
+		s, err = scenario.DecodeLink(t)
+	}
+	if err != nil {
+		c.fail(what, err)
+		return
+	}
+	c.open(s, "Opened the pasted scenario: "+s.Title)
+}
+
+// decodeFile reads a scenario file, or the scenario inside a report the page exported.
+func decodeFile(data []byte) (scenario.Scenario, error) {
+	var head struct {
+		Kind     string          `json:"kind"`
+		Scenario json.RawMessage `json:"scenario"`
+	}
+	if json.Unmarshal(data, &head) == nil && head.Kind == ReportKind {
+		if len(head.Scenario) == 0 {
+			return scenario.Scenario{}, &scenario.FieldError{Field: "scenario", Reason: "is missing from the report"}
+		}
+		return scenario.Decode(head.Scenario)
+	}
+	return scenario.Decode(data)
+}
+
+// OpenFile reads the file chosen in the file box and opens it as a new history entry: a
+// scenario file, a report the page exported, or a text file holding a link.
+func (c *Share) OpenFile() {
+	if c.Browser == nil {
+		c.fail("Files cannot be read here", nil)
+		return
+	}
+	c.Browser.ReadFile(FileInputID, scenario.MaxBytes, func(name string, data []byte, err error) {
+		if err != nil {
+			c.fail("The file could not be read, so the open scenario stays", err)
+			return
+		}
+		// A scenario file is a JSON object; anything else may be a link saved as text.
+		var s scenario.Scenario
+		if t := bytes.TrimSpace(data); len(t) > 0 && t[0] == '{' {
+			s, err = decodeFile(data)
+		} else {
+			s, err = scenario.DecodeLink(string(data))
+		}
+		if err != nil {
+			c.fail("The file "+name+" could not be opened, so the open scenario stays", err)
+			return
+		}
+		c.open(s, "Opened the file "+name+": "+s.Title)
+	})
+}
+
+// OpenExample opens an invented example as a new history entry.
+func (c *Share) OpenExample(e Example) {
+	c.open(e.Scenario, "Opened the invented example: "+e.Title)
+}
+
+// Copy puts the link on the clipboard. If the browser refuses, the link stays selected in
+// its box and the message says how to copy it by hand.
+func (c *Share) Copy() {
+	if c.Link == "" {
+		c.fail("There is no link to copy: "+strings.TrimSuffix(c.NoLink, "."), nil)
+		return
+	}
+	if c.Browser == nil {
+		c.fail("The clipboard cannot be reached here", nil)
+		return
+	}
+	link := c.Link
+	c.Copied = "Copying…"
+	c.Browser.Copy(link, func(err error) {
+		if err != nil {
+			c.Copied = "Not copied: " + err.Error()
+			return
+		}
+		c.Copied = "The link is on the clipboard."
+	})
+}
+
+// SaveFile offers the working scenario as a contract-1 JSON file.
+func (c *Share) SaveFile() {
+	chk := c.Model.Check()
+	if chk.Err != nil {
+		c.fail("The scenario cannot be saved until it is valid", chk.Err)
+		return
+	}
+	c.download(fileName(chk.Scenario.Title, ".json"), chk.JSON, "Saved the scenario file")
+}
+
+// ReportKind names the report format.
+const ReportKind = "hdrisk.report"
+
+// BuildReport returns the JSON report of s, its figures and the engine version, created at t.
+func BuildReport(s scenario.Scenario, f Figures, t time.Time) ([]byte, error) {
+	data, err := s.Encode()
+	if err != nil {
+		return nil, err
+	}
+	r := Report{Kind: ReportKind, Version: 1, Engine: engine.Version, Scenario: data, Results: f,
+		Created: t.UTC().Format(time.RFC3339)}
+	return json.MarshalIndent(r, "", "  ")
+}
+
+// SaveReport offers the JSON report of the working scenario and its figures.
+func (c *Share) SaveReport() {
+	chk := c.Model.Check()
+	if chk.Err != nil {
+		c.fail("The report needs a valid scenario", chk.Err)
+		return
+	}
+	if !c.Have {
+		c.fail("The report needs the figures of this scenario, which are not computed yet", nil)
+		return
+	}
+	data, err := BuildReport(chk.Scenario, c.Figures, c.now())
+	if err != nil {
+		c.fail("The report could not be made", err)
+		return
+	}
+	c.download(fileName(chk.Scenario.Title, "-report.json"), data, "Saved the report")
+}
+
+func (c *Share) download(name string, data []byte, done string) {
+	if c.Browser == nil {
+		c.fail("Files cannot be saved here", nil)
+		return
+	}
+	if err := c.Browser.Download(name, "application/json", data); err != nil {
+		c.fail("The file could not be saved", err)
+		return
+	}
+	c.Message, c.Notice = "", done+" "+name+"."
+}
+
+// fileName makes a file name from a title: letters and digits, words joined by '-', at
+// most 60 characters, "scenario" when nothing is left.
+func fileName(title, suffix string) string {
+	var b strings.Builder
+	dash := false
+	for _, r := range strings.ToLower(title) {
+		ok := r < 128 && (unicode.IsLetter(r) || unicode.IsDigit(r))
+		switch {
+		case ok:
+			if dash && b.Len() > 0 {
+				b.WriteByte('-')
+			}
+			dash = false
+			b.WriteRune(r)
+		default:
+			dash = true
+		}
+		if b.Len() >= 60 {
+			break
+		}
+	}
+	name := b.String()
+	if name == "" {
+		name = "scenario"
+	}
+	return name + suffix
+}
+
+func clip(s string, n int) string {
+	r := []rune(s)
+	if len(r) <= n {
+		return s
+	}
+	return string(r[:n]) + "…"
+}
+
+func (c *Share) linkState() string {
+	switch {
+	case c.Link != "":
+		return "ok"
+	case strings.Contains(c.NoLink, "too long"):
+		return "too-long"
+	default:
+		return "none"
+	}
+}
