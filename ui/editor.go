@@ -29,6 +29,15 @@ func (c *Editor) describedBy(id string) string {
 	return "help-" + id
 }
 
+// helpText is the line under an input: its range, its unit and what it means.
+func (c *Editor) helpText(f Field) string {
+	t := capital(f.Range())
+	if f.Unit != "" {
+		t += "; " + f.Unit
+	}
+	return t + ". " + capital(f.Help) + "."
+}
+
 func (c *Editor) staleText() string {
 	if c.PlotsStale {
 		return "true"

@@ -192,20 +192,7 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "label", Attr: []vugu.VGAttribute(nil)}
 						vgparent.AppendChild(vgn)
 						vgn.AddAttrInterface("for", f.ID)
-						{
-							vgparent := vgn
-							_ = vgparent
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "span", Attr: []vugu.VGAttribute(nil)}
-							vgparent.AppendChild(vgn)
-							vgn.SetInnerHTML(f.Label)
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: " "}
-							vgparent.AppendChild(vgn)
-							if f.Unit != "" {
-								vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "span", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "unit"}}}
-								vgparent.AppendChild(vgn)
-								vgn.SetInnerHTML("(" + f.Unit + ")")
-							}
-						}
+						vgn.SetInnerHTML(f.Label)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 						vgparent.AppendChild(vgn)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "type", Val: "text"}, vugu.VGAttribute{Namespace: "", Key: "spellcheck", Val: "false"}, vugu.VGAttribute{Namespace: "", Key: "autocomplete", Val: "off"}}}
@@ -232,7 +219,7 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "help"}}}
 						vgparent.AppendChild(vgn)
 						vgn.AddAttrInterface("id", "help-"+f.ID)
-						vgn.SetInnerHTML(f.Range() + ". " + capital(f.Help) + ".")
+						vgn.SetInnerHTML(c.helpText(f))
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 						vgparent.AppendChild(vgn)
 						if c.Invalid[f.ID] != "" {

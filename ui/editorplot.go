@@ -35,7 +35,7 @@ var (
 // Size of an editor figure, in points; shown at the width of the editor column.
 const (
 	editorPlotW = 260
-	editorPlotH = 150
+	editorPlotH = 120
 	// editorPlotN is the number of columns of the instance whose singular values are shown.
 	editorPlotN = 400
 	// editorMaxAtoms: a law with at most this many distinct values is drawn as atoms.
@@ -62,7 +62,7 @@ func designPlot(law design.Law) (lawPlot, error) {
 	p := newEditorPlot("singular value", "density")
 	lo, hi := slices.Min(sv), slices.Max(sv)
 	if atoms, ok := distinct(sv); ok {
-		if err := addAtoms(p, atoms, editorBlue); err != nil {
+		if err := addAtoms(p, atoms, editorBlue, true); err != nil {
 			return lawPlot{}, err
 		}
 		p.Y.Label.Text = "share"
@@ -111,6 +111,7 @@ func signalPlot(law signal.Law) (lawPlot, error) {
 		return render(p, fmt.Sprintf("Histogram of %d draws of one signal entry.", editorSamples))
 	}
 	alt := "Law of one signal entry:"
+	var top float64 // the highest point of the density
 	if len(cont) > 0 {
 		lo, hi := math.Inf(1), math.Inf(-1)
 		var total float64
@@ -139,24 +140,47 @@ func signalPlot(law signal.Law) (lawPlot, error) {
 				d += c.Weight * distuv.Normal{Mu: c.Mean, Sigma: math.Sqrt(c.Var)}.Prob(x)
 			}
 			line[i] = plotter.XY{X: x, Y: d}
+			top = math.Max(top, d)
 		}
 		l, err := plotter.NewLine(line)
 		if err != nil {
 			return lawPlot{}, err
 		}
 		l.Color, l.Width = editorBlue, vg.Points(1.5)
-		l.FillColor = color.RGBA{0x56, 0xB4, 0xE9, 0x60}
+		l.FillColor = color.NRGBA{0x56, 0xB4, 0xE9, 0x60}
 		p.Add(l)
 		alt += fmt.Sprintf(" a density carrying probability %.3g, drawn from %.3g to %.3g;", total, lo, hi)
 	}
 	if len(atoms) > 0 {
-		if err := addAtoms(p, atoms, editorVermillion); err != nil {
+		shown := atoms
+		if len(cont) > 0 {
+			// A point mass has no density: beside a density its stem reaches the top of the
+			// figure and its probability is written beside it.
+			shown = make([]plotter.XY, len(atoms))
+			labels := plotter.XYLabels{}
+			for i, a := range atoms {
+				shown[i] = plotter.XY{X: a.X, Y: 1.15 * top}
+				labels.XYs = append(labels.XYs, plotter.XY{X: a.X, Y: 1.15 * top})
+				labels.Labels = append(labels.Labels, fmt.Sprintf(" P = %.3g", a.Y))
+			}
+			l, err := plotter.NewLabels(labels)
+			if err != nil {
+				return lawPlot{}, err
+			}
+			for i := range l.TextStyle {
+				l.TextStyle[i].Font = font.Font{Typeface: "Liberation", Variant: "Sans", Size: vg.Points(9)}
+				l.TextStyle[i].Color = editorVermillion
+				l.TextStyle[i].YAlign = draw.YTop
+			}
+			p.Add(l)
+		}
+		if err := addAtoms(p, shown, editorVermillion, len(cont) == 0); err != nil {
 			return lawPlot{}, err
 		}
 		if len(cont) == 0 {
 			p.Y.Label.Text = "probability"
 		} else {
-			p.Y.Label.Text = "density; atoms: probability"
+			p.Y.Label.Text = "density"
 		}
 		alt += fmt.Sprintf(" %d point mass(es), the largest %.3g at %.3g;", len(atoms), maxWeight(atoms).Y, maxWeight(atoms).X)
 	}
@@ -195,8 +219,9 @@ func distinct(v []float64) ([]plotter.XY, bool) {
 	return out, true
 }
 
-// addAtoms draws each point mass as a stem from zero up to its weight, topped by a dot.
-func addAtoms(p *gplot.Plot, atoms []plotter.XY, col color.Color) error {
+// addAtoms draws each point mass as a stem from zero up to its height, topped by a dot.
+// alone tells that nothing else is drawn, so a single atom needs room on both sides.
+func addAtoms(p *gplot.Plot, atoms []plotter.XY, col color.Color, alone bool) error {
 	for _, a := range atoms {
 		l, err := plotter.NewLine(plotter.XYs{{X: a.X, Y: 0}, a})
 		if err != nil {
@@ -212,8 +237,7 @@ func addAtoms(p *gplot.Plot, atoms []plotter.XY, col color.Color) error {
 	s.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}
 	p.Add(s)
 	p.Y.Min = 0
-	if len(atoms) == 1 {
-		// A single atom needs room on both sides to be seen as one.
+	if alone && len(atoms) == 1 {
 		w := math.Max(0.5*math.Abs(atoms[0].X), 0.5)
 		p.X.Min, p.X.Max = atoms[0].X-w, atoms[0].X+w
 	}

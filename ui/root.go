@@ -165,7 +165,7 @@ func Summary(s scenario.Scenario) string {
 		}
 		return label + " (" + strings.Join(bits, ", ") + ")"
 	}
-	noise := "noise variance " + num(s.Noise.Variance)
+	noise := "variance " + num(s.Noise.Variance)
 	if s.Noise.SNR {
 		noise = "SNR " + num(s.Noise.SNRdB) + " dB"
 	}

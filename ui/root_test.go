@@ -34,7 +34,7 @@ func TestRootStates(t *testing.T) {
 		t.Fatalf("after a result: state %s, have %v, stale %v", c.State(), c.have, c.stale)
 	}
 	first := c.summary
-	if !strings.Contains(first, "m/n = 0.4") || !strings.Contains(first, "noise variance 0.01") {
+	if !strings.Contains(first, "m/n = 0.4") || !strings.Contains(first, "Noise: variance 0.01") {
 		t.Errorf("summary %q does not state the scenario", first)
 	}
 
