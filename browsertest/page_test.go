@@ -322,8 +322,9 @@ func TestPageOffline(t *testing.T) {
 	if msg := b.text(t, ".problem"); !strings.Contains(msg, "noise.variance") {
 		t.Errorf("the message %q does not name noise.variance", msg)
 	}
-	if figs := b.figures(t); len(figs) != 0 {
-		t.Errorf("figures still shown for an invalid scenario: %v", figs)
+	// The last valid figures stay, marked as such (the page keeps working).
+	if figs := b.figures(t); figs["mse"] == "" || b.attrOf(t, ".results", "data-stale") != "true" {
+		t.Errorf("after an invalid entry: figures %v, data-stale %q; want the last valid figures, marked stale", figs, b.attrOf(t, ".results", "data-stale"))
 	}
 	b.screenshot(t, "invalid-input.png")
 	b.checkNoNetwork(t)
@@ -478,16 +479,27 @@ func (b *browser) typeThen(t *testing.T, sel, text, key string) {
 	}
 }
 
-// checkLabels fails for any input or menu without a label, or one taken out of the tab order.
+// checkLabels fails for any input or menu without a label (a button: without text or
+// aria-label), or one taken out of the tab order.
 func (b *browser) checkLabels(t *testing.T) {
 	t.Helper()
 	var bad []string
 	if err := chromedp.Run(b.ctx, chromedp.Evaluate(
-		`Array.from(document.querySelectorAll("input,select,textarea,button")).filter(e=>!(e.labels&&e.labels.length)||e.tabIndex<0).map(e=>e.id||e.outerHTML.slice(0,60))`,
+		`Array.from(document.querySelectorAll("input,select,textarea,button")).filter(e=>!(e.labels&&e.labels.length||e.tagName==="BUTTON"&&(e.textContent.trim()||e.getAttribute("aria-label")))||e.tabIndex<0).map(e=>e.id||e.outerHTML.slice(0,60))`,
 		&bad)); err != nil {
 		t.Fatal(err)
 	}
 	for _, x := range bad {
 		t.Errorf("control without a label or out of the tab order: %s", x)
 	}
+}
+
+// attrOf reads one attribute of the first element matching sel ("(missing)" if none).
+func (b *browser) attrOf(t *testing.T, sel, name string) string {
+	t.Helper()
+	var s string
+	if err := chromedp.Run(b.ctx, chromedp.Evaluate(fmt.Sprintf(`(e=>e?e.getAttribute(%q)||"":"(missing)")(document.querySelector(%q))`, name, sel), &s)); err != nil {
+		t.Fatal(err)
+	}
+	return s
 }
