@@ -234,6 +234,23 @@ func TestEditorFollowsTyping(t *testing.T) {
 		t.Errorf("assumptions panel: %q", s)
 	}
 	b.viewShot(t, "editor-800x1100.png", 800, 1100)
+
+	// Print: no controls; the figures, the scenario in words and the cautions remain.
+	if err := chromedp.Run(b.ctx, emulation.SetEmulatedMedia().WithMedia("print")); err != nil {
+		t.Fatal(err)
+	}
+	var shown map[string]bool
+	if err := chromedp.Run(b.ctx, chromedp.Evaluate(`(()=>{const vis=s=>{const e=document.querySelector(s);return !!e&&getComputedStyle(e).display!=="none"&&e.getClientRects().length>0};
+		return {input: vis("#in-design-alpha"), tabs: vis(".tabs"), figures: vis("[data-figure=mse]"), summary: vis(".results .summary"), cautions: vis("#panel-about"), plot: vis(".law-plot img")}})()`, &shown)); err != nil {
+		t.Fatal(err)
+	}
+	if shown["input"] || shown["tabs"] || !shown["figures"] || !shown["summary"] || !shown["cautions"] || !shown["plot"] {
+		t.Errorf("print view shows %v; want no inputs or tabs, and the figures, summary, cautions and law plots", shown)
+	}
+	b.viewShot(t, "editor-print.png", 1000, 1300)
+	if err := chromedp.Run(b.ctx, emulation.SetEmulatedMedia().WithMedia("")); err != nil {
+		t.Fatal(err)
+	}
 	b.checkLabels(t)
 	b.checkNoNetwork(t)
 }

@@ -57,26 +57,27 @@ func (c *Results) rows() []row {
 	support := func(r row) row {
 		if !c.Support {
 			r.Applies, r.Shown = "false", "n/a"
-			r.Unit = "needs a sparse signal and a penalty that zeroes entries"
+			r.Unit = "sparse signals only"
+			r.Help += "; defined for a signal with entries exactly zero and a penalty that sets entries to zero"
 		}
 		return r
 	}
-	nmse := num("nmse_db", "Normalized error", f.NMSEdB, "dB, 10 log₁₀(MSE / E[x0²])", "the error relative to the signal's power; lower is better")
+	nmse := num("nmse_db", "Normalized error", f.NMSEdB, "relative to E[x0²]", "10 log₁₀(MSE / E[x0²]): the error relative to the signal's power; lower is better")
 	nmse.Shown = strconv.FormatFloat(f.NMSEdB, 'f', 2, 64) + " dB"
 	nz := num("nonzero_fraction", "Nonzero estimates", f.NonzeroFraction, "share of entries", "the share of entries the estimate does not set to zero")
 	if !c.Zeroes {
-		nz.Unit = "share of entries; this penalty zeroes none"
+		nz.Unit = "this penalty zeroes none"
 	}
 	conv := flag("converged", "Converged", f.Converged, "yes", "NO", "whether the solver of the fixed point settled")
 	if !f.Converged {
 		conv.Kind = "warning"
 	}
 	return []row{
-		num("mse", "Mean squared error", f.MSE, "per entry, units of x0²", "(1/n)‖x̂ − x0‖² in the large-size limit"),
+		num("mse", "Mean squared error", f.MSE, "per entry, in x0²", "(1/n)‖x̂ − x0‖² in the large-size limit"),
 		nmse,
 		nz,
-		support(num("tpp", "True positives", f.TPP, "share of nonzero entries of x0 found", "P(x̂ ≠ 0 | x0 ≠ 0)")),
-		support(num("fdp", "False discoveries", f.FDP, "share of nonzero estimates that are wrong", "P(x0 = 0 | x̂ ≠ 0)")),
+		support(num("tpp", "True positives", f.TPP, "of nonzero x0 found", "P(x̂ ≠ 0 | x0 ≠ 0): the share of nonzero entries of x0 that the estimate keeps")),
+		support(num("fdp", "False discoveries", f.FDP, "of nonzero estimates", "P(x0 = 0 | x̂ ≠ 0): the share of nonzero estimates that are wrong")),
 		num("train_error", "Training error", f.TrainError, "(1/m)‖y − F x̂‖²", "the mean squared residual on the measurements"),
 		num("susceptibility", "Susceptibility", f.Susceptibility, "V = E[prox′] / g₁", "how strongly the estimate responds to a change in the data"),
 		conv,
