@@ -292,7 +292,8 @@ func (b *browser) Download(name, mime string, data []byte) error {
 	if err != nil {
 		return fail(err)
 	}
-	parts, err := safejs.ValueOf([]any{u8})
+	// js.ValueOf knows js.Value, not safejs.Value: hand it the array itself.
+	parts, err := safejs.ValueOf([]any{safejs.Unsafe(u8)})
 	if err != nil {
 		return fail(err)
 	}
