@@ -131,17 +131,18 @@ func hasZeroAtom(c Checked) bool {
 // cannot be drawn says so in its text alternative and shows no image.
 func (c *Root) updatePlots() {
 	s := c.checked.Scenario
-	key := fmt.Sprint(s.Design, "|", s.Signal)
-	if key == c.plotKey {
-		return
-	}
-	c.plotKey = key
 	var err error
-	if c.designPlot, err = designPlot(c.checked.Problem.Design); err != nil {
-		c.designPlot = lawPlot{Alt: "No figure of the design: " + err.Error()}
+	if key := fmt.Sprint(s.Design); key != c.designKey {
+		c.designKey = key
+		if c.designPlot, err = designPlot(c.checked.Problem.Design); err != nil {
+			c.designPlot = lawPlot{Alt: "No figure of the design: " + err.Error()}
+		}
 	}
-	if c.signalPlot, err = signalPlot(c.checked.Problem.Signal); err != nil {
-		c.signalPlot = lawPlot{Alt: "No figure of the signal: " + err.Error()}
+	if key := fmt.Sprint(s.Signal); key != c.signalKey {
+		c.signalKey = key
+		if c.signalPlot, err = signalPlot(c.checked.Problem.Signal); err != nil {
+			c.signalPlot = lawPlot{Alt: "No figure of the signal: " + err.Error()}
+		}
 	}
 }
 

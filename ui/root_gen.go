@@ -31,7 +31,7 @@ type Root struct {
 	cancel  func()
 
 	designPlot, signalPlot lawPlot
-	plotKey                string // the laws the two plots show
+	designKey, signalKey   string // the laws the two plots show
 	tab                    string // the view whose tab is selected
 }
 
