@@ -30,14 +30,14 @@ const (
 // Choices of the check's solver and orthogonal factors, with the page's labels.
 var (
 	CheckSolvers = []Kind{
-		{Name: "cd", Label: "Coordinate descent (L1, ridge, elastic net)"},
-		{Name: "prox", Label: "Accelerated proximal gradient (any penalty)"},
-		{Name: "vamp", Label: "Vector AMP (any penalty)"},
+		{Name: "cd", Label: "Coordinate descent"},
+		{Name: "prox", Label: "Proximal gradient"},
+		{Name: "vamp", Label: "Vector AMP"},
 	}
 	CheckFactors = []Kind{
-		{Name: "fast", Label: "Fast random transforms"},
-		{Name: "haar-qr", Label: "Haar by QR (slow, exact)"},
-		{Name: "haar-householder", Label: "Haar by reflections"},
+		{Name: "fast", Label: "Fast transforms"},
+		{Name: "haar-qr", Label: "Haar (QR)"},
+		{Name: "haar-householder", Label: "Haar (reflections)"},
 	}
 )
 
@@ -48,6 +48,7 @@ const (
 	maxCheckTrials = 1000
 	maxCheckPoints = 12
 	curvePoints    = 60
+	maxTrialDots   = 100 // more dots make a figure too large for the page's renderer (see maxFigureURL)
 )
 
 // checkPoint is one check on the figure: the value of the swept number and the result.
@@ -424,12 +425,21 @@ func (c *CheckView) figureSpec() (plot.Line, bool) {
 	if len(c.xs) == 0 {
 		r := c.points[0].Result
 		var x, y []float64
-		for i, t := range r.PerTrial {
+		for i, t := range r.PerTrial[:min(len(r.PerTrial), maxTrialDots)] {
 			x, y = append(x, float64(i+1)), append(y, float64(t.MSE))
 		}
-		return plot.Line{Title: "Error of each trial beside the prediction", XLabel: "trial", YLabel: "MSE",
-			Series: []plot.Series{{Name: "trial", X: x, Y: y, Marks: true, NoLine: true}},
-			HLines: []plot.Mark{{At: float64(r.PredictedMSE), Label: "predicted"}, {At: float64(r.MeanMSE), Label: "mean of trials"}}}, true
+		title := "Error of each trial beside the prediction"
+		if len(r.PerTrial) > maxTrialDots {
+			title = fmt.Sprintf("Error of the first %d of %d trials beside the prediction", maxTrialDots, len(r.PerTrial))
+		}
+		ends := []float64{0.5, float64(len(x)) + 0.5}
+		level := func(v float64) []float64 { return []float64{v, v} }
+		return plot.Line{Title: title, XLabel: "trial", YLabel: "MSE",
+			Series: []plot.Series{
+				{Name: "one trial", X: x, Y: y, Marks: true, NoLine: true},
+				{Name: "predicted", X: ends, Y: level(float64(r.PredictedMSE))},
+				{Name: "mean of the trials", X: ends, Y: level(float64(r.MeanMSE)), Dashed: true},
+			}}, true
 	}
 	var cx, cy, mx, my, me []float64
 	for _, p := range c.curve {
@@ -466,6 +476,17 @@ func (c *CheckView) draw() {
 	if err != nil {
 		c.figErr = "the figure could not be drawn: " + err.Error()
 	}
+	if len(c.figURL) > maxFigureURL {
+		c.figURL, c.figErr = "", figureTooLong+"; save it as SVG or PNG"
+	}
+}
+
+// Caption explains the figure's marks.
+func (c *CheckView) Caption() string {
+	if len(c.xs) == 0 {
+		return "Each dot is one trial; the lines are the prediction and the trials' mean."
+	}
+	return "Error bars: ±1 standard error of the mean over the trials."
 }
 
 // FigureURL is the figure as a data: URL for <img src>; "" when there is none.

@@ -24,6 +24,16 @@ const (
 	MaxListBytes   = 32 << 20
 )
 
+// The page's renderer (vugu's domrender) passes every text through a 16384-byte buffer and
+// stops the page when one does not fit, so a list put into the editor's box and a figure's
+// data: URL must stay well below that.
+const (
+	maxListChars  = 12000
+	maxFigureURL  = 14000
+	signalBins    = 50
+	figureTooLong = "the figure is too detailed to show on the page"
+)
+
 // Sources a design can come from, with the page's labels.
 var DataSources = []Kind{
 	{Name: job.SourceMatrix, Label: "A measurement matrix (CSV, TSV, spaces or Matrix Market)"},
@@ -206,7 +216,7 @@ func (c *DataView) compute(part, text string) {
 		args = a
 		p.stage = "Reading the numbers"
 	} else {
-		a := job.FitArgs{Text: text, Method: c.Method, MaxBytes: c.limit(part)}
+		a := job.FitArgs{Text: text, Method: c.Method, MaxBytes: c.limit(part), Bins: signalBins}
 		if c.Method == job.FitMixture {
 			k, err := wholeNumber("k", c.kText, 1, job.MaxMixture)
 			if err != nil {
@@ -222,8 +232,10 @@ func (c *DataView) compute(part, text string) {
 	finished := false // a fake or a failing pool may answer before Start returns
 	cancel := c.Jobs.Start(kind, args, func(done, total int) {
 		if part == "design" {
-			p.stage = map[int]string{job.StepRead: "Reading the numbers",
-				job.StepSVD: "Computing the singular values (one step: no finer progress)", job.StepSummary: "Summarizing"}[done]
+			if st, ok := map[int]string{job.StepRead: "Reading the numbers",
+				job.StepSVD: "Computing the singular values (one step: no finer progress)", job.StepSummary: "Summarizing"}[done]; ok {
+				p.stage = st
+			}
 		} else if done >= 1 {
 			p.stage = "Fitting"
 		}
@@ -369,6 +381,22 @@ func (c *DataView) drawPart(part string) {
 	if err != nil {
 		p.figErr = "the figure could not be drawn: " + err.Error()
 	}
+	if len(p.figURL) > maxFigureURL {
+		p.figURL, p.figErr = "", figureTooLong
+	}
+}
+
+// shortList fits values into the editor's box (see maxListChars) and says what it did to
+// them; "" when nothing.
+func shortList(values []float64, what string) ([]float64, string) {
+	out, digits, thinned := job.ShortList(values, maxListChars)
+	switch {
+	case thinned:
+		return out, fmt.Sprintf(" The %d %s were thinned to %d evenly spaced quantiles at %d significant digits, the most the editor's box can show.", len(values), what, len(out), digits)
+	case digits > 0:
+		return out, fmt.Sprintf(" The values were rounded to %d significant digits, the most the editor's box can show.", digits)
+	}
+	return out, ""
 }
 
 // DesignFacts are the summary lines of the spectrum, as hook name, data-value and text.
@@ -448,15 +476,16 @@ func (c *DataView) UseDesign() {
 		}
 		alpha = a
 	}
+	values, note := shortList(r.SingularValues, "singular values")
 	err := c.apply(func(s *scenario.Scenario) {
 		s.Design = scenario.Design{Shape: "empirical-sv", Alpha: alpha, Scale: s.Design.Scale,
-			Lists: map[string][]float64{"values": r.SingularValues}}
+			Lists: map[string][]float64{"values": values}}
 	})
 	if err != nil {
 		c.design.problem = "cannot use these values as the design: " + err.Error()
 		return
 	}
-	c.design.applied = fmt.Sprintf("The design is now these %d singular values with m/n = %s.", len(r.SingularValues), fmtNum(alpha))
+	c.design.applied = fmt.Sprintf("The design is now these %d singular values with m/n = %s.", len(r.SingularValues), fmtNum(alpha)) + note
 }
 
 // UseSignal makes the signal law of the scenario the empirical law of the samples or the
@@ -467,9 +496,12 @@ func (c *DataView) UseSignal() {
 		return
 	}
 	var sig scenario.Signal
+	note := ""
 	switch r.Method {
 	case job.FitNone:
-		sig = scenario.Signal{Law: "empirical", Lists: map[string][]float64{"values": r.Values}}
+		var values []float64
+		values, note = shortList(r.Values, "values")
+		sig = scenario.Signal{Law: "empirical", Lists: map[string][]float64{"values": values}}
 	case job.FitBernoulli:
 		sig = scenario.Signal{Law: "bernoulli-gauss", Params: map[string]float64{"density": float64(r.Density), "variance": float64(r.SlabVar)}}
 	case job.FitMixture:
@@ -480,7 +512,7 @@ func (c *DataView) UseSignal() {
 		return
 	}
 	c.signal.applied = "The signal is now " + map[string]string{job.FitNone: "the empirical law of the samples.",
-		job.FitBernoulli: "the fitted sparse Gaussian law.", job.FitMixture: "the fitted Gaussian mixture."}[r.Method]
+		job.FitBernoulli: "the fitted sparse Gaussian law.", job.FitMixture: "the fitted Gaussian mixture."}[r.Method] + note
 }
 
 // apply changes the open scenario through edit, checks the result with the engine and

@@ -204,3 +204,23 @@ func TestDataCancelAndNoWorkers(t *testing.T) {
 		t.Errorf("no browser: %q", c2.Problem("design"))
 	}
 }
+
+// A long list is fitted to what the editor's box can show, and the view says how.
+func TestDataLongListIsShortenedAndSaid(t *testing.T) {
+	m := lassoModel(t)
+	var b strings.Builder
+	for i := range 3000 {
+		fmt.Fprintf(&b, "%v\n", 1+float64(i)/2999*3.123456789)
+	}
+	c := &DataView{Model: m, Jobs: &cdJobs{run: true}}
+	c.start()
+	_ = c.SetSetting("source", job.SourceSingular)
+	_ = c.SetSetting("design-text", b.String())
+	c.ReadText("design")
+	c.UseDesign()
+	v := m.Check().Scenario.Design.Lists["values"]
+	text := strings.Trim(fmt.Sprint(v), "[]")
+	if len(v) == 0 || len(v) >= 3000 || len(text) > maxListChars || !strings.Contains(c.Applied("design"), "thinned") {
+		t.Errorf("%d values (%d characters) in the design; applied %q", len(v), len(text), c.Applied("design"))
+	}
+}

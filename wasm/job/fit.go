@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 	"strings"
 
 	"gonum.org/v1/gonum/stat/distuv"
@@ -27,7 +28,7 @@ const (
 )
 
 // curvePoints is the resolution of a fitted density drawn over the histogram.
-const curvePoints = 201
+const curvePoints = 101
 
 // FitArgs are the arguments of the "fit" kind: samples of the signal as text.
 type FitArgs struct {
@@ -192,4 +193,52 @@ func runFit(raw json.RawMessage, progress func(done, total int)) (any, error) {
 		return nil, fmt.Errorf("fit arguments: %w", err)
 	}
 	return Fit(a, progress)
+}
+
+// ShortList returns values written in at most budget characters the way a list box shows
+// them (each value in its shortest form, 'g' -1, separated by ", "): the values as they are
+// if they fit; else each rounded to the most significant digits (down to 6) that fit; else
+// n evenly spaced quantiles of the sorted values (levels (i + 1/2)/n), at 6 digits, with n
+// as large as fits. digits is 0 when the values are unrounded and thinned is set when
+// they were thinned. The page's renderer cannot put a longer text into a box.
+// Special cases are: an empty list is returned as is; budget below 64 is taken as 64.
+func ShortList(values []float64, budget int) (out []float64, digits int, thinned bool) {
+	budget = max(budget, 64)
+	if len(values) == 0 || listLen(values) <= budget {
+		return values, 0, false
+	}
+	for d := 16; d >= 6; d-- {
+		r := roundList(values, d)
+		if listLen(r) <= budget {
+			return r, d, false
+		}
+	}
+	sorted := slices.Clone(values)
+	slices.Sort(sorted)
+	r := roundList(sorted, 6)
+	n := max(1, len(values)*budget/listLen(r))
+	for n > 1 {
+		r = roundList(quantiles(sorted, n), 6)
+		if listLen(r) <= budget {
+			break
+		}
+		n = n * 9 / 10
+	}
+	return r, 6, true
+}
+
+func roundList(v []float64, digits int) []float64 {
+	out := make([]float64, len(v))
+	for i, x := range v {
+		out[i], _ = strconv.ParseFloat(strconv.FormatFloat(x, 'g', digits, 64), 64)
+	}
+	return out
+}
+
+func listLen(v []float64) int {
+	n := 2 * (len(v) - 1)
+	for _, x := range v {
+		n += len(strconv.FormatFloat(x, 'g', -1, 64))
+	}
+	return n
 }

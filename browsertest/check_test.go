@@ -1,0 +1,322 @@
+package browsertest
+
+import (
+	"bufio"
+	"context"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
+	"gonum.org/v1/gonum/mat"
+
+	"hdrisk/engine/data"
+	"hdrisk/engine/scenario"
+	"hdrisk/ui"
+	"hdrisk/wasm/job"
+)
+
+// cdWorkers waits for the page's compute pool.
+func (b *browser) cdWorkers(t *testing.T) {
+	t.Helper()
+	var size int
+	if err := chromedp.Run(b.ctx, chromedp.Poll(`typeof hdriskJobs === "object" && hdriskJobs.size()`, &size,
+		chromedp.WithPollingTimeout(30*time.Second))); err != nil || size < 1 {
+		t.Fatalf("the worker pool never appeared: %v (size %d)", err, size)
+	}
+}
+
+// cdJS runs a script and returns its value as text.
+func (b *browser) cdJS(t *testing.T, script string) string {
+	t.Helper()
+	var out any
+	if err := chromedp.Run(b.ctx, chromedp.Evaluate(script, &out)); err != nil {
+		t.Fatalf("%s: %v", script, err)
+	}
+	if out == nil {
+		return ""
+	}
+	return fmt.Sprint(out)
+}
+
+// cdChoose picks value in the menu sel as a person would, firing its change event.
+func (b *browser) cdChoose(t *testing.T, sel, value string) {
+	t.Helper()
+	ok := b.cdJS(t, fmt.Sprintf(`(e=>{if(!e)return false;e.value=%q;e.dispatchEvent(new Event("change",{bubbles:true}));return e.value===%q})(document.querySelector(%q))`, value, value, sel))
+	if ok != "true" {
+		t.Fatalf("choosing %q in %s failed", value, sel)
+	}
+}
+
+// cdClick presses a button, failing when it is missing or disabled.
+func (b *browser) cdClick(t *testing.T, sel string) {
+	t.Helper()
+	ok := b.cdJS(t, fmt.Sprintf(`(e=>{if(!e||e.disabled)return false;e.click();return true})(document.querySelector(%q))`, sel))
+	if ok != "true" {
+		t.Fatalf("button %s is missing or disabled", sel)
+	}
+}
+
+// cdTab opens the view's tab when the page has tabs.
+func (b *browser) cdTab(t *testing.T, name string) {
+	t.Helper()
+	b.cdJS(t, fmt.Sprintf(`(e=>{if(e){e.click()}return true})(document.getElementById("tab-%s"))`, name))
+	time.Sleep(100 * time.Millisecond)
+}
+
+// cdWaitRun polls the data-run of sel until it leaves "running" (and idle, once started) and
+// returns it with the progress lines seen on the way.
+func (b *browser) cdWaitRun(t *testing.T, sel, statusSel string, timeout time.Duration) (string, []string) {
+	t.Helper()
+	deadline := time.Now().Add(timeout)
+	var seen []string
+	for time.Now().Before(deadline) {
+		out := b.cdJS(t, fmt.Sprintf(`(function(){const e=document.querySelector(%q);const s=document.querySelector(%q);return (e?e.getAttribute("data-run"):"missing")+"|"+(s?s.textContent:"")})()`, sel, statusSel))
+		run, status, _ := strings.Cut(out, "|")
+		if status != "" && (len(seen) == 0 || seen[len(seen)-1] != status) {
+			seen = append(seen, status)
+		}
+		if run != "running" && run != "idle" {
+			return run, seen
+		}
+		time.Sleep(50 * time.Millisecond)
+	}
+	t.Fatalf("%s still running after %v; progress seen: %q", sel, timeout, seen)
+	return "", nil
+}
+
+func cdNum(t *testing.T, figs map[string]string, name string) float64 {
+	t.Helper()
+	v, err := strconv.ParseFloat(figs[name], 64)
+	if err != nil {
+		t.Fatalf("figure %s = %q is not a number (figures: %v)", name, figs[name], figs)
+	}
+	return v
+}
+
+func cdLassoPage(t *testing.T) (*browser, *ui.Model) {
+	b, _ := open(t)
+	if state := b.settle(t); state != "ready" {
+		t.Fatalf("data-state=%s: %s", state, b.text(t, ".problem"))
+	}
+	b.cdWorkers(t)
+	b.cdChoose(t, "#pick-penalty", "l1")
+	if state := b.settle(t); state != "ready" {
+		t.Fatalf("after choosing the LASSO: data-state=%s: %s", state, b.text(t, ".problem"))
+	}
+	m := ui.NewModel()
+	if err := m.SetKind("penalty", "l1"); err != nil {
+		t.Fatal(err)
+	}
+	return b, m
+}
+
+// TestCheckInPage runs the finite-size check of the budget (n = 500, 20 trials, LASSO) in
+// the page, logs its time against the 10 s budget, compares it with the same check run
+// natively, and cancels a long one midway.
+func TestCheckInPage(t *testing.T) {
+	b, m := cdLassoPage(t)
+	b.cdTab(t, "check")
+	if b.cdJS(t, `document.querySelector("[data-view=check]").getAttribute("data-run")`) != "idle" {
+		t.Fatalf("the check view is not idle at start")
+	}
+	start := time.Now()
+	b.cdClick(t, "#check-run")
+	run, seen := b.cdWaitRun(t, "[data-view=check]", "[data-view=check] [role=status]", 60*time.Second)
+	elapsed := time.Since(start)
+	if run != "done" {
+		t.Fatalf("check ended %s: %s", run, b.text(t, "[data-view=check] .problem"))
+	}
+	t.Logf("finite-size check n = 500, 20 trials, LASSO (cd), in the page: %v from the click to the result (budget 10 s); progress seen: %q",
+		elapsed.Round(time.Millisecond), seen)
+	if elapsed > 10*time.Second {
+		t.Errorf("the check took %v, over the 10 s budget", elapsed)
+	}
+	trialSeen := false
+	for _, s := range seen {
+		trialSeen = trialSeen || (strings.HasPrefix(s, "Trial ") && strings.Contains(s, " of 20"))
+	}
+	if !trialSeen {
+		t.Errorf("no progress line like \"Trial 7 of 20\" was shown: %q", seen)
+	}
+	b.screenshot(t, "check-done.png")
+	figs := b.figures(t)
+	// The same check natively: identical draws (PCG seeded per trial) and the same solver.
+	scen, err := m.JSON()
+	if err != nil {
+		t.Fatal(err)
+	}
+	native, err := job.Check(job.CheckArgs{Scenario: scen, N: 500, Trials: 20, Seed: 1, Solver: "cd", Factors: "fast"}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for name, w := range map[string]float64{"check_mean_mse": float64(native.MeanMSE), "check_stderr": float64(native.StdErr),
+		"check_predicted_mse": float64(native.PredictedMSE), "check_tpp": float64(native.TPP.Mean), "check_predicted_fdp": float64(native.FDP.Predicted)} {
+		if got := cdNum(t, figs, name); math.Abs(got-w) > 1e-6*math.Max(math.Abs(w), 1e-12) {
+			t.Errorf("%s = %v in the page, %v natively", name, got, w)
+		}
+	}
+	if figs["check_converged"] != strconv.FormatBool(native.Converged) {
+		t.Errorf("check_converged = %s, natively %v", figs["check_converged"], native.Converged)
+	}
+	if src := b.cdJS(t, `(e=>e?e.getAttribute("src").slice(0,26):"")(document.getElementById("check-figure"))`); src != "data:image/svg+xml;base64," {
+		t.Errorf("no check figure (src starts %q)", src)
+	}
+
+	// A long check cancelled midway: the view says so and nothing arrives later.
+	b.typeInto(t, "#check-trials", "400")
+	b.cdClick(t, "#check-run")
+	deadline := time.Now().Add(30 * time.Second)
+	for !strings.HasPrefix(b.text(t, "[data-view=check] [role=status]"), "Trial ") {
+		if time.Now().After(deadline) {
+			t.Fatalf("the long check never reported a trial")
+		}
+		time.Sleep(50 * time.Millisecond)
+	}
+	b.screenshot(t, "check-running.png")
+	b.cdClick(t, "#check-cancel")
+	time.Sleep(1500 * time.Millisecond)
+	if run := b.cdJS(t, `document.querySelector("[data-view=check]").getAttribute("data-run")`); run != "cancelled" {
+		t.Errorf("after cancel data-run=%s", run)
+	}
+	if st := b.text(t, "[data-view=check] .note"); !strings.Contains(st, "Cancelled") {
+		t.Errorf("the view does not say it was cancelled: %q", st)
+	}
+	// The scenario carries the settings of the last check (study.check).
+	b.checkNoNetwork(t)
+}
+
+// cdGaussianCSV writes an m x n matrix of independent N(0, 1) entries as CSV and returns it.
+func cdGaussianCSV(t *testing.T, dir string, m, n int) (string, *mat.Dense) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	a := mat.NewDense(m, n, nil)
+	path := filepath.Join(dir, fmt.Sprintf("invented-gaussian-%dx%d.csv", m, n))
+	f, err := os.Create(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := bufio.NewWriter(f)
+	for i := range m {
+		for j := range n {
+			// 9 significant digits keep the file at about 30 MB; the entries used natively
+			// are the ones written, read back the same way.
+			s := strconv.FormatFloat(rng.NormFloat64(), 'e', 8, 64)
+			v, _ := strconv.ParseFloat(s, 64)
+			a.Set(i, j, v)
+			if j > 0 {
+				w.WriteByte(',')
+			}
+			w.WriteString(s)
+		}
+		w.WriteByte('\n')
+	}
+	if err := w.Flush(); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Close(); err != nil {
+		t.Fatal(err)
+	}
+	return path, a
+}
+
+// TestDataInPage loads a 1000 x 2000 matrix through the file box, logs the time of its
+// singular values in the page, uses it as the design and checks the page's figures against
+// the native engine for the same empirical-sv scenario; a bad file is refused by line.
+func TestDataInPage(t *testing.T) {
+	dir := t.TempDir()
+	path, a := cdGaussianCSV(t, dir, 1000, 2000)
+	info, _ := os.Stat(path)
+	b, m := cdLassoPage(t)
+	b.cdTab(t, "data")
+	before := b.figures(t)
+
+	start := time.Now()
+	if err := chromedp.Run(b.ctx, chromedp.SetUploadFiles("#data-design-file", []string{path}, chromedp.ByQuery)); err != nil {
+		t.Fatal(err)
+	}
+	run, seen := b.cdWaitRun(t, "[data-part=design]", "[data-part=design] [role=status]", 80*time.Second)
+	elapsed := time.Since(start)
+	if run != "done" {
+		t.Fatalf("reading the matrix ended %s: %s", run, b.text(t, "[data-part=design] .problem"))
+	}
+	figs := b.figures(t)
+	t.Logf("1000 x 2000 Gaussian matrix (%.1f MB of CSV) in the page: %v from choosing the file to the summary (%s); progress seen: %q",
+		float64(info.Size())/1e6, elapsed.Round(time.Millisecond), b.text(t, "[data-figure=data_svd_seconds]"), seen)
+	b.screenshot(t, "data-matrix.png")
+
+	sv, err := data.SingularValues(context.Background(), a, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if figs["data_rows"] != "1000" || figs["data_alpha"] != "0.5" || figs["data_rank"] != "1000" {
+		t.Errorf("summary rows %s alpha %s rank %s", figs["data_rows"], figs["data_alpha"], figs["data_rank"])
+	}
+	if got, want := cdNum(t, figs, "data_condition"), sv[0]/sv[len(sv)-1]; math.Abs(got-want) > 1e-9*want {
+		t.Errorf("condition %v in the page, %v natively (gonum SVD)", got, want)
+	}
+
+	b.cdClick(t, "#data-design-use")
+	if state := b.settle(t); state != "ready" {
+		t.Fatalf("after using the matrix: data-state=%s: %s", state, b.text(t, ".problem"))
+	}
+	after := b.figures(t)
+	if after["mse"] == before["mse"] {
+		t.Errorf("the figures did not change with the design (mse %s)", after["mse"])
+	}
+	ch := m.Check()
+	if ch.Err != nil {
+		t.Fatal(ch.Err)
+	}
+	// The values the editor now holds (full precision, or rounded so that its box can show
+	// them, as the view says) are within rounding of the native singular values, and the
+	// figures equal the native engine's for that same scenario.
+	t.Logf("the view says: %s", b.text(t, "[data-part=design] [role=status]"))
+	var used []float64
+	for _, w := range strings.Split(b.cdJS(t, `document.getElementById("in-design-empirical-sv-values").value`), ",") {
+		v, err := strconv.ParseFloat(strings.TrimSpace(w), 64)
+		if err != nil {
+			t.Fatalf("the editor's list of singular values holds %q", w)
+		}
+		used = append(used, v)
+	}
+	if len(used) != len(sv) {
+		t.Fatalf("the editor holds %d singular values, the matrix has %d", len(used), len(sv))
+	}
+	for i := range sv {
+		if math.Abs(used[i]-sv[i]) > 1e-6*sv[i] {
+			t.Fatalf("singular value %d: %v in the editor, %v natively", i, used[i], sv[i])
+		}
+	}
+	s := ch.Scenario
+	s.Design = scenario.Design{Shape: "empirical-sv", Alpha: 0.5, Scale: s.Design.Scale, Lists: map[string][]float64{"values": used}}
+	if err := m.Load(s); err != nil {
+		t.Fatal(err)
+	}
+	b.compareNative(t, "design from a 1000 x 2000 matrix", m, after)
+	b.screenshot(t, "data-used.png")
+
+	// A file with a short row on line 3: the message names the line, the scenario stays.
+	bad := filepath.Join(dir, "invented-bad.csv")
+	if err := os.WriteFile(bad, []byte("1,2,3\n4,5,6\n7,8\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := chromedp.Run(b.ctx, chromedp.SetUploadFiles("#data-design-file", []string{bad}, chromedp.ByQuery)); err != nil {
+		t.Fatal(err)
+	}
+	run, _ = b.cdWaitRun(t, "[data-part=design]", "[data-part=design] [role=status]", 20*time.Second)
+	msg := b.text(t, "[data-part=design] .problem")
+	if run != "error" || !strings.Contains(msg, "line 3") || !strings.Contains(msg, "invented-bad.csv") {
+		t.Errorf("bad file: data-run=%s message %q", run, msg)
+	}
+	if figs := b.figures(t); figs["mse"] != after["mse"] {
+		t.Errorf("a bad file changed the scenario's figures: mse %s, was %s", figs["mse"], after["mse"])
+	}
+	b.screenshot(t, "data-bad-file.png")
+	b.checkNoNetwork(t)
+}
