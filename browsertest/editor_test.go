@@ -123,9 +123,12 @@ func TestEditorFollowsTyping(t *testing.T) {
 	before := b.figures(t)
 	text := ""
 	for _, key := range []string{"2", ".", "5"} {
+		start := time.Now()
 		b.press(t, key)
 		text += key
-		if state := b.settle(t); state != "ready" {
+		state := b.settle(t)
+		t.Logf("alpha %q: key to settled figures (design plot redrawn) %v, including the test's round trips", text, time.Since(start).Round(time.Millisecond))
+		if state != "ready" {
 			t.Fatalf("alpha %q: data-state=%s: %s", text, state, b.text(t, ".problem"))
 		}
 		if err := m.SetText("in-design-alpha", text); err != nil {
