@@ -227,7 +227,7 @@ func cdGaussianCSV(t *testing.T, dir string, m, n int) (string, *mat.Dense) {
 
 // TestDataInPage loads a 1000 x 2000 matrix through the file box, logs the time of its
 // singular values in the page, uses it as the design and checks the page's figures against
-// the native engine for the same empirical-sv scenario; a bad file is refused by line.
+// the native engine for the same empirical-sv scenario.
 func TestDataInPage(t *testing.T) {
 	dir := t.TempDir()
 	path, a := cdGaussianCSV(t, dir, 1000, 2000)
@@ -300,6 +300,17 @@ func TestDataInPage(t *testing.T) {
 	}
 	b.compareNative(t, "design from a 1000 x 2000 matrix", m, after)
 	b.screenshot(t, "data-used.png")
+	b.checkNoNetwork(t)
+}
+
+// TestDataErrorsAndSignalInPage feeds a bad file (the message names the line and the open
+// scenario stays) and then fits pasted samples and uses the fit as the signal. It is apart
+// from TestDataInPage so that each stays well inside the browser's time limit.
+func TestDataErrorsAndSignalInPage(t *testing.T) {
+	dir := t.TempDir()
+	b, _ := cdLassoPage(t)
+	b.cdTab(t, "data")
+	after := b.figures(t)
 
 	// A file with a short row on line 3: the message names the line, the scenario stays.
 	bad := filepath.Join(dir, "invented-bad.csv")
@@ -309,7 +320,7 @@ func TestDataInPage(t *testing.T) {
 	if err := chromedp.Run(b.ctx, chromedp.SetUploadFiles("#data-design-file", []string{bad}, chromedp.ByQuery)); err != nil {
 		t.Fatal(err)
 	}
-	run, _ = b.cdWaitRun(t, "[data-part=design]", "[data-part=design] [role=status]", 20*time.Second)
+	run, _ := b.cdWaitRun(t, "[data-part=design]", "[data-part=design] [role=status]", 20*time.Second)
 	msg := b.text(t, "[data-part=design] .problem")
 	if run != "error" || !strings.Contains(msg, "line 3") || !strings.Contains(msg, "invented-bad.csv") {
 		t.Errorf("bad file: data-run=%s message %q", run, msg)
@@ -318,5 +329,37 @@ func TestDataInPage(t *testing.T) {
 		t.Errorf("a bad file changed the scenario's figures: mse %s, was %s", figs["mse"], after["mse"])
 	}
 	b.screenshot(t, "data-bad-file.png")
+
+	// Pasted samples fitted by a two-component mixture become the signal.
+	var samples strings.Builder
+	rng := rand.New(rand.NewPCG(13, 14))
+	for range 400 {
+		v := 0.1 * rng.NormFloat64()
+		if rng.Float64() < 0.2 {
+			v = 2 + rng.NormFloat64()
+		}
+		fmt.Fprintf(&samples, "%v\n", v)
+	}
+	b.cdChoose(t, "#data-method", "gauss-mixture")
+	if err := chromedp.Run(b.ctx, chromedp.SetValue("#data-signal-text", samples.String(), chromedp.ByQuery)); err != nil {
+		t.Fatal(err)
+	}
+	b.cdJS(t, `document.getElementById("data-signal-text").dispatchEvent(new Event("change",{bubbles:true}));true`)
+	b.cdClick(t, "#data-signal-read")
+	run, _ = b.cdWaitRun(t, "[data-part=signal]", "[data-part=signal] [role=status]", 30*time.Second)
+	if run != "done" {
+		t.Fatalf("fitting the samples ended %s: %s", run, b.text(t, "[data-part=signal] .problem"))
+	}
+	if figs := b.figures(t); figs["data_samples"] != "400" || figs["data_components"] != "2" {
+		t.Errorf("samples %s, components %s", figs["data_samples"], figs["data_components"])
+	}
+	b.cdClick(t, "#data-signal-use")
+	if state := b.settle(t); state != "ready" {
+		t.Fatalf("after using the fitted signal: data-state=%s: %s", state, b.text(t, ".problem"))
+	}
+	if law := b.cdJS(t, `document.getElementById("pick-signal").value`); law != "gauss-mixture" {
+		t.Errorf("the signal menu shows %q after using the fit", law)
+	}
+	b.screenshot(t, "data-signal.png")
 	b.checkNoNetwork(t)
 }

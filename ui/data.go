@@ -352,7 +352,7 @@ func (c *DataView) drawPart(part string) {
 			counts[i] = float64(n)
 		}
 		spec = plot.Line{Title: "Singular values", XLabel: "singular value", YLabel: "count",
-			Series: []plot.Series{stepSeries("histogram", h.Edges, counts)}}
+			Series: []plot.Series{stepSeries("", h.Edges, counts)}}
 	case part == "signal" && c.fit != nil:
 		h := c.fit.Histogram
 		spec = plot.Line{Title: "Signal samples", XLabel: "value", YLabel: "density",
