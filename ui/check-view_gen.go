@@ -41,6 +41,8 @@ type CheckView struct {
 	elapsed                             time.Duration
 	figure                              *plot.Figure
 	figURL, figErr                      string
+	paths                               []scenario.PathInfo
+	pathsKey                            string
 }
 
 func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {

@@ -162,16 +162,23 @@ func (c *CheckView) settings() (scenario.Check, []float64, error) {
 	return k, slices.Compact(xs), nil
 }
 
-// Paths lists the numbers of the current scenario a check can be repeated over.
+// Paths lists the numbers of the current scenario a check can be repeated over. They depend
+// only on the chosen kinds, so they are kept until a menu changes: checking the whole
+// scenario at every render would cost milliseconds each time.
 func (c *CheckView) Paths() []scenario.PathInfo {
 	if c.Model == nil {
 		return nil
 	}
+	key := c.Model.Kind("design") + "|" + c.Model.Kind("signal") + "|" + c.Model.Kind("noise") + "|" + c.Model.Kind("penalty")
+	if key == c.pathsKey {
+		return c.paths
+	}
 	ch := c.Model.Check()
 	if ch.Err != nil {
-		return nil
+		return c.paths
 	}
-	return ch.Scenario.Paths()
+	c.paths, c.pathsKey = ch.Scenario.Paths(), key
+	return c.paths
 }
 
 // Start runs the check: one job, or one per value of Over, one after the other. The

@@ -267,3 +267,26 @@ func TestCheckStatesUnconvergedTrials(t *testing.T) {
 		t.Errorf("per-trial lines %q", pt)
 	}
 }
+
+// The menu of numbers to repeat over follows the chosen kinds.
+func TestCheckPathsFollowTheKinds(t *testing.T) {
+	m := lassoModel(t)
+	c := &CheckView{Model: m}
+	has := func(name string) bool {
+		for _, p := range c.Paths() {
+			if p.Name == name {
+				return true
+			}
+		}
+		return false
+	}
+	if !has("l1") || !has("alpha") || has("l2") {
+		t.Errorf("LASSO paths %v", c.Paths())
+	}
+	if err := m.SetKind("penalty", "ridge"); err != nil {
+		t.Fatal(err)
+	}
+	if has("l1") || !has("l2") {
+		t.Errorf("ridge paths %v", c.Paths())
+	}
+}
