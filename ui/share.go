@@ -141,7 +141,7 @@ func (c *Share) Start() {
 		return
 	}
 	ownFP := c.fingerprint()
-	if err := c.Model.Load(s); err != nil {
+	if err := c.load(s); err != nil {
 		c.fail("The link could not be opened", err)
 		c.changed()
 		return
@@ -178,7 +178,7 @@ func (c *Share) restore() (bool, error) {
 	if err != nil {
 		return false, err
 	}
-	if err := c.Model.Load(s); err != nil {
+	if err := c.load(s); err != nil {
 		return false, err
 	}
 	return true, nil
@@ -370,7 +370,7 @@ func reason(err error) string {
 // and an autosave. Special cases are: a scenario the editor cannot hold changes nothing and
 // is reported.
 func (c *Share) open(s scenario.Scenario, notice string) bool {
-	if err := c.Model.Load(s); err != nil {
+	if err := c.load(s); err != nil {
 		c.fail("The scenario could not be opened", err)
 		return false
 	}
@@ -380,6 +380,26 @@ func (c *Share) open(s scenario.Scenario, notice string) bool {
 		c.publish(true)
 	}
 	return true
+}
+
+// load puts s into the model. Special cases are: a list too long for the editor's box is
+// refused with its field (the page's renderer stops on longer text; see maxListChars), and a
+// kind the editor does not offer is refused; both change nothing.
+func (c *Share) load(s scenario.Scenario) error {
+	probe := NewModel()
+	if err := probe.Load(s); err != nil {
+		return err
+	}
+	for _, g := range Groups {
+		for _, f := range probe.Fields(g.Name) {
+			if n := utf8.RuneCountInString(f.Text); n > maxListChars {
+				return &scenario.FieldError{Field: f.Path, Reason: fmt.Sprintf(
+					"its list is %d characters long as text, more than the %d the editor's box can show; open the file in the Your data tab, which thins and rounds a long list to fit, or compute it with the command line (hdrisk eval FILE)",
+					n, maxListChars)}
+			}
+		}
+	}
+	return c.Model.Load(s)
 }
 
 // Navigated opens the scenario of a history entry (back, forward, or an address edited by
@@ -399,7 +419,7 @@ func (c *Share) Navigated(frag string) {
 		c.fail("The address could not be opened, so the open scenario stays", err)
 		return
 	}
-	if err := c.Model.Load(s); err != nil {
+	if err := c.load(s); err != nil {
 		c.fail("The address could not be opened, so the open scenario stays", err)
 		return
 	}
@@ -424,6 +444,9 @@ type InputReader interface {
 	// code units (never more than its length in UTF-8 bytes). Text longer than limit units
 	// is not read: text is then "".
 	InputText(id string, limit int) (text string, length int, err error)
+	// ClearInput empties the input: a browser lays out many megabytes of text in a box
+	// slowly at every change of the page, for seconds each time.
+	ClearInput(id string)
 }
 
 // OpenPaste opens the text of the paste box (see OpenText).
@@ -440,7 +463,9 @@ func (c *Share) OpenPaste() {
 		return
 	}
 	if n > MaxPaste {
+		r.ClearInput(PasteInputID)
 		c.refuseSize(n)
+		c.Message += " The paste box was emptied."
 		return
 	}
 	c.OpenText(text)

@@ -210,7 +210,7 @@ func (c *Share) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgparent.AppendChild(vgn)
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field"}}}
 		vgparent.AppendChild(vgn)
-		vgn.SetInnerHTML(vugu.HTML("\n\t\t\x3Clabel for=\"share-paste\"\x3EPaste a link, a code (s1.…) or the text of a scenario file\x3C/label\x3E\n\t\t\x3Cinput id=\"share-paste\" type=\"text\" spellcheck=\"false\" autocomplete=\"off\"/\x3E\n\t"))
+		vgn.SetInnerHTML(vugu.HTML("\n\t\t\x3Clabel for=\"share-paste\"\x3EPaste a link, a code (s1.…) or the text of a scenario file\x3C/label\x3E\n\t\t\x3Ctextarea id=\"share-paste\" rows=\"2\" spellcheck=\"false\" autocomplete=\"off\"\x3E\x3C/textarea\x3E\n\t"))
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 		vgparent.AppendChild(vgn)
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "share-row"}}}

@@ -6,6 +6,7 @@ import (
 	"encoding/base64"
 	"encoding/json"
 	"errors"
+	"math"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -94,6 +95,12 @@ func (b *fakeBrowser) InputText(id string, limit int) (string, int, error) {
 		return "", n, nil
 	}
 	return b.input, utf8.RuneCountInString(b.input), nil
+}
+
+func (b *fakeBrowser) ClearInput(id string) {
+	if id == PasteInputID {
+		b.input = ""
+	}
 }
 
 // back moves one entry back, as the browser's Back button does, and reports the fragment.
@@ -225,6 +232,9 @@ func TestShareRefusesBadInput(t *testing.T) {
 			c.OpenPaste()
 			untouched("paste")
 			if tc.name == "10 MB paste" {
+				if b.input != "" {
+					t.Errorf("the paste box keeps 10 MB")
+				}
 				c.OpenText(tc.text)
 				untouched("text given directly")
 			}
@@ -424,20 +434,62 @@ func TestShareAutosave(t *testing.T) {
 	}
 }
 
-// TestShareLongSpectrum: a 2000-value empirical spectrum is too long for a link; the panel
-// says so and offers the file, which opens back as the same scenario.
+// TestShareLongSpectrum: a 2000-value empirical spectrum at full precision is refused with
+// its field (the editor's box cannot show it); rounded to two decimals it opens and gives a
+// link or says that the link is too long. A scenario whose link is too long says so, clears
+// the address and offers the file, which opens back as the same scenario.
 func TestShareLongSpectrum(t *testing.T) {
 	b := newFake("")
 	c, _, _ := newShare(t, b)
-	s := example(t, "sparse-survey.json")
 	rng := rand.New(rand.NewPCG(1, 2))
-	sv := make([]float64, 2000)
-	for i := range sv {
-		sv[i] = 0.2 + rng.Float64()
+	spectrum := func(n int, decimals float64) []float64 {
+		v := make([]float64, n)
+		for i := range v {
+			v[i] = math.Round((0.2+rng.Float64())*decimals) / decimals
+		}
+		return v
 	}
-	s.Design = scenario.Design{Shape: "empirical-sv", Alpha: 0.5, Scale: scenario.ScaleRows, Lists: map[string][]float64{"values": sv}}
-	s.Study = nil
-	c.OpenExample(Example{Title: "long", Scenario: s})
+	withLists := func(design, signal []float64) scenario.Scenario {
+		s := example(t, "sparse-survey.json")
+		s.Design = scenario.Design{Shape: "empirical-sv", Alpha: 0.5, Scale: scenario.ScaleRows, Lists: map[string][]float64{"values": design}}
+		if signal != nil {
+			s.Signal = scenario.Signal{Law: "empirical", Lists: map[string][]float64{"values": signal}}
+		}
+		s.Study = nil
+		return s
+	}
+
+	before := modelJSON(t, c.Model)
+	c.OpenExample(Example{Title: "full precision", Scenario: withLists(spectrum(2000, 1e15), nil)})
+	if !strings.Contains(c.Message, "design.values") || !strings.Contains(c.Message, "editor's box") || modelJSON(t, c.Model) != before {
+		t.Errorf("2000 values at full precision: message %q", c.Message)
+	}
+
+	short := withLists(spectrum(2000, 100), nil)
+	c.OpenExample(Example{Title: "two decimals", Scenario: short})
+	if c.Message != "" {
+		t.Fatalf("2000 values at two decimals: %q", c.Message)
+	}
+	if c.Link != "" {
+		back, err := scenario.DecodeLink(c.Link)
+		if err != nil || !reflect.DeepEqual(back.Design, short.Design) {
+			t.Errorf("the link of 2000 values does not hold them: %v", err)
+		}
+		t.Logf("2000 values at two decimals: a working link of %d characters", len(c.Link))
+	} else if !strings.Contains(c.NoLink, "too long") {
+		t.Errorf("2000 values at two decimals: neither a link nor 'too long': %q", c.NoLink)
+	}
+
+	long := withLists(spectrum(1400, 1e4), spectrum(1400, 1e4))
+	letters := make([]byte, 3000)
+	for i := range letters {
+		letters[i] = "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789"[rng.IntN(62)]
+	}
+	long.Notes = string(letters)
+	if _, err := scenario.EncodeLink(long); err == nil {
+		t.Fatal("the test's long scenario fits in a link")
+	}
+	c.OpenExample(Example{Title: "long", Scenario: long})
 	if c.Message != "" {
 		t.Fatal(c.Message)
 	}
@@ -457,13 +509,12 @@ func TestShareLongSpectrum(t *testing.T) {
 		name = n
 	}
 	back, err := scenario.Decode(b.downloads[name])
-	if err != nil || !reflect.DeepEqual(back.Design, s.Design) {
-		t.Fatalf("the saved file %s does not hold the spectrum: %v", name, err)
+	if err != nil || !reflect.DeepEqual(back, long) {
+		t.Fatalf("the saved file %s does not hold the scenario: %v", name, err)
 	}
 	saved := modelJSON(t, c.Model)
-	b.file.name, b.file.data = name, b.downloads[name]
 	c2, _, _ := newShare(t, newFake(""))
-	c2.Browser.(*fakeBrowser).file = b.file
+	c2.Browser.(*fakeBrowser).file.name, c2.Browser.(*fakeBrowser).file.data = name, b.downloads[name]
 	c2.OpenFile()
 	if c2.Message != "" || modelJSON(t, c2.Model) != saved {
 		t.Errorf("the file did not open as the same scenario: %q", c2.Message)

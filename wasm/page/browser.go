@@ -420,8 +420,9 @@ func (b *browser) ReadFile(inputID string, limit int64, done func(name string, d
 	}, func(err error) { finish(name, nil, fmt.Errorf("%s could not be read: %w", name, err)) })
 }
 
-// InputText implements ui.InputReader: the length of the input's text is read first, and the
-// text itself only when it is at most limit UTF-16 code units long.
+// InputText implements ui.InputReader. A textarea tells its text's length (textLength)
+// without handing over the text, which is then read only when it is at most limit UTF-16
+// code units long; for other inputs the text is read and its UTF-8 length counted.
 func (b *browser) InputText(id string, limit int) (string, int, error) {
 	doc, err := global("document")
 	if err != nil {
@@ -431,19 +432,25 @@ func (b *browser) InputText(id string, limit int) (string, int, error) {
 	if err != nil || el.IsNull() || el.IsUndefined() {
 		return "", 0, fmt.Errorf("no box %q on the page", id)
 	}
-	v, err := el.Get("value")
-	if err != nil {
-		return "", 0, err
+	if lv, err := el.Get("textLength"); err == nil && lv.Type() == safejs.TypeNumber {
+		if n, err := lv.Int(); err == nil && n > limit {
+			return "", n, nil
+		}
 	}
-	n, err := v.Length()
-	if err != nil {
-		return "", 0, err
+	text := str(el.Get("value"))
+	if len(text) > limit {
+		return "", len(text), nil
 	}
-	if n > limit {
-		return "", n, nil
+	return text, len(text), nil
+}
+
+// ClearInput implements ui.InputReader.
+func (b *browser) ClearInput(id string) {
+	if doc, err := global("document"); err == nil {
+		if el, err := doc.Call("getElementById", id); err == nil && !el.IsNull() && !el.IsUndefined() {
+			_ = el.Set("value", "")
+		}
 	}
-	text, err := v.String()
-	return text, n, err
 }
 
 var (
