@@ -39,8 +39,9 @@ type CurveView struct {
 	bayes                   *job.BayesOut
 	bayesNote               string
 	bestCancel, bayesCancel func()
-	progress, total         int
-	seconds                 float64
+	seconds                 float64 // from start to the sweep's numbers
+	figSeconds              float64 // from start to the figure in place
+	started                 time.Time
 	box                     figureBox
 }
 
@@ -53,6 +54,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "study curve"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "curve-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "curve"}}}
 	vgout.Out = append(vgout.Out, vgn) // root for output
+	vgn.AddAttrInterface("data-figure-seconds", c.FigureSeconds())
 	vgn.AddAttrInterface("data-run", c.Run())
 	vgn.AddAttrInterface("data-seconds", c.Seconds())
 	{
@@ -116,7 +118,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							}
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "selected", JSONVal: vjson.RawMessage(b)})
 						}
-						vgn.SetInnerHTML(p.Label)
+						vgn.SetInnerHTML(pathOption(p))
 					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 					vgparent.AppendChild(vgn)
@@ -457,14 +459,6 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}}}
 			vgparent.AppendChild(vgn)
 			vgn.SetInnerHTML(c.Status())
-		}
-		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
-		vgparent.AppendChild(vgn)
-		if c.Running() {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "progress", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-progress"}, vugu.VGAttribute{Namespace: "", Key: "aria-label", Val: "progress of the sweep"}}}
-			vgparent.AppendChild(vgn)
-			vgn.AddAttrInterface("max", c.total)
-			vgn.AddAttrInterface("value", c.progress)
 		}
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 		vgparent.AppendChild(vgn)

@@ -88,16 +88,7 @@ func (c *CurveView) Running() bool { return c.run == RunRunning }
 func (c *CurveView) Axis() axisText { c.curveInit(); return c.ax }
 
 // Paths are the numbers of the current scenario that can be swept.
-func (c *CurveView) Paths() []scenario.PathInfo {
-	if c.Model == nil {
-		return nil
-	}
-	ch := c.Model.Check()
-	if ch.Err != nil {
-		return nil
-	}
-	return ch.Scenario.Paths()
-}
+func (c *CurveView) Paths() []scenario.PathInfo { return modelPaths(c.Model) }
 
 // Quantities are the numbers a curve can show on its y axis.
 func (c *CurveView) Quantities() []study.Observable { return study.Observables() }
@@ -194,7 +185,7 @@ func (c *CurveView) Start() {
 	c.axis = ax
 	c.best, c.bestErr, c.bayes, c.bayesNote = nil, "", nil, ""
 	c.current = &curveSeries{Label: c.label(s, "this scenario"), Scen: s}
-	c.seconds = 0
+	c.seconds, c.figSeconds, c.started = 0, 0, c.now()
 	c.startSweep(c.current, true)
 	if isWeight {
 		c.startBest(s, ax.Over)
@@ -276,11 +267,9 @@ func (c *CurveView) startSweep(cs *curveSeries, timed bool) {
 		return
 	}
 	t0 := c.now()
-	cs.cancel = c.Jobs.Start("sweep", job.SweepArgs{Scenario: data, Axis: c.axis}, func(done, total int) {
-		if timed {
-			c.progress, c.total = done, total
-		}
-	}, func(res []byte, err error) {
+	// No progress callback: a sweep takes a fraction of a second, and every progress
+	// message would cost the page a render while it runs.
+	cs.cancel = c.Jobs.Start("sweep", job.SweepArgs{Scenario: data, Axis: c.axis}, nil, func(res []byte, err error) {
 		cs.cancel, cs.done = nil, true
 		if timed {
 			c.seconds = c.now().Sub(t0).Seconds()
@@ -449,7 +438,9 @@ func (c *CurveView) settle() {
 	}
 	switch {
 	case busy:
+		// The figure waits for the last job: each drawing costs a worker and a render.
 		c.run = RunRunning
+		return
 	case c.current != nil && c.current.err != "" && c.current.err != "cancelled":
 		c.run, c.problem = RunError, c.current.err
 	case c.run == RunCancelled:
@@ -539,7 +530,11 @@ func (c *CurveView) redraw() {
 		c.box.clear()
 		return
 	}
-	c.box.show(l.Build())
+	c.box.draw(c.Jobs, c.Browser, job.FigureArgs{Line: job.LineOf(l)}, func() {
+		if c.run == RunDone && c.figSeconds == 0 {
+			c.figSeconds = c.now().Sub(c.started).Seconds()
+		}
+	})
 }
 
 // FigureURL is the figure as a data: URL; "" when there is none.
@@ -589,10 +584,7 @@ func (c *CurveView) say(x, y float64) string {
 func (c *CurveView) Status() string {
 	switch c.run {
 	case RunRunning:
-		if c.total > 0 {
-			return fmt.Sprintf("Sweeping: %d of %d points…", c.progress, c.total)
-		}
-		return "Sweeping…"
+		return fmt.Sprintf("Sweeping %s points…", c.axisPoints())
 	case RunDone:
 		if c.current == nil || len(c.current.Points) == 0 {
 			return ""
@@ -664,7 +656,11 @@ func (c *CurveView) Answers() [][3]string {
 			"Bayes-optimal error: " + num4(float64(c.bayes.Uninformed.NMSEdB)) + " dB"})
 	}
 	if c.current != nil && len(c.current.Points) > 0 && c.run == RunDone {
-		out = append(out, [3]string{"curve_seconds", full(c.seconds), fmt.Sprintf("Time in the page: %.3f s", c.seconds)})
+		t := fmt.Sprintf("Time in the page: %.3f s to the numbers", c.seconds)
+		if c.figSeconds > 0 {
+			t += fmt.Sprintf(", %.3f s to the figure", c.figSeconds)
+		}
+		out = append(out, [3]string{"curve_seconds", full(c.seconds), t})
 	}
 	return out
 }
@@ -719,9 +715,7 @@ func (c *CurveView) CSV() ([]byte, error) {
 
 // Export saves the figure ("svg", "png") or the curves' data ("csv").
 func (c *CurveView) Export(what string) {
-	if err := c.box.save(c.Browser, "hdrisk-curve", what, c.CSV); err != nil {
-		c.problem = err.Error()
-	}
+	c.box.save(c.Browser, c.Jobs, "hdrisk-curve", what, c.CSV, func(err error) { c.problem = err.Error() })
 }
 
 // csvField quotes one CSV field as RFC 4180 asks (quotes doubled, the field in quotes).
@@ -740,3 +734,9 @@ func (c *CurveView) readoutText() string {
 	}
 	return c.box.readout
 }
+
+// FigureSeconds is the time from the start of the last sweep to its figure in place (data
+// hook; 0 before).
+func (c *CurveView) FigureSeconds() string { return full(c.figSeconds) }
+
+func (c *CurveView) axisPoints() string { return strconv.Itoa(c.axis.Points) }

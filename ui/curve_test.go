@@ -165,7 +165,7 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	for _, a := range c.Answers() {
 		ans[a[0]] = a[1]
 	}
-	if ans["curve_best_value"] != full(wb.Value) || ans["curve_bayes_nmse_db"] == "" || ans["curve_seconds"] == "" {
+	if ans["curve_best_value"] != full(wb.Value) || ans["curve_bayes_nmse_db"] == "" || ans["curve_seconds"] == "" || c.FigureSeconds() == "0" {
 		t.Errorf("answers %v; engine best %v", ans, wb.Value)
 	}
 	spec, ok := c.figureSpec()
@@ -203,7 +203,7 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	}
 
 	// Readout: the middle of the data area reads inside, with the nearest computed point.
-	fr := c.box.fig.Frame()
+	fr := c.box.frame
 	c.box.pointAt((fr.Left+fr.Right)/2*600, (fr.Top+fr.Bottom)/2*400, 600, 400, c.say)
 	if !strings.Contains(c.Readout(), "l1 = ") || !strings.Contains(c.Readout(), "nearest computed point") {
 		t.Errorf("readout %q", c.Readout())
@@ -217,6 +217,7 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	for _, what := range []string{"csv", "svg", "png"} {
 		c.Export(what)
 	}
+	jobs.flush()
 	if c.Problem() != "" || len(br.names) != 3 {
 		t.Fatalf("exports: %v, problem %q", br.names, c.Problem())
 	}
@@ -377,5 +378,49 @@ func TestStudyThatNoLongerFitsIsDropped(t *testing.T) {
 	}
 	if st := m.Check().Scenario.Study; st == nil || st.Sweep == nil {
 		t.Errorf("back on l1 the sweep fits again and should be there: %+v", st)
+	}
+}
+
+// blobBrowser also holds images as blob: URLs, like the page's browser, and counts those
+// not yet released.
+type blobBrowser struct {
+	keepBrowser
+	live map[string]bool
+	n    int
+}
+
+func (b *blobBrowser) ObjectURL(_ string, data []byte) (string, error) {
+	b.n++
+	u := "blob:test/" + strings.Repeat("x", b.n)
+	if b.live == nil {
+		b.live = map[string]bool{}
+	}
+	b.live[u] = true
+	return u, nil
+}
+
+func (b *blobBrowser) RevokeObjectURL(u string) { delete(b.live, u) }
+
+// Figures larger than the renderer's 16 KB attribute buffer must go in as short blob: URLs,
+// and each replaced figure's URL must be released.
+func TestFigureUsesBlobURLs(t *testing.T) {
+	m := modelOf(t, lassoScenario)
+	jobs, br := &queueJobs{}, &blobBrowser{}
+	c := &CurveView{Model: m, Jobs: jobs, Browser: br}
+	_ = c.Set("points", "40")
+	c.Start()
+	jobs.flush()
+	first := c.FigureURL()
+	if !strings.HasPrefix(first, "blob:") || len(br.live) != 1 {
+		t.Fatalf("figure URL %q, %d live", first, len(br.live))
+	}
+	_ = c.Set("quantity", "mse")
+	jobs.flush()
+	if c.FigureURL() == first || len(br.live) != 1 || br.live[first] {
+		t.Errorf("after a redraw: %q, live %v", c.FigureURL(), br.live)
+	}
+	c.box.clear()
+	if len(br.live) != 0 {
+		t.Errorf("clearing kept %d URLs alive", len(br.live))
 	}
 }

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"strconv"
@@ -10,32 +11,94 @@ import (
 
 	"hdrisk/engine/scenario"
 	"hdrisk/ui/plot"
+	"hdrisk/wasm/job"
 )
 
-// figureBox is a built figure shown as an <img>, with the readout of the value under the
-// pointer and the exports. The curve, map and plan views share it.
+// figureBox is a figure drawn on a compute worker (job kind "figure") and shown as an
+// <img>, with the readout of the value under the pointer and the exports. Drawing runs on a
+// worker because rendering a heat map or a PNG takes longer in the page than the page may
+// stand still. The curve, map and plan views share it.
 type figureBox struct {
-	fig     *plot.Figure
-	url     string // data: URL of the SVG; "" when there is no figure
-	problem string // why there is no figure
-	readout string // the values under the pointer, in words
+	spec    job.FigureArgs // the figure shown (or on its way)
+	url     string         // blob: or data: URL of its SVG; "" when there is none
+	blobs   objectURLs     // the holder of url when it is a blob: URL
+	frame   plot.Frame     // where its data area lies
+	problem string         // why there is no figure
+	readout string         // the values under the pointer, in words
+	cancel  func()         // the drawing on its way, if any
+	saving  int            // exports on their way
 }
 
-// show builds spec and keeps its SVG as a data: URL.
-func (b *figureBox) show(f *plot.Figure, err error) {
-	b.fig, b.url, b.problem, b.readout = nil, "", "", ""
-	if err == nil {
-		var svg []byte
-		if svg, err = f.SVG(); err == nil {
-			b.fig, b.url = f, plot.DataURL("image/svg+xml", svg)
+// objectURLs is what a Browser offers when it can hold data as a short blob: URL. The page's
+// renderer passes every attribute through a 16 KB buffer, so a figure's SVG cannot go in
+// as a data: URL once it is larger; without such a Browser (native tests) data: URLs serve.
+type objectURLs interface {
+	ObjectURL(mime string, data []byte) (string, error)
+	RevokeObjectURL(url string)
+}
+
+// setImage shows svg, as a blob: URL when the browser can hold one, releasing the last.
+func (b *figureBox) setImage(br Browser, svg []byte) {
+	b.release()
+	if ou, ok := br.(objectURLs); ok {
+		if u, err := ou.ObjectURL("image/svg+xml", svg); err == nil {
+			b.url, b.blobs = u, ou
 			return
 		}
 	}
-	b.problem = "the figure could not be drawn: " + err.Error()
+	b.url = plot.DataURL("image/svg+xml", svg)
 }
 
-// clear removes the figure.
-func (b *figureBox) clear() { *b = figureBox{} }
+// release lets go of the blob: URL shown, if any.
+func (b *figureBox) release() {
+	if b.blobs != nil {
+		b.blobs.RevokeObjectURL(b.url)
+		b.blobs = nil
+	}
+	b.url = ""
+}
+
+// draw renders spec on a worker; shown (may be nil) is called once the image is in place.
+// The figure shown so far stays until the new one arrives.
+func (b *figureBox) draw(jobs Jobs, br Browser, spec job.FigureArgs, shown func()) {
+	if b.cancel != nil {
+		b.cancel()
+		b.cancel = nil
+	}
+	b.spec, b.problem = spec, ""
+	if jobs == nil {
+		b.problem = "the figure waits for the compute workers"
+		return
+	}
+	b.cancel = jobs.Start("figure", spec, nil, func(res []byte, err error) {
+		b.cancel = nil
+		var r job.FigureResult
+		if err == nil {
+			err = json.Unmarshal(res, &r)
+		}
+		if err != nil {
+			b.problem = "the figure could not be drawn: " + err.Error()
+			return
+		}
+		b.setImage(br, r.Data)
+		b.frame, b.readout = r.Frame, ""
+		if shown != nil {
+			shown()
+		}
+	})
+}
+
+// Drawing reports whether a figure is on its way.
+func (b *figureBox) drawing() bool { return b.cancel != nil }
+
+// clear removes the figure and stops one on its way.
+func (b *figureBox) clear() {
+	if b.cancel != nil {
+		b.cancel()
+	}
+	b.release()
+	*b = figureBox{}
+}
 
 // point updates the readout from a pointer event on the overlay that covers the image
 // exactly: offsetX/offsetY are the pointer position in it, clientWidth/clientHeight its
@@ -47,11 +110,11 @@ func (b *figureBox) point(e vugu.DOMEvent, say func(x, y float64) string) {
 
 // pointAt is point with the numbers taken out of the event.
 func (b *figureBox) pointAt(px, py, w, h float64, say func(x, y float64) string) {
-	if b.fig == nil {
+	if b.url == "" {
 		b.readout = ""
 		return
 	}
-	x, y, inside := b.fig.Frame().At(px, py, w, h)
+	x, y, inside := b.frame.At(px, py, w, h)
 	if !inside {
 		b.readout = ""
 		return
@@ -62,38 +125,50 @@ func (b *figureBox) pointAt(px, py, w, h float64, say func(x, y float64) string)
 // leave clears the readout when the pointer leaves the figure.
 func (b *figureBox) leave() { b.readout = "" }
 
-// save offers the figure (svg, png) or its data (csv) as a download.
-func (b *figureBox) save(br Browser, base, what string, csv func() ([]byte, error)) error {
+// save offers the figure (svg, png: rendered on a worker) or its data (csv) as a download
+// named base.what; problems are handed to report.
+func (b *figureBox) save(br Browser, jobs Jobs, base, what string, csv func() ([]byte, error), report func(error)) {
 	if br == nil {
-		return fmt.Errorf("saving a file needs the browser")
+		report(fmt.Errorf("saving a file needs the browser"))
+		return
 	}
-	var (
-		data []byte
-		err  error
-		mime string
-	)
+	name := base + "." + what
 	switch what {
 	case "csv":
-		data, err = csv()
-		mime = "text/csv"
+		data, err := csv()
+		if err == nil {
+			err = br.Download(name, "text/csv", data)
+		}
+		if err != nil {
+			report(err)
+		}
+		return
 	case "svg", "png":
-		if b.fig == nil {
-			return fmt.Errorf("there is no figure to save yet")
-		}
-		if what == "svg" {
-			data, err = b.fig.SVG()
-			mime = "image/svg+xml"
-		} else {
-			data, err = b.fig.PNG(0)
-			mime = "image/png"
-		}
 	default:
-		return fmt.Errorf("cannot save as %q", what)
+		report(fmt.Errorf("cannot save as %q", what))
+		return
 	}
-	if err != nil {
-		return err
+	if b.url == "" || jobs == nil {
+		report(fmt.Errorf("there is no figure to save yet"))
+		return
 	}
-	return br.Download(base+"."+what, mime, data)
+	spec := b.spec
+	spec.Format = what
+	mime := map[string]string{"svg": "image/svg+xml", "png": "image/png"}[what]
+	b.saving++
+	jobs.Start("figure", spec, nil, func(res []byte, err error) {
+		b.saving--
+		var r job.FigureResult
+		if err == nil {
+			err = json.Unmarshal(res, &r)
+		}
+		if err == nil {
+			err = br.Download(name, mime, r.Data)
+		}
+		if err != nil {
+			report(err)
+		}
+	})
 }
 
 // num formats a number for the page, to 4 significant digits.
@@ -191,14 +266,30 @@ func round3(v float64) float64 {
 	return s
 }
 
-// pathLabel returns the label of a path of s, or the path itself.
+// pathLabel returns the short name of a path of s for an axis: its name, "m/n" for alpha,
+// with its unit when it has one.
 func pathLabel(s scenario.Scenario, name string) string {
 	for _, p := range s.Paths() {
 		if p.Name == name || p.Path == name {
-			return p.Label
+			n := p.Name
+			if n == "alpha" {
+				n = "m/n"
+			}
+			if p.Unit != "" {
+				n += " (" + p.Unit + ")"
+			}
+			return n
 		}
 	}
 	return name
+}
+
+// pathOption is the text of a path in a menu: its name, then what it is.
+func pathOption(p scenario.PathInfo) string {
+	if p.Label == "" || p.Label == p.Name {
+		return p.Name
+	}
+	return p.Name + ": " + p.Label
 }
 
 // bareJSON encodes s without its study: the jobs need the problem only, and a study that
@@ -281,4 +372,31 @@ func fitStudy(s scenario.Scenario) *scenario.Study {
 		return nil
 	}
 	return &st
+}
+
+// pathCache keeps the numbers a study can vary for the last combination of kinds: they
+// depend on the kinds only, and checking the whole scenario at every render of three views
+// costs the page more than it may spend on a render.
+var pathCache struct {
+	key   string
+	paths []scenario.PathInfo
+}
+
+// modelPaths returns the numbers of the model's scenario that studies can vary. Special
+// cases are: while the inputs are invalid, the numbers of the same kinds seen last are
+// kept; nil before any valid scenario of these kinds.
+func modelPaths(m *Model) []scenario.PathInfo {
+	if m == nil {
+		return nil
+	}
+	key := m.Kind("design") + "|" + m.Kind("signal") + "|" + m.Kind("penalty") + "|" + m.Scale
+	if key == pathCache.key && pathCache.paths != nil {
+		return pathCache.paths
+	}
+	ch := m.Check()
+	if ch.Err != nil {
+		return nil
+	}
+	pathCache.key, pathCache.paths = key, ch.Scenario.Paths()
+	return pathCache.paths
 }

@@ -19,10 +19,26 @@ import (
 // mapPoints is the number of values per axis a new map proposes.
 const mapPoints = 100
 
-// mapBlocks is the most blocks of rows a map is split into. The pool runs one block per
-// worker and queues the rest, so more blocks than workers even out the load (rows differ
-// in cost) and make the progress smoother, at the price of a little messaging per block.
-const mapBlocks = 32
+// mapBlocksPerWorker is how many blocks of rows a map gives each worker. The pool runs one
+// block per worker and queues the rest: a few blocks each even out the load (rows differ in
+// cost) and move the progress bar, while every finished block costs the page a render and
+// the decoding of its cells, so there are not many.
+const mapBlocksPerWorker = 2
+
+// mapBlocksUnknown is the number of blocks when the pool does not say how many workers it has.
+const mapBlocksUnknown = 8
+
+// workerCount is what a Jobs offers when it can say how many workers it has.
+type workerCount interface{ Workers() int }
+
+// blocks returns how many blocks of rows a map of rows rows is split into.
+func (c *Mapview) blockCount(rows int) int {
+	n := mapBlocksUnknown
+	if wc, ok := c.Jobs.(workerCount); ok && wc.Workers() > 0 {
+		n = mapBlocksPerWorker * wc.Workers()
+	}
+	return max(1, min(rows, n))
+}
 
 // mapInit reads the map settings from the scenario's study.map, or proposes the first
 // penalty weight against m/n.
@@ -80,16 +96,7 @@ func (c *Mapview) X() axisText { c.mapInit(); return c.ax[0] }
 func (c *Mapview) Y() axisText { c.mapInit(); return c.ax[1] }
 
 // Paths are the numbers of the current scenario a map can vary.
-func (c *Mapview) Paths() []scenario.PathInfo {
-	if c.Model == nil {
-		return nil
-	}
-	ch := c.Model.Check()
-	if ch.Err != nil {
-		return nil
-	}
-	return ch.Scenario.Paths()
-}
+func (c *Mapview) Paths() []scenario.PathInfo { return modelPaths(c.Model) }
 
 // Quantities are the numbers the colours can show.
 func (c *Mapview) Quantities() []study.Observable { return study.Observables() }
@@ -193,24 +200,21 @@ func (c *Mapview) Start() {
 	c.stop()
 	c.scen, c.axes = s, ax
 	c.cells = make([]study.Point, ax[0].Points*ax[1].Points)
-	c.done, c.total, c.seconds = 0, ax[1].Points, 0
+	c.done, c.total, c.seconds, c.figSeconds = 0, ax[1].Points, 0, 0
 	c.box.clear()
 	c.started = c.now()
 	c.run = RunRunning
 	rows := ax[1].Points
-	nb := min(rows, mapBlocks)
+	nb := c.blockCount(rows)
 	c.blocks = make([]func(), nb)
-	c.blockRows = make([]int, nb)
 	c.pending = nb
 	for b := 0; b < nb; b++ {
 		from, to := b*rows/nb, (b+1)*rows/nb
 		b := b
+		// Progress is counted by finished blocks: a progress message per row from every
+		// worker would cost the page a render each, and slow the map it reports on.
 		c.blocks[b] = c.Jobs.Start("map_rows", job.MapArgs{Scenario: data, X: ax[0], Y: ax[1], RowFrom: from, RowTo: to},
-			func(done, _ int) {
-				c.done += done - c.blockRows[b]
-				c.blockRows[b] = done
-			},
-			func(res []byte, err error) { c.block(b, from, to, res, err) })
+			nil, func(res []byte, err error) { c.block(b, from, to, res, err) })
 	}
 }
 
@@ -233,8 +237,7 @@ func (c *Mapview) block(b, from, to int, res []byte, err error) {
 	for k, cell := range r.Cells {
 		c.cells[from*c.axes[0].Points+k] = cell.Point()
 	}
-	c.done += (to - from) - c.blockRows[b]
-	c.blockRows[b] = to - from
+	c.done += to - from
 	if c.pending > 0 {
 		return
 	}
@@ -353,7 +356,7 @@ func (c *Mapview) redraw() {
 		h.Lines = []plot.Series{{X: rx, Y: ry}}
 		h.Title += "; orange: lowest error along " + c.axes[c.weightAxis()].Over
 	}
-	c.box.show(h.Build())
+	c.box.draw(c.Jobs, c.Browser, job.FigureArgs{Heat: job.HeatOf(h)}, func() { c.figSeconds = c.now().Sub(c.started).Seconds() })
 }
 
 // FigureURL is the map as a data: URL; "" when there is none.
@@ -446,7 +449,11 @@ func (c *Mapview) Answers() [][3]string {
 			lo, at = p.Result.MSE, k
 		}
 	}
-	out := [][3]string{{"map_seconds", full(c.seconds), fmt.Sprintf("Time in the page: %.2f s", c.seconds)}}
+	t := fmt.Sprintf("Time in the page: %.2f s to the numbers", c.seconds)
+	if c.figSeconds > 0 {
+		t += fmt.Sprintf(", %.2f s to the map", c.figSeconds)
+	}
+	out := [][3]string{{"map_seconds", full(c.seconds), t}}
 	if at >= 0 {
 		p := c.cells[at]
 		out = append(out, [3]string{"map_lowest_mse", full(p.Result.MSE), fmt.Sprintf("Lowest error on the map: %s %s at %s = %s, %s = %s",
@@ -469,9 +476,7 @@ func (c *Mapview) CSV() ([]byte, error) {
 
 // Export saves the map ("svg", "png") or its data ("csv").
 func (c *Mapview) Export(what string) {
-	if err := c.box.save(c.Browser, "hdrisk-map", what, c.CSV); err != nil {
-		c.problem = err.Error()
-	}
+	c.box.save(c.Browser, c.Jobs, "hdrisk-map", what, c.CSV, func(err error) { c.problem = err.Error() })
 }
 
 // mapAxisInputs is one axis's group of inputs.
@@ -487,3 +492,7 @@ func (c *Mapview) axesForInputs() []mapAxisInputs {
 		{Key: "map-y", Set: "y.", Legend: "Up (y)", Axis: c.ax[1]},
 	}
 }
+
+// FigureSeconds is the time from the start of the last map to its image in place (data
+// hook; 0 before).
+func (c *Mapview) FigureSeconds() string { return full(c.figSeconds) }

@@ -35,11 +35,11 @@ type Mapview struct {
 	run, problem string
 	cells        []study.Point
 	blocks       []func() // cancel of each block still running
-	blockRows    []int    // rows done in each block
 	pending      int
 	done, total  int
 	started      time.Time
 	seconds      float64
+	figSeconds   float64 // from start to the map's image in place
 	box          figureBox
 }
 
@@ -52,6 +52,7 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "study map"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "map-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "map"}}}
 	vgout.Out = append(vgout.Out, vgn) // root for output
+	vgn.AddAttrInterface("data-figure-seconds", c.FigureSeconds())
 	vgn.AddAttrInterface("data-run", c.Run())
 	vgn.AddAttrInterface("data-seconds", c.Seconds())
 	{
@@ -139,7 +140,7 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									}
 									vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "selected", JSONVal: vjson.RawMessage(b)})
 								}
-								vgn.SetInnerHTML(p.Label)
+								vgn.SetInnerHTML(pathOption(p))
 							}
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 							vgparent.AppendChild(vgn)

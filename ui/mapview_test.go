@@ -40,7 +40,7 @@ func TestMapMatchesEngineWithRidge(t *testing.T) {
 		}
 	}
 	c.Start()
-	if c.Problem() != "" || len(jobs.queue) != 10 {
+	if c.Problem() != "" || len(jobs.queue) != mapBlocksUnknown {
 		t.Fatalf("problem %q, %d blocks", c.Problem(), len(jobs.queue))
 	}
 	jobs.flush()
@@ -80,7 +80,7 @@ func TestMapMatchesEngineWithRidge(t *testing.T) {
 	if st := m.Study; st == nil || st.View != "map" || st.Map == nil || st.Map.XPoints != 12 || st.Map.Y != "alpha" || !st.Map.XLog {
 		t.Fatalf("study.map not saved: %+v", st)
 	}
-	fr := c.box.fig.Frame()
+	fr := c.box.frame
 	c.box.pointAt((fr.Left+fr.Right)/2*500, (fr.Top+fr.Bottom)/2*300, 500, 300, c.say)
 	if !strings.Contains(c.box.readout, "l1 = ") || !strings.Contains(c.box.readout, "alpha = ") {
 		t.Errorf("readout %q", c.box.readout)
@@ -104,8 +104,8 @@ func TestMapCancelMidway(t *testing.T) {
 		_ = c.Set(k, v)
 	}
 	c.Start()
-	if len(jobs.queue) != 32 {
-		t.Fatalf("40 rows should go out in %d blocks, not %d", mapBlocks, len(jobs.queue))
+	if len(jobs.queue) != mapBlocksUnknown {
+		t.Fatalf("40 rows should go out in %d blocks, not %d", mapBlocksUnknown, len(jobs.queue))
 	}
 	jobs.runOne()
 	jobs.runOne()

@@ -74,16 +74,11 @@ func (c *PlanView) AlphaMaxText() string { c.planInit(); return c.alphaMaxText }
 // label ("" lets the engine choose).
 func (c *PlanView) Weights() [][2]string {
 	out := [][2]string{{"", "the penalty's main weight"}}
-	if c.Model == nil {
-		return out
+	var l1, l2 bool
+	for _, p := range modelPaths(c.Model) {
+		l1 = l1 || p.Path == "penalty.l1"
+		l2 = l2 || p.Path == "penalty.l2"
 	}
-	ch := c.Model.Check()
-	if ch.Err != nil {
-		return out
-	}
-	p := ch.Scenario.Penalty.Params
-	_, l1 := p["l1"]
-	_, l2 := p["l2"]
 	if l1 {
 		out = append(out, [2]string{"l1", "L1 weight"})
 	}

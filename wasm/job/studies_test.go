@@ -1,6 +1,7 @@
 package job
 
 import (
+	"bytes"
 	"context"
 	"encoding/json"
 	"math"
@@ -10,6 +11,7 @@ import (
 
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
+	"hdrisk/ui/plot"
 )
 
 // These tests check the glue of the study kinds: that the numbers of engine/study cross the
@@ -187,5 +189,33 @@ func TestFloatCarriesNonFinite(t *testing.T) {
 	}
 	if !math.IsNaN(float64(out[0])) || !math.IsNaN(float64(out[1])) || !reflect.DeepEqual(out[2:], in[2:]) {
 		t.Errorf("%s read back as %v", b, out)
+	}
+}
+
+// The figure kind must draw what plot draws: the same SVG and frame, with NaN gaps kept.
+func TestFigureJobMatchesPlot(t *testing.T) {
+	l := plot.Line{Title: "t", XLog: true, Series: []plot.Series{{Name: "a", X: []float64{1, 2, 3, 4}, Y: []float64{1, math.NaN(), 2, 3},
+		Missing: []float64{2}}}, VLines: []plot.Mark{{At: 2.5, Label: "best"}, {At: math.NaN()}}}
+	want, err := l.Build()
+	if err != nil {
+		t.Fatal(err)
+	}
+	wsvg, _ := want.SVG()
+	var got FigureResult
+	if _, fail := run(t, "figure", FigureArgs{Line: LineOf(l)}, &got); fail != "" {
+		t.Fatal(fail)
+	}
+	if !bytes.Equal(got.Data, wsvg) || got.Frame != want.Frame() {
+		t.Errorf("figure job differs from plot: frame %+v vs %+v", got.Frame, want.Frame())
+	}
+	h := plot.Heat{X: []float64{1, 2, 3}, Y: []float64{1, 2}, Z: []float64{1, 2, math.NaN(), 4, 5, 6}}
+	if _, fail := run(t, "figure", FigureArgs{Heat: HeatOf(h), Format: "png", DPI: 72}, &got); fail != "" {
+		t.Fatal(fail)
+	}
+	if !bytes.HasPrefix(got.Data, []byte("\x89PNG")) {
+		t.Error("png format did not give a PNG")
+	}
+	if _, fail := run(t, "figure", FigureArgs{}, &got); !strings.Contains(fail, "exactly one") {
+		t.Errorf("no figure: %q", fail)
 	}
 }
