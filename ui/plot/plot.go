@@ -116,7 +116,9 @@ func (f *Figure) SVG() ([]byte, error) {
 	if _, err := c.WriteTo(&b); err != nil {
 		return nil, err
 	}
-	return b.Bytes(), nil
+	// An SVG <image> keeps its own aspect ratio unless told otherwise, which would shrink a
+	// heat map's raster inside its axes; the PNG renderer stretches it, as the axes need.
+	return bytes.ReplaceAll(b.Bytes(), []byte("<image "), []byte(`<image preserveAspectRatio="none" `)), nil
 }
 
 // PNG renders the figure as a PNG image at dpi dots per inch (0: 192, sharp on a screen

@@ -153,6 +153,13 @@ func TestHeatReadoutFindsMissingCell(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
+		svg, err := f.SVG()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if bytes.Contains(svg, []byte("<image x=")) || !bytes.Contains(svg, []byte(`<image preserveAspectRatio="none" `)) {
+			t.Error("the SVG's raster must stretch to the axes (preserveAspectRatio none)")
+		}
 		img := decodePNG(t, f, 72)
 		w, h := float64(img.Bounds().Dx()), float64(img.Bounds().Dy())
 		px, py, n := centroid(img, func(r, g, b uint8) bool { return r == 0xB0 && g == 0xB0 && b == 0xB0 })
