@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 	"time"
 
 	"github.com/vugu/vugu"
@@ -352,6 +353,14 @@ func (c *Mapview) redraw() {
 	title := q.Label
 	h := plot.Heat{Title: title, XLabel: pathLabel(c.scen, c.axes[0].Over), YLabel: pathLabel(c.scen, c.axes[1].Over),
 		ZLabel: q.Label, X: xs, Y: ys, Z: z, XLog: c.axes[0].Log, YLog: c.axes[1].Log}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, v := range z {
+		if !math.IsNaN(v) {
+			lo, hi = math.Min(lo, v), math.Max(hi, v)
+		}
+	}
+	h.Levels = plot.Levels(lo, hi)
+	c.levels = h.Levels
 	if rx, ry := c.Ridge(); len(rx) > 0 {
 		h.Lines = []plot.Series{{X: rx, Y: ry}}
 		h.Title += "; orange: lowest error along " + c.axes[c.weightAxis()].Over
@@ -496,3 +505,15 @@ func (c *Mapview) axesForInputs() []mapAxisInputs {
 // FigureSeconds is the time from the start of the last map to its image in place (data
 // hook; 0 before).
 func (c *Mapview) FigureSeconds() string { return full(c.figSeconds) }
+
+// Caption says what the white lines are: the contour levels, in the colours' unit.
+func (c *Mapview) Caption() string {
+	if len(c.levels) == 0 {
+		return ""
+	}
+	var ls []string
+	for _, l := range c.levels {
+		ls = append(ls, num4(l))
+	}
+	return "White lines: " + c.quantity().Label + " = " + strings.Join(ls, ", ") + "."
+}

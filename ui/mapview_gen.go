@@ -41,6 +41,7 @@ type Mapview struct {
 	seconds      float64
 	figSeconds   float64 // from start to the map's image in place
 	box          figureBox
+	levels       []float64 // the contour levels drawn
 }
 
 func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -506,6 +507,11 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "span", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "map-readout"}, vugu.VGAttribute{Namespace: "", Key: "class", Val: "readout"}}}
 					vgparent.AppendChild(vgn)
 					vgn.SetInnerHTML(c.readoutText())
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "span", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note"}}}
+					vgparent.AppendChild(vgn)
+					vgn.SetInnerHTML(c.Caption())
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 					vgparent.AppendChild(vgn)
 				}

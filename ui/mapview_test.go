@@ -77,6 +77,9 @@ func TestMapMatchesEngineWithRidge(t *testing.T) {
 	if c.FigureURL() == "" {
 		t.Fatalf("no map drawn: %s", c.FigureProblem())
 	}
+	if !strings.HasPrefix(c.Caption(), "White lines: NMSE (dB) = ") {
+		t.Errorf("caption %q", c.Caption())
+	}
 	if st := m.Study; st == nil || st.View != "map" || st.Map == nil || st.Map.XPoints != 12 || st.Map.Y != "alpha" || !st.Map.XLog {
 		t.Fatalf("study.map not saved: %+v", st)
 	}

@@ -84,7 +84,7 @@ func (hm Heat) Build() (*Figure, error) {
 	p.Add(quietHeat{heat})
 	levels := hm.Levels
 	if levels == nil {
-		levels = autoLevels(g.min, g.max)
+		levels = Levels(g.min, g.max)
 	}
 	if len(levels) > 0 {
 		ct := plotter.NewContour(filled(g), append([]float64(nil), levels...), nil)
@@ -179,8 +179,9 @@ func edges(v []float64) (lo, hi float64) {
 	return v[0] - (v[1]-v[0])/2, v[n-1] + (v[n-1]-v[n-2])/2
 }
 
-// autoLevels returns round contour levels strictly inside (lo, hi).
-func autoLevels(lo, hi float64) []float64 {
+// Levels returns the contour levels a heat map draws by default for values in [lo, hi]:
+// the round values (axis ticks) strictly inside. Special cases are: hi <= lo gives none.
+func Levels(lo, hi float64) []float64 {
 	if !(hi > lo) {
 		return nil
 	}

@@ -34,6 +34,7 @@ type HeatArgs struct {
 	X, Y, Z                       []Float
 	XLog, YLog                    bool
 	Lines                         []SeriesArgs
+	Levels                        []Float // nil: plot's default levels
 }
 
 // FigureArgs are the arguments of the "figure" kind: one of Line or Heat, rendered as
@@ -108,10 +109,10 @@ func finiteMarks(ms []plot.Mark) []plot.Mark {
 	return out
 }
 
-// HeatOf converts a plot.Heat to its JSON form (its contour levels are left automatic).
+// HeatOf converts a plot.Heat to its JSON form.
 func HeatOf(h plot.Heat) *HeatArgs {
 	a := &HeatArgs{Title: h.Title, XLabel: h.XLabel, YLabel: h.YLabel, ZLabel: h.ZLabel, X: Floats(h.X), Y: Floats(h.Y), Z: Floats(h.Z),
-		XLog: h.XLog, YLog: h.YLog}
+		XLog: h.XLog, YLog: h.YLog, Levels: Floats(h.Levels)}
 	for _, s := range h.Lines {
 		a.Lines = append(a.Lines, SeriesOf(s))
 	}
@@ -136,7 +137,7 @@ func Figure(a FigureArgs) (FigureResult, error) {
 		f, err = l.Build()
 	case a.Heat != nil && a.Line == nil:
 		h := plot.Heat{Title: a.Heat.Title, XLabel: a.Heat.XLabel, YLabel: a.Heat.YLabel, ZLabel: a.Heat.ZLabel,
-			X: floats(a.Heat.X), Y: floats(a.Heat.Y), Z: floats(a.Heat.Z), XLog: a.Heat.XLog, YLog: a.Heat.YLog}
+			X: floats(a.Heat.X), Y: floats(a.Heat.Y), Z: floats(a.Heat.Z), XLog: a.Heat.XLog, YLog: a.Heat.YLog, Levels: floats(a.Heat.Levels)}
 		for _, s := range a.Heat.Lines {
 			h.Lines = append(h.Lines, s.series())
 		}
