@@ -424,3 +424,47 @@ func TestFigureUsesBlobURLs(t *testing.T) {
 		t.Errorf("clearing kept %d URLs alive", len(br.live))
 	}
 }
+
+// poolJobs is a queueJobs that says how many workers it has, like the page's pool.
+type poolJobs struct {
+	queueJobs
+	workers int
+}
+
+func (p *poolJobs) Workers() int { return p.workers }
+
+// With several workers a sweep is shared out in blocks; the curve must still be the
+// engine's, to the fixed point's tolerance, at exactly the axis's values.
+func TestCurveSharedOverWorkers(t *testing.T) {
+	m := modelOf(t, lassoScenario)
+	jobs := &poolJobs{workers: 3}
+	c := &CurveView{Model: m, Jobs: jobs}
+	c.Start()
+	n := 0
+	for _, k := range jobs.started {
+		if k == "sweep" {
+			n++
+		}
+	}
+	if n != 3 {
+		t.Fatalf("a 200-point sweep over 3 workers should go out in 3 blocks, not %d", n)
+	}
+	jobs.flush()
+	if c.Run() != RunDone {
+		t.Fatal(c.Problem())
+	}
+	s, _ := scenario.Decode([]byte(lassoScenario))
+	ax := c.axis
+	want, err := study.Sweep(context.Background(), s, study.SweepSpec{Axis: study.Axis{Over: ax.Over, From: ax.From, To: ax.To, Points: ax.Points, Log: ax.Log}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, p := range c.current.Points {
+		if p.X != want[i].X || p.OK() != want[i].OK() || math.Abs(p.Result.MSE-want[i].Result.MSE) > 1e-9*want[i].Result.MSE {
+			t.Errorf("point %d: (%v, %v), engine (%v, %v)", i, p.X, p.Result.MSE, want[i].X, want[i].Result.MSE)
+		}
+	}
+	if got := (&CurveView{Jobs: jobs}).sweepBlocks(40); len(got) != 1 {
+		t.Errorf("40 points are not worth sharing out: %v", got)
+	}
+}

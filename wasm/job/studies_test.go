@@ -86,7 +86,25 @@ func TestSweepJobMatchesEngine(t *testing.T) {
 			t.Errorf("point %d: job %+v, engine %+v", i, p, want[i])
 		}
 	}
+	// Two blocks swept apart: the same x values, numbers within the solver's tolerance.
+	var joined []Cell
+	for _, b := range [][2]int{{0, 25}, {25, 40}} {
+		var part SweepResult
+		if _, fail := run(t, "sweep", SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: ax, PointFrom: b[0], PointTo: b[1]}, &part); fail != "" {
+			t.Fatal(fail)
+		}
+		joined = append(joined, part.Points...)
+	}
+	for i := range want {
+		p := joined[i].Point()
+		if p.X != want[i].X || p.OK() != want[i].OK() || math.Abs(p.Result.MSE-want[i].Result.MSE) > 1e-9*want[i].Result.MSE {
+			t.Errorf("block point %d: (%v, %v), whole sweep (%v, %v)", i, p.X, p.Result.MSE, want[i].X, want[i].Result.MSE)
+		}
+	}
 	var none SweepResult
+	if _, fail := run(t, "sweep", SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: ax, PointFrom: 30, PointTo: 41}, &none); !strings.Contains(fail, "point") {
+		t.Errorf("a block past the last point should be refused: %q", fail)
+	}
 	if _, fail := run(t, "sweep", SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: Axis{Over: "nothing", From: 1, To: 2, Points: 3}}, &none); !strings.Contains(fail, "nothing") {
 		t.Errorf("an unknown field should be named: %q", fail)
 	}
