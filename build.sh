@@ -15,7 +15,9 @@ build() {
 	generate
 	mkdir -p dist
 	local wasm=dist/hdrisk.wasm
-	GOOS=js GOARCH=wasm go build -trimpath -ldflags="-s -w" -o "$wasm" ./wasm/cmd/page
+	# -tags minimal keeps gonum/plot from linking its raster, PDF, EPS and TeX backends (vgall.go);
+	# the page draws SVG only and has the browser turn it into PNG.
+	GOOS=js GOARCH=wasm go build -tags minimal -trimpath -ldflags="-s -w" -o "$wasm" ./wasm/cmd/page
 	local vugu
 	vugu="$(go list -m -f '{{.Dir}}' github.com/vugu/vugu)"
 	go run ./internal/tools/bundle \

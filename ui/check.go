@@ -48,7 +48,7 @@ const (
 	maxCheckTrials = 1000
 	maxCheckPoints = 12
 	curvePoints    = 60
-	maxTrialDots   = 100 // more dots make a figure too large for the page's renderer (see maxFigureURL)
+	maxTrialDots   = 100 // more dots than a figure can show apart
 )
 
 // checkPoint is one check on the figure: the value of the swept number and the result.
@@ -466,25 +466,26 @@ func (c *CheckView) figureSpec() (plot.Line, bool) {
 		}}, true
 }
 
-// draw builds the figure of the finished points.
+// draw builds the figure of the finished points, releasing the one shown before.
 func (c *CheckView) draw() {
+	dropImage(c.Browser, c.figURL)
 	c.figure, c.figErr, c.figURL = nil, "", ""
 	spec, ok := c.figureSpec()
 	if !ok {
 		return
 	}
 	f, err := spec.Build()
+	var svg []byte
 	if err == nil {
-		var svg []byte
-		if svg, err = f.SVG(); err == nil {
-			c.figure, c.figURL = f, plot.DataURL("image/svg+xml", svg)
-		}
+		svg, err = f.SVG()
 	}
 	if err != nil {
 		c.figErr = "the figure could not be drawn: " + err.Error()
+		return
 	}
-	if len(c.figURL) > maxFigureURL {
-		c.figURL, c.figErr = "", figureTooLong+"; save it as SVG or PNG"
+	c.figure = f
+	if c.figURL, err = imageURL(c.Browser, "image/svg+xml", svg); err != nil {
+		c.figErr = "the figure cannot be shown (" + err.Error() + "); save it as SVG or PNG"
 	}
 }
 
@@ -496,7 +497,7 @@ func (c *CheckView) Caption() string {
 	return "Error bars: ±1 standard error of the mean over the trials."
 }
 
-// FigureURL is the figure as a data: URL for <img src>; "" when there is none.
+// FigureURL is the figure's URL for <img src> (see imageURL); "" when there is none.
 func (c *CheckView) FigureURL() string { return c.figURL }
 
 // FigureProblem says why there is no figure after a check.
@@ -545,12 +546,11 @@ func (c *CheckView) Export(what string) {
 		if c.figure == nil {
 			return
 		}
-		if what == "svg" {
-			data, err = c.figure.SVG()
-			mime = "image/svg+xml"
-		} else {
-			data, err = c.figure.PNG(0)
-			mime = "image/png"
+		data, err = c.figure.SVG()
+		mime = "image/svg+xml"
+		if err == nil && what == "png" {
+			savePNG(c.Browser, name, data, func(err error) { c.problem = "export: " + err.Error() }, nil)
+			return
 		}
 	default:
 		return

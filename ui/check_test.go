@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"bytes"
 	"encoding/json"
 	"errors"
 	"strings"
@@ -55,6 +56,7 @@ func (j *cdJobs) Start(kind string, args any, progress func(int, int), done func
 
 // cdBrowser is a fake ui.Browser that keeps downloads and serves one chosen file.
 type cdBrowser struct {
+	fakeImages
 	downloads map[string][]byte
 	file      []byte
 	fileName  string
@@ -209,9 +211,10 @@ func TestCheckRunsToTheEnd(t *testing.T) {
 	if hooks["check_converged"] != "true" || hooks["check_rule"] == "" || r.Trials != 4 {
 		t.Errorf("hooks %v", hooks)
 	}
-	if len(c.PerTrial()) != 4 || !strings.HasPrefix(c.FigureURL(), "data:image/svg+xml;base64,") {
-		t.Errorf("per-trial %d lines, figure %.40q", len(c.PerTrial()), c.FigureURL())
+	if len(c.PerTrial()) != 4 {
+		t.Errorf("per-trial %d lines", len(c.PerTrial()))
 	}
+	br.shown(t, "check figure", c.FigureURL())
 	c.Export("csv")
 	lines := strings.Split(strings.TrimSpace(string(br.downloads["hdrisk-check.csv"])), "\n")
 	if len(lines) != 5 || !strings.HasPrefix(lines[0], "over,at,trial,mse,") {
@@ -219,8 +222,11 @@ func TestCheckRunsToTheEnd(t *testing.T) {
 	}
 	c.Export("svg")
 	c.Export("png")
-	if len(br.downloads["hdrisk-check.svg"]) == 0 || len(br.downloads["hdrisk-check.png"]) == 0 {
-		t.Errorf("figure exports missing: %v", len(br.downloads))
+	if !bytes.Equal(br.downloads["hdrisk-check.svg"], br.held[c.FigureURL()]) {
+		t.Errorf("the SVG file is not the figure shown")
+	}
+	if w, h := pngSize(t, br.downloads["hdrisk-check.png"]); w != 1280 || h != 800 {
+		t.Errorf("PNG of %d x %d pixels, want 1280 x 800", w, h)
 	}
 }
 

@@ -761,7 +761,7 @@ func (c *CurveView) CSV() ([]byte, error) {
 
 // Export saves the figure ("svg", "png") or the curves' data ("csv").
 func (c *CurveView) Export(what string) {
-	c.box.save(c.Browser, c.Jobs, "hdrisk-curve", what, c.CSV, func(err error) { c.problem = err.Error() })
+	c.box.save(c.Browser, "hdrisk-curve", what, c.CSV, func(err error) { c.problem = err.Error() })
 }
 
 // csvField quotes one CSV field as RFC 4180 asks (quotes doubled, the field in quotes).

@@ -74,6 +74,7 @@ func (j *queueJobs) flush() int {
 
 // keepBrowser is a fake ui.Browser that keeps downloads.
 type keepBrowser struct {
+	fakeImages
 	names []string
 	files map[string][]byte
 }
@@ -182,9 +183,10 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	if bayes > wb.Result.NMSEdB+1e-9 {
 		t.Errorf("Bayes-optimal %g dB above the best LASSO %g dB", bayes, wb.Result.NMSEdB)
 	}
-	if c.FigureURL() == "" || !strings.HasPrefix(c.FigureURL(), "data:image/svg+xml;base64,") {
+	if c.FigureURL() == "" {
 		t.Fatalf("no figure: %q", c.FigureProblem())
 	}
+	br.shown(t, "curve", c.FigureURL())
 	// The settings travel with the scenario.
 	st := m.Study
 	if st == nil || st.View != "curve" || st.Sweep == nil || *st.Sweep != (scenario.Sweep{Over: "l1", From: 1e-3, To: 1, Points: 60, Log: true}) ||
@@ -228,8 +230,12 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	if len(rows) != 61 || rows[0][0] != "curve" || rows[0][1] != "l1" || rows[1][0] != c.current.Label {
 		t.Errorf("CSV: %d rows, header %q, first %q", len(rows), rows[0], rows[1])
 	}
-	if !bytes.HasPrefix(br.files["hdrisk-curve.png"], []byte("\x89PNG")) || !bytes.Contains(br.files["hdrisk-curve.svg"], []byte("<svg")) {
-		t.Error("the figure files are not PNG and SVG")
+	if !bytes.Equal(br.files["hdrisk-curve.svg"], br.held[c.FigureURL()]) {
+		t.Error("the SVG file is not the figure shown")
+	}
+	// The PNG is the SVG drawn at twice the CSS pixels: 480 pt = 640 px -> 1280 pixels.
+	if w, h := pngSize(t, br.files["hdrisk-curve.png"]); w != 1280 || h != 800 {
+		t.Errorf("PNG of %d x %d pixels, want 1280 x 800", w, h)
 	}
 }
 
@@ -381,47 +387,28 @@ func TestStudyThatNoLongerFitsIsDropped(t *testing.T) {
 	}
 }
 
-// blobBrowser also holds images as blob: URLs, like the page's browser, and counts those
-// not yet released.
-type blobBrowser struct {
-	keepBrowser
-	live map[string]bool
-	n    int
-}
-
-func (b *blobBrowser) ObjectURL(_ string, data []byte) (string, error) {
-	b.n++
-	u := "blob:test/" + strings.Repeat("x", b.n)
-	if b.live == nil {
-		b.live = map[string]bool{}
-	}
-	b.live[u] = true
-	return u, nil
-}
-
-func (b *blobBrowser) RevokeObjectURL(u string) { delete(b.live, u) }
-
 // Figures larger than the renderer's 16 KB attribute buffer must go in as short blob: URLs,
 // and each replaced figure's URL must be released.
 func TestFigureUsesBlobURLs(t *testing.T) {
 	m := modelOf(t, lassoScenario)
-	jobs, br := &queueJobs{}, &blobBrowser{}
+	jobs, br := &queueJobs{}, &keepBrowser{}
 	c := &CurveView{Model: m, Jobs: jobs, Browser: br}
 	_ = c.Set("points", "40")
 	c.Start()
 	jobs.flush()
 	first := c.FigureURL()
-	if !strings.HasPrefix(first, "blob:") || len(br.live) != 1 {
-		t.Fatalf("figure URL %q, %d live", first, len(br.live))
+	br.shown(t, "curve", first)
+	if len(br.held) != 1 {
+		t.Fatalf("figure URL %q, %d live", first, len(br.held))
 	}
 	_ = c.Set("quantity", "mse")
 	jobs.flush()
-	if c.FigureURL() == first || len(br.live) != 1 || br.live[first] {
-		t.Errorf("after a redraw: %q, live %v", c.FigureURL(), br.live)
+	if _, old := br.held[first]; c.FigureURL() == first || len(br.held) != 1 || old {
+		t.Errorf("after a redraw: %q, live %v", c.FigureURL(), len(br.held))
 	}
 	c.box.clear()
-	if len(br.live) != 0 {
-		t.Errorf("clearing kept %d URLs alive", len(br.live))
+	if len(br.held) != 0 {
+		t.Errorf("clearing kept %d URLs alive", len(br.held))
 	}
 }
 

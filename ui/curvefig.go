@@ -16,12 +16,13 @@ import (
 
 // figureBox is a figure drawn on a compute worker (job kind "figure") and shown as an
 // <img>, with the readout of the value under the pointer and the exports. Drawing runs on a
-// worker because rendering a heat map or a PNG takes longer in the page than the page may
-// stand still. The curve, map and plan views share it.
+// worker because rendering a heat map takes longer in the page than the page may stand
+// still. The curve and map views share it.
 type figureBox struct {
 	spec    job.FigureArgs // the figure shown (or on its way)
-	url     string         // blob: or data: URL of its SVG; "" when there is none
-	blobs   objectURLs     // the holder of url when it is a blob: URL
+	svg     []byte         // the figure shown, for saving
+	url     string         // its URL (see imageURL); "" when there is none
+	br      Browser        // the holder of url
 	frame   plot.Frame     // where its data area lies
 	problem string         // why there is no figure
 	readout string         // the values under the pointer, in words
@@ -29,33 +30,21 @@ type figureBox struct {
 	saving  int            // exports on their way
 }
 
-// objectURLs is what a Browser offers when it can hold data as a short blob: URL. The page's
-// renderer passes every attribute through a 16 KB buffer, so a figure's SVG cannot go in
-// as a data: URL once it is larger; without such a Browser (native tests) data: URLs serve.
-type objectURLs interface {
-	ObjectURL(mime string, data []byte) (string, error)
-	RevokeObjectURL(url string)
-}
-
-// setImage shows svg, as a blob: URL when the browser can hold one, releasing the last.
+// setImage shows svg, releasing the image shown before.
 func (b *figureBox) setImage(br Browser, svg []byte) {
 	b.release()
-	if ou, ok := br.(objectURLs); ok {
-		if u, err := ou.ObjectURL("image/svg+xml", svg); err == nil {
-			b.url, b.blobs = u, ou
-			return
-		}
+	u, err := imageURL(br, "image/svg+xml", svg)
+	if err != nil {
+		b.problem = "the figure cannot be shown: " + err.Error()
+		return
 	}
-	b.url = plot.DataURL("image/svg+xml", svg)
+	b.svg, b.url, b.br = svg, u, br
 }
 
-// release lets go of the blob: URL shown, if any.
+// release lets go of the image shown, if any.
 func (b *figureBox) release() {
-	if b.blobs != nil {
-		b.blobs.RevokeObjectURL(b.url)
-		b.blobs = nil
-	}
-	b.url = ""
+	dropImage(b.br, b.url)
+	b.svg, b.url, b.br = nil, "", nil
 }
 
 // draw renders spec on a worker; shown (may be nil) is called once the image is in place.
@@ -125,50 +114,36 @@ func (b *figureBox) pointAt(px, py, w, h float64, say func(x, y float64) string)
 // leave clears the readout when the pointer leaves the figure.
 func (b *figureBox) leave() { b.readout = "" }
 
-// save offers the figure (svg, png: rendered on a worker) or its data (csv) as a download
-// named base.what; problems are handed to report.
-func (b *figureBox) save(br Browser, jobs Jobs, base, what string, csv func() ([]byte, error), report func(error)) {
+// save offers the figure (svg, or png drawn from it by the browser) or its data (csv) as a
+// download named base.what; problems are handed to report.
+func (b *figureBox) save(br Browser, base, what string, csv func() ([]byte, error), report func(error)) {
 	if br == nil {
-		report(fmt.Errorf("saving a file needs the browser"))
+		report(errNoBrowser)
 		return
 	}
 	name := base + "." + what
+	var err error
 	switch what {
 	case "csv":
-		data, err := csv()
-		if err == nil {
+		var data []byte
+		if data, err = csv(); err == nil {
 			err = br.Download(name, "text/csv", data)
 		}
-		if err != nil {
-			report(err)
-		}
-		return
 	case "svg", "png":
+		if b.svg == nil {
+			err = fmt.Errorf("there is no figure to save yet")
+		} else if what == "svg" {
+			err = br.Download(name, "image/svg+xml", b.svg)
+		} else {
+			b.saving++
+			savePNG(br, name, b.svg, report, func() { b.saving-- })
+		}
 	default:
-		report(fmt.Errorf("cannot save as %q", what))
-		return
+		err = fmt.Errorf("cannot save as %q", what)
 	}
-	if b.url == "" || jobs == nil {
-		report(fmt.Errorf("there is no figure to save yet"))
-		return
+	if err != nil {
+		report(err)
 	}
-	spec := b.spec
-	spec.Format = what
-	mime := map[string]string{"svg": "image/svg+xml", "png": "image/png"}[what]
-	b.saving++
-	jobs.Start("figure", spec, nil, func(res []byte, err error) {
-		b.saving--
-		var r job.FigureResult
-		if err == nil {
-			err = json.Unmarshal(res, &r)
-		}
-		if err == nil {
-			err = br.Download(name, mime, r.Data)
-		}
-		if err != nil {
-			report(err)
-		}
-	})
 }
 
 // num formats a number for the page, to 4 significant digits.

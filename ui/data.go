@@ -25,8 +25,9 @@ const (
 )
 
 // The page's renderer (vugu's domrender) passes every text through a 16384-byte buffer and
-// stops the page when one does not fit, so a list put into the editor's box and a figure's
-// data: URL must stay well below that.
+// stops the page when one does not fit, so a list put into the editor's box must stay well
+// below that; figures go through blob: URLs (imageURL), and through data: URLs only in
+// native tests without a browser, below maxFigureURL.
 const (
 	maxListChars  = 12000
 	maxFigureURL  = 14000
@@ -63,7 +64,9 @@ type dataPart struct {
 	applied      string // what "use" did, in words
 }
 
-func (p *dataPart) reset() {
+// reset clears the part's outcome, releasing its figure's image held by br.
+func (p *dataPart) reset(br Browser) {
+	dropImage(br, p.figURL)
 	p.problem, p.figURL, p.figErr, p.figure, p.applied, p.stage = "", "", "", nil, "", ""
 }
 
@@ -152,7 +155,7 @@ func (c *DataView) ReadFile(part string) {
 	if part == "signal" {
 		id = SignalFileID
 	}
-	p.reset()
+	p.reset(c.Browser)
 	p.run, p.stage, p.started = RunRunning, "Reading the file", c.now()
 	limit := c.limit(part)
 	reading := true
@@ -178,7 +181,7 @@ func (c *DataView) ReadText(part string) {
 	if p.cancel != nil {
 		return
 	}
-	p.reset()
+	p.reset(c.Browser)
 	if strings.TrimSpace(p.text) == "" {
 		p.run, p.problem = RunError, "paste some numbers first"
 		return
@@ -324,7 +327,7 @@ func (c *DataView) Problem(part string) string { return c.part(part).problem }
 // Applied says what the last "use" did.
 func (c *DataView) Applied(part string) string { return c.part(part).applied }
 
-// FigureURL is part's figure as a data: URL; "" when none.
+// FigureURL is the URL of part's figure for <img src> (see imageURL); "" when none.
 func (c *DataView) FigureURL(part string) string { return c.part(part).figURL }
 
 // stepSeries turns a histogram into a closed step outline.
@@ -371,18 +374,20 @@ func (c *DataView) drawPart(part string) {
 	default:
 		return
 	}
+	dropImage(c.Browser, p.figURL)
+	p.figure, p.figURL = nil, ""
 	f, err := spec.Build()
+	var svg []byte
 	if err == nil {
-		var svg []byte
-		if svg, err = f.SVG(); err == nil {
-			p.figure, p.figURL = f, plot.DataURL("image/svg+xml", svg)
-		}
+		svg, err = f.SVG()
 	}
 	if err != nil {
 		p.figErr = "the figure could not be drawn: " + err.Error()
+		return
 	}
-	if len(p.figURL) > maxFigureURL {
-		p.figURL, p.figErr = "", figureTooLong
+	p.figure = f
+	if p.figURL, err = imageURL(c.Browser, "image/svg+xml", svg); err != nil {
+		p.figErr = "the figure cannot be shown: " + err.Error()
 	}
 }
 

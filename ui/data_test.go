@@ -47,9 +47,7 @@ func TestDataMatrixFileBecomesTheDesign(t *testing.T) {
 	if f["data_rows"] != "2" || f["data_alpha"] != "0.5" || math.Abs(dataNum(f["data_condition"])-1.5) > 1e-12 || f["data_rank"] != "2" || f["data_svd_seconds"] == "" {
 		t.Errorf("facts %v", f)
 	}
-	if !strings.HasPrefix(c.FigureURL("design"), "data:image/svg+xml;base64,") {
-		t.Errorf("no histogram figure")
-	}
+	br.shown(t, "histogram", c.FigureURL("design"))
 	before := m.Check().Scenario
 	c.UseDesign()
 	after := m.Check()

@@ -1,7 +1,6 @@
 package ui
 
 import (
-	"encoding/base64"
 	"fmt"
 	"slices"
 	"strings"
@@ -13,14 +12,7 @@ import (
 
 func decodeSVG(t *testing.T, what string, p lawPlot) string {
 	t.Helper()
-	const prefix = "data:image/svg+xml;base64,"
-	if !strings.HasPrefix(p.URL, prefix) {
-		t.Fatalf("%s: URL %.40q is not a data: SVG", what, p.URL)
-	}
-	b, err := base64.StdEncoding.DecodeString(p.URL[len(prefix):])
-	if err != nil {
-		t.Fatalf("%s: %v", what, err)
-	}
+	b := p.svg
 	if !strings.Contains(string(b), "<svg") {
 		t.Fatalf("%s: not an SVG document", what)
 	}

@@ -2,7 +2,6 @@ package ui
 
 import (
 	"bytes"
-	"encoding/base64"
 	"errors"
 	"fmt"
 	"image/color"
@@ -44,9 +43,11 @@ const (
 	editorSamples = 20000
 )
 
-// lawPlot is a figure of a law as an <img>: its data: URL and a text alternative.
+// lawPlot is a figure of a law as an <img>: its SVG, the URL it is shown under (set by the
+// root, see imageURL; "" when there is no image) and a text alternative.
 type lawPlot struct {
 	URL, Alt string
+	svg      []byte
 }
 
 // designPlot draws the singular values of an m x n instance of law (n = 400, m = alpha n),
@@ -267,5 +268,5 @@ func render(p *gplot.Plot, alt string) (lp lawPlot, err error) {
 	if _, err := c.WriteTo(&b); err != nil {
 		return lawPlot{}, err
 	}
-	return lawPlot{URL: "data:image/svg+xml;base64," + base64.StdEncoding.EncodeToString(b.Bytes()), Alt: alt}, nil
+	return lawPlot{svg: b.Bytes(), Alt: alt}, nil
 }

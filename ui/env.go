@@ -33,4 +33,17 @@ type Browser interface {
 	// ReadFile reads the first file chosen in the <input type="file"> with the given id,
 	// reading at most limit bytes; a longer file is refused with an error that says so.
 	ReadFile(inputID string, limit int64, done func(name string, data []byte, err error))
+	// ObjectURL holds data (of the given MIME type) in the browser and returns a short
+	// blob: URL for it, valid until RevokeObjectURL. Every figure is shown this way: the
+	// page's renderer passes each attribute through a 16 KB buffer and stops the page on a
+	// longer one, which a figure's data: URL often is.
+	ObjectURL(mime string, data []byte) (string, error)
+	// RevokeObjectURL releases a URL made by ObjectURL. Special cases are: any other text
+	// is ignored.
+	RevokeObjectURL(url string)
+	// SVGToPNG draws an SVG image on a white background at scale device pixels per CSS
+	// pixel (an SVG 480pt wide is 640 CSS pixels: scale 2 gives 1280 pixels) and encodes it
+	// as PNG. Special cases are: scale outside (0, 8] and an image the browser cannot draw
+	// are errors.
+	SVGToPNG(svg []byte, scale float64, done func(png []byte, err error))
 }

@@ -485,7 +485,7 @@ func (c *Mapview) CSV() ([]byte, error) {
 
 // Export saves the map ("svg", "png") or its data ("csv").
 func (c *Mapview) Export(what string) {
-	c.box.save(c.Browser, c.Jobs, "hdrisk-map", what, c.CSV, func(err error) { c.problem = err.Error() })
+	c.box.save(c.Browser, "hdrisk-map", what, c.CSV, func(err error) { c.problem = err.Error() })
 }
 
 // mapAxisInputs is one axis's group of inputs.

@@ -101,8 +101,8 @@ func TestMapMatchesEngineWithRidge(t *testing.T) {
 
 func TestMapCancelMidway(t *testing.T) {
 	m := modelOf(t, lassoScenario)
-	jobs := &queueJobs{}
-	c := &Mapview{Model: m, Jobs: jobs}
+	jobs, br := &queueJobs{}, &keepBrowser{}
+	c := &Mapview{Model: m, Jobs: jobs, Browser: br}
 	for k, v := range map[string]string{"x.points": "8", "y.points": "40"} {
 		_ = c.Set(k, v)
 	}
@@ -129,8 +129,9 @@ func TestMapCancelMidway(t *testing.T) {
 	c.Start()
 	jobs.flush()
 	if c.Run() != RunDone || c.FigureURL() == "" {
-		t.Fatalf("a new map after a cancel: %s %q", c.Run(), c.Problem())
+		t.Fatalf("a new map after a cancel: %s %q %q", c.Run(), c.Problem(), c.FigureProblem())
 	}
+	br.shown(t, "map", c.FigureURL())
 	_ = c.Set("y.over", "l1")
 	c.Start()
 	if !strings.Contains(c.Problem(), "two different") {

@@ -131,19 +131,29 @@ func hasZeroAtom(c Checked) bool {
 // cannot be drawn says so in its text alternative and shows no image.
 func (c *Root) updatePlots() {
 	s := c.checked.Scenario
-	var err error
 	if key := fmt.Sprint(s.Design); key != c.designKey {
 		c.designKey = key
-		if c.designPlot, err = designPlot(c.checked.Problem.Design); err != nil {
-			c.designPlot = lawPlot{Alt: "No figure of the design: " + err.Error()}
-		}
+		p, err := designPlot(c.checked.Problem.Design)
+		c.designPlot = c.showPlot(c.designPlot, p, err, "No figure of the design: ")
 	}
 	if key := fmt.Sprint(s.Signal); key != c.signalKey {
 		c.signalKey = key
-		if c.signalPlot, err = signalPlot(c.checked.Problem.Signal); err != nil {
-			c.signalPlot = lawPlot{Alt: "No figure of the signal: " + err.Error()}
-		}
+		p, err := signalPlot(c.checked.Problem.Signal)
+		c.signalPlot = c.showPlot(c.signalPlot, p, err, "No figure of the signal: ")
 	}
+}
+
+// showPlot releases the image of old and returns p with a URL to show it under, or with the
+// reason it cannot be shown (err, or the URL's) after why.
+func (c *Root) showPlot(old, p lawPlot, err error, why string) lawPlot {
+	dropImage(c.Browser, old.URL)
+	if err == nil {
+		p.URL, err = imageURL(c.Browser, "image/svg+xml", p.svg)
+	}
+	if err != nil {
+		return lawPlot{Alt: why + err.Error()}
+	}
+	return p
 }
 
 // Summary states a scenario in one line of words, for the figures' caption and for print.

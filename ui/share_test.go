@@ -22,6 +22,7 @@ import (
 
 // fakeBrowser records what the share panel asks of the browser.
 type fakeBrowser struct {
+	fakeImages
 	addr      string
 	entries   []string // history entries (fragments); cur is the current one
 	cur       int

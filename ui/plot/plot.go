@@ -1,11 +1,13 @@
 // Package plot builds the page's figures with gonum.org/v1/plot: curves with several series,
 // error bars, log axes and marker lines, and heat maps with contours. A built Figure renders
-// to SVG (for the screen and for export) and PNG, and knows where its data area lies in the
-// image, so that a pointer position on the displayed image converts to data coordinates
-// (Frame.At). It also writes the data of curves and grids as CSV.
+// to SVG (for the screen and for export; the page turns SVG into PNG itself) and knows where
+// its data area lies in the image, so that a pointer position on the displayed image
+// converts to data coordinates (Frame.At). It also writes the data of curves and grids as
+// CSV.
 //
 // The package holds no browser code and no mathematics of the method: it draws numbers it
-// is given.
+// is given. It uses gonum/plot's SVG canvas only, so that a build with the tag minimal
+// links none of the raster, PDF, EPS or TeX backends.
 package plot
 
 import (
@@ -20,7 +22,6 @@ import (
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgimg"
 	"gonum.org/v1/plot/vg/vgsvg"
 )
 
@@ -117,29 +118,8 @@ func (f *Figure) SVG() ([]byte, error) {
 		return nil, err
 	}
 	// An SVG <image> keeps its own aspect ratio unless told otherwise, which would shrink a
-	// heat map's raster inside its axes; the PNG renderer stretches it, as the axes need.
+	// heat map's raster inside its axes; the axes need it stretched.
 	return bytes.ReplaceAll(b.Bytes(), []byte("<image "), []byte(`<image preserveAspectRatio="none" `)), nil
-}
-
-// PNG renders the figure as a PNG image at dpi dots per inch (0: 192, sharp on a screen
-// with twice the pixel density and in print). Special cases are: dpi outside 0..1200 is an
-// error.
-func (f *Figure) PNG(dpi int) ([]byte, error) {
-	if dpi == 0 {
-		dpi = 192
-	}
-	if dpi < 1 || dpi > 1200 {
-		return nil, fmt.Errorf("dpi: between 1 and 1200, not %d", dpi)
-	}
-	c := vgimg.NewWith(vgimg.UseWH(f.w, f.h), vgimg.UseDPI(dpi), vgimg.UseBackgroundColor(color.White))
-	if err := f.render(c); err != nil {
-		return nil, err
-	}
-	var b bytes.Buffer
-	if _, err := (vgimg.PngCanvas{Canvas: c}).WriteTo(&b); err != nil {
-		return nil, err
-	}
-	return b.Bytes(), nil
 }
 
 // render draws the figure, turning a panic of the plotting library (it panics on some
@@ -169,10 +149,11 @@ func frameOf(p *gplot.Plot, da draw.Canvas, w, h vg.Length) Frame {
 	}
 }
 
-// measure lays out p on a canvas of the image's size without drawing anything visible, so
-// that frameOf sees the same ranges Draw will.
+// measure returns a canvas of the image's size to lay p out on without drawing anything
+// kept, so that frameOf sees the same ranges Draw will. The SVG canvas measures text with
+// the same font metrics as the one the figure is drawn on.
 func measure(w, h vg.Length) draw.Canvas {
-	return draw.New(vgimg.NewWith(vgimg.UseWH(w, h), vgimg.UseDPI(1)))
+	return draw.New(vgsvg.New(w, h))
 }
 
 // sans sets every text of p in Liberation Sans, which reads better on a screen than the

@@ -37,16 +37,14 @@ type HeatArgs struct {
 	Levels                        []Float // nil: plot's default levels
 }
 
-// FigureArgs are the arguments of the "figure" kind: one of Line or Heat, rendered as
-// Format "svg" (the default) or "png" at DPI (0: plot's default).
+// FigureArgs are the arguments of the "figure" kind: one of Line or Heat, rendered as SVG.
+// The page makes a PNG from the SVG itself, on a canvas of the browser.
 type FigureArgs struct {
-	Line   *LineArgs `json:"line,omitempty"`
-	Heat   *HeatArgs `json:"heat,omitempty"`
-	Format string    `json:"format,omitempty"`
-	DPI    int       `json:"dpi,omitempty"`
+	Line *LineArgs `json:"line,omitempty"`
+	Heat *HeatArgs `json:"heat,omitempty"`
 }
 
-// FigureResult is the rendered figure: its bytes (base64 in JSON) and where its data area
+// FigureResult is the rendered figure: its SVG (base64 in JSON) and where its data area
 // lies, for the pointer readout.
 type FigureResult struct {
 	Data  []byte     `json:"data"`
@@ -119,9 +117,8 @@ func HeatOf(h plot.Heat) *HeatArgs {
 	return a
 }
 
-// Figure builds and renders a figure. Special cases are: neither or both of Line and Heat,
-// or a format other than svg or png, is an error; the errors of plot's Build and render are
-// returned as they are.
+// Figure builds a figure and renders it as SVG. Special cases are: neither or both of Line
+// and Heat is an error; the errors of plot's Build and render are returned as they are.
 func Figure(a FigureArgs) (FigureResult, error) {
 	var (
 		f   *plot.Figure
@@ -148,15 +145,7 @@ func Figure(a FigureArgs) (FigureResult, error) {
 	if err != nil {
 		return FigureResult{}, err
 	}
-	var data []byte
-	switch a.Format {
-	case "", "svg":
-		data, err = f.SVG()
-	case "png":
-		data, err = f.PNG(a.DPI)
-	default:
-		return FigureResult{}, errors.New("format: svg or png, not " + a.Format)
-	}
+	data, err := f.SVG()
 	if err != nil {
 		return FigureResult{}, err
 	}

@@ -227,11 +227,16 @@ func TestFigureJobMatchesPlot(t *testing.T) {
 		t.Errorf("figure job differs from plot: frame %+v vs %+v", got.Frame, want.Frame())
 	}
 	h := plot.Heat{X: []float64{1, 2, 3}, Y: []float64{1, 2}, Z: []float64{1, 2, math.NaN(), 4, 5, 6}}
-	if _, fail := run(t, "figure", FigureArgs{Heat: HeatOf(h), Format: "png", DPI: 72}, &got); fail != "" {
+	hf, err := h.Build()
+	if err != nil {
+		t.Fatal(err)
+	}
+	hsvg, _ := hf.SVG()
+	if _, fail := run(t, "figure", FigureArgs{Heat: HeatOf(h)}, &got); fail != "" {
 		t.Fatal(fail)
 	}
-	if !bytes.HasPrefix(got.Data, []byte("\x89PNG")) {
-		t.Error("png format did not give a PNG")
+	if !bytes.Equal(got.Data, hsvg) || got.Frame != hf.Frame() {
+		t.Errorf("heat figure job differs from plot: frame %+v vs %+v", got.Frame, hf.Frame())
 	}
 	if _, fail := run(t, "figure", FigureArgs{}, &got); !strings.Contains(fail, "exactly one") {
 		t.Errorf("no figure: %q", fail)
