@@ -404,3 +404,28 @@ func TestWarmStartAcrossRecoveryThreshold(t *testing.T) {
 		t.Errorf("density 0.3: warm start gives MSE %g, cold start %g", warm.MSE, cold.MSE)
 	}
 }
+
+// A user's spectrum whose singular values are all equal is the orthogonal design: the whole
+// prediction must agree, not only the transforms.
+func TestEmpiricalOnesIsOrthogonal(t *testing.T) {
+	ones := make([]float64, 500)
+	for i := range ones {
+		ones[i] = 1
+	}
+	for _, alpha := range []float64{0.3, 1, 2.5} {
+		for _, sc := range []design.Scale{design.Rows, design.Columns} {
+			p := Problem{
+				Signal:  must(signal.BernoulliGauss(0.1, 1)),
+				Penalty: must(penalty.ElasticNet(0.05, 0.01)),
+				Noise:   0.01,
+			}
+			p.Design = must(design.Orthogonal(alpha, sc))
+			orth := solve(t, p)
+			p.Design = must(design.EmpiricalSV(alpha, ones, sc))
+			emp := solve(t, p)
+			if d := relDiff(emp.MSE, orth.MSE); d > 1e-9 {
+				t.Errorf("alpha=%v scale=%v: empirical ones %.15g, orthogonal %.15g", alpha, sc, emp.MSE, orth.MSE)
+			}
+		}
+	}
+}
