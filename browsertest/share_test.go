@@ -318,9 +318,9 @@ func TestShareBadInput(t *testing.T) {
 }
 
 // TestShareLongSpectrum: a 2000-value empirical spectrum. At full precision it is more text
-// than the editor's box can show, and the page refuses it with the field named, staying
-// alive; rounded to two decimals it opens, computes, and gives a working link or says that
-// the link is too long.
+// than the editor's box can show: the page opens it anyway, states the list in one line,
+// computes, and offers a file since the link would be too long. Rounded to two decimals it
+// opens, computes, and gives a working link or says that the link is too long.
 func TestShareLongSpectrum(t *testing.T) {
 	b, _ := open(t)
 	b.shareSettle(t)
@@ -343,11 +343,14 @@ func TestShareLongSpectrum(t *testing.T) {
 
 	_, full := withSpectrum(1e15)
 	b.sharePaste(t, full)
-	b.shareWait(t, "the full-precision spectrum refused", `((document.querySelector('[data-share="message"]')||{}).textContent||"").includes("design.values")`)
-	t.Logf("full precision: %s", b.text(t, `[data-share="message"]`))
-	if state := b.settle(t); state != "ready" || !reflect.DeepEqual(b.figures(t), want) {
-		t.Errorf("after the refusal: data-state=%s, figures changed: %v", state, !reflect.DeepEqual(b.figures(t), want))
+	b.shareWait(t, "the full-precision spectrum opened", `document.querySelector('[data-share="notice"]') !== null && document.querySelector('[data-view="share"]').getAttribute("data-link") === "too-long"`)
+	if state := b.settle(t); state != "ready" || reflect.DeepEqual(b.figures(t), want) {
+		t.Errorf("after opening it: data-state=%s (%s), figures unchanged: %v", state, b.text(t, ".problem"), reflect.DeepEqual(b.figures(t), want))
 	}
+	if n := b.attrOf(t, "#sum-in-design-empirical-sv-values", "data-list-count"); n != "2000" {
+		t.Errorf("the editor states %q values, want 2000", n)
+	}
+	t.Logf("full precision: %s", b.text(t, "#sum-in-design-empirical-sv-values"))
 
 	s, short := withSpectrum(100)
 	b.sharePaste(t, short)

@@ -21,6 +21,9 @@ type Editor struct {
 
 	DesignPlot, SignalPlot lawPlot
 	PlotsStale             bool // the plots show the last valid scenario, not the inputs
+
+	replacing map[string]string  // input id -> the compact list the user chose to replace
+	sums      map[string]listSum // input id -> summary of its compact list
 }
 
 func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -197,13 +200,21 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgparent.AppendChild(vgn)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "type", Val: "text"}, vugu.VGAttribute{Namespace: "", Key: "spellcheck", Val: "false"}, vugu.VGAttribute{Namespace: "", Key: "autocomplete", Val: "off"}}}
 						vgparent.AppendChild(vgn)
-						vgn.AddAttrInterface("aria-describedby", c.describedBy(f.ID))
+						vgn.AddAttrInterface("aria-describedby", c.fieldDescribedBy(f))
 						vgn.AddAttrInterface("aria-invalid", c.invalidText(f.ID))
 						vgn.AddAttrInterface("data-path", f.Path)
 						vgn.AddAttrInterface("id", f.ID)
 						vgn.AddAttrInterface("inputmode", c.inputMode(f))
+						vgn.AddAttrInterface("placeholder", c.placeholder(f))
 						{
-							b, err := vjson.Marshal(f.Text)
+							b, err := vjson.Marshal(c.locked(f))
+							if err != nil {
+								panic(err)
+							}
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "readOnly", JSONVal: vjson.RawMessage(b)})
+						}
+						{
+							b, err := vjson.Marshal(c.boxText(f))
 							if err != nil {
 								panic(err)
 							}
@@ -214,6 +225,36 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							Func:      func(event vugu.DOMEvent) { c.typed(event, f.ID) },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						if compact(f) {
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "list-summary"}}}
+							vgparent.AppendChild(vgn)
+							{
+								vgparent := vgn
+								_ = vgparent
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+								vgparent.AppendChild(vgn)
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute(nil)}
+								vgparent.AppendChild(vgn)
+								vgn.AddAttrInterface("data-list-count", c.listCount(f))
+								vgn.AddAttrInterface("id", "sum-"+f.ID)
+								vgn.SetInnerHTML(c.listSummary(f))
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+								vgparent.AppendChild(vgn)
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "type", Val: "button"}}}
+								vgparent.AppendChild(vgn)
+								vgn.AddAttrInterface("id", "replace-"+f.ID)
+								vgn.SetInnerHTML(c.replaceLabel(f))
+								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+									EventType: "click",
+									Func:      func(event vugu.DOMEvent) { c.toggleReplace(f) },
+									// TODO: implement capture, etc. mostly need to decide syntax
+								})
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+								vgparent.AppendChild(vgn)
+							}
+						}
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 						vgparent.AppendChild(vgn)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "help"}}}
@@ -299,7 +340,7 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgparent.AppendChild(vgn)
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "hint"}}}
 		vgparent.AppendChild(vgn)
-		vgn.SetInnerHTML(vugu.HTML("Lists take numbers separated by commas or spaces. The figures follow as you type."))
+		vgn.SetInnerHTML(vugu.HTML("Lists take numbers separated by commas or spaces; a list of more than 12000 characters is kept as it is and summed up in one line. The figures follow as you type."))
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}
 		vgparent.AppendChild(vgn)
 	}

@@ -620,7 +620,7 @@ func parseField(f Field) (float64, []float64, error) {
 		v, err := parseNumber(f.Path, f.Text, f.Param)
 		return v, nil, err
 	}
-	words := strings.FieldsFunc(f.Text, func(r rune) bool { return r == ',' || r == ';' || r == ' ' || r == '\t' || r == '\n' || r == '\r' })
+	words := listWords(f.Text)
 	if len(words) == 0 {
 		return 0, nil, fmt.Errorf("%s: the list is empty; type numbers separated by commas", f.Path)
 	}
@@ -640,6 +640,12 @@ func parseField(f Field) (float64, []float64, error) {
 		vs[i] = v
 	}
 	return 0, vs, nil
+}
+
+// listWords splits the text of a list into its entries: numbers are separated by commas,
+// semicolons or white space.
+func listWords(text string) []string {
+	return strings.FieldsFunc(text, func(r rune) bool { return r == ',' || r == ';' || r == ' ' || r == '\t' || r == '\n' || r == '\r' })
 }
 
 func parseNumber(path, text string, p Param) (float64, error) {

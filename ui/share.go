@@ -382,23 +382,10 @@ func (c *Share) open(s scenario.Scenario, notice string) bool {
 	return true
 }
 
-// load puts s into the model. Special cases are: a list too long for the editor's box is
-// refused with its field (the page's renderer stops on longer text; see maxListChars), and a
-// kind the editor does not offer is refused; both change nothing.
+// load puts s into the model. Special cases are: a kind the editor does not offer is
+// refused and changes nothing. A list of any length the scenario allows is taken: the editor
+// shows a long one in one line (see compact) rather than in its box.
 func (c *Share) load(s scenario.Scenario) error {
-	probe := NewModel()
-	if err := probe.Load(s); err != nil {
-		return err
-	}
-	for _, g := range Groups {
-		for _, f := range probe.Fields(g.Name) {
-			if n := utf8.RuneCountInString(f.Text); n > maxListChars {
-				return &scenario.FieldError{Field: f.Path, Reason: fmt.Sprintf(
-					"its list is %d characters long as text, more than the %d the editor's box can show; open the file in the Your data tab, which thins and rounds a long list to fit, or compute it with the command line (hdrisk eval FILE)",
-					n, maxListChars)}
-			}
-		}
-	}
 	return c.Model.Load(s)
 }
 

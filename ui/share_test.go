@@ -435,9 +435,9 @@ func TestShareAutosave(t *testing.T) {
 	}
 }
 
-// TestShareLongSpectrum: a 2000-value empirical spectrum at full precision is refused with
-// its field (the editor's box cannot show it); rounded to two decimals it opens and gives a
-// link or says that the link is too long. A scenario whose link is too long says so, clears
+// TestShareLongSpectrum: a 2000-value empirical spectrum at full precision opens (the editor
+// sums it up in one line) and, far too long for a link, offers the file; rounded to two
+// decimals it opens and gives a link or says that the link is too long. A scenario whose link is too long says so, clears
 // the address and offers the file, which opens back as the same scenario.
 func TestShareLongSpectrum(t *testing.T) {
 	b := newFake("")
@@ -460,10 +460,16 @@ func TestShareLongSpectrum(t *testing.T) {
 		return s
 	}
 
-	before := modelJSON(t, c.Model)
-	c.OpenExample(Example{Title: "full precision", Scenario: withLists(spectrum(2000, 1e15), nil)})
-	if !strings.Contains(c.Message, "design.values") || !strings.Contains(c.Message, "editor's box") || modelJSON(t, c.Model) != before {
-		t.Errorf("2000 values at full precision: message %q", c.Message)
+	fullSpec := withLists(spectrum(2000, 1e15), nil)
+	c.OpenExample(Example{Title: "full precision", Scenario: fullSpec})
+	if c.Message != "" {
+		t.Fatalf("2000 values at full precision: %q", c.Message)
+	}
+	if ch := c.Model.Check(); ch.Err != nil || !reflect.DeepEqual(ch.Scenario.Design, fullSpec.Design) {
+		t.Errorf("2000 values at full precision are not the editor's scenario: %v", ch.Err)
+	}
+	if c.Link != "" || !strings.Contains(c.NoLink, "too long") || c.linkState() != "too-long" {
+		t.Errorf("2000 values at full precision: link %d characters, no-link %q", len(c.Link), c.NoLink)
 	}
 
 	short := withLists(spectrum(2000, 100), nil)
