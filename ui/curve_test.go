@@ -410,6 +410,15 @@ func TestFigureUsesBlobURLs(t *testing.T) {
 	if len(br.held) != 0 {
 		t.Errorf("clearing kept %d URLs alive", len(br.held))
 	}
+	c.Start()
+	jobs.flush()
+	if len(br.held) != 1 {
+		t.Fatalf("%d URLs alive after a new figure", len(br.held))
+	}
+	c.Destroy(nil)
+	if len(br.held) != 0 {
+		t.Errorf("a dropped view kept %d URLs alive", len(br.held))
+	}
 }
 
 // poolJobs is a queueJobs that says how many workers it has, like the page's pool.

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"strings"
 
+	"github.com/vugu/vugu"
+
 	"hdrisk/ui/plot"
 )
 
@@ -59,4 +61,28 @@ func savePNG(br Browser, name string, svg []byte, report func(error), done func(
 			done()
 		}
 	})
+}
+
+// The views release their figures' images when the page drops them (vugu calls Destroy on a
+// component it no longer renders), so that a view shown and dropped again and again holds
+// no images it will never show.
+
+// Destroy implements vugu's destroyer.
+func (c *CurveView) Destroy(vugu.DestroyCtx) { c.box.clear() }
+
+// Destroy implements vugu's destroyer.
+func (c *Mapview) Destroy(vugu.DestroyCtx) { c.box.clear() }
+
+// Destroy implements vugu's destroyer.
+func (c *CheckView) Destroy(vugu.DestroyCtx) {
+	dropImage(c.Browser, c.figURL)
+	c.figURL = ""
+}
+
+// Destroy implements vugu's destroyer.
+func (c *DataView) Destroy(vugu.DestroyCtx) {
+	for _, p := range []*dataPart{&c.design, &c.signal} {
+		dropImage(c.Browser, p.figURL)
+		p.figURL = ""
+	}
 }
