@@ -124,10 +124,14 @@ func TestEditorFollowsTyping(t *testing.T) {
 	text := ""
 	for _, key := range []string{"2", ".", "5"} {
 		start := time.Now()
-		b.press(t, key)
+		b.keyWatch(t)
+		b.profile(t, "key-"+key, func() { b.press(t, key) })
 		text += key
 		state := b.settle(t)
-		t.Logf("alpha %q: key to settled figures (design plot redrawn) %v, including the test's round trips", text, time.Since(start).Round(time.Millisecond))
+		seen := time.Since(start)
+		k := b.keyRead(t)
+		t.Logf("alpha %q: key to settled figures (design plot redrawn) in the page %.0f ms, next frame %.0f ms, %d renders; %v seen by the test, its round trips included",
+			text, k.DOM, k.Painted, k.Renders, seen.Round(time.Millisecond))
 		if state != "ready" {
 			t.Fatalf("alpha %q: data-state=%s: %s", text, state, b.text(t, ".problem"))
 		}

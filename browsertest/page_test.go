@@ -73,8 +73,13 @@ func chromium(t *testing.T) string {
 	return need(t, "chromium", "", errors.New("not on PATH; .ci/run installs Debian's chromium"))
 }
 
+// pagePath is the built page: dist/hdrisk.html, or the file named by HDRISK_PAGE (a build of
+// one's own, so that two people testing at once do not test each other's page).
 func pagePath(t *testing.T) string {
 	p, err := filepath.Abs(filepath.Join("..", "dist", "hdrisk.html"))
+	if env := os.Getenv("HDRISK_PAGE"); env != "" {
+		p, err = filepath.Abs(env)
+	}
 	if err == nil {
 		_, err = os.Stat(p)
 	}

@@ -216,6 +216,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+							vgcomp.Active = c.tab == "curve"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
 							vgcomp.Model = c.Model
@@ -242,6 +243,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+							vgcomp.Active = c.tab == "map"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
 							vgcomp.Model = c.Model
@@ -268,6 +270,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+							vgcomp.Active = c.tab == "plan"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
 							vgcomp.Model = c.Model
@@ -296,6 +299,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+							vgcomp.Active = c.tab == "check"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
 							vgcomp.Model = c.Model
@@ -326,6 +330,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+							vgcomp.Active = c.tab == "data"
 							vgcomp.Browser = c.Browser
 							vgcomp.Changed = c.changed
 							vgcomp.Jobs = c.Jobs
@@ -357,6 +362,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
+							vgcomp.Active = c.tab == "share"
 							vgcomp.Browser = c.Browser
 							vgcomp.Changed = c.changed
 							vgcomp.Figures = c.Figures

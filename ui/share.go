@@ -64,6 +64,8 @@ type Report struct {
 // the open scenario unless all of it is valid; every refusal is a message naming what is
 // wrong. Browser may be nil (the panel then says that sharing is unavailable).
 type Share struct {
+	Active bool // its tab is selected: only then is its markup built (see root.vugu)
+
 	Model   *Model
 	Browser Browser
 	Changed func()            // evaluate the model again (Root.changed)
