@@ -196,6 +196,12 @@ func TestStudiesInPage(t *testing.T) {
 	if points != "200" {
 		t.Fatalf("the curve should propose 200 points, not %s", points)
 	}
+	// The menu names the varied number as the editor does, its explanation on hover.
+	var vary []string
+	if err := chromedp.Run(b.ctx, chromedp.Evaluate(`(o=>o?[o.textContent,o.title]:[])(document.querySelector("#curve-over option[value=l1]"))`, &vary)); err != nil || len(vary) != 2 ||
+		vary[0] != "L1 weight (l1)" || !strings.Contains(vary[1], "absolute-value") {
+		t.Errorf("the Vary menu shows l1 as %q: %v", vary, err)
+	}
 	// The bare job, timed in the page: what the sweep itself costs on a worker.
 	var bare float64
 	sweepArgs := fmt.Sprintf(`{"scenario":%s,"over":%q,"from":%s,"to":%s,"points":200,"log":%s}`, ch.JSON, over, from, to, logs)

@@ -13,6 +13,8 @@ import "log"
 import "strconv"
 
 // ExamplesMenu offers the invented example scenarios carried in the page; Pick opens one.
+// The menu shows its prompt again after every pick, so that picking the same example again
+// (after editing it) opens it again.
 type ExamplesMenu struct {
 	Pick func(Example)
 }
@@ -50,7 +52,19 @@ func (c *ExamplesMenu) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 			vgparent.AppendChild(vgn)
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "option", Attr: []vugu.VGAttribute{{Namespace: "", Key: "value", Val: ""}}}
 			vgparent.AppendChild(vgn)
-			vgn.SetInnerHTML(vugu.HTML("Choose an example…"))
+			{
+				b, err := vjson.Marshal(true)
+				if err != nil {
+					panic(err)
+				}
+				vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "selected", JSONVal: vjson.RawMessage(b)})
+			}
+			{
+				vgparent := vgn
+				_ = vgparent
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Choose an example…"}
+				vgparent.AppendChild(vgn)
+			}
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 			vgparent.AppendChild(vgn)
 			for i, e := range c.list() {

@@ -44,6 +44,8 @@ type Mapview struct {
 	figSeconds   float64 // from start to the map's image in place
 	box          figureBox
 	levels       []float64 // the contour levels drawn
+
+	vary pathChoices // the "Vary" menu, kept while the scenario is invalid
 }
 
 func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -146,13 +148,14 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									_ = vgparent
 									vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t\t"}
 									vgparent.AppendChild(vgn)
-									for vgiterkeyt, p := range c.Paths() {
+									for vgiterkeyt, p := range c.varyChoices() {
 										var vgiterkey interface{} = vgiterkeyt
 										_ = vgiterkey
 										p := p
 										_ = p
 										vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "option", Attr: []vugu.VGAttribute(nil)}
 										vgparent.AppendChild(vgn)
+										vgn.AddAttrInterface("title", p.Title)
 										vgn.AddAttrInterface("value", p.Name)
 										{
 											b, err := vjson.Marshal(a.Axis.Over == p.Name)
@@ -161,7 +164,7 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 											}
 											vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "selected", JSONVal: vjson.RawMessage(b)})
 										}
-										vgn.SetInnerHTML(pathOption(p))
+										vgn.SetInnerHTML(p.Text)
 									}
 									vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 									vgparent.AppendChild(vgn)

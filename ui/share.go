@@ -115,6 +115,9 @@ func (c *Share) Start() {
 		return
 	}
 	c.Browser.OnFragment(c.Navigated)
+	if g, ok := c.Browser.(InputGuard); ok {
+		g.GuardInput(PasteInputID, MaxPaste, c.pasteRefused)
+	}
 	defer func() { _, c.hasBefore = c.Before() }()
 	own, ownErr := c.restore()
 	frag := c.Browser.Fragment()
@@ -436,6 +439,24 @@ type InputReader interface {
 	// ClearInput empties the input: a browser lays out many megabytes of text in a box
 	// slowly at every change of the page, for seconds each time.
 	ClearInput(id string)
+}
+
+// InputGuard refuses oversized text the moment it enters a text box. A browser lays out the
+// text of a box before it draws the page again, which for a paste of many megabytes takes
+// seconds to tens of seconds, so a refusal that waits for a button comes that late.
+type InputGuard interface {
+	// GuardInput watches the text box with the given id: a paste of more than limit UTF-16
+	// code units is stopped before it enters the box, and any other way of putting more
+	// text in it (dropping, typing, a script) empties the box at once. refused is then called
+	// with the length of the text, under the render lock.
+	GuardInput(id string, limit int, refused func(length int))
+}
+
+// pasteRefused says that the paste box refused a text of n characters (see InputGuard).
+func (c *Share) pasteRefused(n int) {
+	c.refuseSize(n)
+	c.Message += " The paste box is left empty."
+	c.show("share")
 }
 
 // OpenPaste opens the text of the paste box (see OpenText).
