@@ -9,6 +9,8 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"sync"
+	"time"
 
 	"github.com/hack-pad/safejs"
 	"github.com/vugu/vugu"
@@ -35,13 +37,26 @@ func Run() error {
 	if err != nil {
 		return fmt.Errorf("page: build: %w", err)
 	}
-	root := &ui.Root{Model: ui.NewModel(), Eval: &evaluator{env: env}, Browser: newBrowser(env)}
+	eval := &evaluator{env: env}
+	root := &ui.Root{Model: ui.NewModel(), Eval: eval, Browser: newBrowser(env)}
 	started := false
 	for ok := true; ok; ok = renderer.EventWait() {
+		eval.settle(quickFigures)
 		// Building reads the components, which evaluations change under the write lock.
-		env.RLock()
-		out, state := build.RunBuild(root), root.State()
-		env.RUnlock()
+		var out *vugu.BuildResults
+		var state string
+		pass := func() {
+			env.RLock()
+			eval.building(func() { out, state = build.RunBuild(root), root.State() })
+			env.RUnlock()
+		}
+		pass()
+		if !started && state == "busy" {
+			// The first build starts the first evaluation: the first render, which makes
+			// the whole page, waits for its figures rather than being made twice.
+			eval.settle(firstFigures)
+			pass()
+		}
 		if err := renderer.Render(out); err != nil {
 			return fmt.Errorf("page: render: %w", err)
 		}
@@ -94,14 +109,72 @@ func Fail(err error) {
 // finite-size checks) go to the worker pool.
 type evaluator struct {
 	env vugu.EventEnv
+
+	mu      sync.Mutex
+	running int           // evaluations started and not yet ended, cancelled ones included
+	waiting chan struct{} // closed when the last running evaluation ends while the loop waits
+	builds  int           // builds of the page begun
+	inBuild bool          // a build is under way (a component's Init may start an evaluation)
+}
+
+// building runs the build f, counted (see Evaluate).
+func (e *evaluator) building(f func()) {
+	e.mu.Lock()
+	e.builds++
+	e.inBuild = true
+	e.mu.Unlock()
+	f()
+	e.mu.Lock()
+	e.inBuild = false
+	e.mu.Unlock()
+}
+
+// quickFigures is how long the render loop waits for the figures of an edit before it
+// renders the page busy. Each render costs the page tens of milliseconds; an edit whose
+// figures come within this time is rendered once, with them, instead of twice.
+const quickFigures = 100 * time.Millisecond
+
+// firstFigures is how long the first render waits for the first figures.
+const firstFigures = 500 * time.Millisecond
+
+// settle waits up to d for the running evaluations to end. It is called by the render loop
+// without the render lock, so that the evaluations can take it to report.
+func (e *evaluator) settle(d time.Duration) {
+	e.mu.Lock()
+	if e.running == 0 {
+		e.mu.Unlock()
+		return
+	}
+	w := make(chan struct{})
+	e.waiting = w
+	e.mu.Unlock()
+	t := time.NewTimer(d)
+	defer t.Stop()
+	select {
+	case <-w:
+	case <-t.C:
+	}
+	e.mu.Lock()
+	if e.waiting == w {
+		e.waiting = nil
+	}
+	e.mu.Unlock()
 }
 
 // Evaluate implements ui.Evaluator. The job runs on a goroutine of its own, which the Go
 // scheduler starts once the render loop waits for events. Cancel is called under the render
 // lock and done is called under it, so the cancelled flag needs no lock of its own.
+// The end of an evaluation asks for a render only when no render is to come that shows it:
+// an evaluation started by an event (an edit) has that event's render still to come unless
+// a build began since, and the render loop waiting for it (see settle) builds next; a
+// cancelled evaluation changes nothing on the page.
 func (e *evaluator) Evaluate(scenario []byte, done func(ui.Figures, error)) func() {
 	cancelled := false
 	args, err := json.Marshal(job.EvalArgs{Scenario: scenario})
+	e.mu.Lock()
+	e.running++
+	fromEvent, builds := !e.inBuild, e.builds
+	e.mu.Unlock()
 	go func() {
 		var f ui.Figures
 		if err == nil {
@@ -115,9 +188,28 @@ func (e *evaluator) Evaluate(scenario []byte, done func(ui.Figures, error)) func
 			}
 		}
 		e.env.Lock()
-		defer e.env.UnlockRender()
-		if !cancelled {
+		shown := !cancelled
+		if shown {
 			done(f, err)
+		}
+		e.mu.Lock()
+		e.running--
+		w := e.waiting
+		if e.running > 0 {
+			w = nil
+		} else {
+			e.waiting = nil
+		}
+		coming := fromEvent && e.builds == builds
+		e.mu.Unlock()
+		switch {
+		case w != nil:
+			e.env.UnlockOnly()
+			close(w)
+		case shown && !coming:
+			e.env.UnlockRender()
+		default:
+			e.env.UnlockOnly()
 		}
 	}()
 	return func() { cancelled = true }
