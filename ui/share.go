@@ -31,6 +31,10 @@ const (
 	// history entry; quicker edits replace the current one, so Back skips over keystrokes of
 	// one thought and returns to the scenario as it was before.
 	PushPause = 3 * time.Second
+	// TypingPause is how long the scenario must stay unchanged before an edit is published
+	// (address, link, autosave), when the Browser offers a Timer: publishing encodes the
+	// scenario and writes the address and storage, too much to do at every keystroke.
+	TypingPause = 300 * time.Millisecond
 	// FileInputID and PasteInputID are the element ids of the share panel's file box and
 	// paste box.
 	FileInputID  = "share-file"
@@ -86,6 +90,10 @@ type Share struct {
 	figsSaved bool      // the last autosave holds the figures of the working scenario
 	hasBefore bool      // a scenario replaced by a link on load is kept (see Before)
 	started   bool
+
+	waitGen  int    // counts the pauses waited for; a timer of an older one does nothing
+	waitFP   string // the fingerprint whose pause is waited for
+	stopWait func() // stops the timer of the pause waited for; nil when none
 }
 
 // Init opens the scenario the page starts with (see Start).
@@ -245,19 +253,62 @@ func (c *Share) fingerprint() string {
 
 // Observe publishes the working scenario when it has changed since it was last published:
 // the address follows it (a new history entry after a pause of PushPause, else in place of
-// the current one), the link is renewed and the scenario is autosaved. It also autosaves the
-// figures once they arrive. Invalid scenarios are neither published nor saved.
+// the current one), the link is renewed and the scenario is autosaved. With a Browser that
+// offers a Timer, this waits until the scenario has stayed unchanged for TypingPause. It also
+// autosaves the figures once they arrive. Invalid scenarios are neither published nor saved.
 func (c *Share) Observe() {
 	if !c.started || c.Browser == nil {
 		return
 	}
 	if fp := c.fingerprint(); fp != c.seen {
-		c.publish(c.now().Sub(c.lastWrite) >= PushPause)
+		tm, ok := c.Browser.(Timer)
+		if !ok {
+			c.publish(c.now().Sub(c.lastWrite) >= PushPause)
+			return
+		}
+		if c.stopWait != nil && fp == c.waitFP {
+			return // renders that change nothing (figures, progress) do not restart the pause
+		}
+		if c.stopWait != nil {
+			c.stopWait()
+		}
+		c.waitGen++
+		c.waitFP = fp
+		gen := c.waitGen
+		c.stopWait = tm.After(TypingPause, func() bool {
+			if gen != c.waitGen {
+				return false
+			}
+			c.stopWait = nil
+			c.flush()
+			// What publishing changes (the link, a refusal) is shown on this panel only.
+			return c.Active
+		})
 		return
 	}
 	if c.Have && !c.figsSaved {
 		c.autosave()
 	}
+}
+
+// flush publishes at once an edit that is waiting for the typing to pause.
+func (c *Share) flush() {
+	if c.stopWait != nil {
+		c.stopWait()
+		c.stopWait = nil
+	}
+	c.waitGen++
+	if c.started && c.Browser != nil && c.fingerprint() != c.seen {
+		c.publish(c.now().Sub(c.lastWrite) >= PushPause)
+	}
+}
+
+// Timer runs a function later. The share panel uses it, when the Browser offers it, to
+// publish an edit once the typing pauses.
+type Timer interface {
+	// After calls f after d, under the render lock, and renders the page if f returns true;
+	// stop keeps f from being called if it has not been yet.
+	After(d time.Duration, f func() (render bool)) (stop func())
 }
 
 // publish writes the working scenario to the address (push: as a new history entry) and
@@ -564,6 +615,7 @@ func (c *Share) OpenExample(e Example) {
 // Copy puts the link on the clipboard. If the browser refuses, the link stays selected in
 // its box and the message says how to copy it by hand.
 func (c *Share) Copy() {
+	c.flush() // an edit still waiting for the typing to pause
 	if c.Link == "" {
 		c.fail("There is no link to copy: "+strings.TrimSuffix(c.NoLink, "."), nil)
 		return
