@@ -277,35 +277,7 @@ func (b *browser) Store(key, value string) error {
 // clicked once; the URL is revoked a minute later, when the browser has long read it.
 func (b *browser) Download(name, mime string, data []byte) error {
 	fail := func(err error) error { return fmt.Errorf("saving %s: %w", name, err) }
-	u8c, err := global("Uint8Array")
-	if err != nil {
-		return fail(err)
-	}
-	u8, err := u8c.New(len(data))
-	if err != nil {
-		return fail(err)
-	}
-	if _, err := safejs.CopyBytesToJS(u8, data); err != nil {
-		return fail(err)
-	}
-	blobc, err := global("Blob")
-	if err != nil {
-		return fail(err)
-	}
-	// js.ValueOf knows js.Value, not safejs.Value: hand it the array itself.
-	parts, err := safejs.ValueOf([]any{safejs.Unsafe(u8)})
-	if err != nil {
-		return fail(err)
-	}
-	blob, err := blobc.New(parts, map[string]any{"type": mime})
-	if err != nil {
-		return fail(err)
-	}
-	urlc, err := global("URL")
-	if err != nil {
-		return fail(err)
-	}
-	href, err := urlc.Call("createObjectURL", blob)
+	href, err := b.ObjectURL(mime, data)
 	if err != nil {
 		return fail(err)
 	}
@@ -330,7 +302,7 @@ func (b *browser) Download(name, mime string, data []byte) error {
 	}
 	var revoke safejs.Func
 	revoke, ferr := safejs.FuncOf(func(safejs.Value, []safejs.Value) any {
-		_, _ = urlc.Call("revokeObjectURL", href)
+		b.RevokeObjectURL(href)
 		go revoke.Release()
 		return nil
 	})

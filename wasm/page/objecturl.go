@@ -12,10 +12,13 @@ import (
 )
 
 // ObjectURL holds data in a Blob and returns its blob: URL, for an <img src> that would be
-// too long as a data: URL: the page's renderer passes every attribute through a 16 KB
-// buffer, and a figure's SVG is often larger. The URL stays valid until RevokeObjectURL.
+// too long as a data: URL (the page's renderer passes every attribute through a 16 KB
+// buffer, and a figure's SVG is often larger) and for downloads. The URL stays valid until
+// RevokeObjectURL.
 func (b *browser) ObjectURL(mime string, data []byte) (string, error) {
-	fail := func(err error) (string, error) { return "", fmt.Errorf("holding a %s image: %w", mime, err) }
+	fail := func(err error) (string, error) {
+		return "", fmt.Errorf("holding %d bytes of %s: %w", len(data), mime, err)
+	}
 	u8c, err := global("Uint8Array")
 	if err != nil {
 		return fail(err)
