@@ -244,8 +244,14 @@ func TestLargeFiguresInPage(t *testing.T) {
 		t.Errorf("the curve is %d CSS pixels wide, want 640 (480 pt)", w)
 	}
 	b.alive(t, "after the sweep")
-	// The same 400-point curve for every other design shape beside it.
+	// The same 400-point curve for every other design shape beside it. The view may still read
+	// "done" from the single curve for a moment after the click, so wait for the comparison's
+	// own figure (a new image URL) before reading the run's end.
+	var before string
+	b.shareEval(t, `document.querySelector("#curve-figure").src`, &before)
 	b.studyClick(t, "#curve-compare")
+	b.shareWait(t, "the comparison's figure", fmt.Sprintf(
+		`document.querySelector("#curve-figure") && document.querySelector("#curve-figure").src !== %q`, before))
 	if got := b.studyWait(t, "[data-view=curve]", "data-run", 40*time.Second, "done", "error"); got != "done" {
 		t.Fatalf("the comparison ended in %s: %s", got, b.text(t, "[data-view=curve] .problem"))
 	}
