@@ -479,7 +479,18 @@ func (b *browser) typeThen(t *testing.T, sel, text, key string) {
 	); err != nil || !ok {
 		t.Fatalf("focusing %s: %v (found and focused: %v)", sel, err, ok)
 	}
-	if err := chromedp.Run(b.ctx, chromedp.KeyEvent(text), chromedp.KeyEvent(key)); err != nil {
+	// One key at a time, each waiting until the box shows it, as a quick typist would: keys
+	// sent all at once at machine speed can overtake the page's redraw of the box on a loaded
+	// machine, which no person types fast enough to meet.
+	for i, r := range text {
+		var shown bool
+		if err := chromedp.Run(b.ctx, chromedp.KeyEvent(string(r)), chromedp.Poll(
+			fmt.Sprintf(`(e=>e&&e.value===%q?true:null)(document.querySelector(%q))`, text[:i+len(string(r))], sel),
+			&shown, chromedp.WithPollingInterval(5*time.Millisecond), chromedp.WithPollingTimeout(5*time.Second))); err != nil {
+			t.Fatalf("typing %q into %s: after %q the box does not show it: %v", text, sel, text[:i+len(string(r))], err)
+		}
+	}
+	if err := chromedp.Run(b.ctx, chromedp.KeyEvent(key)); err != nil {
 		t.Fatalf("typing into %s: %v", sel, err)
 	}
 }
