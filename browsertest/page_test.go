@@ -479,15 +479,35 @@ func (b *browser) typeThen(t *testing.T, sel, text, key string) {
 	); err != nil || !ok {
 		t.Fatalf("focusing %s: %v (found and focused: %v)", sel, err, ok)
 	}
-	// One key at a time, each waiting until the box shows it, as a quick typist would: keys
-	// sent all at once at machine speed can overtake the page's redraw of the box on a loaded
-	// machine, which no person types fast enough to meet.
-	for i, r := range text {
+	// One key at a time, each waiting until the box shows it, as a quick typist would. On a
+	// loaded machine a redraw of the box can still overtake a key (the closing note of the
+	// first session describes it); that is logged, and the text is typed once more, so that
+	// what the tests using this helper check is the scenario typed, not the race.
+	shows := func(want string, wait time.Duration) bool {
 		var shown bool
-		if err := chromedp.Run(b.ctx, chromedp.KeyEvent(string(r)), chromedp.Poll(
-			fmt.Sprintf(`(e=>e&&e.value===%q?true:null)(document.querySelector(%q))`, text[:i+len(string(r))], sel),
-			&shown, chromedp.WithPollingInterval(5*time.Millisecond), chromedp.WithPollingTimeout(5*time.Second))); err != nil {
-			t.Fatalf("typing %q into %s: after %q the box does not show it: %v", text, sel, text[:i+len(string(r))], err)
+		return chromedp.Run(b.ctx, chromedp.Poll(
+			fmt.Sprintf(`(e=>e&&e.value===%q?true:null)(document.querySelector(%q))`, want, sel),
+			&shown, chromedp.WithPollingInterval(5*time.Millisecond), chromedp.WithPollingTimeout(wait))) == nil
+	}
+	typed := true
+	for i, r := range text {
+		if err := chromedp.Run(b.ctx, chromedp.KeyEvent(string(r))); err != nil {
+			t.Fatalf("typing into %s: %v", sel, err)
+		}
+		if !shows(text[:i+len(string(r))], 2*time.Second) {
+			typed = false
+			break
+		}
+	}
+	if !typed {
+		t.Logf("a redraw of %s overtook a key while typing %q; typing it again", sel, text)
+		if err := chromedp.Run(b.ctx,
+			chromedp.Evaluate(fmt.Sprintf(`(e=>{e.focus();e.select();return true})(document.querySelector(%q))`, sel), &ok),
+			chromedp.KeyEvent(text)); err != nil {
+			t.Fatalf("typing into %s: %v", sel, err)
+		}
+		if !shows(text, 5*time.Second) {
+			t.Fatalf("typing %q into %s twice did not leave it in the box", text, sel)
 		}
 	}
 	if err := chromedp.Run(b.ctx, chromedp.KeyEvent(key)); err != nil {
