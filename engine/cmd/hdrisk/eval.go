@@ -30,14 +30,14 @@ type evalResult struct {
 // runEval solves the fixed point of one scenario and prints its observables.
 func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("eval", flag.ContinueOnError)
-	tol := fs.Float64("tol", 0, "relative change of (g1, t1) that counts as converged (0: the solver's default)")
-	maxIter := fs.Int("max-iter", 0, "largest number of iterations (0: the solver's default)")
+	solver := solverFlags(fs)
 	name, err := onePositional(fs, args, "scenario file")
 	if err != nil {
 		return err
 	}
-	if *tol < 0 || *maxIter < 0 {
-		return usagef("--tol and --max-iter must not be negative")
+	opts, err := solver()
+	if err != nil {
+		return err
 	}
 	s, err := readScenario(name, stdin)
 	if err != nil {
@@ -47,7 +47,7 @@ func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	r, err := fixedpoint.Solve(p, fixedpoint.Options{Tol: *tol, MaxIter: *maxIter})
+	r, err := fixedpoint.Solve(p, opts)
 	if err != nil {
 		return err
 	}

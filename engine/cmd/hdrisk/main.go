@@ -19,6 +19,8 @@ import (
 	"io"
 	"os"
 	"strings"
+
+	"hdrisk/engine/fixedpoint"
 )
 
 // command is one subcommand. Adding a command is one file holding its run function and one
@@ -161,4 +163,18 @@ func onePositional(fs *flag.FlagSet, args []string, what string) (string, error)
 		return pos[0], nil
 	}
 	return "", usagef("expected one %s, got %d arguments", what, len(pos))
+}
+
+// solverFlags declares --tol and --max-iter, the fixed-point solver's settings shared by the
+// commands that solve fixed points; the returned function reads them once the flags are
+// parsed, refusing negative values.
+func solverFlags(fs *flag.FlagSet) func() (fixedpoint.Options, error) {
+	tol := fs.Float64("tol", 0, "relative change of (g1, t1) that counts as converged (0: the solver's default)")
+	maxIter := fs.Int("max-iter", 0, "fixed-point iteration cap (0: the solver's default)")
+	return func() (fixedpoint.Options, error) {
+		if *tol < 0 || *maxIter < 0 {
+			return fixedpoint.Options{}, usagef("--tol and --max-iter must not be negative")
+		}
+		return fixedpoint.Options{Tol: *tol, MaxIter: *maxIter}, nil
+	}
 }

@@ -7,7 +7,6 @@ import (
 	"os"
 	"os/signal"
 
-	"hdrisk/engine/fixedpoint"
 	"hdrisk/engine/study"
 )
 
@@ -27,15 +26,18 @@ func runMap(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	yPoints := fs.Int("y-points", 50, "number of values of y")
 	yLog := fs.Bool("y-log", false, "space y geometrically")
 	workers := fs.Int("workers", 0, "goroutines (0: one per CPU); the output does not depend on it")
-	tol := fs.Float64("tol", 0, "fixed-point tolerance (0: the solver's default)")
-	maxIter := fs.Int("max-iter", 0, "fixed-point iteration cap (0: the solver's default)")
+	solver := solverFlags(fs)
 	progress := fs.Bool("progress", false, "report progress on stderr")
 	name, err := onePositional(fs, args, "scenario file")
 	if err != nil {
 		return err
 	}
-	if *tol < 0 || *maxIter < 0 || *workers < 0 {
-		return usagef("--tol, --max-iter and --workers must not be negative")
+	opts, err := solver()
+	if err != nil {
+		return err
+	}
+	if *workers < 0 {
+		return usagef("--workers must not be negative")
 	}
 	s, err := readScenario(name, stdin)
 	if err != nil {
@@ -64,7 +66,7 @@ func runMap(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	spec := study.MapSpec{
 		X:      study.Axis{Over: *x, From: *xFrom, To: *xTo, Points: *xPoints, Log: *xLog},
 		Y:      study.Axis{Over: *y, From: *yFrom, To: *yTo, Points: *yPoints, Log: *yLog},
-		Solver: fixedpoint.Options{Tol: *tol, MaxIter: *maxIter},
+		Solver: opts,
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()

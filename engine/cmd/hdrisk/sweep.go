@@ -8,7 +8,6 @@ import (
 	"os"
 	"os/signal"
 
-	"hdrisk/engine/fixedpoint"
 	"hdrisk/engine/study"
 )
 
@@ -22,15 +21,15 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	to := fs.Float64("to", 0, "last value")
 	points := fs.Int("points", 100, "number of values, ends included")
 	logAxis := fs.Bool("log", false, "space the values geometrically")
-	tol := fs.Float64("tol", 0, "fixed-point tolerance (0: the solver's default)")
-	maxIter := fs.Int("max-iter", 0, "fixed-point iteration cap (0: the solver's default)")
+	solver := solverFlags(fs)
 	progress := fs.Bool("progress", false, "report progress on stderr")
 	name, err := onePositional(fs, args, "scenario file")
 	if err != nil {
 		return err
 	}
-	if *tol < 0 || *maxIter < 0 {
-		return usagef("--tol and --max-iter must not be negative")
+	opts, err := solver()
+	if err != nil {
+		return err
 	}
 	s, err := readScenario(name, stdin)
 	if err != nil {
@@ -49,7 +48,7 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	}
 	spec := study.SweepSpec{
 		Axis:   study.Axis{Over: *over, From: *from, To: *to, Points: *points, Log: *logAxis},
-		Solver: fixedpoint.Options{Tol: *tol, MaxIter: *maxIter},
+		Solver: opts,
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
