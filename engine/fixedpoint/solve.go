@@ -18,8 +18,9 @@
 //
 // Its fixed point is the replica prediction, proved for convex separable penalties and
 // rotationally invariant designs (Rangan, Schniter & Fletcher 2019, "Vector approximate message
-// passing", IEEE Trans. Inf. Theory; Gerbelot, Abbara & Krzakala 2020, "Asymptotic errors for
-// high-dimensional convex penalized linear regression beyond Gaussian matrices", COLT).
+// passing", IEEE Trans. Inf. Theory 65(10)); the replica form of the same prediction for
+// rotationally invariant designs is in Tulino, Caire, Verdu & Shamai 2013, "Support recovery
+// with sparsely sampled free random matrices", IEEE Trans. Inf. Theory 59(7).
 package fixedpoint
 
 import (
