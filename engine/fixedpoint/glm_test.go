@@ -16,11 +16,11 @@ import (
 func defaultsCases() map[string]Problem {
 	cases := map[string]Problem{}
 	designs := map[string]design.Law{
-		"gauss0.5":  must(design.Gaussian(0.5, design.Columns)),
-		"gauss2":    must(design.Gaussian(2, design.Rows)),
-		"orth0.7":   must(design.Orthogonal(0.7, design.Columns)),
-		"geom1.5":   must(design.GeometricSV(1.5, 10, design.Columns)),
-		"uev0.4":    must(design.UniformEV(0.4, 0.5, 3, design.AsGiven)),
+		"gauss0.5": must(design.Gaussian(0.5, design.Columns)),
+		"gauss2":   must(design.Gaussian(2, design.Rows)),
+		"orth0.7":  must(design.Orthogonal(0.7, design.Columns)),
+		"geom1.5":  must(design.GeometricSV(1.5, 10, design.Columns)),
+		"uev0.4":   must(design.UniformEV(0.4, 0.5, 3, design.AsGiven)),
 	}
 	signals := map[string]signal.Law{
 		"bg0.1":   must(signal.BernoulliGauss(0.1, 1)),
@@ -61,8 +61,8 @@ func TestDefaultsReproduceSolve(t *testing.T) {
 				t.Fatalf("SolveGLM: %v converged %v exists %v after %d", err, got.Converged, got.Exists, got.Iterations)
 			}
 			for _, c := range []struct {
-				name   string
-				g, w   float64
+				name string
+				g, w float64
 			}{{"mse", got.MSE, want.MSE}, {"train", got.TrainError, want.TrainError}, {"g1", got.G1, want.G1},
 				{"t1", got.T1, want.T1}, {"nonzero", got.NonZero, want.NonZero}, {"V", got.Susceptibility, want.Susceptibility}} {
 				if d := relDiff(c.g, c.w); d > 1e-9 {
