@@ -13,8 +13,8 @@ import "log"
 import (
 	"time"
 
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
-	"hdrisk/ui/plot"
 	"hdrisk/wasm/job"
 )
 

@@ -13,8 +13,8 @@ import (
 
 	"github.com/vugu/vugu"
 
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
-	"hdrisk/ui/plot"
 	"hdrisk/wasm/job"
 )
 

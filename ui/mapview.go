@@ -11,9 +11,9 @@ import (
 
 	"github.com/vugu/vugu"
 
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
-	"hdrisk/ui/plot"
 	"hdrisk/wasm/job"
 )
 

@@ -5,7 +5,7 @@ import (
 	"errors"
 	"math"
 
-	"hdrisk/ui/plot"
+	"hdrisk/engine/plot"
 )
 
 // SeriesArgs is a plot.Series that travels as JSON (NaN gaps as null).

@@ -9,9 +9,9 @@ import (
 	"strings"
 	"testing"
 
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
-	"hdrisk/ui/plot"
 )
 
 // These tests check the glue of the study kinds: that the numbers of engine/study cross the
