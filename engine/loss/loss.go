@@ -14,7 +14,7 @@
 package loss
 
 import (
-	"fmt"
+	"hdrisk/engine/param"
 	"math"
 
 	"hdrisk/engine/readout"
@@ -43,13 +43,6 @@ type Regression interface {
 	// Residual returns the pieces of R(.; g), covering the real line in increasing order.
 	Residual(g float64) []Piece
 }
-
-// ParamError reports a parameter outside its domain.
-type ParamError struct {
-	Field, Reason string
-}
-
-func (e *ParamError) Error() string { return "loss: " + e.Field + ": " + e.Reason }
 
 // proxResidual evaluates zhat = y - R(y - p) from the pieces of R.
 func proxResidual(pieces []Piece, y, p float64) (float64, float64) {
@@ -95,7 +88,7 @@ type huber struct{ width float64 }
 // (width > 0 finite).
 func Huber(width float64) (Loss, error) {
 	if math.IsNaN(width) || math.IsInf(width, 0) || !(width > 0) {
-		return nil, &ParamError{"width", fmt.Sprintf("must be a finite number > 0 (got %v)", width)}
+		return nil, param.Errorf("width", "must be a finite number > 0 (got %v)", width)
 	}
 	return huber{width}, nil
 }

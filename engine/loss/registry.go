@@ -1,28 +1,19 @@
 package loss
 
 import (
-	"fmt"
+	"hdrisk/engine/param"
 	"maps"
 	"math"
 	"slices"
 	"strings"
 )
 
-// Param describes one parameter of a loss.
-type Param struct {
-	Name             string
-	Unit             string
-	Min, Max         float64
-	MinOpen, MaxOpen bool
-	Help             string
-}
-
 // Kind describes one loss of the registry.
 type Kind struct {
 	Name   string // the scenario's loss.kind
 	Help   string
 	Labels bool // needs labels y = +-1
-	Params []Param
+	Params []param.Param
 }
 
 var kinds = []struct {
@@ -31,8 +22,8 @@ var kinds = []struct {
 }{
 	{Kind{"square", "least squares, (y - z)^2/2: today's estimator", false, nil},
 		func(map[string]float64) (Loss, error) { return Square(), nil }},
-	{Kind{"huber", "Huber: quadratic for small residuals, linear beyond the width (robust to outliers)", false, []Param{
-		{Name: "width", Unit: "units of y", Max: math.Inf(1), MinOpen: true, MaxOpen: true,
+	{Kind{"huber", "Huber: quadratic for small residuals, linear beyond the width (robust to outliers)", false, []param.Param{
+		{Name: "width", Label: "Huber width", Log: true, Role: param.Scale, Unit: "units of y", Max: math.Inf(1), MinOpen: true, MaxOpen: true,
 			Help: "residual size where the loss turns from quadratic to linear"}}},
 		func(v map[string]float64) (Loss, error) { return Huber(v["width"]) }},
 	{Kind{"absolute", "least absolute deviations, |y - z|", false, nil},
@@ -64,15 +55,15 @@ func New(kind string, params map[string]float64) (Loss, error) {
 		}
 		for _, p := range k.Params {
 			if _, ok := params[p.Name]; !ok {
-				return nil, &ParamError{p.Name, fmt.Sprintf("missing (loss %s needs it)", kind)}
+				return nil, param.Errorf(p.Name, "missing (loss %s needs it)", kind)
 			}
 		}
 		for _, name := range slices.Sorted(maps.Keys(params)) {
-			if !slices.ContainsFunc(k.Params, func(p Param) bool { return p.Name == name }) {
-				return nil, &ParamError{name, fmt.Sprintf("not a parameter of loss %s", kind)}
+			if !slices.ContainsFunc(k.Params, func(p param.Param) bool { return p.Name == name }) {
+				return nil, param.Errorf(name, "not a parameter of loss %s", kind)
 			}
 		}
 		return k.build(params)
 	}
-	return nil, &ParamError{"kind", fmt.Sprintf("unknown loss %q (known: %s)", kind, strings.Join(names, ", "))}
+	return nil, param.Errorf("kind", "unknown loss %q (known: %s)", kind, strings.Join(names, ", "))
 }

@@ -1,7 +1,7 @@
 package noise
 
 import (
-	"fmt"
+	"hdrisk/engine/param"
 	"math"
 	"math/rand/v2"
 
@@ -26,13 +26,6 @@ type Law interface {
 	// Sample returns n independent draws from the law itself.
 	Sample(rng *rand.Rand, n int) []float64
 }
-
-// ParamError reports a parameter outside its domain.
-type ParamError struct {
-	Field, Reason string
-}
-
-func (e *ParamError) Error() string { return "noise: " + e.Field + ": " + e.Reason }
 
 // mixed wraps a Gaussian mixture of package signal (all means 0) as a noise law.
 type mixed struct {
@@ -94,7 +87,7 @@ func Laplace(variance float64) (Law, error) {
 	}
 	l, err := signal.Laplace(math.Sqrt(variance / 2))
 	if err != nil {
-		return nil, &ParamError{"variance", err.Error()}
+		return nil, param.Errorf("variance", "%s", err.Error())
 	}
 	return newMixed("laplace", variance, l), nil
 }
@@ -106,11 +99,11 @@ func StudentT(variance, dof float64) (Law, error) {
 		return nil, err
 	}
 	if math.IsNaN(dof) || math.IsInf(dof, 0) || !(dof > 2) {
-		return nil, &ParamError{"dof", fmt.Sprintf("must be a finite number > 2 (got %v): with 2 or fewer degrees of freedom the variance is infinite", dof)}
+		return nil, param.Errorf("dof", "must be a finite number > 2 (got %v): with 2 or fewer degrees of freedom the variance is infinite", dof)
 	}
 	l, err := signal.StudentT(dof, math.Sqrt(variance*(dof-2)/dof))
 	if err != nil {
-		return nil, &ParamError{"dof", err.Error()}
+		return nil, param.Errorf("dof", "%s", err.Error())
 	}
 	return newMixed("student-t", variance, l), nil
 }
@@ -122,28 +115,28 @@ func Outliers(variance, fraction, outlierVariance float64) (Law, error) {
 		return nil, err
 	}
 	if math.IsNaN(fraction) || !(fraction >= 0 && fraction < 1) {
-		return nil, &ParamError{"fraction", fmt.Sprintf("must be in [0, 1) (got %v)", fraction)}
+		return nil, param.Errorf("fraction", "must be in [0, 1) (got %v)", fraction)
 	}
 	if err := nonnegative("outlier_variance", outlierVariance); err != nil {
 		return nil, err
 	}
 	l, err := signal.GaussMixture([]float64{1 - fraction, fraction}, []float64{0, 0}, []float64{variance, outlierVariance})
 	if err != nil {
-		return nil, &ParamError{"fraction", err.Error()}
+		return nil, param.Errorf("fraction", "%s", err.Error())
 	}
 	return newMixed("outliers", variance, l), nil
 }
 
 func nonnegative(field string, v float64) error {
 	if math.IsNaN(v) || math.IsInf(v, 0) || v < 0 {
-		return &ParamError{field, fmt.Sprintf("must be a finite number >= 0 (got %v)", v)}
+		return param.Errorf(field, "must be a finite number >= 0 (got %v)", v)
 	}
 	return nil
 }
 
 func positive(field string, v float64) error {
 	if math.IsNaN(v) || math.IsInf(v, 0) || !(v > 0) {
-		return &ParamError{field, fmt.Sprintf("must be a finite number > 0 (got %v)", v)}
+		return param.Errorf(field, "must be a finite number > 0 (got %v)", v)
 	}
 	return nil
 }

@@ -1,7 +1,7 @@
 package noise
 
 import (
-	"fmt"
+	"hdrisk/engine/param"
 	"maps"
 	"math"
 	"slices"
@@ -21,7 +21,7 @@ type Param struct {
 type Kind struct {
 	Name   string // the scenario's noise.law
 	Help   string
-	Params []Param
+	Params []param.Param
 }
 
 var kinds = []struct {
@@ -32,14 +32,14 @@ var kinds = []struct {
 		func(d float64, _ map[string]float64) (Law, error) { return Gauss(d) }},
 	{Kind{"laplace", "Laplace (double exponential) noise: heavier tails than Gaussian", nil},
 		func(d float64, _ map[string]float64) (Law, error) { return Laplace(d) }},
-	{Kind{"student-t", "Student-t noise: heavy tails, more so with fewer degrees of freedom", []Param{
-		{Name: "dof", Unit: "degrees of freedom", Min: 2, Max: math.Inf(1), MinOpen: true, MaxOpen: true,
+	{Kind{"student-t", "Student-t noise: heavy tails, more so with fewer degrees of freedom", []param.Param{
+		{Name: "dof", Label: "degrees of freedom of the noise", Role: param.Shape, Unit: "degrees of freedom", Min: 2, Max: math.Inf(1), MinOpen: true, MaxOpen: true,
 			Help: "degrees of freedom, above 2 so that the variance is finite"}}},
 		func(d float64, v map[string]float64) (Law, error) { return StudentT(d, v["dof"]) }},
-	{Kind{"outliers", "Gaussian noise where a fraction of the entries has a larger variance", []Param{
-		{Name: "fraction", Unit: "fraction of entries", Min: 0, Max: 1, MaxOpen: true,
+	{Kind{"outliers", "Gaussian noise where a fraction of the entries has a larger variance", []param.Param{
+		{Name: "fraction", Label: "outlier fraction", Unit: "fraction of entries", Min: 0, Max: 1, MaxOpen: true,
 			Help: "share of the entries that are outliers"},
-		{Name: "outlier_variance", Unit: "units of y squared", Max: math.Inf(1), MaxOpen: true,
+		{Name: "outlier_variance", Label: "outlier variance", Log: true, Role: param.Scale, Unit: "units of y squared", Max: math.Inf(1), MaxOpen: true,
 			Help: "variance of an outlier entry"}}},
 		func(d float64, v map[string]float64) (Law, error) {
 			return Outliers(d, v["fraction"], v["outlier_variance"])
@@ -68,15 +68,15 @@ func New(kind string, variance float64, params map[string]float64) (Law, error) 
 		}
 		for _, p := range k.Params {
 			if _, ok := params[p.Name]; !ok {
-				return nil, &ParamError{p.Name, fmt.Sprintf("missing (law %s needs it)", kind)}
+				return nil, param.Errorf(p.Name, "missing (law %s needs it)", kind)
 			}
 		}
 		for _, name := range slices.Sorted(maps.Keys(params)) {
-			if !slices.ContainsFunc(k.Params, func(p Param) bool { return p.Name == name }) {
-				return nil, &ParamError{name, fmt.Sprintf("not a parameter of law %s", kind)}
+			if !slices.ContainsFunc(k.Params, func(p param.Param) bool { return p.Name == name }) {
+				return nil, param.Errorf(name, "not a parameter of law %s", kind)
 			}
 		}
 		return k.build(variance, params)
 	}
-	return nil, &ParamError{"law", fmt.Sprintf("unknown law %q (known: %s)", kind, strings.Join(names, ", "))}
+	return nil, param.Errorf("law", "unknown law %q (known: %s)", kind, strings.Join(names, ", "))
 }

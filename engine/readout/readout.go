@@ -8,7 +8,7 @@
 package readout
 
 import (
-	"fmt"
+	"hdrisk/engine/param"
 	"math"
 	"math/rand/v2"
 )
@@ -29,13 +29,6 @@ type Cells interface {
 	// Levels returns the K output values in increasing order and the K-1 interior cuts.
 	Levels() (levels, cuts []float64)
 }
-
-// ParamError reports a parameter outside its domain.
-type ParamError struct {
-	Field, Reason string
-}
-
-func (e *ParamError) Error() string { return "readout: " + e.Field + ": " + e.Reason }
 
 type linear struct{}
 
@@ -76,10 +69,10 @@ const MaxBits = 16
 // +-d/2, +-3d/2, ..., +-(rng - d/2), inputs beyond +-rng in the outer cells.
 func Quantize(bits int, rng float64) (Readout, error) {
 	if bits < 1 || bits > MaxBits {
-		return nil, &ParamError{"bits", fmt.Sprintf("must be a whole number from 1 to %d (got %d)", MaxBits, bits)}
+		return nil, param.Errorf("bits", "must be a whole number from 1 to %d (got %d)", MaxBits, bits)
 	}
 	if math.IsNaN(rng) || math.IsInf(rng, 0) || !(rng > 0) {
-		return nil, &ParamError{"range", fmt.Sprintf("must be a finite number > 0 (got %v)", rng)}
+		return nil, param.Errorf("range", "must be a finite number > 0 (got %v)", rng)
 	}
 	k := 1 << bits
 	d := 2 * rng / float64(k)

@@ -1,29 +1,19 @@
 package readout
 
 import (
-	"fmt"
+	"hdrisk/engine/param"
 	"maps"
 	"math"
 	"slices"
 	"strings"
 )
 
-// Param describes one parameter of a readout.
-type Param struct {
-	Name             string
-	Unit             string
-	Min, Max         float64
-	MinOpen, MaxOpen bool
-	Integer          bool
-	Help             string
-}
-
 // Kind describes one readout of the registry.
 type Kind struct {
 	Name   string // the scenario's readout.kind
 	Help   string
 	Labels bool // y takes finitely many values
-	Params []Param
+	Params []param.Param
 }
 
 var kinds = []struct {
@@ -34,14 +24,14 @@ var kinds = []struct {
 		func(map[string]float64) (Readout, error) { return Linear(), nil }},
 	{Kind{"sign", "y = sign(F x0 + w): a 1-bit converter or a noisy label", true, nil},
 		func(map[string]float64) (Readout, error) { return Sign(), nil }},
-	{Kind{"quantize", "y = F x0 + w rounded to 2^bits evenly spaced levels (uniform mid-rise quantizer)", true, []Param{
-		{Name: "bits", Unit: "bits", Min: 1, Max: MaxBits, Integer: true, Help: "resolution of the converter"},
-		{Name: "range", Unit: "units of y", Max: math.Inf(1), MinOpen: true, MaxOpen: true,
+	{Kind{"quantize", "y = F x0 + w rounded to 2^bits evenly spaced levels (uniform mid-rise quantizer)", true, []param.Param{
+		{Name: "bits", Label: "bits per measurement", Unit: "bits", Min: 1, Max: MaxBits, Help: "resolution of the converter"},
+		{Name: "range", Label: "quantizer range", Role: param.Scale, Unit: "units of y", Max: math.Inf(1), MinOpen: true, MaxOpen: true,
 			Help: "inputs beyond plus or minus range are clipped to the outer levels"}}},
 		func(v map[string]float64) (Readout, error) {
 			b := v["bits"]
 			if b != math.Trunc(b) {
-				return nil, &ParamError{"bits", fmt.Sprintf("must be a whole number (got %v)", b)}
+				return nil, param.Errorf("bits", "must be a whole number (got %v)", b)
 			}
 			return Quantize(int(b), v["range"])
 		}},
@@ -70,15 +60,15 @@ func New(kind string, params map[string]float64) (Readout, error) {
 		}
 		for _, p := range k.Params {
 			if _, ok := params[p.Name]; !ok {
-				return nil, &ParamError{p.Name, fmt.Sprintf("missing (readout %s needs it)", kind)}
+				return nil, param.Errorf(p.Name, "missing (readout %s needs it)", kind)
 			}
 		}
 		for _, name := range slices.Sorted(maps.Keys(params)) {
-			if !slices.ContainsFunc(k.Params, func(p Param) bool { return p.Name == name }) {
-				return nil, &ParamError{name, fmt.Sprintf("not a parameter of readout %s", kind)}
+			if !slices.ContainsFunc(k.Params, func(p param.Param) bool { return p.Name == name }) {
+				return nil, param.Errorf(name, "not a parameter of readout %s", kind)
 			}
 		}
 		return k.build(params)
 	}
-	return nil, &ParamError{"kind", fmt.Sprintf("unknown readout %q (known: %s)", kind, strings.Join(names, ", "))}
+	return nil, param.Errorf("kind", "unknown readout %q (known: %s)", kind, strings.Join(names, ", "))
 }
