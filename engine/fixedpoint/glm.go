@@ -1,6 +1,7 @@
 package fixedpoint
 
 import (
+	"errors"
 	"fmt"
 	"math"
 
@@ -96,7 +97,7 @@ func SolveGLM(p GLM, o Options) (GLMResult, error) {
 	if err == nil && r.Converged {
 		return r, nil
 	}
-	if s.zeroPen && p.Loss.Labels() {
+	if s.zeroPen && p.Loss.Labels() && errors.Is(err, errRunOff) {
 		return s.absent("the training labels are linearly separable (the iteration runs off to an estimate of unbounded norm): with the " + p.Loss.Name() + " loss and no penalty there is no finite minimizer"), nil
 	}
 	return r, err
@@ -218,8 +219,11 @@ func (s *glmSolver) run(st GLMState) (GLMResult, error) {
 	scale := s.rho2 + s.out.w2 + s.out.rhoz + 1
 	var r GLMResult
 	im, err := s.apply(st, math.NaN())
-	it := 1
-	for ; it <= s.o.MaxIter; it++ {
+	halfT1 := math.NaN()
+	for it := 1; it <= s.o.MaxIter; it++ {
+		if it == s.o.MaxIter/2 {
+			halfT1 = st.T1
+		}
 		if err != nil {
 			return r, err
 		}
@@ -230,6 +234,12 @@ func (s *glmSolver) run(st GLMState) (GLMResult, error) {
 		if im.res < s.o.Tol {
 			r.Converged = true
 			break
+		}
+		if im.res < newtonFrom {
+			if nst, nim, ok := s.newton(st, im); ok {
+				st, im = nst, nim
+				continue
+			}
 		}
 		if im.res > prevRes {
 			damp = math.Max(0.05, damp*0.5)
@@ -252,6 +262,10 @@ func (s *glmSolver) run(st GLMState) (GLMResult, error) {
 	}
 	if err != nil {
 		return r, err
+	}
+	if !r.Converged && st.T1 > 2*halfT1 {
+		// Still growing after half the iterations: the estimate's norm has no finite limit.
+		return r, errRunOff
 	}
 	return s.observe(st, im, r)
 }

@@ -62,7 +62,7 @@ var glmLegX, glmLegW = func() ([]float64, []float64) {
 	return x, w
 }()
 
-const hermiteNodes = 40
+const hermiteNodes = 24
 
 var hermX, hermW = func() ([]float64, []float64) {
 	x := make([]float64, hermiteNodes)
@@ -94,6 +94,9 @@ func gaussGrid(v float64, cuts []float64, width float64, sharp [][2]float64) (no
 			if c > lo && c < hi {
 				pts = append(pts, c)
 			}
+			continue
+		}
+		if s >= sd {
 			continue
 		}
 		for _, k := range [...]float64{0, 0.25, 0.5, 1, 2, 3, 4, 6, 8, 12} {

@@ -213,7 +213,7 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 			}
 		}
 	}
-	x, w := gaussGrid(vp, kinks, math.Sqrt(vp)/4, sharp)
+	x, w := gaussGrid(vp, kinks, math.Sqrt(vp), sharp)
 	py := make([]float64, len(o.levels))
 	zy := make([]float64, len(o.levels))
 	var az, dz, dd, dp, terr, tloss, mis float64
@@ -284,7 +284,7 @@ func (o *outSide) testError(q, c float64) float64 {
 		if res > 0 {
 			sharp = [][2]float64{{0, math.Sqrt(res) / math.Max(math.Abs(b), 1e-300)}}
 		}
-		x, w := gaussGrid(o.rhoz, []float64{0}, math.Sqrt(o.rhoz)/4, sharp)
+		x, w := gaussGrid(o.rhoz, []float64{0}, math.Sqrt(o.rhoz), sharp)
 		e := 0.0
 		for i, z := range x {
 			var pos float64

@@ -67,7 +67,7 @@ func overlap(l signal.Law, p penalty.Penalty, mu, g, t float64) float64 {
 		slices.Sort(cuts)
 		sum := 0.0
 		for i := 1; i < len(cuts); i++ {
-			n := int(math.Ceil((cuts[i] - cuts[i-1]) / (sd / 2)))
+			n := int(math.Ceil((cuts[i] - cuts[i-1]) / sd))
 			h := (cuts[i] - cuts[i-1]) / float64(n)
 			for j := range n {
 				left := cuts[i-1] + float64(j)*h
