@@ -270,9 +270,16 @@ func (s *glmSolver) run(st GLMState) (GLMResult, error) {
 	return s.observe(st, im, r)
 }
 
-// observe fills the observables at the last iterate st, whose image im was evaluated there.
+// observe fills the observables at the last iterate st, evaluating the map there once more
+// with the training observables.
 func (s *glmSolver) observe(st GLMState, im glmImage, r GLMResult) (GLMResult, error) {
 	p := s.p
+	s.out.train = true
+	im, err := s.apply(st, im.g)
+	s.out.train = false
+	if err != nil {
+		return GLMResult{}, err
+	}
 	m := im.m
 	r.Exists = true
 	r.Labels = p.Readout.Labels()

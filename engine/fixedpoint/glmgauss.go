@@ -75,13 +75,13 @@ var hermX, hermW = func() ([]float64, []float64) {
 	return x, w
 }()
 
-// gaussGrid returns the nodes and weights of E[f(P)], P ~ N(0, v), v > 0, over +-12
-// standard deviations: split at cuts (kinks of the integrand), with sub-intervals of at most
+// gaussGrid returns the nodes and weights of E[f(P)], P ~ N(0, v), v > 0, over +-10
+// standard deviations (the mass beyond is 1.5e-23): split at cuts (kinks of the integrand), with sub-intervals of at most
 // width, and around each of the sharp points (centre, scale) graded intervals of the given
 // scale, so that a step smoothed on that scale is integrated to rounding error.
 func gaussGrid(v float64, cuts []float64, width float64, sharp [][2]float64) (nodes, weights []float64) {
 	sd := math.Sqrt(v)
-	lo, hi := -12*sd, 12*sd
+	lo, hi := -10*sd, 10*sd
 	pts := []float64{lo, hi}
 	for _, c := range cuts {
 		if c > lo && c < hi {

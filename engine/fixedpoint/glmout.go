@@ -20,6 +20,8 @@ type outSide struct {
 	rhoz float64
 	// labels: the values of y, and for cell readouts the cuts between them
 	levels, cuts []float64
+	// train asks for the training observables too, which only the final evaluation needs
+	train bool
 }
 
 // outMoments are the output side's answers: the derivative Az = E[d zhat/dp], the truth
@@ -90,7 +92,9 @@ func (o *outSide) linear(g, tau float64) outMoments {
 		}
 		out.sigz += c.w * (c.vk + 2*c.vk*(az-c.a)/(1-az) + d/((1-az)*(1-az)))
 		out.trainErr += c.w * c.r2
-		out.trainLoss += c.w * o.residualLoss(pieces, c.s2)
+		if o.train {
+			out.trainLoss += c.w * o.residualLoss(pieces, c.s2)
+		}
 	}
 	out.sigz = math.Max(out.sigz, 0)
 	return out
@@ -194,6 +198,9 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 	var kinks []float64
 	for _, y := range o.levels {
 		kinks = append(kinks, o.ls.Kinks(y, g)...)
+		if !o.train {
+			continue
+		}
 		if r, ok := o.zeroCrossing(y, g, vp); ok {
 			kinks = append(kinks, r)
 		}
@@ -229,6 +236,9 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 			dz += w[i] * zy[j] * (zh - p)
 			dd += pw * (zh - p) * (zh - p)
 			dp += pw * (zh - p) * p
+			if !o.train {
+				continue
+			}
 			terr += pw * (y - zh) * (y - zh)
 			tloss += pw * o.ls.Value(y, zh)
 			if (zh >= 0) != (y >= 0) {
