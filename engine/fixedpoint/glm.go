@@ -127,13 +127,24 @@ func (s *glmSolver) absent(reason string) GLMResult {
 		Result: Result{Converged: true}}
 }
 
+// coldStart starts from the scale of the problem: the input side as in Solve, the backward
+// message of a readout with labels at the labels' own scale (the noise inside a sign says
+// nothing about the scale of y).
 func (s *glmSolver) coldStart() GLMState {
 	t := s.rho2 + s.out.w2
+	sz := s.out.w2 + 0.5*s.out.rhoz
+	if len(s.out.levels) > 0 {
+		y2 := 0.0
+		for _, y := range s.out.levels {
+			y2 += y * y / float64(len(s.out.levels))
+		}
+		t, sz = s.rho2, y2
+	}
 	g := s.p.Penalty.StartG(t)
 	if !(g > 0) || math.IsInf(g, 0) {
 		g = 1
 	}
-	return GLMState{G1: g, T1: t, G2Z: 1, SigZ: s.out.w2 + 0.5*s.out.rhoz, MuZ: 1}
+	return GLMState{G1: g, T1: t, G2Z: 1, SigZ: sz, MuZ: 1}
 }
 
 // glmImage is one evaluation of the update map.
@@ -263,8 +274,9 @@ func (s *glmSolver) run(st GLMState) (GLMResult, error) {
 	if err != nil {
 		return r, err
 	}
-	if !r.Converged && st.T1 > 2*halfT1 {
-		// Still growing after half the iterations: the estimate's norm has no finite limit.
+	if !r.Converged && st.T1 > 1.2*halfT1 {
+		// Still growing by a fifth over the second half of the iterations: the estimate's norm
+		// has no finite limit.
 		return r, errRunOff
 	}
 	return s.observe(st, im, r)
