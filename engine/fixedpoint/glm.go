@@ -29,11 +29,10 @@ type GLM struct {
 // side's backward message p2 = MuZ z0 + N(0, SigZ) at precision G2Z.
 type GLMState struct{ G1, T1, G2Z, SigZ, MuZ float64 }
 
-// GLMResult adds the observables of a generalized linear model to Result (method.md
-// section 10). When Exists is false there is no unique finite minimizer, ExistsReason says
-// why, and no error figure is set.
-type GLMResult struct {
-	Result
+// GLMObservables are the observables of a generalized linear model beyond Result's
+// (method.md section 10). When Exists is false there is no unique finite minimizer,
+// ExistsReason says why, and the Result carries no error figure.
+type GLMObservables struct {
 	Exists       bool
 	ExistsReason string
 	Cosine       float64 // lim <xhat, x0> / (|xhat| |x0|)
@@ -57,16 +56,16 @@ type GLMResult struct {
 // a label loss and a zero penalty, an iteration that runs off means separable labels, and
 // Exists is false; with a zero penalty and fewer measurements than unknowns (F^T F singular)
 // there is no unique minimizer and Exists is false.
-func SolveGLM(p GLM, o Options) (GLMResult, error) {
+func SolveGLM(p GLM, o Options) (Result, error) {
 	if p.Design == nil || p.Signal == nil || p.Penalty == nil || p.Readout == nil || p.Loss == nil {
-		return GLMResult{}, fmt.Errorf("%w: design, signal, penalty, readout and loss are all needed", ErrInput)
+		return Result{}, fmt.Errorf("%w: design, signal, penalty, readout and loss are all needed", ErrInput)
 	}
 	rho2 := p.Signal.Second()
 	if !(rho2 > 0) || math.IsInf(rho2, 0) {
-		return GLMResult{}, fmt.Errorf("%w: the signal has no power (E[x0^2] = %v), so the normalized error is undefined", ErrInput, rho2)
+		return Result{}, fmt.Errorf("%w: the signal has no power (E[x0^2] = %v), so the normalized error is undefined", ErrInput, rho2)
 	}
 	if p.Loss.Labels() && p.Readout.Name() != "sign" && p.Readout.Name() != "logistic" {
-		return GLMResult{}, fmt.Errorf("%w: loss %s needs labels +-1, which readout %s does not give (use sign or logistic)", ErrInput, p.Loss.Name(), p.Readout.Name())
+		return Result{}, fmt.Errorf("%w: loss %s needs labels +-1, which readout %s does not give (use sign or logistic)", ErrInput, p.Loss.Name(), p.Readout.Name())
 	}
 	nz := []noise.Component{{Weight: 1, Var: 0}}
 	w2 := 0.0
@@ -75,7 +74,7 @@ func SolveGLM(p GLM, o Options) (GLMResult, error) {
 		w2 = p.Noise.Second()
 	}
 	if p.Readout.Name() == "logistic" && w2 != 0 {
-		return GLMResult{}, fmt.Errorf("%w: the logistic readout draws its own label noise; leave the noise out or give it variance 0", ErrInput)
+		return Result{}, fmt.Errorf("%w: the logistic readout draws its own label noise; leave the noise out or give it variance 0", ErrInput)
 	}
 	if o.Tol <= 0 {
 		o.Tol = 1e-10
@@ -122,9 +121,8 @@ type glmSolver struct {
 	zeroPen bool
 }
 
-func (s *glmSolver) absent(reason string) GLMResult {
-	return GLMResult{Exists: false, ExistsReason: reason, Labels: s.p.Readout.Labels(),
-		Result: Result{Converged: true}}
+func (s *glmSolver) absent(reason string) Result {
+	return Result{Converged: true, GLM: &GLMObservables{Exists: false, ExistsReason: reason, Labels: s.p.Readout.Labels()}}
 }
 
 // coldStart starts from the scale of the problem: the input side as in Solve, the backward
@@ -224,11 +222,11 @@ func relChange(a, b float64) float64 {
 	return math.Abs(a-b) / math.Max(math.Abs(b), 1e-300)
 }
 
-func (s *glmSolver) run(st GLMState) (GLMResult, error) {
+func (s *glmSolver) run(st GLMState) (Result, error) {
 	damp := 0.5
 	prevRes := math.Inf(1)
 	scale := s.rho2 + s.out.w2 + s.out.rhoz + 1
-	var r GLMResult
+	var r Result
 	im, err := s.apply(st, math.NaN())
 	halfT1 := math.NaN()
 	for it := 1; it <= s.o.MaxIter; it++ {
@@ -241,7 +239,7 @@ func (s *glmSolver) run(st GLMState) (GLMResult, error) {
 		if im.m.A < zeroA {
 			return s.zeroResult(it, st, im), nil
 		}
-		r.Result = Result{Iterations: it, Residual: im.res}
+		r = Result{Iterations: it, Residual: im.res}
 		if im.res < s.o.Tol {
 			r.Converged = true
 			break
@@ -284,64 +282,63 @@ func (s *glmSolver) run(st GLMState) (GLMResult, error) {
 
 // observe fills the observables at the last iterate st, evaluating the map there once more
 // with the training observables.
-func (s *glmSolver) observe(st GLMState, im glmImage, r GLMResult) (GLMResult, error) {
+func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) {
 	p := s.p
 	s.out.train = true
 	im, err := s.apply(st, im.g)
 	s.out.train = false
 	if err != nil {
-		return GLMResult{}, err
+		return Result{}, err
 	}
 	m := im.m
-	r.Exists = true
-	r.Labels = p.Readout.Labels()
-	r.State = st
+	r.GLM = &GLMObservables{Exists: true, Labels: p.Readout.Labels()}
+	r.GLM.State = st
 	r.G1, r.T1, r.G2 = st.G1, st.T1, im.g*st.G2Z
 	r.Susceptibility = m.A / st.G1
 	ov := im.ov
-	if !r.Labels {
+	if !r.GLM.Labels {
 		ov = overlap(p.Signal, p.Penalty, st.MuZ, st.G1, st.T1)
 	}
 	mu := st.MuZ
 	// m.MSE is E[(xhat - mu x0)^2]; xhat - x0 = (xhat - mu x0) + (mu - 1) x0.
 	r.MSE = m.MSE + 2*(mu-1)*ov + (mu-1)*(mu-1)*s.rho2
-	if !r.Labels {
+	if !r.GLM.Labels {
 		r.MSE = m.MSE
 	}
 	r.MSE = math.Max(r.MSE, 0)
 	q := math.Max(m.MSE+2*mu*ov+mu*mu*s.rho2, 0) // E[xhat^2]
 	c := ov + mu*s.rho2                          // E[xhat x0]
 	if q > 0 {
-		r.Cosine = c / math.Sqrt(q*s.rho2)
+		r.GLM.Cosine = c / math.Sqrt(q*s.rho2)
 	}
-	r.NormRatio = math.Sqrt(q / s.rho2)
-	fill(&r.Result, m, s.rho2)
+	r.GLM.NormRatio = math.Sqrt(q / s.rho2)
+	fill(&r, m, s.rho2)
 	r.TrainError = im.om.trainErr
-	r.TrainLoss = im.om.trainLoss
-	if r.Labels {
-		r.TrainMisfit = im.om.misfit
+	r.GLM.TrainLoss = im.om.trainLoss
+	if r.GLM.Labels {
+		r.GLM.TrainMisfit = im.om.misfit
 		k := p.Design.Mean() / p.Design.Alpha()
-		r.TestError = s.out.testError(k*q, k*c)
+		r.GLM.TestError = s.out.testError(k*q, k*c)
 	}
-	if !finiteAll(r.MSE, r.TrainError, r.TrainLoss, r.Cosine, r.NormRatio, r.TestError) {
-		return GLMResult{}, errRunOff
+	if !finiteAll(r.MSE, r.TrainError, r.GLM.TrainLoss, r.GLM.Cosine, r.GLM.NormRatio, r.GLM.TestError) {
+		return Result{}, errRunOff
 	}
 	return r, nil
 }
 
-func (s *glmSolver) zeroResult(it int, st GLMState, im glmImage) GLMResult {
-	r := GLMResult{Exists: true, Labels: s.p.Readout.Labels(), State: st}
-	r.Result = Result{G1: st.G1, T1: st.T1, Iterations: it, Converged: true, EstimateZero: true, MSE: s.rho2}
-	fill(&r.Result, signal.Moments{MSE: s.rho2, Active: im.m.Active}, s.rho2)
-	r.NormRatio = 0
-	if r.Labels {
-		r.TestError = 0.5
-		r.TrainMisfit = math.NaN()
+func (s *glmSolver) zeroResult(it int, st GLMState, im glmImage) Result {
+	r := Result{G1: st.G1, T1: st.T1, Iterations: it, Converged: true, EstimateZero: true, MSE: s.rho2,
+		GLM: &GLMObservables{Exists: true, Labels: s.p.Readout.Labels(), State: st}}
+	fill(&r, signal.Moments{MSE: s.rho2, Active: im.m.Active}, s.rho2)
+	r.GLM.NormRatio = 0
+	if r.GLM.Labels {
+		r.GLM.TestError = 0.5
+		r.GLM.TrainMisfit = math.NaN()
 	}
 	om := s.out.trainAtZero()
-	r.TrainError, r.TrainLoss = om.trainErr, om.trainLoss
-	if r.Labels {
-		r.TrainMisfit = om.misfit
+	r.TrainError, r.GLM.TrainLoss = om.trainErr, om.trainLoss
+	if r.GLM.Labels {
+		r.GLM.TrainMisfit = om.misfit
 	}
 	return r
 }

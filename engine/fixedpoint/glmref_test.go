@@ -56,12 +56,12 @@ func TestLogisticMLEBiasAndVariance(t *testing.T) {
 	for _, c := range loadGLMRefs(t).SurCandes {
 		p := logisticMLE(c.Kappa, c.Gamma2)
 		r, err := SolveGLM(p, Options{})
-		if err != nil || !r.Converged || !r.Exists {
-			t.Fatalf("kappa %g gamma2 %g: %v converged %v exists %v (%s)", c.Kappa, c.Gamma2, err, r.Converged, r.Exists, r.ExistsReason)
+		if err != nil || !r.Converged || !r.GLM.Exists {
+			t.Fatalf("kappa %g gamma2 %g: %v converged %v exists %v (%s)", c.Kappa, c.Gamma2, err, r.Converged, r.GLM.Exists, r.GLM.ExistsReason)
 		}
 		rho2 := p.Signal.Second()
-		q := r.NormRatio * r.NormRatio * rho2
-		cx := r.Cosine * math.Sqrt(q*rho2)
+		q := r.GLM.NormRatio * r.GLM.NormRatio * rho2
+		cx := r.GLM.Cosine * math.Sqrt(q*rho2)
 		alpha := cx / rho2
 		sigma := math.Sqrt(q - cx*cx/rho2)
 		if d := relDiff(alpha, c.Alpha); d > 1e-6 {
@@ -92,8 +92,8 @@ func TestLogisticMLEExistenceBoundary(t *testing.T) {
 			if err != nil {
 				t.Fatalf("gamma %g kappa %g: %v", c.Gamma, kappa, err)
 			}
-			if want := f < 1; r.Exists != want {
-				t.Errorf("gamma %g kappa %g (boundary h = %g): exists %v, want %v (%s)", c.Gamma, kappa, c.H, r.Exists, want, r.ExistsReason)
+			if want := f < 1; r.GLM.Exists != want {
+				t.Errorf("gamma %g kappa %g (boundary h = %g): exists %v, want %v (%s)", c.Gamma, kappa, c.H, r.GLM.Exists, want, r.GLM.ExistsReason)
 			}
 		}
 	}
@@ -109,8 +109,8 @@ func TestPerceptronCapacity(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if want := alpha > 2; r.Exists != want {
-			t.Errorf("m/n = %g: exists %v, want %v (%s)", alpha, r.Exists, want, r.ExistsReason)
+		if want := alpha > 2; r.GLM.Exists != want {
+			t.Errorf("m/n = %g: exists %v, want %v (%s)", alpha, r.GLM.Exists, want, r.GLM.ExistsReason)
 		}
 	}
 }
@@ -130,8 +130,8 @@ func TestHuberRegressionVariance(t *testing.T) {
 		}
 		r, err := SolveGLM(GLM{Design: must(design.Gaussian(1/c.Kappa, design.Rows)), Signal: must(signal.BernoulliGauss(0.3, 2)),
 			Penalty: must(penalty.Ridge(0)), Noise: w, Readout: readout.Linear(), Loss: must(loss.Huber(c.Width))}, Options{Tol: 1e-12})
-		if err != nil || !r.Converged || !r.Exists {
-			t.Fatalf("kappa %g: %v converged %v exists %v", c.Kappa, err, r.Converged, r.Exists)
+		if err != nil || !r.Converged || !r.GLM.Exists {
+			t.Fatalf("kappa %g: %v converged %v exists %v", c.Kappa, err, r.Converged, r.GLM.Exists)
 		}
 		if d := relDiff(r.MSE, c.R2); d > 1e-8 {
 			t.Errorf("kappa %g width %g noise %v: MSE %.12g, El Karoui et al. r^2 %.12g (rel %.2g)", c.Kappa, c.Width, c.Noise, r.MSE, c.R2, d)
