@@ -93,7 +93,7 @@ func TestGLMTrialsMatchPrediction(t *testing.T) {
 			cos += tr.Cosine / trials
 		}
 		sem := math.Sqrt(math.Max(mse2-mse*mse, 0) / (trials - 1))
-		t.Logf("%s: predicted MSE %.4g cosine %.4g; trials %.4g +- %.2g, cosine %.4g", c.name, pred.MSE, pred.GLM.Cosine, mse, sem, cos)
+		t.Logf("%s: predicted MSE %.4g cosine %.4g; trials %.4g +- %.2g, cosine %.4g", c.name, pred.MSE, pred.Cosine, mse, sem, cos)
 		if math.Abs(pred.MSE-mse) > 4*sem+0.05*pred.MSE {
 			t.Errorf("%s: predicted MSE %.4g, trials %.4g +- %.2g", c.name, pred.MSE, mse, sem)
 		}
