@@ -46,6 +46,7 @@ type Kind struct {
 type Group struct {
 	Name    string  // JSON object name
 	Title   string  // heading on the page
+	Object  string  // JSON object of the group's numbers when it is not Name ("noise" for the noise law)
 	KindKey string  // JSON key naming the kind ("shape", "law", "kind"); empty if none is written
 	Menu    string  // label of the group's menu; empty if the group has none
 	Kinds   []Kind  // menu; empty if the group has no kinds
@@ -235,7 +236,7 @@ func buildGroups() []Group {
 		}
 		pen.Kinds = append(pen.Kinds, k)
 	}
-	return []Group{d, x, n, pen}
+	return append([]Group{d, x, n, noiseLawGroup(), pen}, glmGroups()...)
 }
 
 // Range states the domain of p in words, e.g. "in (0, 1]", "≥ 0", "each > 0, at most 100000
@@ -366,6 +367,7 @@ func (m *Model) SetKind(g, kind string) error {
 		return fmt.Errorf("%s.%s: unknown choice %q", g, key, kind)
 	}
 	m.kinds[g] = kind
+	pairLabels(m.kinds, g)
 	return nil
 }
 
@@ -391,6 +393,9 @@ type Field struct {
 
 // Fields returns the inputs of group g for its chosen kind: the common ones first.
 func (m *Model) Fields(g string) []Field {
+	if noiseless(m.kinds, g) {
+		return nil
+	}
 	grp, _ := FindGroup(g)
 	var out []Field
 	add := func(kind string, p Param) {
@@ -403,7 +408,11 @@ func (m *Model) Fields(g string) []Field {
 		if kind != "" && grp.KindKey != "" {
 			id = "in-" + g + "-" + kind + "-" + p.Name
 		}
-		out = append(out, Field{ID: id, Path: g + "." + p.Name, Text: text, Param: p, key: key})
+		obj := g
+		if grp.Object != "" {
+			obj = grp.Object
+		}
+		out = append(out, Field{ID: id, Path: obj + "." + p.Name, Text: text, Param: p, key: key})
 	}
 	for _, p := range grp.Common {
 		add("", p)
@@ -437,7 +446,10 @@ func (m *Model) Load(s scenario.Scenario) error {
 	if s.Noise.SNR {
 		noise = "snr_db"
 	}
-	kinds := map[string]string{"design": s.Design.Shape, "signal": s.Signal.Law, "noise": noise, "penalty": s.Penalty.Kind}
+	kinds := glmKinds(s)
+	for g, k := range map[string]string{"design": s.Design.Shape, "signal": s.Signal.Law, "noise": noise, "penalty": s.Penalty.Kind} {
+		kinds[g] = k
+	}
 	for g, k := range kinds {
 		grp, _ := FindGroup(g)
 		if _, ok := grp.kind(k); !ok {
@@ -459,6 +471,9 @@ func (m *Model) Load(s scenario.Scenario) error {
 	}
 	params := map[string]map[string]float64{"design": s.Design.Params, "signal": s.Signal.Params, "penalty": s.Penalty.Params,
 		"noise": {"variance": s.Noise.Variance, "snr_db": s.Noise.SNRdB}}
+	for g, p := range glmParams(s) {
+		params[g] = p
+	}
 	lists := map[string]map[string][]float64{"design": s.Design.Lists, "signal": s.Signal.Lists}
 	params["design"] = mergeAlpha(s.Design.Params, s.Design.Alpha)
 	for _, g := range Groups {
@@ -508,6 +523,7 @@ func (m *Model) Check() Checked {
 		Design:  scenario.Design{Shape: m.kinds["design"], Scale: m.Scale},
 		Signal:  scenario.Signal{Law: m.kinds["signal"]},
 		Penalty: scenario.Penalty{Kind: m.kinds["penalty"]}}
+	setGLMChoices(&s, m.kinds)
 	var first error
 	for _, g := range Groups {
 		for _, f := range m.Fields(g.Name) {
@@ -595,15 +611,17 @@ func setValue(s *scenario.Scenario, group, name string, num float64, list []floa
 		s.Signal.Params[name] = num
 	case "noise":
 		if name == "snr_db" {
-			s.Noise = scenario.Noise{SNRdB: num, SNR: true}
+			s.Noise = scenario.Noise{SNRdB: num, SNR: true, Law: s.Noise.Law}
 		} else {
-			s.Noise = scenario.Noise{Variance: num}
+			s.Noise = scenario.Noise{Variance: num, Law: s.Noise.Law}
 		}
 	case "penalty":
 		if s.Penalty.Params == nil {
 			s.Penalty.Params = map[string]float64{}
 		}
 		s.Penalty.Params[name] = num
+	default:
+		setGLMValue(s, group, name, num)
 	}
 }
 
