@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"hdrisk/engine/design"
+	"hdrisk/engine/param"
 	"hdrisk/engine/penalty"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/signal"
@@ -17,7 +18,7 @@ import (
 // Every menu choice, with its default inputs, must make a scenario the engine accepts: the
 // page's menus and contract 1 must not drift apart.
 func TestEveryChoiceDecodes(t *testing.T) {
-	for _, g := range Groups {
+	for _, g := range Groups() {
 		kinds := g.Kinds
 		if len(kinds) == 0 {
 			kinds = []Kind{{}}
@@ -256,37 +257,18 @@ func TestEveryRegistryKindInMenus(t *testing.T) {
 // A parameter the page has no words for still gets a label and a starting value inside its
 // domain.
 func TestFallbacksForUnknownParameters(t *testing.T) {
-	for _, p := range []Param{
+	for _, p := range []param.Param{
 		{Name: "a", Min: 0, Max: math.Inf(1), MaxOpen: true},
 		{Name: "b", Min: 2, MinOpen: true, Max: math.Inf(1), MaxOpen: true},
 		{Name: "c", Min: 1, MinOpen: true, Max: 2},
 		{Name: "d", Min: math.Inf(-1), Max: -5},
 		{Name: "e", Min: 0, Max: 1, MaxOpen: true},
-		{Name: "f", Min: 0, Max: 10, Optional: true, def: 3},
+		{Name: "f", Min: 0, Max: 10, Optional: true, Default: 3},
 	} {
 		q := newParam("penalty", "invented-kind", p)
 		v, err := strconv.ParseFloat(q.Default, 64)
-		if err != nil || !q.inDomain(v) || q.Label != p.Name {
-			t.Errorf("%s: default %q (in domain: %v), label %q", p.Name, q.Default, err == nil && q.inDomain(v), q.Label)
-		}
-	}
-}
-
-func TestRangeText(t *testing.T) {
-	cases := []struct {
-		p    Param
-		want string
-	}{
-		{Param{Min: 0, Max: 1, MinOpen: true}, "in (0, 1]"},
-		{Param{Min: 0, Max: math.Inf(1), MaxOpen: true}, "≥ 0"},
-		{Param{Min: 2, MinOpen: true, Max: math.Inf(1), MaxOpen: true}, "> 2"},
-		{Param{Min: math.Inf(-1), Max: math.Inf(1), MinOpen: true, MaxOpen: true}, "any number"},
-		{Param{Min: -100, Max: 200}, "in [-100, 200]"},
-		{Param{Min: 0, Max: 1, List: true, MaxLen: 1000}, "each in [0, 1], at most 1000 numbers"},
-	}
-	for _, c := range cases {
-		if got := c.p.Range(); got != c.want {
-			t.Errorf("Range(%+v) = %q, want %q", c.p, got, c.want)
+		if err != nil || !q.Contains(v) || q.Label != p.Name {
+			t.Errorf("%s: default %q (in domain: %v), label %q", p.Name, q.Default, err == nil && q.Contains(v), q.Label)
 		}
 	}
 }

@@ -210,7 +210,7 @@ func (s Scenario) validateStudy() error {
 		if math.IsNaN(p.TargetDB) || p.TargetDB < MinTargetDB || p.TargetDB > MaxTargetDB {
 			return fieldErr("study.plan.target_db", "must be in [%s, %s] dB, not %s", num(MinTargetDB), num(MaxTargetDB), num(p.TargetDB))
 		}
-		if err := alphaParam.Check("study.plan.alpha_max", p.AlphaMax); err != nil {
+		if err := AlphaParam.Check("study.plan.alpha_max", p.AlphaMax); err != nil {
 			return err
 		}
 	}
