@@ -31,6 +31,7 @@ type evalResult struct {
 func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("eval", flag.ContinueOnError)
 	solver := solverFlags(fs)
+	set := setFlag(fs)
 	name, err := onePositional(fs, args, "scenario file")
 	if err != nil {
 		return err
@@ -41,6 +42,9 @@ func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	}
 	s, err := readScenario(name, stdin)
 	if err != nil {
+		return err
+	}
+	if s, err = set(s); err != nil {
 		return err
 	}
 	p, err := s.Problem()
