@@ -93,31 +93,31 @@ func (n node) write(b *bytes.Buffer, indent string, pretty bool) {
 // written as encoding/json writes them, so Decode reads back exactly the same scenario.
 // An invalid s gives its *FieldError and no output.
 func (s Scenario) Encode() ([]byte, error) {
-	n, err := s.tree()
-	if err != nil {
+	if err := s.Validate(); err != nil {
 		return nil, err
 	}
+	return s.pretty(), nil
+}
+
+// Encode is Scenario.Encode without checking the scenario again.
+func (c Checked) Encode() []byte { return c.s.pretty() }
+
+func (s Scenario) pretty() []byte {
 	var b bytes.Buffer
-	n.write(&b, "", true)
+	s.tree().write(&b, "", true)
 	b.WriteByte('\n')
-	return b.Bytes(), nil
+	return b.Bytes()
 }
 
 // compact is the canonical form without any space: the text inside a share link.
-func (s Scenario) compact() ([]byte, error) {
-	n, err := s.tree()
-	if err != nil {
-		return nil, err
-	}
+func (s Scenario) compact() []byte {
 	var b bytes.Buffer
-	n.write(&b, "", false)
-	return b.Bytes(), nil
+	s.tree().write(&b, "", false)
+	return b.Bytes()
 }
 
-func (s Scenario) tree() (node, error) {
-	if err := s.Validate(); err != nil {
-		return node{}, err
-	}
+// tree is the canonical form of a valid s.
+func (s Scenario) tree() node {
 	t := obj()
 	t.set("kind", str(s.Kind))
 	t.set("version", integer(int64(s.Version)))
@@ -149,7 +149,7 @@ func (s Scenario) tree() (node, error) {
 	if s.Study != nil {
 		t.set("study", s.Study.tree())
 	}
-	return t, nil
+	return t
 }
 
 func addParams(n *node, f *family, kind string, params map[string]float64, lists map[string][]float64) {
