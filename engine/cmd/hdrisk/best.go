@@ -44,16 +44,8 @@ func runBest(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	lo := fs.Float64("lo", 0, "lower end of the search (0: 1e-8)")
 	hi := fs.Float64("hi", 0, "upper end of the search (0: 1e4)")
 	bayes := fs.Bool("bayes", false, "add the Bayes-optimal error (Gaussian-mixture signals)")
-	set := setFlag(fs)
-	name, err := onePositional(fs, args, "scenario file")
+	s, err := scenarioArg(fs, args, stdin)
 	if err != nil {
-		return err
-	}
-	s, err := readScenario(name, stdin)
-	if err != nil {
-		return err
-	}
-	if s, err = set(s); err != nil {
 		return err
 	}
 	if st := s.Study; st != nil && st.Best != nil {

@@ -42,12 +42,28 @@ func readScenario(name string, stdin io.Reader) (scenario.Scenario, error) {
 	return s, nil
 }
 
+// scenarioArg declares --set on fs, parses args for exactly one scenario file ("-" is
+// standard input), reads it and applies the --set values: the start of every command that
+// works on one scenario.
+func scenarioArg(fs *flag.FlagSet, args []string, stdin io.Reader) (scenario.Scenario, error) {
+	set := setFlag(fs)
+	name, err := onePositional(fs, args, "scenario file")
+	if err != nil {
+		return scenario.Scenario{}, err
+	}
+	s, err := readScenario(name, stdin)
+	if err != nil {
+		return s, err
+	}
+	return set(s)
+}
+
 // setFlag declares --set OBJECT.NAME=VALUE (repeatable), which sets numbers of the scenario
 // before a command uses it; the returned function applies them in order, each checked as
 // the scenario file would be (the names and ranges come from the registries; see kinds).
 func setFlag(fs *flag.FlagSet) func(scenario.Scenario) (scenario.Scenario, error) {
 	var sets []string
-	fs.Func("set", "set a number of the scenario, as PATH=VALUE (penalty.l1=0.1, alpha=0.5; repeatable; hdrisk kinds lists them)", func(v string) error {
+	fs.Func("set", "set a number of the scenario before the command runs, as PATH=VALUE (penalty.l1=0.1, alpha=0.5; repeatable; hdrisk kinds lists them)", func(v string) error {
 		sets = append(sets, v)
 		return nil
 	})

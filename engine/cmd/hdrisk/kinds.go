@@ -38,7 +38,7 @@ func runKinds(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	for _, k := range penalty.Kinds() {
 		kind(&b, k.Name, k.Help, k.Params)
 	}
-	b.WriteString("\nA number is set from the command line with --set OBJECT.NAME=VALUE (eval, best);\n")
+	b.WriteString("\nA number is set from the command line with --set OBJECT.NAME=VALUE (eval, best, plan, link);\n")
 	b.WriteString("studies name it as sweep --over and best --over do (NAME alone when it is unique).\n")
 	_, err := io.WriteString(stdout, b.String())
 	return err
