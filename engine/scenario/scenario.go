@@ -2,7 +2,6 @@ package scenario
 
 import (
 	"fmt"
-	"math"
 	"slices"
 	"strconv"
 	"strings"
@@ -312,20 +311,14 @@ func sortedKeys[V any](m map[string]V) []string {
 
 func (s Scenario) validateNoise() error {
 	n := s.Noise
+	if n.SNR && n.Variance != 0 || !n.SNR && n.SNRdB != 0 {
+		return fieldErr("noise", "give variance or snr_db, not both")
+	}
 	if n.SNR {
-		if n.Variance != 0 {
-			return fieldErr("noise", "give variance or snr_db, not both")
-		}
-		if math.IsNaN(n.SNRdB) || n.SNRdB < MinSNRdB || n.SNRdB > MaxSNRdB {
-			return fieldErr("noise.snr_db", "must be in [%s, %s] dB, not %s", num(MinSNRdB), num(MaxSNRdB), num(n.SNRdB))
+		if !SNRParam.Contains(n.SNRdB) {
+			return fieldErr("noise.snr_db", "must be in %s dB, not %s", SNRParam.Interval(), num(n.SNRdB))
 		}
 		return nil
 	}
-	if n.SNRdB != 0 {
-		return fieldErr("noise", "give variance or snr_db, not both")
-	}
-	if math.IsNaN(n.Variance) || n.Variance < 0 || n.Variance > MaxNoiseVar {
-		return fieldErr("noise.variance", "must be in [0, %s], not %s", num(MaxNoiseVar), num(n.Variance))
-	}
-	return nil
+	return NoiseParam.Check("noise.variance", n.Variance)
 }
