@@ -426,6 +426,9 @@ type Checked struct {
 	Scenario scenario.Scenario  // valid only when Err is nil
 	JSON     []byte             // contract-1 file of Scenario
 	Problem  fixedpoint.Problem // its laws, built by the engine
+	// Engine is the scenario as the engine checked it, once: studies take it
+	// (study.SweepChecked, ...) and links are written from it without checking again.
+	Engine scenario.Checked
 	// Invalid maps the id of every input that cannot be accepted to a message naming its
 	// field and the reason, e.g. "penalty.l1: -1 is out of range: must be ≥ 0".
 	Invalid map[string]string
@@ -461,7 +464,7 @@ func (m *Model) Check() Checked {
 		return c
 	}
 	s.Study = fitStudy(s) // a study run earlier must not invalidate an edited scenario
-	p, err := s.Problem()
+	sc, err := s.Check()
 	if err != nil {
 		var fe *scenario.FieldError
 		if errors.As(err, &fe) {
@@ -472,12 +475,7 @@ func (m *Model) Check() Checked {
 		c.Err = err
 		return c
 	}
-	data, err := s.Encode()
-	if err != nil {
-		c.Err = err
-		return c
-	}
-	c.Scenario, c.JSON, c.Problem = s, data, p
+	c.Scenario, c.JSON, c.Problem, c.Engine = s, sc.Encode(), sc.Problem(), sc
 	return c
 }
 
