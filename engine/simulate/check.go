@@ -66,6 +66,12 @@ type Options struct {
 	Factors  Factors // how U and V are drawn (see DesignDraw.GaussianEntries for Gaussian designs)
 	Rounds   int     // rounds of fast factors; 0 means DefaultRounds
 	Spectrum Spectrum
+	// First is the index of the first trial: trial t of this run draws from PCG(Seed, First+t),
+	// so that trials split over several runs give the numbers of one run.
+	First int
+	// Matrix, when set, is the user's own design, held fixed in every trial (method.md
+	// section 8): see CheckMatrix's rules in Check.
+	Matrix *Matrix
 }
 
 // Stat is a mean over trials with its standard error (0 with one trial).
@@ -81,6 +87,7 @@ type Trial struct {
 	Converged  bool
 	Residual   float64 // the solver's stopping criterion at the end
 	Seconds    float64 // drawing and solving
+	criterion  string
 }
 
 // TracePoint is VAMP's error after one iteration, averaged over trials, beside the state
@@ -113,6 +120,9 @@ type Report struct {
 	NotConverged int
 	Trace        []TracePoint // VAMP only
 	Seconds      float64
+	// Comparison is set for a check with a fixed matrix: the trials with the matrix beside
+	// trials with random rotations of its spectrum.
+	Comparison *Comparison
 }
 
 // Warnings returns one plain sentence per trial whose solver did not converge.
@@ -139,6 +149,15 @@ func Check(ctx context.Context, p Problem, o Options, progress func(done, total 
 	start := time.Now()
 	if p.Design == nil || p.Signal == nil || p.Penalty == nil {
 		return Report{}, paramErr("problem", "missing design, signal or penalty")
+	}
+	if o.First < 0 || o.First > MaxTrials {
+		return Report{}, paramErr("first", "%d is outside 0..%d", o.First, MaxTrials)
+	}
+	if o.Matrix != nil {
+		if err := matrixShape(p.Design, o.Matrix); err != nil {
+			return Report{}, err
+		}
+		o.N = o.Matrix.Cols
 	}
 	if o.Trials < 1 || o.Trials > MaxTrials {
 		return Report{}, paramErr("trials", "%d is outside 1..%d (the cap)", o.Trials, MaxTrials)
@@ -169,80 +188,103 @@ func Check(ctx context.Context, p Problem, o Options, progress func(done, total 
 	if draw.Entries(o.N) {
 		rep.Factors = "entries"
 	}
+	if o.Matrix != nil {
+		return checkMatrix(ctx, p, o, draw, rep, l1, l2, so, pred, progress, start)
+	}
 	var traces [][]float64
 	for t := 0; t < o.Trials; t++ {
 		if err := ctx.Err(); err != nil {
 			return Report{}, err
 		}
 		t0 := time.Now()
-		rng := rand.New(rand.NewPCG(o.Seed, uint64(t)))
+		rng := rand.New(rand.NewPCG(o.Seed, uint64(o.First+t)))
 		inst, err := Draw(rng, draw, p.Signal, p.Noise, o.N)
 		if err != nil {
 			return Report{}, err
 		}
-		var sol Solution
-		switch o.Solver {
-		case SolverCD:
-			a, err := inst.dense()
-			if err != nil {
-				return Report{}, err
-			}
-			sol, err = CoordinateDescent(ctx, a, inst.Y, l1, l2, nil, so)
-			if err != nil {
-				return Report{}, err
-			}
-		case SolverProx:
-			var op Operator = inst.Dense
-			lip := 0.0
-			if inst.SVD != nil {
-				op = inst.SVD
-				for _, s := range inst.SVD.S {
-					lip = math.Max(lip, s*s)
-				}
-			}
-			sol, err = ProxGradient(ctx, op, inst.Y, p.Penalty, lip, nil, so)
-			if err != nil {
-				return Report{}, err
-			}
-		case SolverVAMP:
-			f, err := inst.svd()
-			if err != nil {
-				return Report{}, err
-			}
-			vr, err := VAMP(ctx, f, inst.Y, p.Penalty, VAMPOptions{SolverOptions: so, Gamma2: startGamma2(pred), Truth: inst.X0})
-			if err != nil {
-				return Report{}, err
-			}
-			sol = vr.Solution
-			traces = append(traces, vr.Errors)
-		}
-		if err := ctx.Err(); err != nil {
+		tr, trace, err := solveTrial(ctx, inst, p, o.Solver, l1, l2, so, pred)
+		if err != nil {
 			return Report{}, err
 		}
-		tr := score(inst.X0, sol.X)
-		tr.Iterations, tr.Converged, tr.Residual = sol.Iterations, sol.Converged, sol.Residual
 		tr.Seconds = time.Since(t0).Seconds()
-		rep.Criterion = sol.Criterion
-		rep.PerTrial = append(rep.PerTrial, tr)
-		if !sol.Converged {
-			rep.NotConverged++
+		rep.add(tr)
+		if trace != nil {
+			traces = append(traces, trace)
 		}
 		if progress != nil {
 			progress(t+1, o.Trials)
 		}
 	}
-	mse, nz, tpp, fdp := make([]float64, o.Trials), make([]float64, o.Trials), make([]float64, o.Trials), make([]float64, o.Trials)
-	for i, tr := range rep.PerTrial {
-		mse[i], nz[i], tpp[i], fdp[i] = tr.MSE, tr.NonZero, tr.TPP, tr.FDP
-	}
-	ms := stat(mse)
-	rep.MeanMSE, rep.StdErr = ms.Mean, ms.StdErr
-	rep.NonZero, rep.TPP, rep.FDP = stat(nz), stat(tpp), stat(fdp)
+	rep.summarize()
 	if o.Solver == SolverVAMP {
 		rep.Trace = vampTrace(p.Problem, startGamma2(pred), traces)
 	}
 	rep.Seconds = time.Since(start).Seconds()
 	return rep, nil
+}
+
+// add records one finished trial.
+func (r *Report) add(tr Trial) {
+	r.PerTrial = append(r.PerTrial, tr)
+	r.Criterion = tr.criterion
+	if !tr.Converged {
+		r.NotConverged++
+	}
+}
+
+// summarize sets the means over PerTrial.
+func (r *Report) summarize() {
+	k := len(r.PerTrial)
+	mse, nz, tpp, fdp := make([]float64, k), make([]float64, k), make([]float64, k), make([]float64, k)
+	for i, tr := range r.PerTrial {
+		mse[i], nz[i], tpp[i], fdp[i] = tr.MSE, tr.NonZero, tr.TPP, tr.FDP
+	}
+	ms := stat(mse)
+	r.MeanMSE, r.StdErr = ms.Mean, ms.StdErr
+	r.NonZero, r.TPP, r.FDP = stat(nz), stat(tpp), stat(fdp)
+}
+
+// solveTrial solves one instance with the chosen solver and scores it; the trace is VAMP's
+// per-iteration error (nil for the other solvers).
+func solveTrial(ctx context.Context, inst *Instance, p Problem, solver Solver, l1, l2 float64, so SolverOptions, pred fixedpoint.Result) (Trial, []float64, error) {
+	var sol Solution
+	var trace []float64
+	var err error
+	switch solver {
+	case SolverCD:
+		var a *Matrix
+		if a, err = inst.dense(); err != nil {
+			return Trial{}, nil, err
+		}
+		sol, err = CoordinateDescent(ctx, a, inst.Y, l1, l2, nil, so)
+	case SolverProx:
+		var op Operator = inst.Dense
+		lip := inst.Lipschitz
+		if inst.SVD != nil {
+			op = inst.SVD
+			for _, s := range inst.SVD.S {
+				lip = math.Max(lip, s*s)
+			}
+		}
+		sol, err = ProxGradient(ctx, op, inst.Y, p.Penalty, lip, nil, so)
+	case SolverVAMP:
+		var f *SVD
+		if f, err = inst.svd(); err != nil {
+			return Trial{}, nil, err
+		}
+		var vr VAMPResult
+		vr, err = VAMP(ctx, f, inst.Y, p.Penalty, VAMPOptions{SolverOptions: so, Gamma2: startGamma2(pred), Truth: inst.X0})
+		sol, trace = vr.Solution, vr.Errors
+	}
+	if err != nil {
+		return Trial{}, nil, err
+	}
+	if err := ctx.Err(); err != nil {
+		return Trial{}, nil, err
+	}
+	tr := score(inst.X0, sol.X)
+	tr.Iterations, tr.Converged, tr.Residual, tr.criterion = sol.Iterations, sol.Converged, sol.Residual, sol.Criterion
+	return tr, trace, nil
 }
 
 // startGamma2 starts VAMP at the fixed point's precision of the linear step, where the state
