@@ -10,8 +10,6 @@ import (
 	"slices"
 	"testing"
 
-	"gonum.org/v1/gonum/mat"
-
 	"hdrisk/engine/data"
 	"hdrisk/engine/design"
 	"hdrisk/engine/fixedpoint"
@@ -32,17 +30,6 @@ const (
 	ar1TrialCount = 40
 	ar1First      = 0
 )
-
-func columnMajor(a *mat.Dense) *Matrix {
-	m, n := a.Dims()
-	out := &Matrix{Rows: m, Cols: n, Data: make([]float64, m*n)}
-	for j := 0; j < n; j++ {
-		for i := 0; i < m; i++ {
-			out.Data[j*m+i] = a.At(i, j)
-		}
-	}
-	return out
-}
 
 // matrixProblem is the scenario of a fixed matrix: its own spectrum as an empirical-sv design
 // (as given), a sparse Gaussian signal, noise and the LASSO.
@@ -78,7 +65,7 @@ func readAR1(t testing.TB) *Matrix {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return columnMajor(a)
+	return FromDense(a)
 }
 
 type trialDraw struct {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"math"
 	"strings"
 	"testing"
 )
@@ -72,4 +73,42 @@ func TestCheckCommandIterationLimit(t *testing.T) {
 	if r.Converged || r.NotConverged != 2 || len(r.Warnings) != 2 || !strings.Contains(errs, "iteration limit") {
 		t.Errorf("converged %v, not converged %d, warnings %q, stderr %q", r.Converged, r.NotConverged, r.Warnings, errs)
 	}
+}
+
+// check --matrix holds the committed AR(1) matrix fixed: n and m are its shape, the verdict
+// fields are present and consistent, and an --n other than its column count is refused.
+func TestCheckMatrixCommand(t *testing.T) {
+	const mtx = "../../../testdata/matrices/ar1_200x400.mtx"
+	code, out, errs := call(t, checkScenario, "check", "-", "--matrix", mtx, "--trials", "12", "--seed", "3")
+	if code != 0 {
+		t.Fatalf("status %d: %s", code, errs)
+	}
+	var r struct {
+		N, M, Trials     int
+		MeanMSE          float64 `json:"mean_mse"`
+		MatrixMean       float64 `json:"matrix_mean_mse"`
+		MatrixSE         float64 `json:"matrix_stderr"`
+		RotatedMean      float64 `json:"rotated_mean_mse"`
+		RotatedSE        float64 `json:"rotated_stderr"`
+		Z                float64 `json:"z"`
+		Agrees           bool    `json:"agrees"`
+		Verdict, Factors string
+		RotatedPerTrial  []map[string]any `json:"rotated_per_trial"`
+		PerTrial         []map[string]any `json:"per_trial"`
+	}
+	if err := json.Unmarshal([]byte(out), &r); err != nil {
+		t.Fatal(err)
+	}
+	if r.N != 400 || r.M != 200 || r.Trials != 12 || len(r.PerTrial) != 12 || len(r.RotatedPerTrial) != 12 || r.Factors != "matrix" {
+		t.Errorf("n %d m %d trials %d (%d, %d per trial), factors %q", r.N, r.M, r.Trials, len(r.PerTrial), len(r.RotatedPerTrial), r.Factors)
+	}
+	if r.MatrixMean != r.MeanMSE || !(r.MatrixSE > 0) || !(r.RotatedSE > 0) || !(r.RotatedMean > 0) {
+		t.Errorf("matrix %v +- %v (mean_mse %v), rotated %v +- %v", r.MatrixMean, r.MatrixSE, r.MeanMSE, r.RotatedMean, r.RotatedSE)
+	}
+	z := (r.MatrixMean - r.RotatedMean) / math.Hypot(r.MatrixSE, r.RotatedSE)
+	if math.Abs(z-r.Z) > 1e-9*math.Max(1, math.Abs(z)) || r.Agrees != (math.Abs(z) <= 3) || !strings.HasPrefix(r.Verdict, map[bool]string{true: "agrees", false: "disagrees"}[r.Agrees]) {
+		t.Errorf("z %v (recomputed %v), agrees %v, verdict %q", r.Z, z, r.Agrees, r.Verdict)
+	}
+	failing(t, "column count, 400", checkScenario, "check", "-", "--matrix", mtx, "--n", "300")
+	failing(t, "no-such.mtx", checkScenario, "check", "-", "--matrix", "no-such.mtx")
 }
