@@ -56,6 +56,7 @@ type dataPart struct {
 	fileName     string
 	text         string // pasted text, kept across errors
 	started      time.Time
+	done, total  int // progress of the job, as its worker reports it
 	elapsed      time.Duration
 	cancel       func()
 	figURL       string
@@ -204,7 +205,7 @@ func (c *DataView) compute(part, text string) {
 		p.run, p.problem = RunError, "the compute workers are still starting; try again in a moment"
 		return
 	}
-	p.run = RunRunning
+	p.run, p.done, p.total = RunRunning, 0, 0
 	var args any
 	if part == "design" {
 		a := job.SpectrumArgs{Source: c.Source, Text: text, MaxBytes: c.limit(part)}
@@ -235,10 +236,8 @@ func (c *DataView) compute(part, text string) {
 	finished := false // a fake or a failing pool may answer before Start returns
 	cancel := c.Jobs.Start(kind, args, func(done, total int) {
 		if part == "design" {
-			if st, ok := map[int]string{job.StepRead: "Reading the numbers",
-				job.StepSVD: "Computing the singular values (one step: no finer progress)", job.StepSummary: "Summarizing"}[done]; ok {
-				p.stage = st
-			}
+			p.done, p.total = done, total
+			p.stage = spectrumStages[job.SpectrumStep(done)]
 		} else if done >= 1 {
 			p.stage = "Fitting"
 		}
@@ -272,6 +271,15 @@ func (c *DataView) compute(part, text string) {
 	if !finished {
 		p.cancel = cancel
 	}
+}
+
+// spectrumStages are the page's words for the steps of the "spectrum" kind.
+var spectrumStages = map[string]string{
+	job.StepReading:     "Reading the numbers",
+	job.StepGram:        "Forming the Gram matrix (the matrix times its transpose)",
+	job.StepReduction:   "Reducing the Gram matrix to tridiagonal form",
+	job.StepEigenvalues: "Computing its eigenvalues",
+	job.StepSummary:     "Summarizing",
 }
 
 // listAlpha reads the m/n a list of singular values belongs to.
@@ -319,6 +327,21 @@ func (c *DataView) Stage(part string) string {
 		return ""
 	}
 	return p.stage + "…"
+}
+
+// Progress returns the done and total of part's job; total is 0 before its first report.
+func (c *DataView) Progress(part string) (done, total int) {
+	p := c.part(part)
+	return p.done, p.total
+}
+
+// ProgressPermille is part's progress in thousandths, for the progress bar.
+func (c *DataView) ProgressPermille(part string) int {
+	p := c.part(part)
+	if p.total <= 0 {
+		return 0
+	}
+	return 1000 * p.done / p.total
 }
 
 // Problem is part's message; "" when there is none.

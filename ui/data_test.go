@@ -182,8 +182,8 @@ func TestDataCancelAndNoWorkers(t *testing.T) {
 	if !c.Busy("design") || c.Run() != RunRunning || jobs.started[0] != "spectrum" {
 		t.Fatalf("busy %v run %s", c.Busy("design"), c.Run())
 	}
-	jobs.progress(job.StepSVD, job.SpectrumSteps)
-	if !strings.HasPrefix(c.Stage("design"), "Computing the singular values") {
+	jobs.progress(job.SpectrumGramEnd+1, job.SpectrumTotal)
+	if d, tot := c.Progress("design"); !strings.HasPrefix(c.Stage("design"), "Reducing the Gram matrix") || d != job.SpectrumGramEnd+1 || tot != job.SpectrumTotal {
 		t.Errorf("stage %q", c.Stage("design"))
 	}
 	c.Cancel("design")

@@ -60,13 +60,64 @@ type SpectrumResult struct {
 	SVDSeconds     Num          `json:"svd_seconds"` // 0 for a list
 }
 
-// Spectrum steps, as reported to progress (done of SpectrumSteps).
+// Progress of the "spectrum" kind, in thousandths of the work (done of SpectrumTotal): the
+// reading of the text up to SpectrumReadEnd, by the bytes read; then the steps of
+// data.SingularValues: the Gram product up to SpectrumGramEnd, the tridiagonal reduction up to
+// SpectrumReduceEnd, the eigenvalues up to SpectrumEigenEnd; then the summary. The shares are
+// rough measures of each step's time on a 1500 x 3000 matrix.
 const (
-	StepRead      = 0 // reading the text
-	StepSVD       = 1 // computing the singular values
-	StepSummary   = 2 // summarizing
-	SpectrumSteps = 3
+	SpectrumReadEnd   = 250
+	SpectrumGramEnd   = 650
+	SpectrumReduceEnd = 950
+	SpectrumEigenEnd  = 990
+	SpectrumTotal     = 1000
 )
+
+// Spectrum steps, named by SpectrumStep.
+const (
+	StepReading     = "reading"
+	StepGram        = "gram"
+	StepReduction   = "tridiagonal"
+	StepEigenvalues = "eigenvalues"
+	StepSummary     = "summary"
+)
+
+// SpectrumStep names the step a progress report of the "spectrum" kind falls in.
+func SpectrumStep(done int) string {
+	switch {
+	case done < SpectrumReadEnd:
+		return StepReading
+	case done < SpectrumGramEnd:
+		return StepGram
+	case done < SpectrumReduceEnd:
+		return StepReduction
+	case done < SpectrumEigenEnd:
+		return StepEigenvalues
+	}
+	return StepSummary
+}
+
+// countingReader reports the share of a text of known length read so far.
+type countingReader struct {
+	r         *strings.Reader
+	total     int
+	report    func(frac float64)
+	lastShown int
+}
+
+func (c *countingReader) Read(p []byte) (int, error) {
+	k, err := c.r.Read(p)
+	if c.total > 0 {
+		done := c.total - c.r.Len()
+		if done-c.lastShown >= 1<<20 || err != nil {
+			c.lastShown = done
+			c.report(float64(done) / float64(c.total))
+		}
+	}
+	return k, err
+}
+
+func span(lo, hi int, frac float64) int { return lo + int(float64(hi-lo)*min(1, max(0, frac))) }
 
 func init() { Register("spectrum", runSpectrum) }
 
@@ -85,21 +136,30 @@ func Spectrum(a SpectrumArgs, progress func(done, total int)) (SpectrumResult, e
 		readSecs   float64
 		svdSeconds float64
 	)
-	progress(StepRead, SpectrumSteps)
+	progress(0, SpectrumTotal)
+	summarize := data.Summarize
 	switch a.Source {
 	case SourceMatrix:
-		mat, err := data.ReadMatrix(strings.NewReader(a.Text), data.Limits{MaxBytes: a.MaxBytes})
+		in := &countingReader{r: strings.NewReader(a.Text), total: len(a.Text),
+			report: func(f float64) { progress(span(0, SpectrumReadEnd, f), SpectrumTotal) }}
+		mat, err := data.ReadMatrix(in, data.Limits{MaxBytes: a.MaxBytes})
 		if err != nil {
 			return SpectrumResult{}, err
 		}
 		readSecs = time.Since(t0).Seconds()
 		m, n = mat.Dims()
-		progress(StepSVD, SpectrumSteps)
+		progress(SpectrumReadEnd, SpectrumTotal)
 		t1 := time.Now()
-		if sv, err = data.SingularValues(context.Background(), mat, nil); err != nil {
+		steps := map[data.Step][2]int{data.StepGram: {SpectrumReadEnd, SpectrumGramEnd},
+			data.StepTridiagonal: {SpectrumGramEnd, SpectrumReduceEnd}, data.StepEigenvalues: {SpectrumReduceEnd, SpectrumEigenEnd}}
+		if sv, err = data.SingularValues(context.Background(), mat, func(s data.Step, f float64) {
+			r := steps[s]
+			progress(span(r[0], r[1], f), SpectrumTotal)
+		}); err != nil {
 			return SpectrumResult{}, err
 		}
 		svdSeconds = time.Since(t1).Seconds()
+		summarize = data.SummarizeComputed
 	case SourceSingular, SourceEigenvalues:
 		var err error
 		sv, err = data.ReadSpectrum(strings.NewReader(a.Text), a.Source == SourceEigenvalues,
@@ -118,12 +178,12 @@ func Spectrum(a SpectrumArgs, progress func(done, total int)) (SpectrumResult, e
 	default:
 		return SpectrumResult{}, fmt.Errorf("source: %q is not one of %s, %s, %s", a.Source, SourceMatrix, SourceSingular, SourceEigenvalues)
 	}
-	progress(StepSummary, SpectrumSteps)
-	s, err := data.Summarize(sv, m, n, a.Bins)
+	progress(SpectrumEigenEnd, SpectrumTotal)
+	s, err := summarize(sv, m, n, a.Bins)
 	if err != nil {
 		return SpectrumResult{}, err
 	}
-	progress(SpectrumSteps, SpectrumSteps)
+	progress(SpectrumTotal, SpectrumTotal)
 	return SpectrumResult{
 		Source: a.Source, SingularValues: sv, Rows: m, Cols: n, Alpha: Num(s.Alpha),
 		Min: Num(s.Min), Max: Num(s.Max), Condition: Num(s.Condition), Rank: s.Rank,

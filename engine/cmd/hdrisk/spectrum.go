@@ -58,7 +58,7 @@ func runSpectrum(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 		return err
 	}
 	m, n := a.Dims()
-	s, err := data.Summarize(sv, m, n, 0)
+	s, err := data.SummarizeComputed(sv, m, n, 0)
 	if err != nil {
 		return err
 	}
