@@ -40,6 +40,9 @@ type Comparison struct {
 	RotatedTrials       []Trial
 	RotatedFactors      string
 	RotatedNotConverged int
+	// RotatedSolver is set when the rotated trials ran another solver than the matrix's (cd
+	// asked with fast factors: see Report.SolverNote); both solve the same problem.
+	RotatedSolver, RotatedSolverNote string
 }
 
 // matrixShape checks a fixed matrix against the design law: its m/n must be the law's.
@@ -108,7 +111,7 @@ func matrixSVD(a *Matrix, full bool) (*SVD, []float64, error) {
 
 // checkMatrix runs the trials of a check with a fixed matrix (o.Matrix) and with random
 // rotations of its spectrum; rep arrives with the settings filled in.
-func checkMatrix(ctx context.Context, p Problem, o Options, draw DesignDraw, rep Report, l1, l2 float64,
+func checkMatrix(ctx context.Context, p Problem, o Options, rotSolver Solver, draw DesignDraw, rep Report, l1, l2 float64,
 	so SolverOptions, pred fixedpoint.Result, progress func(done, total int), start time.Time) (Report, error) {
 	f, err := scaledMatrix(p.Design, o.Matrix)
 	if err != nil {
@@ -160,7 +163,7 @@ func checkMatrix(ctx context.Context, p Problem, o Options, draw DesignDraw, rep
 		for i := range ri.Y {
 			ri.Y[i] += w[i]
 		}
-		tr, _, err = solveTrial(ctx, ri, p, o.Solver, l1, l2, so, pred)
+		tr, _, err = solveTrial(ctx, ri, p, rotSolver, l1, l2, so, pred)
 		if err != nil {
 			return Report{}, err
 		}
@@ -173,6 +176,9 @@ func checkMatrix(ctx context.Context, p Problem, o Options, draw DesignDraw, rep
 	rep.summarize()
 	rot.summarize()
 	rep.Comparison = compare(rep, rot, o.Factors.String())
+	if rotSolver != o.Solver {
+		rep.Comparison.RotatedSolver, rep.Comparison.RotatedSolverNote = rotSolver.String(), cdNote
+	}
 	if o.Solver == SolverVAMP {
 		rep.Trace = vampTrace(p.Problem, startGamma2(pred), traces)
 	}

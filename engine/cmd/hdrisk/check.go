@@ -53,6 +53,7 @@ type checkResult struct {
 	FDP                 checkStat    `json:"fdp"`
 	Seed                uint64       `json:"seed"`
 	Solver              string       `json:"solver"`
+	SolverNote          string       `json:"solver_note,omitempty"`
 	Factors             string       `json:"factors"`
 	Spectrum            string       `json:"spectrum"`
 	Criterion           string       `json:"stop_criterion"`
@@ -78,6 +79,8 @@ type matrixVerdict struct {
 	RotatedStdErr       number       `json:"rotated_stderr"`
 	RotatedFactors      string       `json:"rotated_factors"`
 	RotatedNotConverged int          `json:"rotated_not_converged"`
+	RotatedSolver       string       `json:"rotated_solver,omitempty"`
+	RotatedSolverNote   string       `json:"rotated_solver_note,omitempty"`
 	Z                   number       `json:"z"`
 	Agrees              bool         `json:"agrees"`
 	Verdict             string       `json:"verdict"`
@@ -103,7 +106,7 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	n := fs.Int("n", 500, "unknowns per instance (m = round(alpha n))")
 	trials := fs.Int("trials", 10, "independent instances")
 	seed := fs.Uint64("seed", 1, "seed: trial t draws from PCG(seed, t), reproducible on every platform")
-	solverName := fs.String("solver", "cd", "cd (l1, ridge, elastic net), prox (any penalty) or vamp (any penalty)")
+	solverName := fs.String("solver", "cd", "cd (l1, ridge, elastic net; with fast factors on a well-conditioned design prox runs instead, matrix-free, and solver_note says so), prox (any penalty) or vamp (any penalty)")
 	factorsName := fs.String("factors", "fast", "orthogonal factors: fast (O(n log n) transforms), haar-qr or haar-householder")
 	draws := fs.Bool("draw-spectrum", false, "draw the singular values i.i.d. from the law instead of taking its quantiles")
 	tol := fs.Float64("tol", 0, "solver tolerance (0: the default, 1e-8)")
@@ -171,7 +174,7 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		Nonzero: checkStat{number(r.NonZero.Mean), number(r.NonZero.StdErr), number(r.Predicted.NonZero)},
 		TPP:     checkStat{number(r.TPP.Mean), number(r.TPP.StdErr), number(r.Predicted.TPP)},
 		FDP:     checkStat{number(r.FDP.Mean), number(r.FDP.StdErr), number(r.Predicted.FDP)},
-		Seed:    r.Seed, Solver: r.Solver, Factors: r.Factors, Spectrum: r.Spectrum,
+		Seed:    r.Seed, Solver: r.Solver, SolverNote: r.SolverNote, Factors: r.Factors, Spectrum: r.Spectrum,
 		Criterion: r.Criterion, Tol: number(r.Tol), MaxIter: r.MaxIter,
 		Converged: r.NotConverged == 0, NotConverged: r.NotConverged, Warnings: r.Warnings(),
 		Seconds: number(r.Seconds),
@@ -189,7 +192,7 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if c := r.Comparison; c != nil {
 		v := &matrixVerdict{Matrix: displayName(*matrixFile), MatrixMeanMSE: number(c.Matrix.Mean), MatrixStdErr: number(c.Matrix.StdErr),
 			RotatedMeanMSE: number(c.Rotated.Mean), RotatedStdErr: number(c.Rotated.StdErr), RotatedFactors: c.RotatedFactors,
-			RotatedNotConverged: c.RotatedNotConverged, Z: number(c.Z), Agrees: c.Agrees, Verdict: verdictText(c)}
+			RotatedNotConverged: c.RotatedNotConverged, RotatedSolver: c.RotatedSolver, RotatedSolverNote: c.RotatedSolverNote, Z: number(c.Z), Agrees: c.Agrees, Verdict: verdictText(c)}
 		for _, t := range c.RotatedTrials {
 			v.RotatedPerTrial = append(v.RotatedPerTrial, checkTrial{number(t.MSE), number(t.NonZero), number(t.TPP),
 				number(t.FDP), t.Iterations, t.Converged, number(t.Residual), number(t.Seconds)})
