@@ -3,7 +3,6 @@ package ui
 import (
 	"bytes"
 	"encoding/csv"
-	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
@@ -12,10 +11,10 @@ import (
 
 	"github.com/vugu/vugu"
 
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
-	"hdrisk/ui/plot"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // sweepPoints is the number of points a new sweep proposes.
@@ -142,19 +141,19 @@ func (c *CurveView) now() time.Time {
 }
 
 // spec reads the settings and the scenario in the editor.
-func (c *CurveView) spec() (scenario.Scenario, job.Axis, error) {
+func (c *CurveView) spec() (scenario.Scenario, study.Axis, error) {
 	if c.Model == nil {
-		return scenario.Scenario{}, job.Axis{}, fmt.Errorf("no scenario")
+		return scenario.Scenario{}, study.Axis{}, fmt.Errorf("no scenario")
 	}
 	ch := c.Model.Check()
 	if ch.Err != nil {
-		return scenario.Scenario{}, job.Axis{}, fmt.Errorf("the scenario in the editor has a problem: %v", ch.Err)
+		return scenario.Scenario{}, study.Axis{}, fmt.Errorf("the scenario in the editor has a problem: %v", ch.Err)
 	}
 	over, from, to, n, err := c.ax.parse("sweep", scenario.MaxSweepPoints)
 	if err != nil {
-		return scenario.Scenario{}, job.Axis{}, err
+		return scenario.Scenario{}, study.Axis{}, err
 	}
-	return ch.Scenario, job.Axis{Over: over, From: from, To: to, Points: n, Log: c.ax.Log}, nil
+	return ch.Scenario, study.Axis{Over: over, From: from, To: to, Points: n, Log: c.ax.Log}, nil
 }
 
 // Start sweeps the scenario in the editor (replacing the curve of the current scenario and
@@ -302,17 +301,13 @@ func (c *CurveView) startSweep(cs *curveSeries, timed bool) {
 	for i, b := range blocks {
 		// No progress callback: a sweep takes a fraction of a second, and every progress
 		// message would cost the page a render while it runs.
-		args := job.SweepArgs{Scenario: data, Axis: c.axis}
+		args := protocol.SweepArgs{Scenario: data, Axis: c.axis}
 		if len(blocks) > 1 {
 			args.PointFrom, args.PointTo = b[0], b[1]
 		}
-		cancels[i] = c.Jobs.Start("sweep", args, nil, func(res []byte, err error) {
+		cancels[i] = start(c.Jobs, protocol.Sweep, args, nil, func(r protocol.SweepResult, err error) {
 			cancels[i] = nil
 			pending--
-			var r job.SweepResult
-			if err == nil {
-				err = json.Unmarshal(res, &r)
-			}
 			if err == nil && len(r.Points) != b[1]-b[0] {
 				err = fmt.Errorf("points %d to %d came back incomplete", b[0], b[1])
 			}
@@ -322,9 +317,7 @@ func (c *CurveView) startSweep(cs *curveSeries, timed bool) {
 				c.settle()
 				return
 			}
-			for k, p := range r.Points {
-				pts[b[0]+k] = p.Point()
-			}
+			copy(pts[b[0]:], r.Points)
 			if pending > 0 {
 				return
 			}
@@ -343,12 +336,8 @@ func (c *CurveView) startBest(s scenario.Scenario, over string) {
 		c.bestErr = err.Error()
 		return
 	}
-	c.bestCancel = c.Jobs.Start("best", job.BestArgs{Scenario: data, Over: over}, nil, func(res []byte, err error) {
+	c.bestCancel = start(c.Jobs, protocol.Best, protocol.BestArgs{Scenario: data, Over: over}, nil, func(b study.BestResult, err error) {
 		c.bestCancel = nil
-		var b job.BestOut
-		if err == nil {
-			err = json.Unmarshal(res, &b)
-		}
 		if err != nil {
 			c.bestErr = "no best " + over + ": " + err.Error()
 		} else {
@@ -363,12 +352,8 @@ func (c *CurveView) startBayes(s scenario.Scenario) {
 	if err != nil {
 		return
 	}
-	c.bayesCancel = c.Jobs.Start("bayes", job.BayesArgs{Scenario: data}, nil, func(res []byte, err error) {
+	c.bayesCancel = start(c.Jobs, protocol.Bayes, protocol.BayesArgs{Scenario: data}, nil, func(b study.BayesResult, err error) {
 		c.bayesCancel = nil
-		var b job.BayesOut
-		if err == nil {
-			err = json.Unmarshal(res, &b)
-		}
 		if err != nil {
 			c.bayesNote = "No Bayes-optimal reference: " + err.Error()
 		} else {
@@ -523,17 +508,17 @@ func (c *CurveView) figureSpec() (plot.Line, bool) {
 	l := plot.Line{Title: q.Label + " against " + pathLabel(c.current0(), c.axis.Over), XLabel: pathLabel(c.current0(), c.axis.Over),
 		YLabel: q.Label, XLog: c.axis.Log, YLog: c.YLog, Series: ss}
 	if c.best != nil && c.best.AtBound == "" {
-		l.VLines = append(l.VLines, plot.Mark{At: float64(c.best.Value), Label: "best " + c.best.Over + " = " + num4(float64(c.best.Value))})
+		l.VLines = append(l.VLines, plot.Mark{At: c.best.Value, Label: "best " + c.best.Over + " = " + num4(c.best.Value)})
 	}
 	if c.bayes != nil {
 		var v float64
 		switch q.Name {
 		case "mse":
-			v = float64(c.bayes.Uninformed.MSE)
+			v = c.bayes.Uninformed.MSE
 		case "nmse":
-			v = float64(c.bayes.Uninformed.NMSE)
+			v = c.bayes.Uninformed.NMSE
 		case "nmse_db":
-			v = float64(c.bayes.Uninformed.NMSEdB)
+			v = c.bayes.Uninformed.NMSEdB
 		default:
 			v = math.NaN()
 		}
@@ -576,7 +561,7 @@ func (c *CurveView) redraw() {
 		c.box.clear()
 		return
 	}
-	c.box.draw(c.Jobs, c.Browser, job.FigureArgs{Line: job.LineOf(l)}, func() {
+	c.box.draw(c.Jobs, c.Browser, protocol.FigureArgs{Line: &l}, func() {
 		if c.run == RunDone && c.figSeconds == 0 {
 			c.figSeconds = c.now().Sub(c.started).Seconds()
 		}
@@ -666,14 +651,14 @@ func (c *CurveView) Notes() []string {
 	}
 	if c.best != nil && c.best.AtBound != "" {
 		out = append(out, fmt.Sprintf("The lowest error over %s lies at the %s end of the search (%s = %s)%s; no marker is drawn.",
-			c.best.Over, c.best.AtBound, c.best.Over, num4(float64(c.best.Value)), noteSuffix(c.best.Note)))
+			c.best.Over, c.best.AtBound, c.best.Over, num4(c.best.Value), noteSuffix(c.best.Note)))
 	}
 	if c.bayesNote != "" {
 		out = append(out, c.bayesNote)
 	}
 	if c.bayes != nil && c.bayes.Differ {
 		out = append(out, "The Bayes-optimal state evolution has two fixed points here; the line shows the one reached from no prior knowledge ("+
-			num4(float64(c.bayes.Informed.NMSEdB))+" dB from an informed start).")
+			num4(c.bayes.Informed.NMSEdB)+" dB from an informed start).")
 	}
 	for _, cs := range c.kept {
 		if cs.err != "" {
@@ -694,12 +679,12 @@ func noteSuffix(n string) string {
 func (c *CurveView) Answers() [][3]string {
 	var out [][3]string
 	if c.best != nil {
-		out = append(out, [3]string{"curve_best_value", full(float64(c.best.Value)),
-			fmt.Sprintf("Best %s: %s (NMSE %s dB)", c.best.Over, num4(float64(c.best.Value)), num4(float64(c.best.NMSEdB)))})
+		out = append(out, [3]string{"curve_best_value", full(c.best.Value),
+			fmt.Sprintf("Best %s: %s (NMSE %s dB)", c.best.Over, num4(c.best.Value), num4(c.best.Result.NMSEdB))})
 	}
 	if c.bayes != nil {
-		out = append(out, [3]string{"curve_bayes_nmse_db", full(float64(c.bayes.Uninformed.NMSEdB)),
-			"Bayes-optimal error: " + num4(float64(c.bayes.Uninformed.NMSEdB)) + " dB"})
+		out = append(out, [3]string{"curve_bayes_nmse_db", full(c.bayes.Uninformed.NMSEdB),
+			"Bayes-optimal error: " + num4(c.bayes.Uninformed.NMSEdB) + " dB"})
 	}
 	if c.current != nil && len(c.current.Points) > 0 && c.run == RunDone {
 		t := fmt.Sprintf("Time in the page: %.3f s to the numbers", c.seconds)

@@ -1,7 +1,6 @@
 package ui
 
 import (
-	"encoding/json"
 	"fmt"
 	"math"
 	"strconv"
@@ -9,9 +8,9 @@ import (
 
 	"github.com/vugu/vugu"
 
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
-	"hdrisk/ui/plot"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // figureBox is a figure drawn on a compute worker (job kind "figure") and shown as an
@@ -19,15 +18,15 @@ import (
 // worker because rendering a heat map takes longer in the page than the page may stand
 // still. The curve and map views share it.
 type figureBox struct {
-	spec    job.FigureArgs // the figure shown (or on its way)
-	svg     []byte         // the figure shown, for saving
-	url     string         // its URL (see imageURL); "" when there is none
-	br      Browser        // the holder of url
-	frame   plot.Frame     // where its data area lies
-	problem string         // why there is no figure
-	readout string         // the values under the pointer, in words
-	cancel  func()         // the drawing on its way, if any
-	saving  int            // exports on their way
+	spec    protocol.FigureArgs // the figure shown (or on its way)
+	svg     []byte              // the figure shown, for saving
+	url     string              // its URL (see imageURL); "" when there is none
+	br      Browser             // the holder of url
+	frame   plot.Frame          // where its data area lies
+	problem string              // why there is no figure
+	readout string              // the values under the pointer, in words
+	cancel  func()              // the drawing on its way, if any
+	saving  int                 // exports on their way
 }
 
 // setImage shows svg, releasing the image shown before.
@@ -49,7 +48,7 @@ func (b *figureBox) release() {
 
 // draw renders spec on a worker; shown (may be nil) is called once the image is in place.
 // The figure shown so far stays until the new one arrives.
-func (b *figureBox) draw(jobs Jobs, br Browser, spec job.FigureArgs, shown func()) {
+func (b *figureBox) draw(jobs Jobs, br Browser, spec protocol.FigureArgs, shown func()) {
 	if b.cancel != nil {
 		b.cancel()
 		b.cancel = nil
@@ -59,12 +58,8 @@ func (b *figureBox) draw(jobs Jobs, br Browser, spec job.FigureArgs, shown func(
 		b.problem = "the figure waits for the compute workers"
 		return
 	}
-	b.cancel = jobs.Start("figure", spec, nil, func(res []byte, err error) {
+	b.cancel = start(jobs, protocol.Figure, spec, nil, func(r protocol.FigureResult, err error) {
 		b.cancel = nil
-		var r job.FigureResult
-		if err == nil {
-			err = json.Unmarshal(res, &r)
-		}
 		if err != nil {
 			b.problem = "the figure could not be drawn: " + err.Error()
 			return
