@@ -102,6 +102,7 @@ type TracePoint struct {
 // Report is the outcome of a finite-size check.
 type Report struct {
 	N, M, Trials int
+	First        int // the index of the first trial (Options.First)
 	Seed         uint64
 	Solver       string // the solver that ran
 	SolverNote   string // why it is not the one asked for; "" when it is
@@ -132,7 +133,7 @@ func (r Report) Warnings() []string {
 	for i, t := range r.PerTrial {
 		if !t.Converged {
 			w = append(w, fmt.Sprintf("trial %d: solver %s reached its iteration limit (%d) with %s = %.3g > tol %.3g; its estimate is not a solution",
-				i, r.Solver, r.MaxIter, r.Criterion, t.Residual, r.Tol))
+				r.First+i, r.Solver, r.MaxIter, r.Criterion, t.Residual, r.Tol))
 		}
 	}
 	return w
@@ -187,7 +188,7 @@ func Check(ctx context.Context, p Problem, o Options, progress func(done, total 
 	if err != nil {
 		return Report{}, fmt.Errorf("simulate: prediction: %w", err)
 	}
-	rep := Report{N: o.N, M: Rows(p.Design.Alpha(), o.N), Trials: o.Trials, Seed: o.Seed,
+	rep := Report{N: o.N, M: Rows(p.Design.Alpha(), o.N), Trials: o.Trials, First: o.First, Seed: o.Seed,
 		Solver: run.String(), Factors: o.Factors.String(), Spectrum: o.Spectrum.String(),
 		Tol: so.Tol, MaxIter: so.MaxIter, Predicted: pred}
 	if run != o.Solver {
@@ -359,6 +360,11 @@ func score(x0, xhat []float64) Trial {
 	}
 	return t
 }
+
+// Mean returns the mean of x with its standard error (the sample standard deviation over
+// sqrt(len(x)); 0 for one value): the statistic of every mean a check reports, for callers
+// that merge the trials of several checks.
+func Mean(x []float64) Stat { return stat(x) }
 
 func stat(x []float64) Stat {
 	n := float64(len(x))

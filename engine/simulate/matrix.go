@@ -29,7 +29,8 @@ const rotationSalt = 0x9e3779b97f4a7c15
 //
 //	z = (Matrix.Mean - Rotated.Mean) / sqrt(Matrix.StdErr^2 + Rotated.StdErr^2),
 //
-// and the matrix agrees when |z| <= AgreeZ. The two sets of trials are positively correlated
+// and the matrix agrees when |z| <= AgreeZ. With one trial there is no standard error and the
+// verdict is not meaningful (z is 0 or infinite); callers ask for at least two. The two sets of trials are positively correlated
 // through their shared draws, so this z is conservative: it says "agrees" a little more often
 // than an exact paired test would. Disagreement means that the matrix's singular vectors are
 // not generic for this signal and penalty, and the prediction should not be trusted for it.
@@ -116,9 +117,6 @@ func checkMatrix(ctx context.Context, p Problem, o Options, rotSolver Solver, dr
 	f, err := scaledMatrix(p.Design, o.Matrix)
 	if err != nil {
 		return Report{}, err
-	}
-	if o.Trials < 2 {
-		return Report{}, paramErr("trials", "a check with the matrix itself needs at least 2 trials, for the standard errors of its verdict")
 	}
 	shared, sv, err := matrixSVD(f, o.Solver == SolverVAMP)
 	if err != nil {

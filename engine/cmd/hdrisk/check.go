@@ -145,6 +145,9 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		if !set["trials"] {
 			*trials = matrixTrials
 		}
+		if *trials < 2 {
+			return usagef("--trials %d: the verdict of --matrix needs at least 2 trials, for its standard errors", *trials)
+		}
 	}
 	p, err := s.Problem()
 	if err != nil {

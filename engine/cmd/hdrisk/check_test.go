@@ -118,4 +118,5 @@ func TestCheckMatrixCommand(t *testing.T) {
 	}
 	failing(t, "column count, 400", checkScenario, "check", "-", "--matrix", mtx, "--n", "300")
 	failing(t, "no-such.mtx", checkScenario, "check", "-", "--matrix", "no-such.mtx")
+	failing(t, "at least 2 trials", checkScenario, "check", "-", "--matrix", mtx, "--trials", "1")
 }
