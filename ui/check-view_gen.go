@@ -21,30 +21,31 @@ import (
 // CheckView runs finite-size checks of the scenario in Model on the compute workers and
 // draws them over the prediction.
 type CheckView struct {
-	Active bool // its tab is selected: only then is its markup built (see root.vugu)
+	Active	bool	// its tab is selected: only then is its markup built (see root.vugu)
 
-	Model   *Model
-	Jobs    Jobs
-	Browser Browser
-	Clock   func() time.Time // nil: the real clock (tests set a fake)
+	Model	*Model
+	Jobs	Jobs
+	Browser	Browser
+	Clock	func() time.Time	// nil: the real clock (tests set a fake)
 
-	Solver, Factors, Over string
+	Solver, Factors, Over	string
 
-	nText, trialsText, seedText, atText string
-	run, problem                        string
-	settingsUsed                        scenario.Check
-	scen                                []byte
-	xs                                  []float64
-	points                              []checkPoint
-	curve                               []protocol.CurvePoint
-	trial, trials                       int
-	cancel                              func()
-	started                             time.Time
-	elapsed                             time.Duration
-	figure                              *plot.Figure
-	figURL, figErr                      string
-	paths                               []scenario.PathInfo
-	pathsKey                            string
+	nText, trialsText, seedText, atText	string
+	trialsTyped, noMatrix			bool
+	run, problem				string
+	settingsUsed				scenario.Check
+	scen					[]byte
+	xs					[]float64
+	points					[]checkPoint
+	curve					[]protocol.CurvePoint
+	trial, trials				int
+	cancel					func()
+	started					time.Time
+	elapsed					time.Duration
+	figure					*plot.Figure
+	figURL, figErr				string
+	paths					[]scenario.PathInfo
+	pathsKey				string
 }
 
 func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -55,7 +56,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "check"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "check-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "check"}}}
-	vgout.Out = append(vgout.Out, vgn) // root for output
+	vgout.Out = append(vgout.Out, vgn)	// root for output
 	vgn.AddAttrInterface("data-run", c.Run())
 	{
 		vgparent := vgn
@@ -63,7 +64,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}
 		vgparent.AppendChild(vgn)
 		if c.Active {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)} // <vg-template>
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)}	// <vg-template>
 			vgparent.AppendChild(vgn)
 			{
 				vgparent := vgn
@@ -87,6 +88,57 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					_ = vgparent
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Draws random instances of the scenario at a finite size, solves each, and sets the mean error beside the prediction."}
 					vgparent.AppendChild(vgn)
+				}
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+				vgparent.AppendChild(vgn)
+				if c.HasMatrix() {
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field check-matrix"}}}
+					vgparent.AppendChild(vgn)
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "label", Attr: []vugu.VGAttribute(nil)}
+						vgparent.AppendChild(vgn)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-with-matrix"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "checkbox"}}}
+							vgparent.AppendChild(vgn)
+							{
+								b, err := vjson.Marshal(c.Matrix() != nil)
+								if err != nil {
+									panic(err)
+								}
+								vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "checked", JSONVal: vjson.RawMessage(b)})
+							}
+							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+								EventType:	"change",
+								Func:		func(event vugu.DOMEvent) { c.toggleMatrix(event) },
+								// TODO: implement capture, etc. mostly need to decide syntax
+							})
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: " Check with your matrix itself, "}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "span", Attr: []vugu.VGAttribute(nil)}
+							vgparent.AppendChild(vgn)
+							vgn.SetInnerHTML(c.Model.MatrixDesign().Label())
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: ", beside random rotations of its spectrum"}
+							vgparent.AppendChild(vgn)
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "hint"}}}
+						vgparent.AppendChild(vgn)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Each trial draws a fresh signal and noise, solves with your matrix held fixed, and again with random rotations of its singular vectors. The prediction assumes generic singular vectors: if the two means differ by more than 3 standard errors, it does not hold for your matrix. n is its column count."}
+							vgparent.AppendChild(vgn)
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+						vgparent.AppendChild(vgn)
+					}
 				}
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 				vgparent.AppendChild(vgn)
@@ -117,6 +169,13 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-n"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "text"}, vugu.VGAttribute{Namespace: "", Key: "inputmode", Val: "numeric"}, vugu.VGAttribute{Namespace: "", Key: "autocomplete", Val: "off"}}}
 						vgparent.AppendChild(vgn)
 						{
+							b, err := vjson.Marshal(c.Matrix() != nil)
+							if err != nil {
+								panic(err)
+							}
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "readOnly", JSONVal: vjson.RawMessage(b)})
+						}
+						{
 							b, err := vjson.Marshal(c.NText())
 							if err != nil {
 								panic(err)
@@ -124,8 +183,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "change",
-							Func:      func(event vugu.DOMEvent) { c.typed(event, "n") },
+							EventType:	"change",
+							Func:		func(event vugu.DOMEvent) { c.typed(event, "n") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -160,8 +219,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "change",
-							Func:      func(event vugu.DOMEvent) { c.typed(event, "trials") },
+							EventType:	"change",
+							Func:		func(event vugu.DOMEvent) { c.typed(event, "trials") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -196,8 +255,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "change",
-							Func:      func(event vugu.DOMEvent) { c.typed(event, "seed") },
+							EventType:	"change",
+							Func:		func(event vugu.DOMEvent) { c.typed(event, "seed") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -225,8 +284,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-solver"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "change",
-							Func:      func(event vugu.DOMEvent) { c.typed(event, "solver") },
+							EventType:	"change",
+							Func:		func(event vugu.DOMEvent) { c.typed(event, "solver") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -279,8 +338,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-factors"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "change",
-							Func:      func(event vugu.DOMEvent) { c.typed(event, "factors") },
+							EventType:	"change",
+							Func:		func(event vugu.DOMEvent) { c.typed(event, "factors") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -333,8 +392,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-over"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "change",
-							Func:      func(event vugu.DOMEvent) { c.typed(event, "over") },
+							EventType:	"change",
+							Func:		func(event vugu.DOMEvent) { c.typed(event, "over") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -412,8 +471,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 							}
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "change",
-								Func:      func(event vugu.DOMEvent) { c.typed(event, "at") },
+								EventType:	"change",
+								Func:		func(event vugu.DOMEvent) { c.typed(event, "at") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -452,8 +511,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType: "click",
-						Func:      func(event vugu.DOMEvent) { c.Start() },
+						EventType:	"click",
+						Func:		func(event vugu.DOMEvent) { c.Start() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -474,8 +533,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType: "click",
-						Func:      func(event vugu.DOMEvent) { c.Cancel() },
+						EventType:	"click",
+						Func:		func(event vugu.DOMEvent) { c.Cancel() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -616,6 +675,31 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							}
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 							vgparent.AppendChild(vgn)
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+						if len(c.MatrixFacts()) > 0 {
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "ul", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "facts verdict"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "check-verdict"}}}
+							vgparent.AppendChild(vgn)
+							{
+								vgparent := vgn
+								_ = vgparent
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+								vgparent.AppendChild(vgn)
+								for vgiterkeyt, f := range c.MatrixFacts() {
+									var vgiterkey interface{} = vgiterkeyt
+									_ = vgiterkey
+									f := f
+									_ = f
+									vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "li", Attr: []vugu.VGAttribute(nil)}
+									vgparent.AppendChild(vgn)
+									vgn.AddAttrInterface("data-figure", f[0])
+									vgn.AddAttrInterface("data-value", f[1])
+									vgn.SetInnerHTML(f[2])
+								}
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+								vgparent.AppendChild(vgn)
+							}
 						}
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)
@@ -797,8 +881,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-csv"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "click",
-							Func:      func(event vugu.DOMEvent) { c.Export("csv") },
+							EventType:	"click",
+							Func:		func(event vugu.DOMEvent) { c.Export("csv") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -819,8 +903,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "click",
-							Func:      func(event vugu.DOMEvent) { c.Export("svg") },
+							EventType:	"click",
+							Func:		func(event vugu.DOMEvent) { c.Export("svg") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -841,8 +925,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "click",
-							Func:      func(event vugu.DOMEvent) { c.Export("png") },
+							EventType:	"click",
+							Func:		func(event vugu.DOMEvent) { c.Export("png") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{

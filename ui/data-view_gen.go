@@ -19,19 +19,20 @@ import (
 // DataView reads a user's matrix, spectrum or signal samples, summarizes them on the
 // compute workers, and puts them into the scenario in Model on request.
 type DataView struct {
-	Active bool // its tab is selected: only then is its markup built (see root.vugu)
+	Active	bool	// its tab is selected: only then is its markup built (see root.vugu)
 
-	Model   *Model
-	Jobs    Jobs
-	Browser Browser
-	Changed func()           // called after the scenario was changed
-	Clock   func() time.Time // nil: the real clock
+	Model	*Model
+	Jobs	Jobs
+	Browser	Browser
+	Changed	func()			// called after the scenario was changed
+	Clock	func() time.Time	// nil: the real clock
 
-	Source, Method   string
-	kText, alphaText string
-	design, signal   dataPart
-	spectrum         *protocol.SpectrumResult
-	fit              *protocol.FitResult
+	Source, Method		string
+	kText, alphaText	string
+	design, signal		dataPart
+	spectrum		*protocol.SpectrumResult
+	matrixText		string	// the text of the matrix whose spectrum was read last
+	fit			*protocol.FitResult
 }
 
 func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -42,7 +43,7 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "data"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "data-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "data"}}}
-	vgout.Out = append(vgout.Out, vgn) // root for output
+	vgout.Out = append(vgout.Out, vgn)	// root for output
 	vgn.AddAttrInterface("data-run", c.Run())
 	{
 		vgparent := vgn
@@ -50,7 +51,7 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}
 		vgparent.AppendChild(vgn)
 		if c.Active {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)} // <vg-template>
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)}	// <vg-template>
 			vgparent.AppendChild(vgn)
 			{
 				vgparent := vgn
@@ -120,8 +121,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-source"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "change",
-								Func:      func(event vugu.DOMEvent) { c.typed(event, "source") },
+								EventType:	"change",
+								Func:		func(event vugu.DOMEvent) { c.typed(event, "source") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							{
@@ -175,8 +176,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-design-file"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "file"}, vugu.VGAttribute{Namespace: "", Key: "accept", Val: ".csv,.tsv,.txt,.mtx,.dat,text/plain,text/csv"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "change",
-								Func:      func(event vugu.DOMEvent) { c.ReadFile("design") },
+								EventType:	"change",
+								Func:		func(event vugu.DOMEvent) { c.ReadFile("design") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 						}
@@ -214,8 +215,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "textarea", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-design-text"}, vugu.VGAttribute{Namespace: "", Key: "rows", Val: "5"}, vugu.VGAttribute{Namespace: "", Key: "cols", Val: "60"}, vugu.VGAttribute{Namespace: "", Key: "spellcheck", Val: "false"}, vugu.VGAttribute{Namespace: "", Key: "placeholder", Val: "one row of the matrix a line, or one value a line"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "change",
-								Func:      func(event vugu.DOMEvent) { c.typed(event, "design-text") },
+								EventType:	"change",
+								Func:		func(event vugu.DOMEvent) { c.typed(event, "design-text") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 						}
@@ -257,8 +258,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 								}
 								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-									EventType: "change",
-									Func:      func(event vugu.DOMEvent) { c.typed(event, "alpha") },
+									EventType:	"change",
+									Func:		func(event vugu.DOMEvent) { c.typed(event, "alpha") },
 									// TODO: implement capture, etc. mostly need to decide syntax
 								})
 							}
@@ -285,8 +286,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "click",
-							Func:      func(event vugu.DOMEvent) { c.ReadText("design") },
+							EventType:	"click",
+							Func:		func(event vugu.DOMEvent) { c.ReadText("design") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -307,8 +308,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "click",
-							Func:      func(event vugu.DOMEvent) { c.Cancel("design") },
+							EventType:	"click",
+							Func:		func(event vugu.DOMEvent) { c.Cancel("design") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -330,8 +331,9 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 					vgparent.AppendChild(vgn)
 					if c.Busy("design") {
-						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "progress", Attr: []vugu.VGAttribute{{Namespace: "", Key: "aria-label", Val: "computing the singular values"}}}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "progress", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-design-progress"}, vugu.VGAttribute{Namespace: "", Key: "aria-label", Val: "computing the singular values"}, vugu.VGAttribute{Namespace: "", Key: "max", Val: "1000"}}}
 						vgparent.AppendChild(vgn)
+						vgn.AddAttrInterface("value", c.ProgressPermille("design"))
 					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 					vgparent.AppendChild(vgn)
@@ -395,8 +397,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-design-use"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "click",
-								Func:      func(event vugu.DOMEvent) { c.UseDesign() },
+								EventType:	"click",
+								Func:		func(event vugu.DOMEvent) { c.UseDesign() },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							{
@@ -424,9 +426,41 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 					vgparent.AppendChild(vgn)
 					if c.Applied("design") != "" {
-						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}}}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "data-design-applied"}}}
 						vgparent.AppendChild(vgn)
 						vgn.SetInnerHTML(c.Applied("design"))
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+					vgparent.AppendChild(vgn)
+					if c.Locked() != nil {
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "actions data-lock"}, vugu.VGAttribute{Namespace: "", Key: "data-figure", Val: "data_alpha_locked"}, vugu.VGAttribute{Namespace: "", Key: "data-value", Val: "true"}}}
+						vgparent.AppendChild(vgn)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "hint"}}}
+							vgparent.AppendChild(vgn)
+							vgn.SetInnerHTML("m/n = " + fmtNum(float64(c.Locked().Rows)/float64(c.Locked().Cols)) + " follows " + c.Locked().Label() + ": the design is your matrix’s own spectrum. Unlocking frees m/n for the same singular values at another sampling ratio, which is no longer your matrix; the check with the matrix itself is then off.")
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-alpha-unlock"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
+							vgparent.AppendChild(vgn)
+							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+								EventType:	"click",
+								Func:		func(event vugu.DOMEvent) { c.UnlockAlpha() },
+								// TODO: implement capture, etc. mostly need to decide syntax
+							})
+							{
+								vgparent := vgn
+								_ = vgparent
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Unlock m/n"}
+								vgparent.AppendChild(vgn)
+							}
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+							vgparent.AppendChild(vgn)
+						}
 					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 					vgparent.AppendChild(vgn)
@@ -476,8 +510,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-method"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "change",
-								Func:      func(event vugu.DOMEvent) { c.typed(event, "method") },
+								EventType:	"change",
+								Func:		func(event vugu.DOMEvent) { c.typed(event, "method") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							{
@@ -531,8 +565,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-signal-file"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "file"}, vugu.VGAttribute{Namespace: "", Key: "accept", Val: ".csv,.tsv,.txt,.dat,text/plain,text/csv"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "change",
-								Func:      func(event vugu.DOMEvent) { c.ReadFile("signal") },
+								EventType:	"change",
+								Func:		func(event vugu.DOMEvent) { c.ReadFile("signal") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 						}
@@ -566,8 +600,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "textarea", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-signal-text"}, vugu.VGAttribute{Namespace: "", Key: "rows", Val: "5"}, vugu.VGAttribute{Namespace: "", Key: "cols", Val: "60"}, vugu.VGAttribute{Namespace: "", Key: "spellcheck", Val: "false"}, vugu.VGAttribute{Namespace: "", Key: "placeholder", Val: "numbers separated by commas, spaces or lines"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "change",
-								Func:      func(event vugu.DOMEvent) { c.typed(event, "signal-text") },
+								EventType:	"change",
+								Func:		func(event vugu.DOMEvent) { c.typed(event, "signal-text") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 						}
@@ -609,8 +643,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 								}
 								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-									EventType: "change",
-									Func:      func(event vugu.DOMEvent) { c.typed(event, "k") },
+									EventType:	"change",
+									Func:		func(event vugu.DOMEvent) { c.typed(event, "k") },
 									// TODO: implement capture, etc. mostly need to decide syntax
 								})
 							}
@@ -637,8 +671,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "click",
-							Func:      func(event vugu.DOMEvent) { c.ReadText("signal") },
+							EventType:	"click",
+							Func:		func(event vugu.DOMEvent) { c.ReadText("signal") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -659,8 +693,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType: "click",
-							Func:      func(event vugu.DOMEvent) { c.Cancel("signal") },
+							EventType:	"click",
+							Func:		func(event vugu.DOMEvent) { c.Cancel("signal") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -741,8 +775,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-signal-use"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "click",
-								Func:      func(event vugu.DOMEvent) { c.UseSignal() },
+								EventType:	"click",
+								Func:		func(event vugu.DOMEvent) { c.UseSignal() },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							{

@@ -248,7 +248,10 @@ func (c *DataView) compute(part, text string) {
 			if part == "design" {
 				var r protocol.SpectrumResult
 				if err = json.Unmarshal(res, &r); err == nil {
-					c.spectrum = &r
+					c.spectrum, c.matrixText = &r, ""
+					if r.Source == protocol.SourceMatrix {
+						c.matrixText = text
+					}
 				}
 			} else {
 				var r protocol.FitResult
@@ -505,15 +508,41 @@ func (c *DataView) UseDesign() {
 		alpha = a
 	}
 	values, note := shortList(r.SingularValues, "singular values")
+	old := c.Model.Matrix
+	c.Model.Matrix = nil
+	if r.Source == protocol.SourceMatrix && c.matrixText != "" {
+		c.Model.Matrix = &UserMatrix{Name: c.design.fileName, Text: c.matrixText, Rows: r.Rows, Cols: r.Cols,
+			MaxBytes: MaxMatrixBytes, Locked: true}
+	}
 	err := c.apply(func(s *scenario.Scenario) {
 		s.Design = scenario.Design{Shape: "empirical-sv", Alpha: alpha, Scale: s.Design.Scale,
 			Lists: map[string][]float64{"values": values}}
 	})
 	if err != nil {
+		c.Model.Matrix = old
 		c.design.problem = "cannot use these values as the design: " + err.Error()
 		return
 	}
 	c.design.applied = fmt.Sprintf("The design is now these %d singular values with m/n = %s.", len(r.SingularValues), fmtNum(alpha)) + note
+	if c.Model.Matrix != nil {
+		c.design.applied += fmt.Sprintf(" m/n is locked to the matrix's shape, %d × %d; the check view can now run trials with the matrix itself.", r.Rows, r.Cols)
+	}
+}
+
+// Locked is the user's matrix whose shape m/n follows; nil when none.
+func (c *DataView) Locked() *UserMatrix { return c.Model.MatrixDesign() }
+
+// UnlockAlpha frees m/n from the matrix's shape, saying what that means.
+func (c *DataView) UnlockAlpha() {
+	u := c.Model.MatrixDesign()
+	if u == nil {
+		return
+	}
+	u.Locked = false
+	c.design.applied = "m/n is free: a design with these singular values at another sampling ratio is no longer your matrix, so the check with the matrix itself is off. Use the matrix as the design again to lock m/n to its shape."
+	if c.Changed != nil {
+		c.Changed()
+	}
 }
 
 // UseSignal makes the signal law of the scenario the empirical law of the samples or the
