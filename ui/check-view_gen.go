@@ -21,31 +21,31 @@ import (
 // CheckView runs finite-size checks of the scenario in Model on the compute workers and
 // draws them over the prediction.
 type CheckView struct {
-	Active	bool	// its tab is selected: only then is its markup built (see root.vugu)
+	Active bool // its tab is selected: only then is its markup built (see root.vugu)
 
-	Model	*Model
-	Jobs	Jobs
-	Browser	Browser
-	Clock	func() time.Time	// nil: the real clock (tests set a fake)
+	Model   *Model
+	Jobs    Jobs
+	Browser Browser
+	Clock   func() time.Time // nil: the real clock (tests set a fake)
 
-	Solver, Factors, Over	string
+	Solver, Factors, Over string
 
-	nText, trialsText, seedText, atText	string
-	trialsTyped, noMatrix			bool
-	run, problem				string
-	settingsUsed				scenario.Check
-	scen					[]byte
-	xs					[]float64
-	points					[]checkPoint
-	curve					[]protocol.CurvePoint
-	trial, trials				int
-	cancel					func()
-	started					time.Time
-	elapsed					time.Duration
-	figure					*plot.Figure
-	figURL, figErr				string
-	paths					[]scenario.PathInfo
-	pathsKey				string
+	nText, trialsText, seedText, atText string
+	trialsTyped, noMatrix               bool
+	run, problem                        string
+	settingsUsed                        scenario.Check
+	scen                                []byte
+	xs                                  []float64
+	points                              []checkPoint
+	curve                               []protocol.CurvePoint
+	trial, trials                       int
+	cancel                              func()
+	started                             time.Time
+	elapsed                             time.Duration
+	figure                              *plot.Figure
+	figURL, figErr                      string
+	paths                               []scenario.PathInfo
+	pathsKey                            string
 }
 
 func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -56,7 +56,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "check"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "check-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "check"}}}
-	vgout.Out = append(vgout.Out, vgn)	// root for output
+	vgout.Out = append(vgout.Out, vgn) // root for output
 	vgn.AddAttrInterface("data-run", c.Run())
 	{
 		vgparent := vgn
@@ -64,7 +64,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}
 		vgparent.AppendChild(vgn)
 		if c.Active {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)}	// <vg-template>
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)} // <vg-template>
 			vgparent.AppendChild(vgn)
 			{
 				vgparent := vgn
@@ -114,8 +114,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "checked", JSONVal: vjson.RawMessage(b)})
 							}
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"change",
-								Func:		func(event vugu.DOMEvent) { c.toggleMatrix(event) },
+								EventType: "change",
+								Func:      func(event vugu.DOMEvent) { c.toggleMatrix(event) },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: " Check with your matrix itself, "}
@@ -183,8 +183,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "n") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "n") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -219,8 +219,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "trials") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "trials") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -255,8 +255,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "seed") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "seed") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -284,8 +284,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-solver"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "solver") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "solver") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -338,8 +338,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-factors"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "factors") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "factors") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -392,8 +392,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-over"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "over") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "over") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -471,8 +471,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 							}
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"change",
-								Func:		func(event vugu.DOMEvent) { c.typed(event, "at") },
+								EventType: "change",
+								Func:      func(event vugu.DOMEvent) { c.typed(event, "at") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -511,8 +511,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Start() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Start() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -533,8 +533,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Cancel() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Cancel() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -881,8 +881,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-csv"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Export("csv") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("csv") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -903,8 +903,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Export("svg") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("svg") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -925,8 +925,8 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Export("png") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("png") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{

@@ -110,8 +110,8 @@ func (c *CheckView) TrialsText() string {
 	}
 	return c.trialsText
 }
-func (c *CheckView) SeedText() string   { return c.seedText }
-func (c *CheckView) AtText() string     { return c.atText }
+func (c *CheckView) SeedText() string { return c.seedText }
+func (c *CheckView) AtText() string   { return c.atText }
 
 // SetSetting stores the text of one input of the check: "n", "trials", "seed", "solver",
 // "factors", "over", "at" or "matrix" ("on" or "off": the check with the user's matrix).

@@ -20,33 +20,33 @@ import (
 // predicted error along it, with the kept curves, the best regularization and the
 // Bayes-optimal error beside it.
 type CurveView struct {
-	Active	bool	// its tab is selected: only then is its markup built (see root.vugu)
+	Active bool // its tab is selected: only then is its markup built (see root.vugu)
 
-	Model	*Model
-	Jobs	Jobs
-	Browser	Browser
-	Clock	func() time.Time	// nil: the real clock (tests set a fake)
+	Model   *Model
+	Jobs    Jobs
+	Browser Browser
+	Clock   func() time.Time // nil: the real clock (tests set a fake)
 
-	Quantity	string	// the observable on the y axis (study.Observables name)
-	YLog		bool
+	Quantity string // the observable on the y axis (study.Observables name)
+	YLog     bool
 
-	inited			bool
-	ax			axisText
-	axis			study.Axis	// the axis of the drawn curves
-	run, problem, note	string
-	current			*curveSeries
-	kept			[]*curveSeries
-	best			*study.BestResult
-	bestErr			string
-	bayes			*study.BayesResult
-	bayesNote		string
-	bestCancel, bayesCancel	func()
-	seconds			float64	// from start to the sweep's numbers
-	figSeconds		float64	// from start to the figure in place
-	started			time.Time
-	box			figureBox
+	inited                  bool
+	ax                      axisText
+	axis                    study.Axis // the axis of the drawn curves
+	run, problem, note      string
+	current                 *curveSeries
+	kept                    []*curveSeries
+	best                    *study.BestResult
+	bestErr                 string
+	bayes                   *study.BayesResult
+	bayesNote               string
+	bestCancel, bayesCancel func()
+	seconds                 float64 // from start to the sweep's numbers
+	figSeconds              float64 // from start to the figure in place
+	started                 time.Time
+	box                     figureBox
 
-	vary	pathChoices	// the "Vary" menu, kept while the scenario is invalid
+	vary pathChoices // the "Vary" menu, kept while the scenario is invalid
 }
 
 func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -57,7 +57,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "study curve"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "curve-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "curve"}}}
-	vgout.Out = append(vgout.Out, vgn)	// root for output
+	vgout.Out = append(vgout.Out, vgn) // root for output
 	vgn.AddAttrInterface("data-figure-seconds", c.FigureSeconds())
 	vgn.AddAttrInterface("data-run", c.Run())
 	vgn.AddAttrInterface("data-seconds", c.Seconds())
@@ -67,7 +67,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}
 		vgparent.AppendChild(vgn)
 		if c.Active {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)}	// <vg-template>
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)} // <vg-template>
 			vgparent.AppendChild(vgn)
 			{
 				vgparent := vgn
@@ -121,8 +121,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-over"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "over") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "over") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -183,8 +183,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "from") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "from") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -219,8 +219,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "to") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "to") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -255,8 +255,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "points") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "points") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -291,8 +291,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "checked", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.ticked(event, "log") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.ticked(event, "log") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -320,8 +320,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-quantity"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "quantity") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "quantity") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -381,8 +381,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "checked", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.ticked(event, "ylog") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.ticked(event, "ylog") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -410,8 +410,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Start() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Start() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -432,8 +432,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Keep() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Keep() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -454,8 +454,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Compare() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Compare() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -476,8 +476,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Clear() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Clear() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -498,8 +498,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Cancel() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Cancel() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -575,13 +575,13 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figure-overlay"}, vugu.VGAttribute{Namespace: "", Key: "aria-hidden", Val: "true"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"mousemove",
-								Func:		func(event vugu.DOMEvent) { c.pointer(event) },
+								EventType: "mousemove",
+								Func:      func(event vugu.DOMEvent) { c.pointer(event) },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"mouseleave",
-								Func:		func(event vugu.DOMEvent) { c.leave() },
+								EventType: "mouseleave",
+								Func:      func(event vugu.DOMEvent) { c.leave() },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -649,8 +649,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-csv"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Export("csv") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("csv") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -664,8 +664,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-svg"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Export("svg") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("svg") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -679,8 +679,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-png"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Export("png") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("png") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{

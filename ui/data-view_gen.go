@@ -19,20 +19,20 @@ import (
 // DataView reads a user's matrix, spectrum or signal samples, summarizes them on the
 // compute workers, and puts them into the scenario in Model on request.
 type DataView struct {
-	Active	bool	// its tab is selected: only then is its markup built (see root.vugu)
+	Active bool // its tab is selected: only then is its markup built (see root.vugu)
 
-	Model	*Model
-	Jobs	Jobs
-	Browser	Browser
-	Changed	func()			// called after the scenario was changed
-	Clock	func() time.Time	// nil: the real clock
+	Model   *Model
+	Jobs    Jobs
+	Browser Browser
+	Changed func()           // called after the scenario was changed
+	Clock   func() time.Time // nil: the real clock
 
-	Source, Method		string
-	kText, alphaText	string
-	design, signal		dataPart
-	spectrum		*protocol.SpectrumResult
-	matrixText		string	// the text of the matrix whose spectrum was read last
-	fit			*protocol.FitResult
+	Source, Method   string
+	kText, alphaText string
+	design, signal   dataPart
+	spectrum         *protocol.SpectrumResult
+	matrixText       string // the text of the matrix whose spectrum was read last
+	fit              *protocol.FitResult
 }
 
 func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -43,7 +43,7 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "data"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "data-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "data"}}}
-	vgout.Out = append(vgout.Out, vgn)	// root for output
+	vgout.Out = append(vgout.Out, vgn) // root for output
 	vgn.AddAttrInterface("data-run", c.Run())
 	{
 		vgparent := vgn
@@ -51,7 +51,7 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}
 		vgparent.AppendChild(vgn)
 		if c.Active {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)}	// <vg-template>
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)} // <vg-template>
 			vgparent.AppendChild(vgn)
 			{
 				vgparent := vgn
@@ -121,8 +121,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-source"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"change",
-								Func:		func(event vugu.DOMEvent) { c.typed(event, "source") },
+								EventType: "change",
+								Func:      func(event vugu.DOMEvent) { c.typed(event, "source") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							{
@@ -176,8 +176,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-design-file"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "file"}, vugu.VGAttribute{Namespace: "", Key: "accept", Val: ".csv,.tsv,.txt,.mtx,.dat,text/plain,text/csv"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"change",
-								Func:		func(event vugu.DOMEvent) { c.ReadFile("design") },
+								EventType: "change",
+								Func:      func(event vugu.DOMEvent) { c.ReadFile("design") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 						}
@@ -215,8 +215,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "textarea", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-design-text"}, vugu.VGAttribute{Namespace: "", Key: "rows", Val: "5"}, vugu.VGAttribute{Namespace: "", Key: "cols", Val: "60"}, vugu.VGAttribute{Namespace: "", Key: "spellcheck", Val: "false"}, vugu.VGAttribute{Namespace: "", Key: "placeholder", Val: "one row of the matrix a line, or one value a line"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"change",
-								Func:		func(event vugu.DOMEvent) { c.typed(event, "design-text") },
+								EventType: "change",
+								Func:      func(event vugu.DOMEvent) { c.typed(event, "design-text") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 						}
@@ -258,8 +258,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 								}
 								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-									EventType:	"change",
-									Func:		func(event vugu.DOMEvent) { c.typed(event, "alpha") },
+									EventType: "change",
+									Func:      func(event vugu.DOMEvent) { c.typed(event, "alpha") },
 									// TODO: implement capture, etc. mostly need to decide syntax
 								})
 							}
@@ -286,8 +286,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.ReadText("design") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.ReadText("design") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -308,8 +308,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Cancel("design") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Cancel("design") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -397,8 +397,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-design-use"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"click",
-								Func:		func(event vugu.DOMEvent) { c.UseDesign() },
+								EventType: "click",
+								Func:      func(event vugu.DOMEvent) { c.UseDesign() },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							{
@@ -448,8 +448,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-alpha-unlock"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"click",
-								Func:		func(event vugu.DOMEvent) { c.UnlockAlpha() },
+								EventType: "click",
+								Func:      func(event vugu.DOMEvent) { c.UnlockAlpha() },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							{
@@ -510,8 +510,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-method"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"change",
-								Func:		func(event vugu.DOMEvent) { c.typed(event, "method") },
+								EventType: "change",
+								Func:      func(event vugu.DOMEvent) { c.typed(event, "method") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							{
@@ -565,8 +565,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-signal-file"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "file"}, vugu.VGAttribute{Namespace: "", Key: "accept", Val: ".csv,.tsv,.txt,.dat,text/plain,text/csv"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"change",
-								Func:		func(event vugu.DOMEvent) { c.ReadFile("signal") },
+								EventType: "change",
+								Func:      func(event vugu.DOMEvent) { c.ReadFile("signal") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 						}
@@ -600,8 +600,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "textarea", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-signal-text"}, vugu.VGAttribute{Namespace: "", Key: "rows", Val: "5"}, vugu.VGAttribute{Namespace: "", Key: "cols", Val: "60"}, vugu.VGAttribute{Namespace: "", Key: "spellcheck", Val: "false"}, vugu.VGAttribute{Namespace: "", Key: "placeholder", Val: "numbers separated by commas, spaces or lines"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"change",
-								Func:		func(event vugu.DOMEvent) { c.typed(event, "signal-text") },
+								EventType: "change",
+								Func:      func(event vugu.DOMEvent) { c.typed(event, "signal-text") },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 						}
@@ -643,8 +643,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 								}
 								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-									EventType:	"change",
-									Func:		func(event vugu.DOMEvent) { c.typed(event, "k") },
+									EventType: "change",
+									Func:      func(event vugu.DOMEvent) { c.typed(event, "k") },
 									// TODO: implement capture, etc. mostly need to decide syntax
 								})
 							}
@@ -671,8 +671,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.ReadText("signal") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.ReadText("signal") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -693,8 +693,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Cancel("signal") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Cancel("signal") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -775,8 +775,8 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-signal-use"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"click",
-								Func:		func(event vugu.DOMEvent) { c.UseSignal() },
+								EventType: "click",
+								Func:      func(event vugu.DOMEvent) { c.UseSignal() },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							{

@@ -14,16 +14,16 @@ import "log"
 // Every input states its unit, range and meaning from the engine's registries; an input in
 // Invalid is marked in place with its message.
 type Editor struct {
-	Model	*Model
-	Changed	func()
-	Invalid	map[string]string	// input id -> message naming the field and the reason
-	Problem	string			// a problem of the scenario no single input can be blamed for
+	Model   *Model
+	Changed func()
+	Invalid map[string]string // input id -> message naming the field and the reason
+	Problem string            // a problem of the scenario no single input can be blamed for
 
-	DesignPlot, SignalPlot	lawPlot
-	PlotsStale		bool	// the plots show the last valid scenario, not the inputs
+	DesignPlot, SignalPlot lawPlot
+	PlotsStale             bool // the plots show the last valid scenario, not the inputs
 
-	replacing	map[string]string	// input id -> the compact list the user chose to replace
-	sums		map[string]listSum	// input id -> summary of its compact list
+	replacing map[string]string  // input id -> the compact list the user chose to replace
+	sums      map[string]listSum // input id -> summary of its compact list
 }
 
 func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -34,7 +34,7 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "editor"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "editor-heading"}}}
-	vgout.Out = append(vgout.Out, vgn)	// root for output
+	vgout.Out = append(vgout.Out, vgn) // root for output
 	{
 		vgparent := vgn
 		_ = vgparent
@@ -82,8 +82,8 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.AddAttrInterface("aria-describedby", "help-pick-"+g.Name)
 						vgn.AddAttrInterface("id", "pick-"+g.Name)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.pick(event, g.Name) },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.pick(event, g.Name) },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -139,8 +139,8 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "pick-scale"}, vugu.VGAttribute{Namespace: "", Key: "aria-describedby", Val: "help-pick-scale"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.pickScale(event) },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.pickScale(event) },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -221,8 +221,8 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"input",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, f.ID) },
+							EventType: "input",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, f.ID) },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
@@ -247,8 +247,8 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgn.AddAttrInterface("id", "replace-"+f.ID)
 								vgn.SetInnerHTML(c.replaceLabel(f))
 								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-									EventType:	"click",
-									Func:		func(event vugu.DOMEvent) { c.toggleReplace(f) },
+									EventType: "click",
+									Func:      func(event vugu.DOMEvent) { c.toggleReplace(f) },
 									// TODO: implement capture, etc. mostly need to decide syntax
 								})
 								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}

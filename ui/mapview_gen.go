@@ -20,31 +20,31 @@ import (
 // Mapview computes a map of the predicted error over two numbers of the scenario in Model,
 // in blocks of rows on all the compute workers, and draws it as a heat map with contours.
 type Mapview struct {
-	Active	bool	// its tab is selected: only then is its markup built (see root.vugu)
+	Active bool // its tab is selected: only then is its markup built (see root.vugu)
 
-	Model	*Model
-	Jobs	Jobs
-	Browser	Browser
-	Clock	func() time.Time	// nil: the real clock (tests set a fake)
+	Model   *Model
+	Jobs    Jobs
+	Browser Browser
+	Clock   func() time.Time // nil: the real clock (tests set a fake)
 
-	Quantity	string	// the observable the colours show (study.Observables name)
+	Quantity string // the observable the colours show (study.Observables name)
 
-	inited		bool
-	ax		[2]axisText
-	axes		[2]study.Axis	// the axes of the map computed last
-	scen		scenario.Scenario
-	run, problem	string
-	cells		[]study.Point
-	blocks		[]func()	// cancel of each block still running
-	pending		int
-	done, total	int
-	started		time.Time
-	seconds		float64
-	figSeconds	float64	// from start to the map's image in place
-	box		figureBox
-	levels		[]float64	// the contour levels drawn
+	inited       bool
+	ax           [2]axisText
+	axes         [2]study.Axis // the axes of the map computed last
+	scen         scenario.Scenario
+	run, problem string
+	cells        []study.Point
+	blocks       []func() // cancel of each block still running
+	pending      int
+	done, total  int
+	started      time.Time
+	seconds      float64
+	figSeconds   float64 // from start to the map's image in place
+	box          figureBox
+	levels       []float64 // the contour levels drawn
 
-	vary	pathChoices	// the "Vary" menu, kept while the scenario is invalid
+	vary pathChoices // the "Vary" menu, kept while the scenario is invalid
 }
 
 func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -55,7 +55,7 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "study map"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "map-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "map"}}}
-	vgout.Out = append(vgout.Out, vgn)	// root for output
+	vgout.Out = append(vgout.Out, vgn) // root for output
 	vgn.AddAttrInterface("data-figure-seconds", c.FigureSeconds())
 	vgn.AddAttrInterface("data-run", c.Run())
 	vgn.AddAttrInterface("data-seconds", c.Seconds())
@@ -65,7 +65,7 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}
 		vgparent.AppendChild(vgn)
 		if c.Active {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)}	// <vg-template>
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)} // <vg-template>
 			vgparent.AppendChild(vgn)
 			{
 				vgparent := vgn
@@ -138,8 +138,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgparent.AppendChild(vgn)
 								vgn.AddAttrInterface("id", a.Key+"-over")
 								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-									EventType:	"change",
-									Func:		func(event vugu.DOMEvent) { c.typed(event, a.Set+"over") },
+									EventType: "change",
+									Func:      func(event vugu.DOMEvent) { c.typed(event, a.Set+"over") },
 									// TODO: implement capture, etc. mostly need to decide syntax
 								})
 								{
@@ -202,8 +202,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 								}
 								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-									EventType:	"change",
-									Func:		func(event vugu.DOMEvent) { c.typed(event, a.Set+"from") },
+									EventType: "change",
+									Func:      func(event vugu.DOMEvent) { c.typed(event, a.Set+"from") },
 									// TODO: implement capture, etc. mostly need to decide syntax
 								})
 								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
@@ -240,8 +240,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 								}
 								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-									EventType:	"change",
-									Func:		func(event vugu.DOMEvent) { c.typed(event, a.Set+"to") },
+									EventType: "change",
+									Func:      func(event vugu.DOMEvent) { c.typed(event, a.Set+"to") },
 									// TODO: implement capture, etc. mostly need to decide syntax
 								})
 								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
@@ -278,8 +278,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 								}
 								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-									EventType:	"change",
-									Func:		func(event vugu.DOMEvent) { c.typed(event, a.Set+"points") },
+									EventType: "change",
+									Func:      func(event vugu.DOMEvent) { c.typed(event, a.Set+"points") },
 									// TODO: implement capture, etc. mostly need to decide syntax
 								})
 								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
@@ -316,8 +316,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "checked", JSONVal: vjson.RawMessage(b)})
 								}
 								vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-									EventType:	"change",
-									Func:		func(event vugu.DOMEvent) { c.ticked(event, a.Set+"log") },
+									EventType: "change",
+									Func:      func(event vugu.DOMEvent) { c.ticked(event, a.Set+"log") },
 									// TODO: implement capture, etc. mostly need to decide syntax
 								})
 								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
@@ -349,8 +349,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "map-quantity"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "quantity") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "quantity") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -403,8 +403,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Start() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Start() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -425,8 +425,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Cancel() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Cancel() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -510,13 +510,13 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figure-overlay"}, vugu.VGAttribute{Namespace: "", Key: "aria-hidden", Val: "true"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"mousemove",
-								Func:		func(event vugu.DOMEvent) { c.pointer(event) },
+								EventType: "mousemove",
+								Func:      func(event vugu.DOMEvent) { c.pointer(event) },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"mouseleave",
-								Func:		func(event vugu.DOMEvent) { c.leave() },
+								EventType: "mouseleave",
+								Func:      func(event vugu.DOMEvent) { c.leave() },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -566,8 +566,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "map-csv"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Export("csv") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("csv") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -581,8 +581,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "map-svg"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Export("svg") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("svg") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -596,8 +596,8 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "map-png"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Export("png") },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("png") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{

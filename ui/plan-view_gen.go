@@ -13,21 +13,21 @@ import "log"
 // PlanView answers "how many measurements for this error?" for the scenario in Model and
 // for the other design shapes, one planner job per design.
 type PlanView struct {
-	Active	bool	// its tab is selected: only then is its markup built (see root.vugu)
+	Active bool // its tab is selected: only then is its markup built (see root.vugu)
 
-	Model	*Model
-	Jobs	Jobs
-	Browser	Browser
+	Model   *Model
+	Jobs    Jobs
+	Browser Browser
 
-	Unit	string	// "db" or "mse"
-	Over	string	// the weight tuned ("" lets the engine choose)
+	Unit string // "db" or "mse"
+	Over string // the weight tuned ("" lets the engine choose)
 
-	inited				bool
-	targetText, alphaMaxText	string
-	run, problem			string
-	target, alphaMax		float64
-	mse				bool
-	rows				[]*planRow
+	inited                   bool
+	targetText, alphaMaxText string
+	run, problem             string
+	target, alphaMax         float64
+	mse                      bool
+	rows                     []*planRow
 }
 
 func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -38,7 +38,7 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "study plan"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "plan-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "plan"}}}
-	vgout.Out = append(vgout.Out, vgn)	// root for output
+	vgout.Out = append(vgout.Out, vgn) // root for output
 	vgn.AddAttrInterface("data-run", c.Run())
 	{
 		vgparent := vgn
@@ -46,7 +46,7 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}
 		vgparent.AppendChild(vgn)
 		if c.Active {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)}	// <vg-template>
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)} // <vg-template>
 			vgparent.AppendChild(vgn)
 			{
 				vgparent := vgn
@@ -107,8 +107,8 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "target") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "target") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -136,8 +136,8 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "plan-unit"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "unit") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "unit") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -212,8 +212,8 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "alpha_max") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "alpha_max") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
@@ -241,8 +241,8 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "plan-over"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"change",
-							Func:		func(event vugu.DOMEvent) { c.typed(event, "over") },
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "over") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
@@ -295,8 +295,8 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Start() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Start() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -317,8 +317,8 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Cancel() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Cancel() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -513,8 +513,8 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "plan-csv"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.Export() },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export() },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{

@@ -14,14 +14,14 @@ import "log"
 // When the scenario in the editor is invalid (Stale), the figures of the last valid scenario
 // stay, under its summary and marked as such.
 type Results struct {
-	Figures	Figures
-	Have	bool	// Figures hold a result
-	Busy	bool	// a new result is on its way
-	Stale	bool	// Figures belong to the last valid scenario, not to the inputs
-	Problem	string	// why the inputs have no figures of their own
-	Summary	string	// the scenario Figures belong to, in words
-	Support	bool	// TPP and FDP apply (sparse signal, penalty with a zero region)
-	Zeroes	bool	// the penalty can set entries exactly to zero
+	Figures Figures
+	Have    bool   // Figures hold a result
+	Busy    bool   // a new result is on its way
+	Stale   bool   // Figures belong to the last valid scenario, not to the inputs
+	Problem string // why the inputs have no figures of their own
+	Summary string // the scenario Figures belong to, in words
+	Support bool   // TPP and FDP apply (sparse signal, penalty with a zero region)
+	Zeroes  bool   // the penalty can set entries exactly to zero
 }
 
 func (c *Results) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -32,7 +32,7 @@ func (c *Results) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "results"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "results-heading"}}}
-	vgout.Out = append(vgout.Out, vgn)	// root for output
+	vgout.Out = append(vgout.Out, vgn) // root for output
 	vgn.AddAttrInterface("data-converged", c.convergedText())
 	vgn.AddAttrInterface("data-stale", c.staleText())
 	{

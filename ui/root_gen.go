@@ -14,25 +14,25 @@ import "log"
 // figures the views in tabs (curve, map, plan, check, data, share, assumptions).
 // Eval must be set before the first render.
 type Root struct {
-	Model	*Model
-	Eval	Evaluator
-	Jobs	Jobs	// compute workers; nil until they have started
-	Browser	Browser	// address bar, clipboard, storage, files; nil in native tests
+	Model   *Model
+	Eval    Evaluator
+	Jobs    Jobs    // compute workers; nil until they have started
+	Browser Browser // address bar, clipboard, storage, files; nil in native tests
 
-	Figures	Figures
-	have	bool	// Figures hold the result of some valid scenario
-	stale	bool	// the scenario now in the editor is invalid; Figures are the last valid one's
-	busy	bool	// an evaluation is running
-	problem	string	// why the scenario in the editor has no figures, in words; "" when none
-	summary	string	// the scenario Figures belong to, in words
-	support	bool	// TPP and FDP apply to the scenario of Figures
-	zeroes	bool	// its penalty can set entries exactly to zero
-	checked	Checked	// the editor's inputs, checked
-	cancel	func()
+	Figures Figures
+	have    bool    // Figures hold the result of some valid scenario
+	stale   bool    // the scenario now in the editor is invalid; Figures are the last valid one's
+	busy    bool    // an evaluation is running
+	problem string  // why the scenario in the editor has no figures, in words; "" when none
+	summary string  // the scenario Figures belong to, in words
+	support bool    // TPP and FDP apply to the scenario of Figures
+	zeroes  bool    // its penalty can set entries exactly to zero
+	checked Checked // the editor's inputs, checked
+	cancel  func()
 
-	designPlot, signalPlot	lawPlot
-	designKey, signalKey	string	// the laws the two plots show
-	tab			string	// the view whose tab is selected
+	designPlot, signalPlot lawPlot
+	designKey, signalKey   string // the laws the two plots show
+	tab                    string // the view whose tab is selected
 }
 
 func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -43,7 +43,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "main", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "hdrisk"}, vugu.VGAttribute{Namespace: "", Key: "class", Val: "page"}}}
-	vgout.Out = append(vgout.Out, vgn)	// root for output
+	vgout.Out = append(vgout.Out, vgn) // root for output
 	vgn.AddAttrInterface("data-state", c.State())
 	{
 		vgparent := vgn
@@ -72,8 +72,8 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "type", Val: "button"}, vugu.VGAttribute{Namespace: "", Key: "class", Val: "linkish"}}}
 				vgparent.AppendChild(vgn)
 				vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-					EventType:	"click",
-					Func:		func(event vugu.DOMEvent) { c.showTab("about") },
+					EventType: "click",
+					Func:      func(event vugu.DOMEvent) { c.showTab("about") },
 					// TODO: implement capture, etc. mostly need to decide syntax
 				})
 				{
@@ -111,7 +111,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgcomp = new(Editor)
 						vgin.BuildEnv.WireComponent(vgcomp)
 					}
-					vgin.BuildEnv.UseComponent(vgcompKey, vgcomp)	// ensure we can use this in the cache next time around
+					vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
 					vgcomp.Changed = c.changed
 					vgcomp.DesignPlot = c.designPlot
 					vgcomp.Invalid = c.checked.Invalid
@@ -144,7 +144,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgcomp = new(Results)
 						vgin.BuildEnv.WireComponent(vgcomp)
 					}
-					vgin.BuildEnv.UseComponent(vgcompKey, vgcomp)	// ensure we can use this in the cache next time around
+					vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
 					vgcomp.Busy = c.busy
 					vgcomp.Figures = c.Figures
 					vgcomp.Have = c.have
@@ -186,8 +186,8 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.AddAttrInterface("id", "tab-"+v.Name)
 							vgn.SetInnerHTML(v.Label)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType:	"click",
-								Func:		func(event vugu.DOMEvent) { c.showTab(v.Name) },
+								EventType: "click",
+								Func:      func(event vugu.DOMEvent) { c.showTab(v.Name) },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 						}
@@ -215,7 +215,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgcomp = new(CurveView)
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
-							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp)	// ensure we can use this in the cache next time around
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
 							vgcomp.Active = c.tab == "curve"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
@@ -242,7 +242,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgcomp = new(Mapview)
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
-							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp)	// ensure we can use this in the cache next time around
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
 							vgcomp.Active = c.tab == "map"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
@@ -269,7 +269,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgcomp = new(PlanView)
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
-							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp)	// ensure we can use this in the cache next time around
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
 							vgcomp.Active = c.tab == "plan"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
@@ -298,7 +298,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgcomp = new(CheckView)
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
-							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp)	// ensure we can use this in the cache next time around
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
 							vgcomp.Active = c.tab == "check"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
@@ -329,7 +329,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgcomp = new(DataView)
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
-							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp)	// ensure we can use this in the cache next time around
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
 							vgcomp.Active = c.tab == "data"
 							vgcomp.Browser = c.Browser
 							vgcomp.Changed = c.changed
@@ -361,7 +361,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgcomp = new(Share)
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
-							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp)	// ensure we can use this in the cache next time around
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
 							vgcomp.Active = c.tab == "share"
 							vgcomp.Browser = c.Browser
 							vgcomp.Changed = c.changed
@@ -395,7 +395,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgcomp = new(Assumptions)
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
-							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp)	// ensure we can use this in the cache next time around
+							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
 							vgout.Components = append(vgout.Components, vgcomp)
 							vgn = &vugu.VGNode{Component: vgcomp}
 							vgparent.AppendChild(vgn)

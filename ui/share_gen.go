@@ -18,7 +18,7 @@ func (c *Share) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	_ = vgiterkey
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "share"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "share-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "share"}}}
-	vgout.Out = append(vgout.Out, vgn)	// root for output
+	vgout.Out = append(vgout.Out, vgn) // root for output
 	vgn.AddAttrInterface("data-link", c.linkState())
 	{
 		vgparent := vgn
@@ -26,7 +26,7 @@ func (c *Share) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n"}
 		vgparent.AppendChild(vgn)
 		if c.Active {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)}	// <vg-template>
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3)} // <vg-template>
 			vgparent.AppendChild(vgn)
 			{
 				vgparent := vgn
@@ -144,8 +144,8 @@ func (c *Share) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.Copy() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.Copy() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -184,8 +184,8 @@ func (c *Share) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "share-save"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 					vgparent.AppendChild(vgn)
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.SaveFile() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.SaveFile() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -226,8 +226,8 @@ func (c *Share) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
 					}
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.SaveReport() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.SaveReport() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -285,8 +285,8 @@ func (c *Share) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "share-open"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 					vgparent.AppendChild(vgn)
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"click",
-						Func:		func(event vugu.DOMEvent) { c.OpenPaste() },
+						EventType: "click",
+						Func:      func(event vugu.DOMEvent) { c.OpenPaste() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					{
@@ -320,8 +320,8 @@ func (c *Share) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "share-file"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "file"}, vugu.VGAttribute{Namespace: "", Key: "accept", Val: ".json,.txt,application/json,text/plain"}}}
 					vgparent.AppendChild(vgn)
 					vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-						EventType:	"change",
-						Func:		func(event vugu.DOMEvent) { c.OpenFile() },
+						EventType: "change",
+						Func:      func(event vugu.DOMEvent) { c.OpenFile() },
 						// TODO: implement capture, etc. mostly need to decide syntax
 					})
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
@@ -338,7 +338,7 @@ func (c *Share) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgcomp = new(ExamplesMenu)
 						vgin.BuildEnv.WireComponent(vgcomp)
 					}
-					vgin.BuildEnv.UseComponent(vgcompKey, vgcomp)	// ensure we can use this in the cache next time around
+					vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
 					vgcomp.Pick = c.OpenExample
 					vgout.Components = append(vgout.Components, vgcomp)
 					vgn = &vugu.VGNode{Component: vgcomp}
@@ -367,8 +367,8 @@ func (c *Share) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "share-before"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
 						vgparent.AppendChild(vgn)
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-							EventType:	"click",
-							Func:		func(event vugu.DOMEvent) { c.ReopenBefore() },
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.ReopenBefore() },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
 						{
