@@ -92,14 +92,14 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 				vgparent.AppendChild(vgn)
 				if c.HasMatrix() {
-					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field check-matrix"}}}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "check-matrix"}}}
 					vgparent.AppendChild(vgn)
 					{
 						vgparent := vgn
 						_ = vgparent
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)
-						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "label", Attr: []vugu.VGAttribute(nil)}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute(nil)}
 						vgparent.AppendChild(vgn)
 						{
 							vgparent := vgn
@@ -118,13 +118,11 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								Func:      func(event vugu.DOMEvent) { c.toggleMatrix(event) },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: " Check with your matrix itself, "}
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: " "}
 							vgparent.AppendChild(vgn)
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "span", Attr: []vugu.VGAttribute(nil)}
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "label", Attr: []vugu.VGAttribute{{Namespace: "", Key: "for", Val: "check-with-matrix"}}}
 							vgparent.AppendChild(vgn)
-							vgn.SetInnerHTML(c.Model.MatrixDesign().Label())
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: ", beside random rotations of its spectrum"}
-							vgparent.AppendChild(vgn)
+							vgn.SetInnerHTML("Check with your matrix itself, " + c.Model.MatrixDesign().Label() + ", beside random rotations of its spectrum")
 						}
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)

@@ -38,7 +38,11 @@ func (c *Editor) helpText(f Field) string {
 	if f.Unit != "" {
 		t += "; " + f.Unit
 	}
-	return t + ". " + capital(f.Help) + "." + c.Model.alphaLockNote()
+	t += ". " + capital(f.Help) + "."
+	if c.Model.alphaLocked(f) {
+		t += c.Model.alphaLockNote()
+	}
+	return t
 }
 
 func (c *Editor) staleText() string {
