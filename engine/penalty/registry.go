@@ -31,10 +31,12 @@ func optional(p param.Param) param.Param {
 	return p
 }
 
-var kinds = []struct {
+type entry struct {
 	Kind
 	build func(v map[string]float64) (Penalty, error)
-}{
+}
+
+var kinds = []entry{
 	{Kind{"l1", "LASSO: l1 |x|, sets small entries exactly to zero", []param.Param{l1Param}},
 		func(v map[string]float64) (Penalty, error) { return L1(v["l1"]) }},
 	{Kind{"ridge", "ridge: (l2/2) x^2, shrinks every entry, sets none to zero", []param.Param{l2Param}},
@@ -60,6 +62,35 @@ var kinds = []struct {
 		{Name: "q", Unit: "dimensionless", Min: 1, Max: 2, Role: param.Shape,
 			Help: "exponent; q below 1 would make the penalty non-convex and is refused"}}},
 		func(v map[string]float64) (Penalty, error) { return Power(v["weight"], v["q"]) }},
+}
+
+// Register adds a penalty kind to the registry, after those already there; the scenario
+// decoder, the command line and the page's editor then offer it with its parameters. build
+// receives every parameter by name (optional ones left out at their Default) and returns
+// the penalty or a *param.Error naming the parameter. Register is meant for init functions:
+// it must not run while the registry is read.
+//
+// Special cases are: an empty or taken name, a parameter without a name or with Min > Max,
+// a name given twice, and a nil build are refused with a *param.Error.
+func Register(k Kind, build func(v map[string]float64) (Penalty, error)) error {
+	if k.Name == "" || build == nil {
+		return &param.Error{Field: "kind", Reason: "a penalty needs a name and a constructor"}
+	}
+	seen := map[string]bool{}
+	for _, p := range k.Params {
+		if p.Name == "" || !(p.Min <= p.Max) || seen[p.Name] {
+			return &param.Error{Field: k.Name, Reason: fmt.Sprintf("parameter %q: needs a unique name and Min <= Max", p.Name)}
+		}
+		seen[p.Name] = true
+	}
+	for _, e := range kinds {
+		if e.Name == k.Name {
+			return &param.Error{Field: "kind", Reason: fmt.Sprintf("penalty %q is registered already", k.Name)}
+		}
+	}
+	k.Params = slices.Clone(k.Params)
+	kinds = append(kinds, entry{k, build})
+	return nil
 }
 
 // Kinds lists every penalty of the registry with its parameters, in a fixed order.
@@ -112,3 +143,6 @@ func paramNames(ps []param.Param) string {
 	}
 	return strings.Join(n, ", ")
 }
+
+// Strengths of the power penalty: its weight, at every q.
+func (p power) Strengths() []Strength { return []Strength{{"weight", p.weight}} }

@@ -5,7 +5,7 @@ import (
 	"testing"
 )
 
-func benchScenario(b *testing.B, file string) Scenario {
+func benchScenario(b testing.TB, file string) Scenario {
 	data, err := os.ReadFile("../../testdata/scenarios/" + file)
 	if err != nil {
 		b.Fatal(err)

@@ -14,8 +14,10 @@ type PathInfo struct {
 	Path             string // the full JSON path ("design.alpha", "penalty.l1")
 	Label, Unit      string
 	Min, Max         float64
-	MinOpen, MaxOpen bool // the bound itself is excluded
-	Log              bool // best swept on a logarithmic axis
+	MinOpen, MaxOpen bool       // the bound itself is excluded
+	Log              bool       // best swept on a logarithmic axis
+	Object           string     // "design", "signal", "noise" or "penalty"
+	Role             param.Role // what the number does; the penalty's strengths are param.Strength
 }
 
 var (
@@ -132,7 +134,8 @@ func (s Scenario) Paths() []PathInfo {
 			name = t.full
 		}
 		out = append(out, PathInfo{Name: name, Path: t.full, Label: t.p.Title(), Unit: t.p.Unit,
-			Min: t.p.Min, Max: t.p.Max, MinOpen: t.p.MinOpen, MaxOpen: t.p.MaxOpen, Log: t.p.Log})
+			Min: t.p.Min, Max: t.p.Max, MinOpen: t.p.MinOpen, MaxOpen: t.p.MaxOpen, Log: t.p.Log,
+			Object: t.object, Role: t.p.Role})
 	}
 	return out
 }

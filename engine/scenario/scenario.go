@@ -116,7 +116,7 @@ type Map struct {
 
 // Best asks for the regularization with the lowest MSE.
 type Best struct {
-	Over string // "l1" or "l2"
+	Over string // a strength of the penalty ("l1", "l2", "weight", ...)
 }
 
 // Plan asks for the smallest alpha that reaches TargetDB at its best regularization.

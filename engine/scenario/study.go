@@ -4,6 +4,8 @@ import (
 	"math"
 	"slices"
 	"strings"
+
+	"hdrisk/engine/param"
 )
 
 var (
@@ -200,11 +202,8 @@ func (s Scenario) validateStudy() error {
 		}
 	}
 	if b := st.Best; b != nil {
-		if b.Over != "l1" && b.Over != "l2" {
-			return fieldErr("study.best.over", "must be l1 or l2, not %q", clip(b.Over, 40))
-		}
-		if _, ok := s.Penalty.Params[b.Over]; !ok {
-			return fieldErr("study.best.over", "penalty %s has no %s", s.Penalty.Kind, b.Over)
+		if t, err := s.resolve(b.Over); err != nil || t.object != "penalty" || t.p.Role != param.Strength {
+			return fieldErr("study.best.over", "penalty %s has no %s (its strengths: %s)", s.Penalty.Kind, clip(b.Over, 40), strings.Join(s.strengths(), ", "))
 		}
 	}
 	if p := st.Plan; p != nil {
@@ -228,6 +227,19 @@ func (s Scenario) validateStudy() error {
 		}
 	}
 	return nil
+}
+
+// strengths lists the names of the penalty's strengths (the parameters with the role
+// param.Strength), in registry order.
+func (s Scenario) strengths() []string {
+	var n []string
+	s.eachTarget(func(t target) bool {
+		if t.object == "penalty" && t.p.Role == param.Strength {
+			n = append(n, t.p.Name)
+		}
+		return true
+	})
+	return n
 }
 
 // checkAxis validates one swept value: the path exists in s, the ends lie in its range,

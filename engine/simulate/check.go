@@ -438,45 +438,20 @@ func StateEvolution(p fixedpoint.Problem, g2 float64, k int) []float64 {
 	return out
 }
 
-// elasticNetWeights recovers l1 and l2 of an l1, ridge or elastic-net penalty from its linear
-// pieces, which the penalty interface exposes exactly: at precision g the last piece is
-// c (r - l1/g) with c = g/(g + l2). l2 is read at g = l2, where c is near 1/2 and 1 - c loses
-// nothing. The weights are then checked against Prox.
+// elasticNetWeights returns l1 and l2 of an l1, ridge or elastic-net penalty, the ones
+// coordinate descent solves, from the strengths the penalty states.
 func elasticNetWeights(p penalty.Penalty) (l1, l2 float64, ok bool) {
 	switch p.Name() {
 	case "l1", "ridge", "elastic-net":
 	default:
 		return 0, 0, false
 	}
-	last := func(g float64) (slope, intercept float64, ok bool) {
-		pc, exact := p.Pieces(g)
-		if !exact || len(pc) == 0 {
-			return 0, 0, false
-		}
-		q := pc[len(pc)-1]
-		return q.Slope, q.Intercept, q.Slope > 0
-	}
-	c, b, ok := last(1)
-	if !ok {
-		return 0, 0, false
-	}
-	l1 = -b / c
-	l2 = (1 - c) / c
-	if l2 > 0 {
-		if c2, _, ok2 := last(l2); ok2 {
-			l2 = l2 * (1 - c2) / c2
-		}
-	}
-	for _, g := range []float64{0.3, 1, 7} {
-		for _, r := range []float64{-5, -0.5, 0.01, 2, 40} {
-			th := l1 / g
-			want := 0.0
-			if math.Abs(r) > th {
-				want = math.Copysign(math.Abs(r)-th, r) * g / (g + l2)
-			}
-			if math.Abs(p.Prox(r, g)-want) > 1e-12*(1+math.Abs(r)) {
-				return 0, 0, false
-			}
+	for _, st := range p.Strengths() {
+		switch st.Name {
+		case "l1":
+			l1 = st.Value
+		case "l2":
+			l2 = st.Value
 		}
 	}
 	return l1, l2, true
