@@ -3,6 +3,7 @@ package protocol
 import (
 	"fmt"
 	"slices"
+	"time"
 
 	"hdrisk/engine/simulate"
 )
@@ -86,3 +87,13 @@ func SplitTrials(first, trials, workers int) [][2]int {
 	}
 	return out
 }
+
+// Time limits of one job in the page's worker pool, which protect the page from a worker
+// that never answers: a job that sends no reply (progress or result) for JobStallLimit, or
+// runs for JobRunLimit in all, is stopped, its worker replaced and the job reported failed.
+// The longest single step the page runs without progress is the eigenvalue reduction of a
+// 4000 x 4000 Gram matrix (the readers' cap), some minutes in a worker.
+const (
+	JobStallLimit = 5 * time.Minute
+	JobRunLimit   = 30 * time.Minute
+)

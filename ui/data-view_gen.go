@@ -78,6 +78,11 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 				}
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 				vgparent.AppendChild(vgn)
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "hint"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "data-limits"}}}
+				vgparent.AppendChild(vgn)
+				vgn.SetInnerHTML(DataLimits())
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+				vgparent.AppendChild(vgn)
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "data-part"}, vugu.VGAttribute{Namespace: "", Key: "data-part", Val: "design"}}}
 				vgparent.AppendChild(vgn)
 				vgn.AddAttrInterface("data-run", c.DesignRun())

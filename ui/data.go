@@ -11,6 +11,7 @@ import (
 	"github.com/vugu/vugu"
 
 	"hdrisk/engine/plot"
+	"hdrisk/engine/data"
 	"hdrisk/engine/scenario"
 	"hdrisk/protocol"
 )
@@ -161,7 +162,7 @@ func (c *DataView) ReadFile(part string) {
 	limit := c.limit(part)
 	reading := true
 	p.cancel = func() { reading = false }
-	c.Browser.ReadFile(id, limit, func(name string, data []byte, err error) {
+	c.Browser.ReadFile(id, limit, func(name string, content []byte, err error) {
 		if !reading {
 			return
 		}
@@ -171,7 +172,13 @@ func (c *DataView) ReadFile(part string) {
 			p.run, p.problem = RunError, fmt.Sprintf("%v (the page reads files of at most %d MB)", err, limit>>20)
 			return
 		}
-		c.compute(part, string(data))
+		// Refused by its first bytes here, a binary file never goes to a worker: its text
+		// would cost seconds to copy and minutes to read.
+		if err := data.Sniff(content); err != nil {
+			p.run, p.problem = RunError, name+": "+err.Error()
+			return
+		}
+		c.compute(part, string(content))
 	})
 }
 

@@ -1,6 +1,11 @@
 package ui
 
-import "fmt"
+import (
+	"fmt"
+
+	"hdrisk/engine/data"
+	"hdrisk/protocol"
+)
 
 // UserMatrix is the user's own matrix as the data tab read it, kept once "Use as the design"
 // made its spectrum the design: the check view runs trials with it held fixed, and the
@@ -46,4 +51,12 @@ func (m *Model) alphaLockNote() string {
 		return ""
 	}
 	return fmt.Sprintf(" Locked: m/n follows the matrix %s; unlock it in the data tab.", u.Label())
+}
+
+// DataLimits states the limits that protect the page and the machine from what a file may
+// ask for: the readers' caps, the page's file sizes and the longest list.
+func DataLimits() string {
+	l := data.DefaultLimits()
+	return fmt.Sprintf("Limits that protect this page: a matrix of at most %d × %d (%d entries) in at most %d MB of text; lists of at most %d values in %d MB; binary files (spreadsheets, images, archives) are refused by their first bytes. A computation that reports no progress for %v, or runs %v in all, is stopped.",
+		l.MaxRows, l.MaxCols, l.MaxEntries, MaxMatrixBytes>>20, protocol.MaxListValues, MaxListBytes>>20, protocol.JobStallLimit, protocol.JobRunLimit)
 }

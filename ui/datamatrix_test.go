@@ -108,3 +108,15 @@ func TestCheckWithMatrix(t *testing.T) {
 		}
 	}
 }
+
+// A binary file chosen in the data tab is refused by its first bytes, before any job starts.
+func TestDataRefusesBinaryFile(t *testing.T) {
+	jobs := &cdJobs{run: true}
+	br := &cdBrowser{fileName: "book.xlsx", file: append([]byte("PK\x03\x04"), make([]byte, 1<<20)...)}
+	c := &DataView{Model: lassoModel(t), Jobs: jobs, Browser: br}
+	c.start()
+	c.ReadFile("design")
+	if c.DesignRun() != RunError || !strings.Contains(c.Problem("design"), "book.xlsx: the file is a ZIP archive") || len(jobs.started) != 0 {
+		t.Errorf("run %s, problem %q, jobs %v", c.DesignRun(), c.Problem("design"), jobs.started)
+	}
+}

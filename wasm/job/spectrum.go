@@ -34,6 +34,9 @@ func (c *countingReader) Read(p []byte) (int, error) {
 	return k, err
 }
 
+// Len is what is left of the text, so that the reader can bound its work by the data.
+func (c *countingReader) Len() int { return c.r.Len() }
+
 func span(lo, hi int, frac float64) int { return lo + int(float64(hi-lo)*min(1, max(0, frac))) }
 
 // Spectrum reads a matrix or a list of singular values or eigenvalues and summarizes the

@@ -57,14 +57,10 @@ func ReadBoot() (Boot, error) {
 	return b, nil
 }
 
-// Time limits of one job, which protect the page from a worker that never answers: a job
-// that sends no reply (progress or result) for StallLimit, or runs for RunLimit in all, is
-// stopped, its worker replaced and the job reported failed. The longest single step the page
-// runs without progress is the eigenvalue reduction of a 4000 x 4000 Gram matrix (the
-// readers' cap), some minutes in a worker.
+// Time limits of one job (protocol.JobStallLimit, protocol.JobRunLimit).
 const (
-	StallLimit = 5 * time.Minute
-	RunLimit   = 30 * time.Minute
+	StallLimit = protocol.JobStallLimit
+	RunLimit   = protocol.JobRunLimit
 )
 
 // Pool is a set of workers. Its methods may be called from any goroutine.
