@@ -10,8 +10,8 @@ import (
 
 	"github.com/vugu/vugu"
 
-	"hdrisk/engine/plot"
 	"hdrisk/engine/data"
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/protocol"
 )
