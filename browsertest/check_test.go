@@ -153,10 +153,13 @@ func TestCheckInPage(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	t0 := time.Now()
 	native, err := job.Check(protocol.CheckArgs{Scenario: scen, N: 500, Trials: 20, Seed: 1, Solver: "cd", Factors: "fast"}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
+	t.Logf("the same check natively in one process: %v (goal: the page within 2x); in the page %v on %s workers",
+		time.Since(t0).Round(time.Millisecond), elapsed.Round(time.Millisecond), b.cdJS(t, `String(hdriskJobs.size())`))
 	for name, w := range map[string]float64{"check_mean_mse": float64(native.MeanMSE), "check_stderr": float64(native.StdErr),
 		"check_predicted_mse": float64(native.PredictedMSE), "check_tpp": float64(native.TPP.Mean), "check_predicted_fdp": float64(native.FDP.Predicted)} {
 		if got := cdNum(t, figs, name); math.Abs(got-w) > 1e-6*math.Max(math.Abs(w), 1e-12) {

@@ -619,7 +619,8 @@ func (c *CheckView) CSV() []byte {
 	var b bytes.Buffer
 	w := csv.NewWriter(&b)
 	_ = w.Write([]string{"over", "at", "trial", "mse", "nonzero_fraction", "tpp", "fdp", "iterations", "converged", "residual", "seconds",
-		"mean_mse", "stderr", "predicted_mse", "n", "m", "seed", "solver", "factors", "stop_criterion", "tol"})
+		"mean_mse", "stderr", "predicted_mse", "n", "m", "seed", "solver", "factors", "stop_criterion", "tol",
+		"rotated_mse", "rotated_mean_mse", "rotated_stderr", "z", "agrees"})
 	for _, p := range c.points {
 		r := p.Result
 		at := ""
@@ -627,11 +628,18 @@ func (c *CheckView) CSV() []byte {
 			at = fullNum(p.At)
 		}
 		for i, t := range r.PerTrial {
-			_ = w.Write([]string{r.Over, at, strconv.Itoa(i + 1), fullNum(float64(t.MSE)), fullNum(float64(t.Nonzero)),
+			// A check with the user's matrix adds, trial by trial, the error with random
+			// rotations of its spectrum (same x0 and noise) and the verdict.
+			rot := []string{"", "", "", "", ""}
+			if k := r.Comparison; k != nil && i < len(k.RotatedPerTrial) {
+				rot = []string{fullNum(float64(k.RotatedPerTrial[i].MSE)), fullNum(float64(k.RotatedMeanMSE)),
+					fullNum(float64(k.RotatedStdErr)), fullNum(float64(k.Z)), strconv.FormatBool(k.Agrees)}
+			}
+			_ = w.Write(append([]string{r.Over, at, strconv.Itoa(i + 1), fullNum(float64(t.MSE)), fullNum(float64(t.Nonzero)),
 				fullNum(float64(t.TPP)), fullNum(float64(t.FDP)), strconv.Itoa(t.Iterations), strconv.FormatBool(t.Converged),
 				fullNum(float64(t.Residual)), fullNum(float64(t.Seconds)), fullNum(float64(r.MeanMSE)), fullNum(float64(r.StdErr)),
 				fullNum(float64(r.PredictedMSE)), strconv.Itoa(r.N), strconv.Itoa(r.M), strconv.FormatUint(r.Seed, 10),
-				r.Solver, r.Factors, r.Criterion, fullNum(float64(r.Tol))})
+				r.Solver, r.Factors, r.Criterion, fullNum(float64(r.Tol))}, rot...))
 		}
 	}
 	w.Flush()

@@ -97,6 +97,10 @@ func TestCheckWithMatrix(t *testing.T) {
 			t.Errorf("%d workers: %d trials, n %d, factors %s", workers, r.Trials, r.N, r.Factors)
 		}
 		results = append(results, f)
+		csv := string(c.CSV())
+		if lines := strings.Split(strings.TrimSpace(csv), "\n"); len(lines) != 31 || !strings.HasSuffix(lines[0], "rotated_mse,rotated_mean_mse,rotated_stderr,z,agrees") || strings.HasSuffix(lines[1], ",,,,") {
+			t.Errorf("%d workers: CSV of %d lines, header %q, first row %q", workers, len(lines), lines[0], lines[1])
+		}
 		_ = c.SetSetting("matrix", "off")
 		if c.Matrix() != nil || c.NText() == "80" && c.nText != "80" {
 			t.Errorf("matrix off: %v, n %q", c.Matrix(), c.NText())
