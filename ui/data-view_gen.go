@@ -430,6 +430,18 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 					vgparent.AppendChild(vgn)
+					if len(c.DesignFacts()) > 0 && c.Source == "matrix" {
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "hint"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "data-accuracy"}}}
+						vgparent.AppendChild(vgn)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Accuracy: the singular values are the square roots of the eigenvalues of the smaller of FFᵀ and FᵀF, which squares the condition number. A value σ carries a relative error of about 1e-16 × (σ_max/σ)²: some 8 correct digits down to 1e-4 σ_max, and none below √(max(m, n) × 2.2e-16) σ_max, the level counted as zero for the rank."}
+							vgparent.AppendChild(vgn)
+						}
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+					vgparent.AppendChild(vgn)
 					if c.Applied("design") != "" {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "data-design-applied"}}}
 						vgparent.AppendChild(vgn)
