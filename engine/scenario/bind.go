@@ -105,7 +105,7 @@ func (b Binding) At(v float64) (Checked, error) {
 	var err error
 	switch t.full {
 	case "design.alpha":
-		if err = alphaParam.Check(t.full, v); err != nil {
+		if err = AlphaParam.Check(t.full, v); err != nil {
 			return Checked{}, err
 		}
 		c.s.Design.Alpha = v

@@ -16,6 +16,29 @@ var topKeys = []string{"kind", "version", "title", "notes", "design", "signal", 
 // registries state), which Encode then writes out. Every refusal is a *FieldError
 // naming the JSON path ("penalty.l1") and the reason.
 func Decode(data []byte) (Scenario, error) {
+	s, err := read(data)
+	if err != nil {
+		return Scenario{}, err
+	}
+	if err := s.Validate(); err != nil {
+		return Scenario{}, err
+	}
+	return s, nil
+}
+
+// DecodeChecked is Decode returning the checked scenario, for a caller that goes on to
+// solve or study it.
+func DecodeChecked(data []byte) (Checked, error) {
+	s, err := read(data)
+	if err != nil {
+		return Checked{}, err
+	}
+	return s.Check()
+}
+
+// read parses a document into a scenario without the checks that need the registries'
+// constructors.
+func read(data []byte) (Scenario, error) {
 	if len(data) > MaxBytes {
 		return Scenario{}, fieldErr("", "the document is %d bytes; the limit is %d bytes (4 MB)", len(data), MaxBytes)
 	}
@@ -26,14 +49,7 @@ func Decode(data []byte) (Scenario, error) {
 	if err != nil {
 		return Scenario{}, err
 	}
-	s, err := fromTree(tree)
-	if err != nil {
-		return Scenario{}, err
-	}
-	if err := s.Validate(); err != nil {
-		return Scenario{}, err
-	}
-	return s, nil
+	return fromTree(tree)
 }
 
 // reader walks one JSON object, remembering which keys were read so that the rest can be

@@ -20,11 +20,6 @@ type PathInfo struct {
 	Role             param.Role // what the number does; the penalty's strengths are param.Strength
 }
 
-var (
-	noiseParam = param.Param{Name: "variance", Label: "noise variance Delta", Min: 0, Max: MaxNoiseVar, Log: true, Role: param.Scale}
-	snrParam   = param.Param{Name: "snr_db", Label: "signal-to-noise ratio", Unit: "dB", Min: MinSNRdB, Max: MaxSNRdB}
-)
-
 // target is a resolved path.
 type target struct {
 	full   string // "penalty.l1"
@@ -49,11 +44,11 @@ func (s Scenario) eachTarget(fn func(t target) bool) {
 		}
 		return true
 	}
-	_ = fn(target{full: "design.alpha", object: "design", p: alphaParam, scalar: true}) &&
+	_ = fn(target{full: "design.alpha", object: "design", p: AlphaParam, scalar: true}) &&
 		kind("design", designs(), s.Design.Shape) &&
 		kind("signal", signals(), s.Signal.Law) &&
-		fn(target{full: "noise.variance", object: "noise", p: noiseParam, scalar: true}) &&
-		fn(target{full: "noise.snr_db", object: "noise", p: snrParam, scalar: true}) &&
+		fn(target{full: "noise.variance", object: "noise", p: NoiseParam, scalar: true}) &&
+		fn(target{full: "noise.snr_db", object: "noise", p: SNRParam, scalar: true}) &&
 		kind("penalty", penalties(), s.Penalty.Kind) &&
 		s.glmTargets(fn, kind)
 }

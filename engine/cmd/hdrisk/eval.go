@@ -34,15 +34,11 @@ type evalResult struct {
 func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("eval", flag.ContinueOnError)
 	solver := solverFlags(fs)
-	name, err := onePositional(fs, args, "scenario file")
+	s, err := scenarioArg(fs, args, stdin)
 	if err != nil {
 		return err
 	}
 	opts, err := solver()
-	if err != nil {
-		return err
-	}
-	s, err := readScenario(name, stdin)
 	if err != nil {
 		return err
 	}
