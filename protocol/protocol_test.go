@@ -98,8 +98,7 @@ func TestPointsPackedRoundTrip(t *testing.T) {
 	in := Points{
 		{X: 0.1, Y: 2, Result: fixedpoint.Result{MSE: 0.3, NMSEdB: math.Inf(-1), NonZero: math.NaN(), Iterations: 12, Converged: true}},
 		{X: 0.2, Y: 2, Failed: "penalty.l1: no fixed point", Result: fixedpoint.Result{MSE: math.NaN(), Residual: 1e-3}},
-		{X: 0.3, Y: 2, Result: fixedpoint.Result{MSE: 0.2, GLM: &fixedpoint.GLMObservables{Exists: true, Cosine: 0.9,
-			TestError: math.NaN(), ExistsReason: "x", State: fixedpoint.GLMState{SigZ: 2}}}},
+		{X: 0.3, Y: 2, Result: fixedpoint.Result{MSE: 0.2, GLM: true, Labels: true, Cosine: 0.9, TestError: math.NaN()}},
 	}
 	b, err := json.Marshal(in)
 	if err != nil {

@@ -33,14 +33,11 @@ func glmGroups() []Group {
 }
 
 func registryKind(group, name, help string, ps []param.Param) Kind {
-	k := Kind{Name: name, Label: kindLabel(group, name), Help: help}
-	for _, p := range ps {
-		q := newParam(group, name, Param{Name: p.Name, Unit: p.Unit, Help: p.Help, Min: p.Min, Max: p.Max,
-			MinOpen: p.MinOpen, MaxOpen: p.MaxOpen})
-		if q.Label == p.Name && p.Label != "" {
-			q.Label = capital(p.Label)
+	k := newKind(group, name, help, ps)
+	for i, p := range k.Params {
+		if p.Label == p.Name && p.Param.Label != "" {
+			k.Params[i].Label = capital(p.Param.Label)
 		}
-		k.Params = append(k.Params, q)
 	}
 	return k
 }
