@@ -83,9 +83,20 @@ func SolveGLM(p GLM, o Options) (Result, error) {
 	if s.zeroPen && p.Design.Atom0() > 0 {
 		return Result{}, s.absent("no penalty and fewer independent measurements than unknowns (F^T F is singular): the minimizer is not unique")
 	}
-	r, err := s.run(s.coldStart())
-	if err == nil && r.Converged {
-		return r, nil
+	// Solve's two cold starts, and one more with a larger g1: a start whose g1 is too small
+	// for the design's reach (S1(g) = g2z A/g1 beyond S1(0)) puts g on the boundary 0.
+	var r Result
+	var err error
+	for _, f := range [...]float64{1, 4, 100} {
+		st := s.coldStart()
+		st.G1 *= f
+		r, err = s.run(st)
+		if err == nil && r.Converged {
+			return r, nil
+		}
+		if err == nil || !errors.Is(err, errRunOff) || r.Iterations > 1 {
+			break
+		}
 	}
 	if s.zeroPen && p.Loss.Labels() && errors.Is(err, errRunOff) {
 		return Result{}, s.absent("the training labels are linearly separable (the iteration runs off to an estimate of unbounded norm): with the " + p.Loss.Name() + " loss and no penalty there is no finite minimizer")

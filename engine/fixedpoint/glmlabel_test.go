@@ -50,3 +50,15 @@ func TestSignSquareIsLinearWithGaussianDesign(t *testing.T) {
 		t.Logf("alpha %g: iterations %d, cosine %.6f, test error %.6f", c.alpha, got.Iterations, got.Cosine, got.TestError)
 	}
 }
+
+// TestSquareDesignColdStart: with an orthogonal design at m/n = 1, S1 is bounded (S1(0) = 1),
+// and a cold start whose g1 is too small for it put g on the boundary 0, where the output
+// side has no precision; the solver must start again further in (found in the page's map).
+func TestSquareDesignColdStart(t *testing.T) {
+	r, err := SolveGLM(GLM{Design: must(design.Orthogonal(1, design.Rows)), Signal: must(signal.BernoulliGauss(0.05, 1)),
+		Penalty: must(penalty.ElasticNet(0.05, 0)), Noise: must(noise.Gauss(0.01)), Readout: must(readout.Quantize(1, 1)),
+		Loss: loss.Square()}, Options{})
+	if err != nil || !r.Converged || !(r.Cosine > 0.5) {
+		t.Fatalf("%v converged %v cosine %v", err, r.Converged, r.Cosine)
+	}
+}
