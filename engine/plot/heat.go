@@ -305,7 +305,7 @@ func filled(g *grid) *grid {
 type powerTicks struct{}
 
 func (powerTicks) Ticks(min, max float64) []gplot.Tick {
-	ts := logTicks{}.Ticks(math.Pow(10, min), math.Pow(10, max))
+	ts := ticker{log: true, style: textStyle(tickSize)}.Ticks(math.Pow(10, min), math.Pow(10, max))
 	out := make([]gplot.Tick, 0, len(ts))
 	for _, t := range ts {
 		if t.Value > 0 {
