@@ -41,10 +41,10 @@ func near(c color.RGBA) func(r, g, b uint8) bool {
 	}
 }
 
-// raster draws f on a raster canvas at dpi dots per inch. The package lays figures out on
+// rasterOf draws f on a raster canvas at dpi dots per inch. The package lays figures out on
 // an SVG canvas; drawing them here on gonum's raster canvas checks that layout against
 // pixels. Only the tests link the raster backend.
-func raster(t *testing.T, f *Figure, dpi int) image.Image {
+func rasterOf(t *testing.T, f *Figure, dpi int) image.Image {
 	t.Helper()
 	c := vgimg.NewWith(vgimg.UseWH(f.w, f.h), vgimg.UseDPI(dpi), vgimg.UseBackgroundColor(color.White))
 	if err := f.render(c); err != nil {
@@ -78,7 +78,7 @@ func TestReadoutFindsDrawnPoint(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			img := raster(t, f, 144)
+			img := rasterOf(t, f, 144)
 			w, h := float64(img.Bounds().Dx()), float64(img.Bounds().Dy())
 			px, py, n := centroid(img, near(Palette[5]))
 			if n < 10 {
@@ -112,7 +112,7 @@ func TestVerticalRuleAtItsValue(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	img := raster(t, f, 72)
+	img := rasterOf(t, f, 72)
 	fr := f.Frame()
 	w, h := float64(img.Bounds().Dx()), float64(img.Bounds().Dy())
 	// Only the middle band of the data area, away from axes and tick labels.
@@ -163,7 +163,7 @@ func TestHeatReadoutFindsMissingCell(t *testing.T) {
 		if !bytes.Contains(svg, []byte(`xlink:href="data:image/png;base64,`)) {
 			t.Error("the SVG must label its embedded raster as image/png")
 		}
-		img := raster(t, f, 72)
+		img := rasterOf(t, f, 72)
 		w, h := float64(img.Bounds().Dx()), float64(img.Bounds().Dy())
 		px, py, n := centroid(img, func(r, g, b uint8) bool { return r == 0xB0 && g == 0xB0 && b == 0xB0 })
 		if n < 20 {
