@@ -291,14 +291,19 @@ func (cl *contourLabels) Plot(c draw.Canvas, p *gplot.Plot) {
 		placed = append(placed, cl.avoid.box)
 	}
 	nx, ny := len(cl.g.x), len(cl.g.y)
-	// Every level is written once, and again on any stretch of its contours at least a
-	// third of the map away from where it is written already (another line of the same level).
+	// Every level is written once, and then again on any stretch of its contours at least a
+	// third of the map away from where it is written already (another line of the level),
+	// as long as there is room: the first round gives each level its place.
 	apart := vg.Length(math.Min(float64(c.Max.X-c.Min.X), float64(c.Max.Y-c.Min.Y))) / 3
-	for _, lv := range cl.levels {
-		text := strconv.FormatFloat(lv, 'g', 4, 64)
-		wd, ht := sty.Width(text)+4, ext.Ascent+ext.Descent+2
-		var mine []vg.Point
-		for {
+	mine := make([][]vg.Point, len(cl.levels))
+	for round := 0; ; round++ {
+		any := false
+		for k, lv := range cl.levels {
+			if round > 0 && len(mine[k]) == 0 {
+				continue
+			}
+			text := strconv.FormatFloat(lv, 'g', 4, 64)
+			wd, ht := sty.Width(text)+4, ext.Ascent+ext.Descent+2
 			var best vg.Rectangle
 			bestScore := vg.Length(-1)
 			try := func(x, y float64) {
@@ -307,7 +312,7 @@ func (cl *contourLabels) Plot(c draw.Canvas, p *gplot.Plot) {
 				if r.Min.X < c.Min.X+2 || r.Max.X > c.Max.X-2 || r.Min.Y < c.Min.Y+2 || r.Max.Y > c.Max.Y-2 || overlapsAny(r, placed) {
 					return
 				}
-				for _, q := range mine {
+				for _, q := range mine[k] {
 					if vg.Length(math.Hypot(float64(q.X-pt.X), float64(q.Y-pt.Y))) < apart {
 						return
 					}
@@ -338,13 +343,17 @@ func (cl *contourLabels) Plot(c draw.Canvas, p *gplot.Plot) {
 				}
 			}
 			if bestScore < 0 {
-				break
+				continue
 			}
+			any = true
 			placed = append(placed, best)
-			mine = append(mine, vg.Point{X: (best.Min.X + best.Max.X) / 2, Y: (best.Min.Y + best.Max.Y) / 2})
+			mine[k] = append(mine[k], vg.Point{X: (best.Min.X + best.Max.X) / 2, Y: (best.Min.Y + best.Max.Y) / 2})
 			c.SetColor(color.NRGBA{0xFF, 0xFF, 0xFF, 0xC8})
 			c.Fill(best.Path())
 			c.FillText(sty, vg.Point{X: best.Min.X + 2, Y: best.Min.Y + 1 + ext.Descent}, text)
+		}
+		if !any {
+			break
 		}
 	}
 }

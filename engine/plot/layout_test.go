@@ -3,6 +3,7 @@ package plot
 import (
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/plot/font"
@@ -210,5 +211,56 @@ func TestLineLayoutGolden(t *testing.T) {
 			want(label(tc.xTick), true, tc.xTick)
 			want(label(tc.yTick), false, tc.yTick)
 		})
+	}
+}
+
+// A map's texts (ticks, colour bar, contour levels, the lowest-point label) stay on the
+// canvas and clear of each other, and every contour level is written on the map.
+func TestHeatLayoutGolden(t *testing.T) {
+	n := 60
+	x, y := make([]float64, n), make([]float64, n)
+	z := make([]float64, n*n)
+	for i := range x {
+		x[i] = math.Pow(10, -4+4*float64(i)/float64(n-1))
+		y[i] = 0.1 + 1.9*float64(i)/float64(n-1)
+	}
+	for j := range y {
+		for i := range x {
+			z[j*n+i] = -30 + 10*math.Sin(3*y[j]) + 5*math.Log10(x[i])*math.Cos(2*y[j])
+		}
+	}
+	levels := []float64{-35, -30, -25}
+	for _, sz := range [][2]float64{{0, 0}, {280, 200}, {720, 450}} {
+		f, err := Heat{Title: "NMSE (dB) over l1 and m/n", XLabel: "l1", YLabel: "m/n", ZLabel: "NMSE (dB)", X: x, Y: y, Z: z,
+			XLog: true, MarkLowest: true, YTicks: []float64{1}, Levels: levels, Width: sz[0], Height: sz[1]}.Build()
+		if err != nil {
+			t.Fatal(err)
+		}
+		w, h := f.Size()
+		ts := texts(t, f)
+		for i := range ts {
+			if !ts[i].box.Inside(Box{MaxX: w, MaxY: h}) {
+				t.Errorf("%gx%g: text %q at %+v leaves the canvas", w, h, ts[i].s, ts[i].box)
+			}
+			for j := i + 1; j < len(ts); j++ {
+				if ts[i].box.Overlaps(ts[j].box) {
+					t.Errorf("%gx%g: texts %q and %q overlap", w, h, ts[i].s, ts[j].s)
+				}
+			}
+		}
+		seen := map[string]int{}
+		for _, x := range ts {
+			if x.box.Inside(f.Layout().Data) {
+				seen[x.s]++
+			}
+		}
+		for _, lv := range levels {
+			if seen[label(lv)] == 0 {
+				t.Errorf("%gx%g: contour level %g is not written on the map (texts inside: %v)", w, h, lv, seen)
+			}
+		}
+		if !strings.Contains(fmt.Sprint(seen), "lowest") {
+			t.Errorf("%gx%g: the lowest point is not labelled", w, h)
+		}
 	}
 }
