@@ -5,9 +5,12 @@
 // converts to data coordinates (Frame.At). It also writes the data of curves and grids as
 // CSV.
 //
+// Figures also render to PDF and (on the command line; the page has the browser draw its
+// PNGs from the SVG) to PNG, and the figures of the studies are built here from their
+// numbers (SweepFigure, MapFigure), so that the page and the command line draw the same.
+//
 // The package holds no browser code and no mathematics of the method: it draws numbers it
-// is given. It uses gonum/plot's SVG canvas only, so that a build with the tag minimal
-// links none of the raster, PDF, EPS or TeX backends.
+// is given.
 package plot
 
 import (
@@ -127,11 +130,14 @@ func (f *Figure) SVG() ([]byte, error) {
 //     heat map's raster inside its axes; the axes need it stretched;
 //   - the raster is a PNG, which the canvas labels image/jpg;
 //   - the text is laid out with Liberation Sans metrics: where that face is not installed,
-//     the metric-compatible Arial or Helvetica keeps the legend's and labels' widths.
+//     the metric-compatible Arial or Helvetica keeps the legend's and labels' widths. The
+//     one face every text uses is named once, on the root, rather than on every text with
+//     the default variant, weight and style beside it.
 var svgFixes = strings.NewReplacer(
 	"<image ", `<image preserveAspectRatio="none" `,
 	"data:image/jpg;base64,", "data:image/png;base64,",
-	"font-family:Liberation Sans;", "font-family:'Liberation Sans',Arial,Helvetica,sans-serif;",
+	`xmlns:xlink="http://www.w3.org/1999/xlink">`, `xmlns:xlink="http://www.w3.org/1999/xlink" font-family="'Liberation Sans',Arial,Helvetica,sans-serif">`,
+	"font-family:Liberation Sans;font-variant:normal;font-weight:normal;font-style:normal;", "",
 )
 
 // render draws the figure, turning a panic of the plotting library (it panics on some

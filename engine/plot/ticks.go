@@ -113,8 +113,8 @@ func (t ticker) Ticks(lo, hi float64) []gplot.Tick {
 	return out
 }
 
-// steps returns the finest round linear step whose labels fit, as labelled values and the
-// unlabelled ones between them (halves of the step).
+// steps returns the multiples of the finest round linear step whose labels fit (a linear
+// axis reads well without minor ticks; a log axis needs them to show its scale).
 func (t ticker) steps(lo, hi float64) (major, minor []float64) {
 	for _, step := range candidates(hi - lo) {
 		vs := multiples(lo, hi, step)
@@ -126,12 +126,7 @@ func (t ticker) steps(lo, hi float64) (major, minor []float64) {
 			ls[i] = label(v)
 		}
 		if len(vs) <= 12 && t.fits(lo, hi, vs, ls) {
-			for _, v := range multiples(lo, hi, step/2) {
-				if !slices.Contains(vs, v) {
-					minor = append(minor, v)
-				}
-			}
-			return vs, minor
+			return vs, nil
 		}
 	}
 	return []float64{lo, hi}, nil

@@ -26,6 +26,8 @@ type LineArgs struct {
 	XLog, YLog            bool
 	Series                []SeriesArgs
 	VLines, HLines        []plot.Mark
+	XTicks, YTicks        []Float
+	Width, Height         float64 `json:",omitempty"`
 }
 
 // HeatArgs is a plot.Heat that travels as JSON (cells without a value as null).
@@ -35,6 +37,9 @@ type HeatArgs struct {
 	XLog, YLog                    bool
 	Lines                         []SeriesArgs
 	Levels                        []Float // nil: plot's default levels
+	MarkLowest                    bool    `json:",omitempty"`
+	XTicks, YTicks                []Float
+	Width, Height                 float64 `json:",omitempty"`
 }
 
 // FigureArgs are the arguments of the "figure" kind: one of Line or Heat, rendered as SVG.
@@ -42,12 +47,14 @@ type HeatArgs struct {
 type FigureArgs struct {
 	Line *LineArgs `json:"line,omitempty"`
 	Heat *HeatArgs `json:"heat,omitempty"`
+	PDF  bool      `json:"pdf,omitempty"` // a PDF as well, for a download
 }
 
-// FigureResult is the rendered figure: its SVG (base64 in JSON) and where its data area
-// lies, for the pointer readout.
+// FigureResult is the rendered figure: its SVG (base64 in JSON), the PDF when asked for,
+// and where its data area lies, for the pointer readout.
 type FigureResult struct {
 	Data  []byte     `json:"data"`
+	PDF   []byte     `json:"pdf,omitempty"`
 	Frame plot.Frame `json:"frame"`
 }
 
@@ -87,9 +94,10 @@ func (s SeriesArgs) series() plot.Series {
 		Marks: s.Marks, NoLine: s.NoLine, Dashed: s.Dashed}
 }
 
-// LineOf converts a plot.Line to its JSON form (its size is left to the defaults).
+// LineOf converts a plot.Line to its JSON form.
 func LineOf(l plot.Line) *LineArgs {
-	a := &LineArgs{Title: l.Title, XLabel: l.XLabel, YLabel: l.YLabel, XLog: l.XLog, YLog: l.YLog, VLines: finiteMarks(l.VLines), HLines: finiteMarks(l.HLines)}
+	a := &LineArgs{Title: l.Title, XLabel: l.XLabel, YLabel: l.YLabel, XLog: l.XLog, YLog: l.YLog, VLines: finiteMarks(l.VLines), HLines: finiteMarks(l.HLines),
+		XTicks: Floats(l.XTicks), YTicks: Floats(l.YTicks), Width: l.Width, Height: l.Height}
 	for _, s := range l.Series {
 		a.Series = append(a.Series, SeriesOf(s))
 	}
@@ -110,7 +118,8 @@ func finiteMarks(ms []plot.Mark) []plot.Mark {
 // HeatOf converts a plot.Heat to its JSON form.
 func HeatOf(h plot.Heat) *HeatArgs {
 	a := &HeatArgs{Title: h.Title, XLabel: h.XLabel, YLabel: h.YLabel, ZLabel: h.ZLabel, X: Floats(h.X), Y: Floats(h.Y), Z: Floats(h.Z),
-		XLog: h.XLog, YLog: h.YLog, Levels: Floats(h.Levels)}
+		XLog: h.XLog, YLog: h.YLog, Levels: Floats(h.Levels), MarkLowest: h.MarkLowest, XTicks: Floats(h.XTicks), YTicks: Floats(h.YTicks),
+		Width: h.Width, Height: h.Height}
 	for _, s := range h.Lines {
 		a.Lines = append(a.Lines, SeriesOf(s))
 	}
@@ -127,14 +136,16 @@ func Figure(a FigureArgs) (FigureResult, error) {
 	switch {
 	case a.Line != nil && a.Heat == nil:
 		l := plot.Line{Title: a.Line.Title, XLabel: a.Line.XLabel, YLabel: a.Line.YLabel, XLog: a.Line.XLog, YLog: a.Line.YLog,
-			VLines: a.Line.VLines, HLines: a.Line.HLines}
+			VLines: a.Line.VLines, HLines: a.Line.HLines, XTicks: floats(a.Line.XTicks), YTicks: floats(a.Line.YTicks),
+			Width: a.Line.Width, Height: a.Line.Height}
 		for _, s := range a.Line.Series {
 			l.Series = append(l.Series, s.series())
 		}
 		f, err = l.Build()
 	case a.Heat != nil && a.Line == nil:
 		h := plot.Heat{Title: a.Heat.Title, XLabel: a.Heat.XLabel, YLabel: a.Heat.YLabel, ZLabel: a.Heat.ZLabel,
-			X: floats(a.Heat.X), Y: floats(a.Heat.Y), Z: floats(a.Heat.Z), XLog: a.Heat.XLog, YLog: a.Heat.YLog, Levels: floats(a.Heat.Levels)}
+			X: floats(a.Heat.X), Y: floats(a.Heat.Y), Z: floats(a.Heat.Z), XLog: a.Heat.XLog, YLog: a.Heat.YLog, Levels: floats(a.Heat.Levels),
+			MarkLowest: a.Heat.MarkLowest, XTicks: floats(a.Heat.XTicks), YTicks: floats(a.Heat.YTicks), Width: a.Heat.Width, Height: a.Heat.Height}
 		for _, s := range a.Heat.Lines {
 			h.Lines = append(h.Lines, s.series())
 		}
@@ -149,7 +160,13 @@ func Figure(a FigureArgs) (FigureResult, error) {
 	if err != nil {
 		return FigureResult{}, err
 	}
-	return FigureResult{Data: data, Frame: f.Frame()}, nil
+	r := FigureResult{Data: data, Frame: f.Frame()}
+	if a.PDF {
+		if r.PDF, err = f.PDF(); err != nil {
+			return FigureResult{}, err
+		}
+	}
+	return r, nil
 }
 
 func runFigure(raw json.RawMessage, _ func(done, total int)) (any, error) {

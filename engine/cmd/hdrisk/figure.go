@@ -66,7 +66,7 @@ func (ff figureFlags) write(f *plot.Figure) error {
 	case "svg":
 		data, err = f.SVG()
 	case "png":
-		data, err = f.PNG()
+		data, err = pngOf(f)
 	case "pdf":
 		data, err = f.PDF()
 	}
