@@ -18,6 +18,7 @@ import (
 
 	"hdrisk/engine/data"
 	"hdrisk/engine/scenario"
+	"hdrisk/protocol"
 	"hdrisk/ui"
 	"hdrisk/wasm/job"
 )
@@ -152,7 +153,7 @@ func TestCheckInPage(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	native, err := job.Check(job.CheckArgs{Scenario: scen, N: 500, Trials: 20, Seed: 1, Solver: "cd", Factors: "fast"}, nil)
+	native, err := job.Check(protocol.CheckArgs{Scenario: scen, N: 500, Trials: 20, Seed: 1, Solver: "cd", Factors: "fast"}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -15,7 +15,7 @@ import (
 
 	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // CheckView runs finite-size checks of the scenario in Model on the compute workers and
@@ -36,7 +36,7 @@ type CheckView struct {
 	scen                                []byte
 	xs                                  []float64
 	points                              []checkPoint
-	curve                               []job.CurvePoint
+	curve                               []protocol.CurvePoint
 	trial, trials                       int
 	cancel                              func()
 	started                             time.Time

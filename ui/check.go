@@ -15,7 +15,7 @@ import (
 
 	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // Run states of a view (contract 4 hooks: data-run).
@@ -54,7 +54,7 @@ const (
 // checkPoint is one check on the figure: the value of the swept number and the result.
 type checkPoint struct {
 	At     float64
-	Result job.CheckResult
+	Result protocol.CheckResult
 }
 
 // checkStart prepares a check: defaults, or the settings the scenario carries in study.check.
@@ -223,9 +223,9 @@ func (c *CheckView) now() time.Time {
 }
 
 // args returns the job arguments of the next point.
-func (c *CheckView) args() job.CheckArgs {
+func (c *CheckView) args() protocol.CheckArgs {
 	k := c.settingsUsed
-	a := job.CheckArgs{Scenario: c.scen, N: k.N, Trials: k.Trials, Seed: k.Seed, Solver: k.Solver, Factors: c.Factors}
+	a := protocol.CheckArgs{Scenario: c.scen, N: k.N, Trials: k.Trials, Seed: k.Seed, Solver: k.Solver, Factors: c.Factors}
 	if len(c.xs) > 0 {
 		a.Over, a.At = c.Over, c.xs[len(c.points)]
 		if len(c.points) == 0 {
@@ -236,7 +236,7 @@ func (c *CheckView) args() job.CheckArgs {
 }
 
 // curveSpec spans the checked values, geometrically for numbers that span decades.
-func (c *CheckView) curveSpec() *job.CurveSpec {
+func (c *CheckView) curveSpec() *protocol.CurveSpec {
 	lo, hi := c.xs[0], c.xs[len(c.xs)-1]
 	log := lo > 0
 	for _, p := range c.Paths() {
@@ -252,7 +252,7 @@ func (c *CheckView) curveSpec() *job.CurveSpec {
 			lo, hi = lo-d, hi+d
 		}
 	}
-	return &job.CurveSpec{Over: c.Over, From: lo, To: hi, Points: curvePoints, Log: log}
+	return &protocol.CurveSpec{Over: c.Over, From: lo, To: hi, Points: curvePoints, Log: log}
 }
 
 func (c *CheckView) next() {
@@ -266,7 +266,7 @@ func (c *CheckView) next() {
 	}, func(res []byte, err error) {
 		finished, c.cancel = true, nil
 		if err == nil {
-			var r job.CheckResult
+			var r protocol.CheckResult
 			if err = json.Unmarshal(res, &r); err == nil {
 				c.points = append(c.points, checkPoint{At: float64(r.At), Result: r})
 				if r.Curve != nil {
@@ -327,9 +327,9 @@ func (c *CheckView) Status() string {
 func (c *CheckView) Problem() string { return c.problem }
 
 // Latest is the most recent finished check, shown in full.
-func (c *CheckView) Latest() (job.CheckResult, bool) {
+func (c *CheckView) Latest() (protocol.CheckResult, bool) {
 	if len(c.points) == 0 {
-		return job.CheckResult{}, false
+		return protocol.CheckResult{}, false
 	}
 	return c.points[len(c.points)-1].Result, true
 }
@@ -349,7 +349,7 @@ func (c *CheckView) Rows() []checkRow {
 	if !ok {
 		return nil
 	}
-	stat := func(label, name string, s job.CheckStat) checkRow {
+	stat := func(label, name string, s protocol.CheckStat) checkRow {
 		return checkRow{Label: label, Name: "check_" + name, Value: fullNum(float64(s.Mean)),
 			Shown:    fmtNum(float64(s.Mean)) + " ± " + fmtNum(float64(s.StdErr)),
 			PredName: "check_predicted_" + name, PredValue: fullNum(float64(s.Predicted)), PredShown: fmtNum(float64(s.Predicted))}

@@ -13,7 +13,7 @@ import "log"
 import (
 	"time"
 
-	"hdrisk/wasm/job"
+	"hdrisk/engine/study"
 )
 
 // CurveView sweeps one number of the scenario in Model on a compute worker and draws the
@@ -33,15 +33,15 @@ type CurveView struct {
 
 	inited                  bool
 	ax                      axisText
-	axis                    job.Axis // the axis of the drawn curves
+	axis                    study.Axis // the axis of the drawn curves
 	run, problem, note      string
 	current                 *curveSeries
 	kept                    []*curveSeries
 	tuned                   *curveSeries // the best-tuned curve of the current scenario
 	tunedOver               string       // its weight
-	best                    *job.BestOut
+	best                    *study.BestResult
 	bestErr                 string
-	bayes                   *job.BayesOut
+	bayes                   *study.BayesResult
 	bayesNote               string
 	bestCancel, bayesCancel func()
 	seconds                 float64 // from start to the sweep's numbers

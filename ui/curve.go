@@ -3,7 +3,6 @@ package ui
 import (
 	"bytes"
 	"encoding/csv"
-	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
@@ -15,7 +14,7 @@ import (
 	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // sweepPoints is the number of points a new sweep proposes.
@@ -147,19 +146,19 @@ func (c *CurveView) now() time.Time {
 }
 
 // spec reads the settings and the scenario in the editor.
-func (c *CurveView) spec() (scenario.Scenario, job.Axis, error) {
+func (c *CurveView) spec() (scenario.Scenario, study.Axis, error) {
 	if c.Model == nil {
-		return scenario.Scenario{}, job.Axis{}, fmt.Errorf("no scenario")
+		return scenario.Scenario{}, study.Axis{}, fmt.Errorf("no scenario")
 	}
 	ch := c.Model.Check()
 	if ch.Err != nil {
-		return scenario.Scenario{}, job.Axis{}, fmt.Errorf("the scenario in the editor has a problem: %v", ch.Err)
+		return scenario.Scenario{}, study.Axis{}, fmt.Errorf("the scenario in the editor has a problem: %v", ch.Err)
 	}
 	over, from, to, n, err := c.ax.parse("sweep", scenario.MaxSweepPoints)
 	if err != nil {
-		return scenario.Scenario{}, job.Axis{}, err
+		return scenario.Scenario{}, study.Axis{}, err
 	}
-	return ch.Scenario, job.Axis{Over: over, From: from, To: to, Points: n, Log: c.ax.Log}, nil
+	return ch.Scenario, study.Axis{Over: over, From: from, To: to, Points: n, Log: c.ax.Log}, nil
 }
 
 // Start sweeps the scenario in the editor (replacing the curve of the current scenario and
@@ -295,17 +294,13 @@ func (c *CurveView) startSweep(cs *curveSeries, timed bool) {
 	for i, b := range blocks {
 		// No progress callback: a sweep takes a fraction of a second, and every progress
 		// message would cost the page a render while it runs.
-		args := job.SweepArgs{Scenario: data, Axis: c.axis}
+		args := protocol.SweepArgs{Scenario: data, Axis: c.axis}
 		if len(blocks) > 1 {
 			args.PointFrom, args.PointTo = b[0], b[1]
 		}
-		cancels[i] = c.Jobs.Start("sweep", args, nil, func(res []byte, err error) {
+		cancels[i] = start(c.Jobs, protocol.Sweep, args, nil, func(r protocol.SweepResult, err error) {
 			cancels[i] = nil
 			pending--
-			var r job.SweepResult
-			if err == nil {
-				err = json.Unmarshal(res, &r)
-			}
 			if err == nil && len(r.Points) != b[1]-b[0] {
 				err = fmt.Errorf("points %d to %d came back incomplete", b[0], b[1])
 			}
@@ -315,9 +310,7 @@ func (c *CurveView) startSweep(cs *curveSeries, timed bool) {
 				c.settle()
 				return
 			}
-			for k, p := range r.Points {
-				pts[b[0]+k] = p.Point()
-			}
+			copy(pts[b[0]:], r.Points)
 			if pending > 0 {
 				return
 			}
@@ -351,17 +344,13 @@ func (c *CurveView) startTuned(cs *curveSeries, best string) {
 		}
 	}
 	for i, b := range blocks {
-		args := job.TunedArgs{SweepArgs: job.SweepArgs{Scenario: data, Axis: c.axis}, Best: best}
+		args := protocol.TunedArgs{SweepArgs: protocol.SweepArgs{Scenario: data, Axis: c.axis}, Best: best}
 		if len(blocks) > 1 {
 			args.PointFrom, args.PointTo = b[0], b[1]
 		}
-		cancels[i] = c.Jobs.Start("tuned", args, nil, func(res []byte, err error) {
+		cancels[i] = start(c.Jobs, protocol.Tuned, args, nil, func(r protocol.TunedResult, err error) {
 			cancels[i] = nil
 			pending--
-			var r job.TunedResult
-			if err == nil {
-				err = json.Unmarshal(res, &r)
-			}
 			if err == nil && len(r.Points) != b[1]-b[0] {
 				err = fmt.Errorf("points %d to %d came back incomplete", b[0], b[1])
 			}
@@ -371,9 +360,7 @@ func (c *CurveView) startTuned(cs *curveSeries, best string) {
 				c.settle()
 				return
 			}
-			for k, p := range r.Points {
-				pts[b[0]+k] = p.Point()
-			}
+			copy(pts[b[0]:], r.Points)
 			if pending > 0 {
 				return
 			}
@@ -389,12 +376,8 @@ func (c *CurveView) startBest(s scenario.Scenario, over string) {
 		c.bestErr = err.Error()
 		return
 	}
-	c.bestCancel = c.Jobs.Start("best", job.BestArgs{Scenario: data, Over: over}, nil, func(res []byte, err error) {
+	c.bestCancel = start(c.Jobs, protocol.Best, protocol.BestArgs{Scenario: data, Over: over}, nil, func(b study.BestResult, err error) {
 		c.bestCancel = nil
-		var b job.BestOut
-		if err == nil {
-			err = json.Unmarshal(res, &b)
-		}
 		if err != nil {
 			c.bestErr = "no best " + over + ": " + err.Error()
 		} else {
@@ -409,12 +392,8 @@ func (c *CurveView) startBayes(s scenario.Scenario) {
 	if err != nil {
 		return
 	}
-	c.bayesCancel = c.Jobs.Start("bayes", job.BayesArgs{Scenario: data}, nil, func(res []byte, err error) {
+	c.bayesCancel = start(c.Jobs, protocol.Bayes, protocol.BayesArgs{Scenario: data}, nil, func(b study.BayesResult, err error) {
 		c.bayesCancel = nil
-		var b job.BayesOut
-		if err == nil {
-			err = json.Unmarshal(res, &b)
-		}
 		if err != nil {
 			c.bayesNote = "No Bayes-optimal reference: " + err.Error()
 		} else {
@@ -564,8 +543,7 @@ func (c *CurveView) quantity() study.Observable {
 // it (plot.SweepFigure): a curve alone needs no legend; beside its best-tuned curve it is
 // named by the weight the other re-tunes.
 func (c *CurveView) figureSpec() (plot.Line, bool) {
-	sf := plot.SweepFigure{Scenario: c.current0(), Quantity: c.quantity().Name, YLog: c.YLog,
-		Axis: study.Axis{Over: c.axis.Over, From: c.axis.From, To: c.axis.To, Points: c.axis.Points, Log: c.axis.Log}}
+	sf := plot.SweepFigure{Scenario: c.current0(), Quantity: c.quantity().Name, YLog: c.YLog, Axis: c.axis}
 	tuned := c.tuned != nil && len(c.tuned.Points) > 0
 	for _, cs := range c.all() {
 		label := cs.Label
@@ -583,11 +561,11 @@ func (c *CurveView) figureSpec() (plot.Line, bool) {
 		sf.Curves = append(sf.Curves, tc)
 	}
 	if c.best != nil && c.best.AtBound == "" {
-		sf.Best = &plot.BestMark{Over: c.best.Over, Value: float64(c.best.Value)}
+		sf.Best = &plot.BestMark{Over: c.best.Over, Value: c.best.Value}
 	}
 	if c.bayes != nil {
 		u := c.bayes.Uninformed
-		sf.Bayes = &study.BayesPoint{MSE: float64(u.MSE), NMSE: float64(u.NMSE), NMSEdB: float64(u.NMSEdB)}
+		sf.Bayes = &u
 	}
 	return sf.Line()
 }
@@ -701,14 +679,14 @@ func (c *CurveView) Notes() []string {
 	}
 	if c.best != nil && c.best.AtBound != "" {
 		out = append(out, fmt.Sprintf("The lowest error over %s lies at the %s end of the search (%s = %s)%s; no marker is drawn.",
-			c.best.Over, c.best.AtBound, c.best.Over, num4(float64(c.best.Value)), noteSuffix(c.best.Note)))
+			c.best.Over, c.best.AtBound, c.best.Over, num4(c.best.Value), noteSuffix(c.best.Note)))
 	}
 	if c.bayesNote != "" {
 		out = append(out, c.bayesNote)
 	}
 	if c.bayes != nil && c.bayes.Differ {
 		out = append(out, "The Bayes-optimal state evolution has two fixed points here; the line shows the one reached from no prior knowledge ("+
-			num4(float64(c.bayes.Informed.NMSEdB))+" dB from an informed start).")
+			num4(c.bayes.Informed.NMSEdB)+" dB from an informed start).")
 	}
 	for _, cs := range c.kept {
 		if cs.err != "" {
@@ -729,12 +707,12 @@ func noteSuffix(n string) string {
 func (c *CurveView) Answers() [][3]string {
 	var out [][3]string
 	if c.best != nil {
-		out = append(out, [3]string{"curve_best_value", full(float64(c.best.Value)),
-			fmt.Sprintf("Best %s: %s (NMSE %s dB)", c.best.Over, num4(float64(c.best.Value)), num4(float64(c.best.NMSEdB)))})
+		out = append(out, [3]string{"curve_best_value", full(c.best.Value),
+			fmt.Sprintf("Best %s: %s (NMSE %s dB)", c.best.Over, num4(c.best.Value), num4(c.best.Result.NMSEdB))})
 	}
 	if c.bayes != nil {
-		out = append(out, [3]string{"curve_bayes_nmse_db", full(float64(c.bayes.Uninformed.NMSEdB)),
-			"Bayes-optimal error: " + num4(float64(c.bayes.Uninformed.NMSEdB)) + " dB"})
+		out = append(out, [3]string{"curve_bayes_nmse_db", full(c.bayes.Uninformed.NMSEdB),
+			"Bayes-optimal error: " + num4(c.bayes.Uninformed.NMSEdB) + " dB"})
 	}
 	if c.current != nil && len(c.current.Points) > 0 && c.run == RunDone {
 		t := fmt.Sprintf("Time in the page: %.3f s to the numbers", c.seconds)

@@ -14,6 +14,7 @@ import (
 	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
+	"hdrisk/protocol"
 	"hdrisk/wasm/job"
 )
 
@@ -54,9 +55,9 @@ func (j *queueJobs) flush() int {
 			q.done(nil, err)
 			continue
 		}
-		var last job.Reply
-		job.Run(job.Request{Kind: q.kind, Args: raw}, func(r job.Reply) {
-			if r.Type == job.Progress && q.progress != nil && !q.cancelled {
+		var last protocol.Reply
+		job.Run(protocol.Request{Kind: q.kind, Args: raw}, func(r protocol.Reply) {
+			if r.Type == protocol.Progress && q.progress != nil && !q.cancelled {
 				q.progress(r.Done, r.Total)
 			}
 			last = r
@@ -64,7 +65,7 @@ func (j *queueJobs) flush() int {
 		if q.cancelled {
 			continue
 		}
-		if last.Type == job.Failed {
+		if last.Type == protocol.Failed {
 			q.done(nil, errors.New(last.Error))
 		} else {
 			q.done(last.Result, nil)

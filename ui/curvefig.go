@@ -1,7 +1,6 @@
 package ui
 
 import (
-	"encoding/json"
 	"fmt"
 	"math"
 	"strconv"
@@ -12,7 +11,7 @@ import (
 	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // figureBox is a figure shown as an <img>, with the readout of the value under the pointer,
@@ -21,15 +20,15 @@ import (
 // worker (job kind "figure"), because rendering one takes longer than the page may stand
 // still. The curve and map views share it.
 type figureBox struct {
-	line    *plot.Line     // the line figure shown, drawn in the page; nil for a heat map
-	spec    job.FigureArgs // the heat figure shown (or on its way)
-	svg     []byte         // the figure shown
-	url     string         // its URL (see imageURL); "" when there is none
-	br      Browser        // the holder of url
-	frame   plot.Frame     // where its data area lies
-	problem string         // why there is no figure
-	readout string         // the values under the pointer, in words
-	cross   [2]float64     // the crosshair, as fractions of the image from its top-left corner
+	line    *plot.Line          // the line figure shown, drawn in the page; nil for a heat map
+	spec    protocol.FigureArgs // the heat figure shown (or on its way)
+	svg     []byte              // the figure shown
+	url     string              // its URL (see imageURL); "" when there is none
+	br      Browser             // the holder of url
+	frame   plot.Frame          // where its data area lies
+	problem string              // why there is no figure
+	readout string              // the values under the pointer, in words
+	cross   [2]float64          // the crosshair, as fractions of the image from its top-left corner
 	crossOn bool
 	cancel  func() // the drawing on its way, if any
 	saving  int    // exports on their way
@@ -100,7 +99,7 @@ func (b *figureBox) drawLine(br Browser, panel string, l plot.Line) {
 
 // draw renders spec on a worker; shown (may be nil) is called once the image is in place.
 // The figure shown so far stays until the new one arrives.
-func (b *figureBox) draw(jobs Jobs, br Browser, spec job.FigureArgs, shown func()) {
+func (b *figureBox) draw(jobs Jobs, br Browser, spec protocol.FigureArgs, shown func()) {
 	if b.cancel != nil {
 		b.cancel()
 		b.cancel = nil
@@ -110,12 +109,8 @@ func (b *figureBox) draw(jobs Jobs, br Browser, spec job.FigureArgs, shown func(
 		b.problem = "the figure waits for the compute workers"
 		return
 	}
-	b.cancel = jobs.Start("figure", spec, nil, func(res []byte, err error) {
+	b.cancel = start(jobs, protocol.Figure, spec, nil, func(r protocol.FigureResult, err error) {
 		b.cancel = nil
-		var r job.FigureResult
-		if err == nil {
-			err = json.Unmarshal(res, &r)
-		}
 		if err != nil {
 			b.problem = "the figure could not be drawn: " + err.Error()
 			return
@@ -259,12 +254,8 @@ func (b *figureBox) save(jobs Jobs, br Browser, base, what string, csv func() ([
 	}
 	spec.PDF = what == "pdf"
 	b.saving++
-	jobs.Start("figure", spec, nil, func(res []byte, err error) {
+	start(jobs, protocol.Figure, spec, nil, func(r protocol.FigureResult, err error) {
 		b.saving--
-		var r job.FigureResult
-		if err == nil {
-			err = json.Unmarshal(res, &r)
-		}
 		if err != nil {
 			report(err)
 			return

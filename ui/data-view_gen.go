@@ -13,7 +13,7 @@ import "log"
 import (
 	"time"
 
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // DataView reads a user's matrix, spectrum or signal samples, summarizes them on the
@@ -30,8 +30,8 @@ type DataView struct {
 	Source, Method   string
 	kText, alphaText string
 	design, signal   dataPart
-	spectrum         *job.SpectrumResult
-	fit              *job.FitResult
+	spectrum         *protocol.SpectrumResult
+	fit              *protocol.FitResult
 }
 
 func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {

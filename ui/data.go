@@ -12,7 +12,7 @@ import (
 
 	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // Caps on what the page reads, checked against the file's size before it is read whole
@@ -37,16 +37,16 @@ const (
 
 // Sources a design can come from, with the page's labels.
 var DataSources = []Kind{
-	{Name: job.SourceMatrix, Label: "A measurement matrix (CSV, TSV, spaces or Matrix Market)"},
-	{Name: job.SourceSingular, Label: "A list of its singular values"},
-	{Name: job.SourceEigenvalues, Label: "A list of the eigenvalues of FᵀF"},
+	{Name: protocol.SourceMatrix, Label: "A measurement matrix (CSV, TSV, spaces or Matrix Market)"},
+	{Name: protocol.SourceSingular, Label: "A list of its singular values"},
+	{Name: protocol.SourceEigenvalues, Label: "A list of the eigenvalues of FᵀF"},
 }
 
 // FitMethods are the ways samples become a signal law, with the page's labels.
 var FitMethods = []Kind{
-	{Name: job.FitNone, Label: "Use the samples as they are (empirical law)"},
-	{Name: job.FitBernoulli, Label: "Fit a sparse Gaussian law (zeros and a Gaussian)"},
-	{Name: job.FitMixture, Label: "Fit a mixture of Gaussians"},
+	{Name: protocol.FitNone, Label: "Use the samples as they are (empirical law)"},
+	{Name: protocol.FitBernoulli, Label: "Fit a sparse Gaussian law (zeros and a Gaussian)"},
+	{Name: protocol.FitMixture, Label: "Fit a mixture of Gaussians"},
 }
 
 // dataPart is the state of one half of the view: the design or the signal.
@@ -73,7 +73,7 @@ func (p *dataPart) reset(br Browser) {
 func (c *DataView) start() {
 	if c.design.run == "" {
 		c.design.run, c.signal.run = RunIdle, RunIdle
-		c.Source, c.Method, c.kText, c.alphaText = job.SourceMatrix, job.FitNone, "2", "1"
+		c.Source, c.Method, c.kText, c.alphaText = protocol.SourceMatrix, protocol.FitNone, "2", "1"
 	}
 }
 
@@ -134,7 +134,7 @@ const (
 )
 
 func (c *DataView) limit(part string) int64 {
-	if part == "design" && c.Source == job.SourceMatrix {
+	if part == "design" && c.Source == protocol.SourceMatrix {
 		return MaxMatrixBytes
 	}
 	return MaxListBytes
@@ -207,8 +207,8 @@ func (c *DataView) compute(part, text string) {
 	p.run = RunRunning
 	var args any
 	if part == "design" {
-		a := job.SpectrumArgs{Source: c.Source, Text: text, MaxBytes: c.limit(part)}
-		if c.Source != job.SourceMatrix {
+		a := protocol.SpectrumArgs{Source: c.Source, Text: text, MaxBytes: c.limit(part)}
+		if c.Source != protocol.SourceMatrix {
 			alpha, err := c.listAlpha()
 			if err != nil {
 				p.run, p.problem = RunError, err.Error()
@@ -219,9 +219,9 @@ func (c *DataView) compute(part, text string) {
 		args = a
 		p.stage = "Reading the numbers"
 	} else {
-		a := job.FitArgs{Text: text, Method: c.Method, MaxBytes: c.limit(part), Bins: signalBins}
-		if c.Method == job.FitMixture {
-			k, err := wholeNumber("k", c.kText, 1, job.MaxMixture)
+		a := protocol.FitArgs{Text: text, Method: c.Method, MaxBytes: c.limit(part), Bins: signalBins}
+		if c.Method == protocol.FitMixture {
+			k, err := wholeNumber("k", c.kText, 1, protocol.MaxMixture)
 			if err != nil {
 				p.run, p.problem = RunError, err.Error()
 				return
@@ -235,8 +235,8 @@ func (c *DataView) compute(part, text string) {
 	finished := false // a fake or a failing pool may answer before Start returns
 	cancel := c.Jobs.Start(kind, args, func(done, total int) {
 		if part == "design" {
-			if st, ok := map[int]string{job.StepRead: "Reading the numbers",
-				job.StepSVD: "Computing the singular values (one step: no finer progress)", job.StepSummary: "Summarizing"}[done]; ok {
+			if st, ok := map[int]string{protocol.StepRead: "Reading the numbers",
+				protocol.StepSVD: "Computing the singular values (one step: no finer progress)", protocol.StepSummary: "Summarizing"}[done]; ok {
 				p.stage = st
 			}
 		} else if done >= 1 {
@@ -247,12 +247,12 @@ func (c *DataView) compute(part, text string) {
 		p.elapsed = c.now().Sub(p.started)
 		if err == nil {
 			if part == "design" {
-				var r job.SpectrumResult
+				var r protocol.SpectrumResult
 				if err = json.Unmarshal(res, &r); err == nil {
 					c.spectrum = &r
 				}
 			} else {
-				var r job.FitResult
+				var r protocol.FitResult
 				if err = json.Unmarshal(res, &r); err == nil {
 					c.fit = &r
 				}
@@ -366,7 +366,7 @@ func (c *DataView) drawPart(part string) {
 				x, y = append(x, float64(d.X)), append(y, float64(d.Density))
 			}
 			name := "fitted density"
-			if c.fit.Method == job.FitBernoulli {
+			if c.fit.Method == protocol.FitBernoulli {
 				name = fmt.Sprintf("fitted Gaussian part (plus %s of the mass at 0)", fmtNum(float64(c.fit.SpikeMass)))
 			}
 			spec.Series = append(spec.Series, plot.Series{Name: name, X: x, Y: y})
@@ -394,7 +394,7 @@ func (c *DataView) drawPart(part string) {
 // shortList fits values into the editor's box (see maxListChars) and says what it did to
 // them; "" when nothing.
 func shortList(values []float64, what string) ([]float64, string) {
-	out, digits, thinned := job.ShortList(values, maxListChars)
+	out, digits, thinned := protocol.ShortList(values, maxListChars)
 	switch {
 	case thinned:
 		return out, fmt.Sprintf(" The %d %s were thinned to %d evenly spaced quantiles at %d significant digits, the most the editor's box can show.", len(values), what, len(out), digits)
@@ -422,7 +422,7 @@ func (c *DataView) DesignFacts() [][3]string {
 		{"data_rank", strconv.Itoa(r.Rank), fmt.Sprintf("Rank %d (values above %s)", r.Rank, fmtNum(float64(r.Tolerance)))},
 		{"data_seconds", fullNum(c.design.elapsed.Seconds()), fmt.Sprintf("Took %.2f s in all", c.design.elapsed.Seconds())},
 	}
-	if r.Source == job.SourceMatrix {
+	if r.Source == protocol.SourceMatrix {
 		out = append(out, [3]string{"data_svd_seconds", fullNum(float64(r.SVDSeconds)),
 			fmt.Sprintf("Reading %.2f s, singular values %.2f s", float64(r.ReadSeconds), float64(r.SVDSeconds))})
 	}
@@ -440,16 +440,16 @@ func (c *DataView) SignalFacts() [][3]string {
 		{"data_mean", fullNum(float64(r.Mean)), fmt.Sprintf("Mean %s, variance %s, from %s to %s", fmtNum(float64(r.Mean)), fmtNum(float64(r.Variance)), fmtNum(float64(r.Min)), fmtNum(float64(r.Max)))},
 	}
 	switch r.Method {
-	case job.FitNone:
+	case protocol.FitNone:
 		what := "the samples themselves"
 		if r.Quantiles {
 			what = fmt.Sprintf("%d evenly spaced quantiles of the %d samples (the page's longest list)", len(r.Values), r.Count)
 		}
 		out = append(out, [3]string{"data_values", strconv.Itoa(len(r.Values)), "The empirical law uses " + what})
-	case job.FitBernoulli:
+	case protocol.FitBernoulli:
 		out = append(out, [3]string{"data_density", fullNum(float64(r.Density)),
 			fmt.Sprintf("Fitted: nonzero with probability %s, then Gaussian with variance %s", fmtNum(float64(r.Density)), fmtNum(float64(r.SlabVar)))})
-	case job.FitMixture:
+	case protocol.FitMixture:
 		var parts []string
 		for i := range r.Weights {
 			parts = append(parts, fmt.Sprintf("%s × N(%s, %s)", fmtNum(r.Weights[i]), fmtNum(r.Means[i]), fmtNum(r.Variances[i])))
@@ -473,7 +473,7 @@ func (c *DataView) UseDesign() {
 		return
 	}
 	alpha := float64(r.Alpha)
-	if r.Source != job.SourceMatrix {
+	if r.Source != protocol.SourceMatrix {
 		a, err := c.listAlpha()
 		if err != nil {
 			c.design.problem = err.Error()
@@ -503,21 +503,21 @@ func (c *DataView) UseSignal() {
 	var sig scenario.Signal
 	note := ""
 	switch r.Method {
-	case job.FitNone:
+	case protocol.FitNone:
 		var values []float64
 		values, note = shortList(r.Values, "values")
 		sig = scenario.Signal{Law: "empirical", Lists: map[string][]float64{"values": values}}
-	case job.FitBernoulli:
+	case protocol.FitBernoulli:
 		sig = scenario.Signal{Law: "bernoulli-gauss", Params: map[string]float64{"density": float64(r.Density), "variance": float64(r.SlabVar)}}
-	case job.FitMixture:
+	case protocol.FitMixture:
 		sig = scenario.Signal{Law: "gauss-mixture", Lists: map[string][]float64{"weights": r.Weights, "means": r.Means, "variances": r.Variances}}
 	}
 	if err := c.apply(func(s *scenario.Scenario) { s.Signal = sig }); err != nil {
 		c.signal.problem = "cannot use this as the signal: " + err.Error()
 		return
 	}
-	c.signal.applied = "The signal is now " + map[string]string{job.FitNone: "the empirical law of the samples.",
-		job.FitBernoulli: "the fitted sparse Gaussian law.", job.FitMixture: "the fitted Gaussian mixture."}[r.Method] + note
+	c.signal.applied = "The signal is now " + map[string]string{protocol.FitNone: "the empirical law of the samples.",
+		protocol.FitBernoulli: "the fitted sparse Gaussian law.", protocol.FitMixture: "the fitted Gaussian mixture."}[r.Method] + note
 }
 
 // apply changes the open scenario through edit, checks the result with the engine and

@@ -2,7 +2,6 @@ package ui
 
 import (
 	"bytes"
-	"encoding/json"
 	"fmt"
 	"math"
 	"strconv"
@@ -14,7 +13,7 @@ import (
 	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // mapPoints is the number of values per axis a new map proposes.
@@ -170,14 +169,14 @@ func (c *Mapview) Start() {
 		c.problem = "the scenario in the editor has a problem: " + ch.Err.Error()
 		return
 	}
-	var ax [2]job.Axis
+	var ax [2]study.Axis
 	for k, p := range []string{"map x", "map y"} {
 		over, from, to, n, err := c.ax[k].parse(p, scenario.MaxMapPoints)
 		if err != nil {
 			c.problem = err.Error()
 			return
 		}
-		ax[k] = job.Axis{Over: over, From: from, To: to, Points: n, Log: c.ax[k].Log}
+		ax[k] = study.Axis{Over: over, From: from, To: to, Points: n, Log: c.ax[k].Log}
 	}
 	if ax[0].Over == ax[1].Over {
 		c.problem = "map: choose two different numbers for the two axes"
@@ -214,19 +213,15 @@ func (c *Mapview) Start() {
 		b := b
 		// Progress is counted by finished blocks: a progress message per row from every
 		// worker would cost the page a render each, and slow the map it reports on.
-		c.blocks[b] = c.Jobs.Start("map_rows", job.MapArgs{Scenario: data, X: ax[0], Y: ax[1], RowFrom: from, RowTo: to},
-			nil, func(res []byte, err error) { c.block(b, from, to, res, err) })
+		c.blocks[b] = start(c.Jobs, protocol.MapRows, protocol.MapArgs{Scenario: data, X: ax[0], Y: ax[1], RowFrom: from, RowTo: to},
+			nil, func(r protocol.MapResult, err error) { c.block(b, from, to, r, err) })
 	}
 }
 
 // block takes in the cells of one finished block.
-func (c *Mapview) block(b, from, to int, res []byte, err error) {
+func (c *Mapview) block(b, from, to int, r protocol.MapResult, err error) {
 	c.blocks[b] = nil
 	c.pending--
-	var r job.MapResult
-	if err == nil {
-		err = json.Unmarshal(res, &r)
-	}
 	if err == nil && (r.RowFrom != from || r.RowTo != to || len(r.Cells) != (to-from)*c.axes[0].Points) {
 		err = fmt.Errorf("rows %d to %d came back incomplete", from, to)
 	}
@@ -235,9 +230,7 @@ func (c *Mapview) block(b, from, to int, res []byte, err error) {
 		c.run, c.problem = RunError, "the map failed: "+err.Error()
 		return
 	}
-	for k, cell := range r.Cells {
-		c.cells[from*c.axes[0].Points+k] = cell.Point()
-	}
+	copy(c.cells[from*c.axes[0].Points:], r.Cells)
 	c.done += to - from
 	if c.pending > 0 {
 		return
@@ -280,10 +273,7 @@ func (c *Mapview) quantity() study.Observable {
 
 // figure is the map as plot.MapFigure draws it, for the page and the command line alike.
 func (c *Mapview) figure() plot.MapFigure {
-	ax := func(a job.Axis) study.Axis {
-		return study.Axis{Over: a.Over, From: a.From, To: a.To, Points: a.Points, Log: a.Log}
-	}
-	return plot.MapFigure{Scenario: c.scen, X: ax(c.axes[0]), Y: ax(c.axes[1]), Quantity: c.quantity().Name, Cells: c.cells}
+	return plot.MapFigure{Scenario: c.scen, X: c.axes[0], Y: c.axes[1], Quantity: c.quantity().Name, Cells: c.cells}
 }
 
 // Ridge returns the best regularization along the weight axis (plot.MapFigure.Ridge).
@@ -296,7 +286,7 @@ func (c *Mapview) redraw() {
 	h := c.figure().Heat()
 	c.levels = h.Levels
 	h.Width, h.Height = figureSize(c.Browser, "panel-map")
-	c.box.draw(c.Jobs, c.Browser, job.FigureArgs{Heat: job.HeatOf(h)}, func() { c.figSeconds = c.now().Sub(c.started).Seconds() })
+	c.box.draw(c.Jobs, c.Browser, protocol.FigureArgs{Heat: &h}, func() { c.figSeconds = c.now().Sub(c.started).Seconds() })
 }
 
 // FigureURL is the map as a data: URL; "" when there is none.

@@ -15,7 +15,6 @@ import (
 
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
-	"hdrisk/wasm/job"
 )
 
 // Mapview computes a map of the predicted error over two numbers of the scenario in Model,
@@ -32,7 +31,7 @@ type Mapview struct {
 
 	inited       bool
 	ax           [2]axisText
-	axes         [2]job.Axis // the axes of the map computed last
+	axes         [2]study.Axis // the axes of the map computed last
 	scen         scenario.Scenario
 	run, problem string
 	cells        []study.Point

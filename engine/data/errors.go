@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"strconv"
+
+	"hdrisk/engine/param"
 )
 
 // LineError reports a problem with the content of a file: the line it was found on
@@ -25,16 +27,12 @@ func lineErr(line int, format string, args ...any) error {
 	return &LineError{Line: line, Reason: fmt.Sprintf(format, args...)}
 }
 
-// ParamError reports an argument out of its domain: the parameter's name and the reason.
-type ParamError struct {
-	Field  string
-	Reason string
-}
-
-func (e *ParamError) Error() string { return e.Field + ": " + e.Reason }
+// ParamError reports an argument out of its domain, naming the parameter and the reason:
+// the engine's one error type.
+type ParamError = param.Error
 
 func paramErr(field, format string, args ...any) error {
-	return &ParamError{Field: field, Reason: fmt.Sprintf(format, args...)}
+	return param.Errorf(field, format, args...)
 }
 
 // ErrCanceled is returned when the context of a long computation is done before it ends.

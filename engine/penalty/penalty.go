@@ -3,6 +3,8 @@ package penalty
 import (
 	"fmt"
 	"math"
+
+	"hdrisk/engine/param"
 )
 
 // Piece is one linear piece of a proximal operator: prox(r) = Slope*r + Intercept for r in
@@ -52,21 +54,13 @@ type LinearForm interface {
 	Linear(g float64) (l Linear, ok bool)
 }
 
-// ParamError reports a parameter outside the domain where the penalty is defined and convex.
-type ParamError struct {
-	Field  string // parameter name, as in the registry ("l1", "q", ...)
-	Reason string
-}
-
-func (e *ParamError) Error() string { return "penalty: " + e.Field + ": " + e.Reason }
-
 // checkWeight accepts finite w >= 0.
 func checkWeight(field string, w float64) error {
 	switch {
 	case math.IsNaN(w) || math.IsInf(w, 0):
-		return &ParamError{field, fmt.Sprintf("must be a finite number (got %v)", w)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be a finite number (got %v)", w)}
 	case w < 0:
-		return &ParamError{field, fmt.Sprintf("must be >= 0 (got %v): a negative weight makes the penalty non-convex, which the theory does not cover", w)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be >= 0 (got %v): a negative weight makes the penalty non-convex, which the theory does not cover", w)}
 	}
 	return nil
 }
@@ -75,9 +69,9 @@ func checkWeight(field string, w float64) error {
 func checkPositive(field string, w float64) error {
 	switch {
 	case math.IsNaN(w) || math.IsInf(w, 0):
-		return &ParamError{field, fmt.Sprintf("must be a finite number (got %v)", w)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be a finite number (got %v)", w)}
 	case w <= 0:
-		return &ParamError{field, fmt.Sprintf("must be > 0 (got %v)", w)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be > 0 (got %v)", w)}
 	}
 	return nil
 }

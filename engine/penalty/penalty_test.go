@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"hdrisk/engine/param"
 )
 
 // testCase pairs a penalty with its definition f written out independently of the package,
@@ -342,9 +344,9 @@ func TestBadParameters(t *testing.T) {
 	}
 	for _, tc := range tests {
 		p, err := tc.build()
-		var pe *ParamError
+		var pe *param.Error
 		if !errors.As(err, &pe) {
-			t.Errorf("%s: got (%v, %v), want a *ParamError", tc.name, p, err)
+			t.Errorf("%s: got (%v, %v), want a *param.Error", tc.name, p, err)
 			continue
 		}
 		if pe.Field != tc.field {

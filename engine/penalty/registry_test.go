@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"hdrisk/engine/param"
 )
 
 func TestKindsListEveryPenalty(t *testing.T) {
@@ -33,7 +35,7 @@ func TestKindsListEveryPenalty(t *testing.T) {
 }
 
 // inside returns a value strictly inside the domain of p.
-func inside(p Param) float64 {
+func inside(p param.Param) float64 {
 	switch {
 	case !math.IsInf(p.Max, 0):
 		return (p.Min + p.Max) / 2
@@ -63,7 +65,7 @@ func TestRegistryDomainsMatchConstructors(t *testing.T) {
 				}
 				m[p.Name] = v
 				_, err := New(k.Name, m)
-				var pe *ParamError
+				var pe *param.Error
 				switch {
 				case ok && err != nil:
 					t.Errorf("%s.%s = %v refused: %v", k.Name, p.Name, v, err)
@@ -127,7 +129,7 @@ func TestNewErrors(t *testing.T) {
 		{"power", map[string]float64{"weight": 1, "q": 0.5}, "q", "non-convex"},
 	} {
 		_, err := New(tc.kind, tc.params)
-		var pe *ParamError
+		var pe *param.Error
 		if !errors.As(err, &pe) || pe.Field != tc.field || !strings.Contains(pe.Reason, tc.says) {
 			t.Errorf("New(%q, %v) = %v, want field %q saying %q", tc.kind, tc.params, err, tc.field, tc.says)
 		}

@@ -4,6 +4,8 @@ import (
 	"maps"
 	"math"
 	"strings"
+
+	"hdrisk/engine/param"
 )
 
 // PathInfo describes one number of the current scenario that can be read, set and swept.
@@ -17,15 +19,15 @@ type PathInfo struct {
 }
 
 var (
-	noiseParam = param{Name: "variance", Label: "noise variance Delta", Min: 0, Max: MaxNoiseVar, Log: true}
-	snrParam   = param{Name: "snr_db", Label: "signal-to-noise ratio", Unit: "dB", Min: MinSNRdB, Max: MaxSNRdB}
+	noiseParam = param.Param{Name: "variance", Label: "noise variance Delta", Min: 0, Max: MaxNoiseVar, Log: true, Role: param.Scale}
+	snrParam   = param.Param{Name: "snr_db", Label: "signal-to-noise ratio", Unit: "dB", Min: MinSNRdB, Max: MaxSNRdB}
 )
 
 // target is a resolved path.
 type target struct {
 	full   string // "penalty.l1"
 	object string // "design", "signal", "penalty", "noise"
-	p      param
+	p      param.Param
 	scalar bool
 }
 
@@ -38,8 +40,8 @@ func (s Scenario) eachTarget(fn func(t target) bool) {
 		if !ok {
 			return true
 		}
-		for _, p := range k.Params {
-			if !fn(target{full: p.full, object: object, p: p, scalar: !p.List}) {
+		for i, p := range k.Params {
+			if !fn(target{full: k.full[i], object: object, p: p, scalar: !p.List}) {
 				return false
 			}
 		}
@@ -129,7 +131,7 @@ func (s Scenario) Paths() []PathInfo {
 		if r, err := s.resolve(name); err != nil || r.full != t.full {
 			name = t.full
 		}
-		out = append(out, PathInfo{Name: name, Path: t.full, Label: t.p.Label, Unit: t.p.Unit,
+		out = append(out, PathInfo{Name: name, Path: t.full, Label: t.p.Title(), Unit: t.p.Unit,
 			Min: t.p.Min, Max: t.p.Max, MinOpen: t.p.MinOpen, MaxOpen: t.p.MaxOpen, Log: t.p.Log})
 	}
 	return out

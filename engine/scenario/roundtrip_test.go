@@ -7,11 +7,13 @@ import (
 	"reflect"
 	"strings"
 	"testing"
+
+	"hdrisk/engine/param"
 )
 
 // randIn draws a number of p's domain: uniform on a bounded range, log-spread above the
 // lower end of an unbounded one, and now and then a closed end itself.
-func randIn(r *rand.Rand, p param) float64 {
+func randIn(r *rand.Rand, p param.Param) float64 {
 	for {
 		var x float64
 		switch {
@@ -26,7 +28,7 @@ func randIn(r *rand.Rand, p param) float64 {
 		default:
 			x = p.Min + (p.Max-p.Min)*r.Float64()
 		}
-		if p.check("", x) == nil {
+		if p.Check("", x) == nil {
 			return x
 		}
 	}

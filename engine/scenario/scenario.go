@@ -7,6 +7,8 @@ import (
 	"strconv"
 	"strings"
 	"unicode/utf8"
+
+	"hdrisk/engine/param"
 )
 
 // The identity of the format (contract 1).
@@ -205,14 +207,14 @@ func checkText(field, t string, max int, multiline bool) error {
 	return nil
 }
 
-var alphaParam = param{Name: "alpha", Label: "sampling ratio m/n", Min: 0, Max: MaxAlpha, MinOpen: true, Log: true}
+var alphaParam = param.Param{Name: "alpha", Label: "sampling ratio m/n", Min: 0, Max: MaxAlpha, MinOpen: true, Log: true}
 
 func (s Scenario) validateDesign() error {
 	d := s.Design
 	if err := validateParams(designs(), d.Shape, d.Params, d.Lists); err != nil {
 		return err
 	}
-	if err := alphaParam.check("design.alpha", d.Alpha); err != nil {
+	if err := alphaParam.Check("design.alpha", d.Alpha); err != nil {
 		return err
 	}
 	if !slices.Contains(scales, d.Scale) {
@@ -251,7 +253,7 @@ func validateParams(f *family, kind string, params map[string]float64, lists map
 				return fieldErr(path, "holds %d numbers; the limit is %d", len(l), p.MaxLen)
 			}
 			for i, x := range l {
-				if err := p.check(sprintf("%s[%d]", path, i), x); err != nil {
+				if err := p.Check(sprintf("%s[%d]", path, i), x); err != nil {
 					return err
 				}
 			}
@@ -261,7 +263,7 @@ func validateParams(f *family, kind string, params map[string]float64, lists map
 		if !ok {
 			return missing(f, k, p.Name)
 		}
-		if err := p.check(path, x); err != nil {
+		if err := p.Check(path, x); err != nil {
 			return err
 		}
 	}

@@ -211,7 +211,7 @@ func (s Scenario) validateStudy() error {
 		if math.IsNaN(p.TargetDB) || p.TargetDB < MinTargetDB || p.TargetDB > MaxTargetDB {
 			return fieldErr("study.plan.target_db", "must be in [%s, %s] dB, not %s", num(MinTargetDB), num(MaxTargetDB), num(p.TargetDB))
 		}
-		if err := alphaParam.check("study.plan.alpha_max", p.AlphaMax); err != nil {
+		if err := alphaParam.Check("study.plan.alpha_max", p.AlphaMax); err != nil {
 			return err
 		}
 	}
@@ -241,10 +241,10 @@ func (s Scenario) checkAxis(overField, over, fromField string, from float64, toF
 	if !t.scalar {
 		return t, fieldErr(overField, "%s is a list, not a number that can be swept", t.full)
 	}
-	if err := t.p.check(fromField, from); err != nil {
+	if err := t.p.Check(fromField, from); err != nil {
 		return t, err
 	}
-	if err := t.p.check(toField, to); err != nil {
+	if err := t.p.Check(toField, to); err != nil {
 		return t, err
 	}
 	if from == to {

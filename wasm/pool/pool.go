@@ -14,7 +14,7 @@ import (
 
 	"github.com/hack-pad/safejs"
 
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // Boot is what the page loader leaves in globalThis.hdriskBoot: the compiled module, the text
@@ -82,7 +82,7 @@ type worker struct {
 // Task is one job handed to the pool.
 type Task struct {
 	pool     *Pool
-	req      job.Request
+	req      protocol.Request
 	progress func(done, total int)
 	done     func(result json.RawMessage, err error)
 	w        *worker
@@ -226,13 +226,13 @@ func (p *Pool) deliver() {
 
 // receive handles one message or error event of worker w.
 func (p *Pool) receive(w *worker, text string, isErr bool) {
-	var r job.Reply
+	var r protocol.Reply
 	switch {
 	case isErr:
-		r = job.Reply{Type: job.Fatal, Error: "worker error: " + text}
+		r = protocol.Reply{Type: protocol.Fatal, Error: "worker error: " + text}
 	default:
 		if err := json.Unmarshal([]byte(text), &r); err != nil {
-			r = job.Reply{Type: job.Fatal, Error: "worker sent an unreadable message"}
+			r = protocol.Reply{Type: protocol.Fatal, Error: "worker sent an unreadable message"}
 		}
 	}
 	p.mu.Lock()
@@ -241,14 +241,14 @@ func (p *Pool) receive(w *worker, text string, isErr bool) {
 		return
 	}
 	switch r.Type {
-	case job.Ready:
+	case protocol.Ready:
 		w.ready = true
 		if !p.sawReady {
 			p.sawReady = true
 			Mark("hdrisk:worker-ready")
 		}
 		p.dispatch()
-	case job.Fatal:
+	case protocol.Fatal:
 		p.broken = errors.New(r.Error)
 		if t := w.task; t != nil {
 			p.finish(t, nil, p.broken)
@@ -257,19 +257,19 @@ func (p *Pool) receive(w *worker, text string, isErr bool) {
 			p.finish(t, nil, p.broken)
 		}
 		p.queue = nil
-	case job.Progress:
+	case protocol.Progress:
 		if t := w.task; t != nil && t.req.ID == r.ID && !t.over && t.progress != nil {
 			done, total, f := r.Done, r.Total, t.progress
 			p.post(func() { f(done, total) })
 		}
-	case job.Result, job.Failed:
+	case protocol.Result, protocol.Failed:
 		t := w.task
 		if t == nil || t.req.ID != r.ID {
 			return
 		}
 		w.task = nil
 		var err error
-		if r.Type == job.Failed {
+		if r.Type == protocol.Failed {
 			err = errors.New(r.Error)
 		}
 		p.finish(t, r.Result, err)
@@ -332,7 +332,7 @@ func (p *Pool) Start(kind string, args any, progress func(done, total int), done
 	p.mu.Lock()
 	defer p.mu.Unlock()
 	p.nextID++
-	t := &Task{pool: p, req: job.Request{ID: p.nextID, Kind: kind}, progress: progress, done: done}
+	t := &Task{pool: p, req: protocol.Request{ID: p.nextID, Kind: kind}, progress: progress, done: done}
 	b, err := json.Marshal(args)
 	switch {
 	case err != nil:
