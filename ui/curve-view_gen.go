@@ -637,18 +637,14 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.AddAttrInterface("src", c.FigureURL())
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 							vgparent.AppendChild(vgn)
-							if c.crossOn() {
-								vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "crosshair crosshair-v"}}}
-								vgparent.AppendChild(vgn)
-								vgn.AddAttrInterface("style", c.crossLeft())
-							}
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-v"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("class", "crosshair crosshair-v"+c.crossClass())
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 							vgparent.AppendChild(vgn)
-							if c.crossOn() {
-								vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "crosshair crosshair-h"}}}
-								vgparent.AppendChild(vgn)
-								vgn.AddAttrInterface("style", c.crossTop())
-							}
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-h"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("class", "crosshair crosshair-h"+c.crossClass())
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 							vgparent.AppendChild(vgn)
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figure-overlay"}, vugu.VGAttribute{Namespace: "", Key: "aria-hidden", Val: "true"}}}

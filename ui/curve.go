@@ -192,10 +192,6 @@ func (c *CurveView) Start() {
 	c.tuned, c.tunedOver = nil, ""
 	c.seconds, c.figSeconds, c.started = 0, 0, c.now()
 	c.startSweep(c.current, true)
-	if c.Tuned != "" {
-		c.tuned, c.tunedOver = &curveSeries{Label: plot.TunedCurve(c.Tuned, nil).Label, Scen: s}, c.Tuned
-		c.startTuned(c.tuned, c.Tuned)
-	}
 	if isWeight {
 		c.startBest(s, ax.Over)
 	}
@@ -204,8 +200,27 @@ func (c *CurveView) Start() {
 	} else {
 		c.bayesNote = "The Bayes-optimal error is drawn when the sweep varies a penalty setting only; " + pathLabel(s, ax.Over) + " changes the problem itself."
 	}
+	// The best-tuned curve, a search at every point, queues behind the quick references.
+	if c.Tuned != "" {
+		c.tuned, c.tunedOver = &curveSeries{Label: plot.TunedCurve(c.Tuned, nil).Label, Scen: s}, c.Tuned
+		c.startTuned(c.tuned, c.Tuned)
+	}
 	c.run = RunRunning
 	c.redraw()
+}
+
+// figuresWarm is set once the page has drawn its first figure.
+var figuresWarm bool
+
+// warmFigures draws a throw-away figure when the curve view first shows: the first figure
+// drawn in the page pays for loading the font and for the first run of the layout code (a
+// quarter of a second in WebAssembly), which would otherwise fall between a sweep's numbers
+// and their figure, or hold up the numbers themselves.
+func warmFigures() {
+	if !figuresWarm {
+		figuresWarm = true
+		plot.Warm()
+	}
 }
 
 // label names a curve by what sets it apart.
@@ -595,7 +610,22 @@ func (c *CurveView) redraw() {
 }
 
 // FigureURL is the figure as a data: URL; "" when there is none.
-func (c *CurveView) FigureURL() string { return c.box.url }
+func (c *CurveView) FigureURL() string {
+	warmFigures()
+	c.fit()
+	return c.box.url
+}
+
+// fit draws the figure again when the panel's width asks for another size than the one
+// shown (the window was resized, or the figure was drawn while its tab was hidden).
+func (c *CurveView) fit() {
+	if c.box.line == nil {
+		return
+	}
+	if w, h := figureSize(c.Browser, "panel-curve"); w != c.box.line.Width || h != c.box.line.Height {
+		c.box.drawLine(c.Browser, "panel-curve", *c.box.line)
+	}
+}
 
 // FigureProblem says why there is no figure.
 func (c *CurveView) FigureProblem() string { return c.box.problem }
@@ -603,7 +633,7 @@ func (c *CurveView) FigureProblem() string { return c.box.problem }
 // Readout is the value under the pointer, in words.
 func (c *CurveView) Readout() string { return c.box.readout }
 
-func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
+func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say, c.Browser, "curve") }
 
 func (c *CurveView) leave() { c.box.leave() }
 

@@ -140,12 +140,25 @@ func (b *figureBox) clear() {
 // the data point the crosshair marks (NaN for the pointer itself).
 type pick func(x, y float64, where func(x, y float64) (px, py float64)) (text string, cx, cy float64)
 
+// styler is what a Browser offers when it can set a property of an element's style through
+// the CSS object model, which the page's content policy allows where it refuses a style
+// attribute.
+type styler interface {
+	SetStyle(id, property, value string)
+}
+
 // point updates the readout from a pointer event (mouse, pen or touch) on the overlay that
 // covers the image exactly: offsetX/offsetY are the pointer position in it,
-// clientWidth/clientHeight its displayed size.
-func (b *figureBox) point(e vugu.DOMEvent, say pick) {
+// clientWidth/clientHeight its displayed size. The crosshair's lines (ids view-cross-v and
+// view-cross-h) are moved onto the point read.
+func (b *figureBox) point(e vugu.DOMEvent, say pick, br Browser, view string) {
 	b.pointAt(e.PropFloat64("offsetX"), e.PropFloat64("offsetY"),
 		e.PropFloat64("target", "clientWidth"), e.PropFloat64("target", "clientHeight"), say)
+	if st, ok := br.(styler); ok && b.crossOn {
+		pct := func(f float64) string { return strconv.FormatFloat(100*f, 'f', 2, 64) + "%" }
+		st.SetStyle(view+"-cross-v", "left", pct(b.cross[0]))
+		st.SetStyle(view+"-cross-h", "top", pct(b.cross[1]))
+	}
 }
 
 // pointAt is point with the numbers taken out of the event.
@@ -171,13 +184,12 @@ func (b *figureBox) pointAt(px, py, w, h float64, say pick) {
 // leave clears the readout when the pointer leaves the figure.
 func (b *figureBox) leave() { b.readout, b.crossOn = "", false }
 
-// Crosshair reports whether the crosshair is shown, and its two lines' CSS positions.
-func (b *figureBox) crosshair() (on bool, left, top string) {
-	if !b.crossOn {
-		return false, "", ""
+// crossClass is the class that shows the crosshair's lines, or "".
+func (b *figureBox) crossClass() string {
+	if b.crossOn {
+		return " on"
 	}
-	pct := func(f float64) string { return strconv.FormatFloat(100*f, 'f', 2, 64) + "%" }
-	return true, "left: " + pct(b.cross[0]), "top: " + pct(b.cross[1])
+	return ""
 }
 
 // save offers the figure (svg, pdf, or png at 2x) or its data (csv) as a download named
@@ -481,12 +493,9 @@ func modelPaths(m *Model) []scenario.PathInfo {
 
 // The views' crosshair hooks.
 
-func (c *CurveView) crossOn() bool     { on, _, _ := c.box.crosshair(); return on }
-func (c *CurveView) crossLeft() string { _, l, _ := c.box.crosshair(); return l }
-func (c *CurveView) crossTop() string  { _, _, t := c.box.crosshair(); return t }
-func (c *Mapview) crossOn() bool       { on, _, _ := c.box.crosshair(); return on }
-func (c *Mapview) crossLeft() string   { _, l, _ := c.box.crosshair(); return l }
-func (c *Mapview) crossTop() string    { _, _, t := c.box.crosshair(); return t }
+func (c *CurveView) crossOn() bool      { return c.box.crossOn }
+func (c *CurveView) crossClass() string { return c.box.crossClass() }
+func (c *Mapview) crossClass() string   { return c.box.crossClass() }
 
 // LogAllowed reports whether the quantity shown can go on a logarithmic axis.
 func (c *CurveView) LogAllowed() bool { return plot.LogAllowed(c.quantity().Name) }

@@ -290,12 +290,29 @@ func (c *Mapview) redraw() {
 }
 
 // FigureURL is the map as a data: URL; "" when there is none.
-func (c *Mapview) FigureURL() string { return c.box.url }
+func (c *Mapview) FigureURL() string {
+	c.fit()
+	return c.box.url
+}
+
+// fit draws the map again, on a worker, when the panel's width asks for another size than
+// the one shown.
+func (c *Mapview) fit() {
+	h := c.box.spec.Heat
+	if h == nil || c.box.drawing() {
+		return
+	}
+	if w, ht := figureSize(c.Browser, "panel-map"); w != h.Width || ht != h.Height {
+		nh := *h
+		nh.Width, nh.Height = w, ht
+		c.box.draw(c.Jobs, c.Browser, protocol.FigureArgs{Heat: &nh}, nil)
+	}
+}
 
 // FigureProblem says why there is no figure.
 func (c *Mapview) FigureProblem() string { return c.box.problem }
 
-func (c *Mapview) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
+func (c *Mapview) pointer(e vugu.DOMEvent) { c.box.point(e, c.say, c.Browser, "map") }
 
 func (c *Mapview) leave() { c.box.leave() }
 

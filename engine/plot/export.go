@@ -20,3 +20,16 @@ func (f *Figure) PDF() ([]byte, error) {
 	}
 	return b.Bytes(), nil
 }
+
+// Warm draws a small figure of each kind and drops them, so that the first figure someone
+// waits for does not pay for loading the font and for the first run of the layout code (in
+// the page's WebAssembly, about a quarter of a second).
+func Warm() {
+	if f, err := (Line{Title: "warm-up", XLabel: "x", YLabel: "y", Series: []Series{{Name: "a", X: []float64{1, 2, 3}, Y: []float64{1, 3, 2}}},
+		HLines: []Mark{{At: 2, Label: "mark"}}}).Build(); err == nil {
+		_, _ = f.SVG()
+	}
+	if f, err := (Heat{ZLabel: "z", X: []float64{1, 2, 3}, Y: []float64{1, 2}, Z: []float64{1, 2, 3, 4, 5, 6}, MarkLowest: true}).Build(); err == nil {
+		_, _ = f.SVG()
+	}
+}

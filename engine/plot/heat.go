@@ -95,7 +95,7 @@ func (hm Heat) Build() (*Figure, error) {
 		ct := plotter.NewContour(fg, append([]float64(nil), levels...), nil)
 		ct.Min, ct.Max = lo, hi
 		ct.LineStyles = []draw.LineStyle{{Color: color.White, Width: vg.Points(0.8)}}
-		p.Add(ct)
+		p.Add(quietContour{ct})
 		labels = &contourLabels{g: fg, levels: levels}
 	}
 	for i, s := range hm.Lines {
@@ -177,6 +177,13 @@ func (hm Heat) Build() (*Figure, error) {
 		bar.Draw(side(c))
 	}}, nil
 }
+
+// quietContour is a contour plot without glyph boxes: the library's Contour traces every
+// contour again each time the layout asks for them (several times a figure), only to pad
+// the axes for glyphs it does not draw.
+type quietContour struct{ *plotter.Contour }
+
+func (quietContour) GlyphBoxes(*gplot.Plot) []gplot.GlyphBox { return nil }
 
 // raster draws the cells of a heat map as one 8-bit paletted image (a PNG of a quarter the
 // size of gonum's 16-bit RGBA one, encoded several times faster), each cell split into
@@ -467,7 +474,7 @@ func filled(g *grid) *grid {
 type powerTicks struct{ must []float64 }
 
 func (pt powerTicks) Ticks(min, max float64) []gplot.Tick {
-	ts := ticker{log: true, must: pt.must, style: textStyle(tickSize)}.Ticks(math.Pow(10, min), math.Pow(10, max))
+	ts := (&ticker{log: true, must: pt.must, style: textStyle(tickSize)}).Ticks(math.Pow(10, min), math.Pow(10, max))
 	out := make([]gplot.Tick, 0, len(ts))
 	for _, t := range ts {
 		if t.Value > 0 {

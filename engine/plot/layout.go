@@ -3,6 +3,7 @@ package plot
 import (
 	"image/color"
 	"math"
+	"sync"
 
 	gplot "gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
@@ -53,7 +54,43 @@ func (f *Figure) Layout() Layout { return f.layout }
 // textStyle is the figure's text style at a size.
 func textStyle(size vg.Length) text.Style {
 	return text.Style{Color: color.Black, Font: font.Font{Typeface: "Liberation", Variant: "Sans", Size: size},
-		Handler: gplot.DefaultTextHandler}
+		Handler: measured}
+}
+
+// measured is the text handler of every figure text: gonum's plain text, with the boxes of
+// the texts it measured remembered. Laying a figure out measures each label many times (in
+// the page's WebAssembly a measurement costs tens of microseconds, and a figure makes
+// thousands), and a figure's texts are few.
+var measured = &measuring{Plain: text.Plain{Fonts: font.DefaultCache}, boxes: map[boxKey][3]vg.Length{}}
+
+type boxKey struct {
+	txt string
+	fnt font.Font
+}
+
+type measuring struct {
+	text.Plain
+	mu    sync.Mutex
+	boxes map[boxKey][3]vg.Length
+}
+
+// Box implements text.Handler.
+func (m *measuring) Box(txt string, fnt font.Font) (width, height, depth vg.Length) {
+	k := boxKey{txt, fnt}
+	m.mu.Lock()
+	b, ok := m.boxes[k]
+	m.mu.Unlock()
+	if ok {
+		return b[0], b[1], b[2]
+	}
+	width, height, depth = m.Plain.Box(txt, fnt)
+	m.mu.Lock()
+	if len(m.boxes) > 4096 {
+		clear(m.boxes)
+	}
+	m.boxes[k] = [3]vg.Length{width, height, depth}
+	m.mu.Unlock()
+	return width, height, depth
 }
 
 // legend is the key of a line figure's curves, drawn by the figure itself so that its box

@@ -110,10 +110,8 @@ func (l Line) Build() (*Figure, error) {
 	// The data area depends on the tick labels, which depend on the length of the axes:
 	// two passes settle it.
 	area := func(c draw.Canvas) draw.Canvas {
-		for range 2 {
-			dc := p.DataCanvas(c)
-			xt.length, yt.length = dc.Max.X-dc.Min.X, dc.Max.Y-dc.Min.Y
-		}
+		dc := p.DataCanvas(c)
+		xt.length, yt.length = dc.Max.X-dc.Min.X, dc.Max.Y-dc.Min.Y
 		return p.DataCanvas(c)
 	}
 	full := lay.plotCanvas(measure(w, h), legendNone)
@@ -136,9 +134,8 @@ func (l Line) Build() (*Figure, error) {
 	f.draw = func(c draw.Canvas) {
 		c.SetColor(color.White)
 		c.Fill(c.Rectangle.Path())
-		pc := lay.plotCanvas(c, lay.where)
-		p.Draw(pc)
-		lay.drawTexts(c, p, area(pc), vrules, hrules)
+		p.Draw(lay.plotCanvas(c, lay.where))
+		lay.drawTexts(c, p, draw.Canvas{Canvas: c.Canvas, Rectangle: dc.Rectangle}, vrules, hrules)
 	}
 	return f, nil
 }

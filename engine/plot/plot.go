@@ -24,6 +24,7 @@ import (
 
 	gplot "gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
+	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgsvg"
@@ -183,6 +184,10 @@ func sans(p *gplot.Plot) {
 	}{{&p.Title.TextStyle.Font, titleSize}, {&p.X.Label.TextStyle.Font, labelSize}, {&p.Y.Label.TextStyle.Font, labelSize},
 		{&p.X.Tick.Label.Font, tickSize}, {&p.Y.Tick.Label.Font, tickSize}, {&p.Legend.TextStyle.Font, noteSize}} {
 		f.f.Typeface, f.f.Variant, f.f.Size = "Liberation", "Sans", f.size
+	}
+	for _, h := range []*text.Handler{&p.Title.TextStyle.Handler, &p.X.Label.TextStyle.Handler, &p.Y.Label.TextStyle.Handler,
+		&p.X.Tick.Label.Handler, &p.Y.Tick.Label.Handler, &p.Legend.TextStyle.Handler} {
+		*h = measured
 	}
 	p.X.Tick.Length, p.Y.Tick.Length = 5, 5
 	p.X.Label.Padding, p.Y.Label.Padding = 3, 3

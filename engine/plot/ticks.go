@@ -22,6 +22,13 @@ type ticker struct {
 	must     []float64
 	length   vg.Length // of the data area along the axis
 	style    text.Style
+	// The ticks of the last range and length asked for: gonum asks for them many times while
+	// it lays a figure out, and each answer measures its labels.
+	memo struct {
+		lo, hi float64
+		length vg.Length
+		ticks  []gplot.Tick
+	}
 }
 
 // gap is the least room between two neighbouring labels, in points.
@@ -49,7 +56,16 @@ func (t ticker) fits(lo, hi float64, vs []float64, labels []string) bool {
 }
 
 // Ticks implements gonum's Ticker.
-func (t ticker) Ticks(lo, hi float64) []gplot.Tick {
+func (t *ticker) Ticks(lo, hi float64) []gplot.Tick {
+	if m := &t.memo; m.ticks != nil && m.lo == lo && m.hi == hi && m.length == t.length {
+		return m.ticks
+	}
+	ts := t.ticks(lo, hi)
+	t.memo.lo, t.memo.hi, t.memo.length, t.memo.ticks = lo, hi, t.length, ts
+	return ts
+}
+
+func (t *ticker) ticks(lo, hi float64) []gplot.Tick {
 	if !(hi > lo) {
 		return []gplot.Tick{{Value: lo, Label: label(lo)}}
 	}
@@ -117,6 +133,9 @@ func (t ticker) Ticks(lo, hi float64) []gplot.Tick {
 // axis reads well without minor ticks; a log axis needs them to show its scale).
 func (t ticker) steps(lo, hi float64) (major, minor []float64) {
 	for _, step := range candidates(hi - lo) {
+		if (hi-lo)/step > 13 {
+			continue
+		}
 		vs := multiples(lo, hi, step)
 		if len(vs) < 2 && step < hi-lo {
 			continue
