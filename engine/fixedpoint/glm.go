@@ -172,7 +172,11 @@ func (s *glmSolver) apply(st GLMState, near float64) (glmImage, error) {
 		law = newScaledLaw(p.Signal, st.MuZ)
 	}
 	m := signal.Expect(law, p.Penalty, st.G1, st.T1)
-	a := math.Max(m.A, zeroA)
+	if m.A < zeroA {
+		// The estimate is zero: the output side has nothing to fit, and run reports it.
+		return glmImage{m: m, next: st}, nil
+	}
+	a := m.A
 	g, err := invertS1(p.Design, st.G2Z*a/st.G1, near)
 	if err != nil {
 		return glmImage{}, err
