@@ -206,4 +206,3 @@ func errNoBracket() error {
 func errUnbounded(s *solver) error {
 	return fieldErr("penalty", "there is no finite fixed point: the error grows without bound at m/n = %v with this penalty (for instance nonnegative least squares beyond its phase transition): strengthen the penalty, or raise design.alpha", s.p.Design.Alpha())
 }
-
