@@ -540,8 +540,32 @@ func scalePenalty(p penalty.Penalty, sc, c float64) penalty.Penalty {
 	if sc == 1 && c == 1 {
 		return p
 	}
+	if b, ok := p.(brancher); ok {
+		return scaledBranch{scaled{p, sc, c}, b}
+	}
 	return scaled{p, sc, c}
 }
+
+// brancher is the explicit inverse of the power prox that package signal integrates along
+// (see penalty's power Branch); scaledBranch keeps it visible through the change of units.
+type brancher interface {
+	Branch(u, g float64) (x, dxdu, r, drdu float64)
+	BranchAt(r, g float64) float64
+	Exponent() float64
+}
+
+type scaledBranch struct {
+	scaled
+	b brancher
+}
+
+func (p scaledBranch) Branch(u, g float64) (x, dxdu, r, drdu float64) {
+	x, dxdu, r, drdu = p.b.Branch(u, p.c*g)
+	return x / p.sc, dxdu / p.sc, r / p.sc, drdu / p.sc
+}
+
+func (p scaledBranch) BranchAt(r, g float64) float64 { return p.b.BranchAt(p.sc*r, p.c*g) }
+func (p scaledBranch) Exponent() float64             { return p.b.Exponent() }
 
 func (p scaled) Prox(r, g float64) float64  { return p.Penalty.Prox(p.sc*r, p.c*g) / p.sc }
 func (p scaled) Deriv(r, g float64) float64 { return p.Penalty.Deriv(p.sc*r, p.c*g) }

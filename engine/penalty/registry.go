@@ -63,10 +63,10 @@ var kinds = []struct {
 		{Name: "width", Unit: "units of x0", Max: math.Inf(1), MinOpen: true, MaxOpen: true,
 			Help: "where the penalty turns from quadratic to linear"}}},
 		func(v map[string]float64) (Penalty, error) { return Huber(v["l1"], v["width"]) }},
-	{Kind{"power", "power: weight |x|^q with 1 <= q <= 2, between the LASSO (q = 1) and ridge (q = 2)", []Param{
+	{Kind{"power", "power: weight |x|^q with q >= 1: the LASSO at q = 1, ridge at q = 2, towards a box beyond", []Param{
 		{Name: "weight", Unit: "loss per unit of |x|^q", Max: math.Inf(1), MaxOpen: true,
 			Help: "strength of the penalty"},
-		{Name: "q", Unit: "dimensionless", Min: 1, Max: 2,
+		{Name: "q", Unit: "dimensionless", Min: 1, Max: MaxPowerQ,
 			Help: "exponent; q below 1 would make the penalty non-convex and is refused"}}},
 		func(v map[string]float64) (Penalty, error) { return Power(v["weight"], v["q"]) }},
 }

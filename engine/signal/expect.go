@@ -44,6 +44,9 @@ func Expect(l Law, p penalty.Penalty, g, t float64) Moments {
 		pieces, ok = p.Pieces(g)
 	}
 	if !ok {
+		if b, isB := p.(brancher); isB && b.Exponent() > 0 {
+			return expectBranch(l, p, b, g, t)
+		}
 		return ExpectQuad(l, p, g, t)
 	}
 	var m Moments
