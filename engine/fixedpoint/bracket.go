@@ -122,18 +122,18 @@ func (b *bracketer) phi(t1 float64) (float64, bool) {
 	x := x0
 	switch {
 	case f0 < 0:
-		for fhi < 0 && hi < reach {
+		for step := 1.0; fhi < 0 && hi < reach; step *= 2 {
 			lo, flo = hi, fhi
-			hi = math.Min(hi+2, reach)
+			hi = math.Min(hi+step, reach)
 			if fhi = psi(hi); math.IsNaN(fhi) {
 				return 0, false
 			}
 		}
 		x = hi
 	case f0 > 0:
-		for flo > 0 && lo > -reach {
+		for step := 1.0; flo > 0 && lo > -reach; step *= 2 {
 			hi, fhi = lo, flo
-			lo = math.Max(lo-2, -reach)
+			lo = math.Max(lo-step, -reach)
 			if flo = psi(lo); math.IsNaN(flo) {
 				return 0, false
 			}
@@ -168,7 +168,7 @@ func illinois(f func(float64) float64, lo, hi, flo, fhi, tol float64) (float64, 
 		return hi, true
 	}
 	side := 0
-	for range 200 {
+	for range 100 {
 		x := hi - fhi*(hi-lo)/(fhi-flo)
 		if !(x > lo && x < hi) {
 			x = lo + (hi-lo)/2
@@ -177,7 +177,8 @@ func illinois(f func(float64) float64, lo, hi, flo, fhi, tol float64) (float64, 
 		switch {
 		case math.IsNaN(fx):
 			return 0, false
-		case fx == 0:
+		case math.Abs(fx) < 1e-15:
+			// Both functions are differences of logarithms: below 1e-15 they are rounding.
 			return x, true
 		case (fx > 0) == (fhi > 0):
 			hi, fhi = x, fx

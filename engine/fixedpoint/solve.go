@@ -116,11 +116,19 @@ const (
 	// E[x0^2]: an error beyond tFar is reported as unbounded, one below tNear as the floor.
 	tFar  = 1e40
 	tNear = 1e-30
-	// suspectT is the t1, in units of E[x0^2], above which a converged iteration is checked
-	// for a crawl towards an infinite error.
+	// suspectT is the t1, in units of E[x0^2] + Delta, above which a converged iteration is
+	// checked for a crawl towards an infinite error.
 	suspectT = 1e6
 
 	defaultMaxIter = 2000
+
+	// MinAlpha is the smallest sampling ratio solved: below, the atom 1 - alpha of the
+	// design at zero is 1 to within 1e-8 and the observables differ from those of no
+	// measurement at all by about alpha.
+	MinAlpha = 1e-8
+	// MinPower is the smallest E[x0^2] solved: below, the weights and variances of the
+	// signal's components approach the subnormal numbers.
+	MinPower = 1e-280
 )
 
 // Solve finds the fixed point of the state evolution and its observables.
@@ -150,18 +158,27 @@ func Solve(p Problem, o Options) (Result, error) {
 		return Result{}, fieldErr("scenario", "design, signal and penalty are all needed")
 	}
 	if !(p.Noise >= 0) || math.IsInf(p.Noise, 0) {
-		return Result{}, fieldErr("noise", "the noise variance must be a finite number >= 0, not %v", p.Noise)
+		return Result{}, fieldErr("noise", "the noise variance must be a finite number >= 0, not %v (an snr_db at the end of its range with a signal or design at the end of theirs can give this: state noise.variance instead)", p.Noise)
 	}
 	if math.IsNaN(o.Tol) || o.Tol >= 1 {
 		return Result{}, fieldErr("tol", "the tolerance must be a number below 1 (the default is 1e-10), not %v", o.Tol)
 	}
 	rho2 := p.Signal.Second()
-	if !(rho2 > 0) || math.IsInf(rho2, 0) {
+	if !(rho2 > 0) {
 		return Result{}, fieldErr("signal", "the signal has no power (E[x0^2] = %v), so the normalized error is undefined: give it a positive variance, amplitude or scale", rho2)
+	}
+	if rho2 < MinPower {
+		return Result{}, fieldErr("signal", "E[x0^2] = %v is below %v, where double precision loses the digits of the signal's law: rescale the signal (and the noise and the penalty with it)", rho2, MinPower)
+	}
+	if math.IsInf(rho2, 0) {
+		return Result{}, fieldErr("signal", "E[x0^2] exceeds the range of double-precision numbers (1.8e308): give the signal smaller values")
+	}
+	if a := p.Design.Alpha(); a < MinAlpha {
+		return Result{}, fieldErr("design.alpha", "m/n = %v is below the solver's limit %v (fewer than one measurement per 100 million unknowns, where 1 - m/n rounds to 1): the error there is E[x0^2] to within m/n", a, MinAlpha)
 	}
 	mean := p.Design.Mean()
 	if !(mean > 0) || math.IsInf(mean, 0) {
-		return Result{}, fieldErr("design", "the mean eigenvalue of F^T F is %v: the design needs a nonzero singular value", mean)
+		return Result{}, fieldErr("design", "the mean eigenvalue of F^T F is %v: the design needs a nonzero singular value, and squares of its singular values below 1.8e308", mean)
 	}
 	if o.Tol <= 0 {
 		o.Tol = 1e-10
@@ -209,10 +226,23 @@ func refuse(q Problem) error {
 		return nil
 	}
 	if q.Design.Atom0() > 0 {
-		return fieldErr("penalty", "with no penalty (every strength 0) and m/n = %v below 1 the minimizer is not unique: give the penalty a positive strength (as l1 goes to 0 the LASSO tends to the minimum-l1 interpolant), or raise design.alpha to 1 or more", q.Design.Alpha())
+		return fieldErr("penalty", "with no penalty (every strength 0) and a share %.3g of the design's eigenvalues at 0 (m/n = %v) the minimizer is not unique: give the penalty a positive strength (as l1 goes to 0 the LASSO tends to the minimum-l1 interpolant), or raise design.alpha to 1 or more", q.Design.Atom0(), q.Design.Alpha())
 	}
 	if q.Noise > 0 && design.ReachesZero(q.Design) {
 		return fieldErr("penalty", "least squares (every strength 0) on a design whose eigenvalues come down to 0 has an infinite error whenever there is noise: give the penalty a positive l2, or keep the eigenvalues away from 0 (design.min above 0, or design.alpha away from 1)")
+	}
+	return nil
+}
+
+// diagnose returns the account of a problem that the bracketing strategy could not solve when
+// the penalty barely acts at the scale of the signal (it moves an entry of half the signal's
+// root mean square by less than 1e-9 of it at unit precision) while the design has an atom at 0:
+// the minimizer is then not unique, or it is the vanishing-penalty limit (the minimum-penalty
+// interpolant), which lies beyond double precision.
+func (s *solver) diagnose() error {
+	pull := math.Abs(0.5-s.p.Penalty.Prox(0.5, 1)) / 0.5
+	if pull < 1e-9 && s.p.Design.Atom0() > 0 {
+		return fieldErr("penalty", "the penalty barely acts on entries of the size of the signal (it moves them by %.2g of their size) and %.3g of the design's eigenvalues are 0 (m/n = %v): the minimizer is not unique, or is the limit of a vanishing penalty, beyond the solver's reach; strengthen the penalty (a box penalty needs an l2 term here), or raise design.alpha", pull, s.p.Design.Atom0(), s.p.Design.Alpha())
 	}
 	return nil
 }
@@ -239,7 +269,7 @@ func (s *solver) solve(start *State, sc, mean float64) (Result, error) {
 	for _, st := range starts {
 		r, err := s.run(st)
 		if err == nil && r.Converged {
-			if r.T1 > suspectT && !r.EstimateZero {
+			if r.T1 > suspectT*(s.rho2+s.p.Noise) && !r.EstimateZero {
 				// A crawl towards an infinite error also has small relative changes:
 				// the bracketing strategy tells the two apart.
 				if s.crawls(r) {
@@ -258,6 +288,9 @@ func (s *solver) solve(start *State, sc, mean float64) (Result, error) {
 	}
 	r, err := s.bracket()
 	if err != nil {
+		if d := s.diagnose(); d != nil {
+			return Result{}, d
+		}
 		return Result{}, err
 	}
 	if r.Converged {
@@ -273,8 +306,13 @@ func (s *solver) solve(start *State, sc, mean float64) (Result, error) {
 // limit, g1 = E[lambda] = 1 and t1 = Delta + Var[lambda] (in the solver's units). If the
 // prox there is zero but on a set of derivative mass below zeroA, that is the fixed point.
 func (s *solver) zeroEnd() (Result, bool) {
-	const far = 1e12
+	// g2 far above the spectrum, so that T(g2) g2 = E[lambda] = 1 to 1e-9: the limit.
+	far := 1e12
 	tr := s.p.Design.At(far)
+	for math.Abs(tr.T*far-1) > 1e-9 && far < 1e290 {
+		far *= 1e6
+		tr = s.p.Design.At(far)
+	}
 	g1 := tr.T / tr.S1
 	t1 := (s.p.Noise*tr.S3 + tr.W*s.rho2) / (g1 * g1 * tr.S2)
 	if !finitePos(g1) || !finitePos(t1) {

@@ -46,6 +46,8 @@ func Power(weight, q float64) (Penalty, error) {
 	}
 	p := power{weight: weight, q: q}
 	switch {
+	case weight == 0:
+		p.exact = elasticNet{"power", 0, 0}
 	case q-1 < powerNear:
 		p.exact = elasticNet{"power", weight, 0}
 	case math.Abs(q-2) < powerNear:
