@@ -236,8 +236,10 @@ type Model struct {
 	Notes string
 	Scale string
 	Study *scenario.Study
-	kinds map[string]string // group -> kind name
-	texts map[string]string // "group/kind/param" -> text
+	// Matrix is the user's own matrix once the data tab made it the design (datamatrix.go).
+	Matrix *UserMatrix
+	kinds  map[string]string // group -> kind name
+	texts  map[string]string // "group/kind/param" -> text
 }
 
 // NewModel returns the starting scenario. It is an invented example, not data from any

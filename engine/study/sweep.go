@@ -191,6 +191,9 @@ func (w *walker) solve(c scenario.Checked, err error) Point {
 		w.prev = nil
 		return Point{Failed: err.Error()}
 	}
+	if g, ok := c.GLM(); ok {
+		return solveGLM(g, w.opt)
+	}
 	p := c.Problem()
 	o := w.opt
 	o.Start = w.warm
