@@ -190,7 +190,7 @@ func TestMatrixAgainstSklearn(t *testing.T) {
 func TestRotatedMatrixAgainstPrediction(t *testing.T) {
 	a := readAR1(t)
 	p := matrixProblem(t, a, design.AsGiven)
-	rep, err := Check(context.Background(), p, Options{Trials: 150, Seed: 3, Factors: FactorsQR, Matrix: a}, nil)
+	rep, err := Check(context.Background(), p, Options{Trials: 100, Seed: 3, Factors: FactorsQR, Matrix: a}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
