@@ -141,11 +141,13 @@ func (s Scenario) tree() node {
 	} else {
 		z.set("variance", flt(s.Noise.Variance))
 	}
+	s.Noise.lawTree(&z)
 	t.set("noise", z)
 	p := obj()
 	p.set("kind", str(s.Penalty.Kind))
 	addParams(&p, penalties(), s.Penalty.Kind, s.Penalty.Params, nil)
 	t.set("penalty", p)
+	s.glmTree(&t)
 	if s.Study != nil {
 		t.set("study", s.Study.tree())
 	}

@@ -25,6 +25,8 @@ type evalResult struct {
 	Converged       bool   `json:"converged"`
 	Iterations      int    `json:"iterations"`
 	EstimateZero    bool   `json:"estimate_zero"`
+	Exists          bool   `json:"exists"`
+	glmFields
 }
 
 // runEval solves the fixed point of one scenario and prints its observables.
@@ -39,15 +41,23 @@ func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	p, err := s.Problem()
+	c, err := s.Check()
 	if err != nil {
 		return err
 	}
-	r, err := fixedpoint.Solve(p, opts)
+	var r fixedpoint.Result
+	if g, ok := c.GLM(); ok {
+		r, err = fixedpoint.SolveGLM(g, opts)
+	} else {
+		r, err = fixedpoint.Solve(c.Problem(), opts)
+	}
 	if err != nil {
 		return err
 	}
-	return writeJSON(stdout, evalResult{
+	if r.GLM != nil && !r.GLM.Exists {
+		return writeJSON(stdout, absentResult{Exists: false, Reason: r.GLM.ExistsReason})
+	}
+	return writeJSON(stdout, evalResult{Exists: true, glmFields: glmOutput(r),
 		MSE: number(r.MSE), NMSE: number(r.NMSE), NMSEdB: number(r.NMSEdB),
 		Susceptibility: number(r.Susceptibility), NonzeroFraction: number(r.NonZero),
 		TPP: number(r.TPP), FDP: number(r.FDP), TrainError: number(r.TrainError),
