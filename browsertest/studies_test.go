@@ -332,7 +332,7 @@ func TestStudiesInPage(t *testing.T) {
 	b.studyWait(t, "[data-view=map]", "data-figure-seconds", 10*time.Second)
 	t.Logf("budget: 100 x 100 map in the page: %s s to the numbers, %s s to the drawn map, over %d workers (budget 3 s)",
 		figs["map_seconds"], b.studyAttr(t, "[data-view=map]", "data-figure-seconds"), size)
-	if _, ok := figs["map_lowest_mse"]; !ok {
+	if _, ok := figs["map_lowest"]; !ok {
 		t.Error("the map states no lowest error")
 	}
 	b.screenshot(t, "studies-map.png")

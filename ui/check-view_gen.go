@@ -121,7 +121,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -157,7 +157,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -193,7 +193,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -409,7 +409,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								if err != nil {
 									panic(err)
 								}
-								vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+								vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 							}
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 								EventType: "change",

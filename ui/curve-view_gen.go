@@ -180,7 +180,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -216,7 +216,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -252,7 +252,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",

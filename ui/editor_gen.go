@@ -207,18 +207,18 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.AddAttrInterface("inputmode", c.inputMode(f))
 						vgn.AddAttrInterface("placeholder", c.placeholder(f))
 						{
+							b, err := vjson.Marshal(c.boxText(f))
+							if err != nil {
+								panic(err)
+							}
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
+						}
+						{
 							b, err := vjson.Marshal(c.locked(f))
 							if err != nil {
 								panic(err)
 							}
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "readOnly", JSONVal: vjson.RawMessage(b)})
-						}
-						{
-							b, err := vjson.Marshal(c.boxText(f))
-							if err != nil {
-								panic(err)
-							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "input",

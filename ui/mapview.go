@@ -300,13 +300,14 @@ func (c *Mapview) weightAxis() int {
 }
 
 // Ridge returns the best regularization along the weight axis: for every value of the
-// other axis, the weight with the lowest MSE among the converged cells (no point where
-// none converged). Special cases are: no weight axis gives nil.
+// other axis, the weight with the lowest value of the quantity shown among the converged
+// cells (no point where none converged). Special cases are: no weight axis gives nil.
 func (c *Mapview) Ridge() (x, y []float64) {
 	k := c.weightAxis()
 	if k < 0 || len(c.cells) == 0 {
 		return nil, nil
 	}
+	q := c.quantity()
 	nx, ny := c.axes[0].Points, c.axes[1].Points
 	at := func(i, j int) study.Point { return c.cells[j*nx+i] }
 	outer, inner := ny, nx
@@ -320,8 +321,8 @@ func (c *Mapview) Ridge() (x, y []float64) {
 			if k == 1 {
 				i, j = o, n
 			}
-			if p := at(i, j); p.OK() && p.Result.MSE < bm {
-				best, bm = n, p.Result.MSE
+			if p := at(i, j); p.OK() && q.Of(p.Result) < bm {
+				best, bm = n, q.Of(p.Result)
 			}
 		}
 		if best < 0 {
@@ -445,10 +446,12 @@ func (c *Mapview) Answers() [][3]string {
 		return nil
 	}
 	q := c.quantity()
+	// The lowest of the quantity the colours show, not of the MSE: the two differ in place
+	// wherever E[x0^2] or the quantity's own scale varies over the map.
 	lo, at := math.Inf(1), -1
 	for k, p := range c.cells {
-		if p.OK() && p.Result.MSE < lo {
-			lo, at = p.Result.MSE, k
+		if v := q.Of(p.Result); p.OK() && v < lo {
+			lo, at = v, k
 		}
 	}
 	t := fmt.Sprintf("Time in the page: %.2f s to the numbers", c.seconds)
@@ -458,7 +461,7 @@ func (c *Mapview) Answers() [][3]string {
 	out := [][3]string{{"map_seconds", full(c.seconds), t}}
 	if at >= 0 {
 		p := c.cells[at]
-		out = append(out, [3]string{"map_lowest_mse", full(p.Result.MSE), fmt.Sprintf("Lowest error on the map: %s %s at %s = %s, %s = %s",
+		out = append(out, [3]string{"map_lowest", full(lo), fmt.Sprintf("Lowest on the map: %s %s at %s = %s, %s = %s",
 			q.Label, num4(q.Of(p.Result)), c.axes[0].Over, num4(p.X), c.axes[1].Over, num4(p.Y))})
 	}
 	return out

@@ -94,7 +94,7 @@ func TestMapMatchesEngineWithRidge(t *testing.T) {
 		t.Fatalf("CSV: %v, %d rows", err, len(rows))
 	}
 	ans := c.Answers()
-	if len(ans) != 2 || ans[0][0] != "map_seconds" || ans[1][0] != "map_lowest_mse" {
+	if len(ans) != 2 || ans[0][0] != "map_seconds" || ans[1][0] != "map_lowest" {
 		t.Errorf("answers %v", ans)
 	}
 }

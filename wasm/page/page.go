@@ -28,6 +28,9 @@ func Run() error {
 	if err != nil {
 		return err
 	}
+	if err := installTextGuard(); err != nil {
+		return err
+	}
 	renderer, err := domrender.New("#hdrisk")
 	if err != nil {
 		return fmt.Errorf("page: renderer: %w", err)
