@@ -80,7 +80,7 @@ func TestMapMatchesEngineWithRidge(t *testing.T) {
 	if !strings.HasPrefix(c.Caption(), "White lines: NMSE (dB) = ") {
 		t.Errorf("caption %q", c.Caption())
 	}
-	if st := m.Study; st == nil || st.View != "map" || st.Map == nil || st.Map.XPoints != 12 || st.Map.Y != "alpha" || !st.Map.XLog {
+	if st := m.Check().Scenario.Study; st == nil || st.View != "map" || st.Map == nil || st.Map.XPoints != 12 || st.Map.Y != "alpha" || !st.Map.XLog {
 		t.Fatalf("study.map not saved: %+v", st)
 	}
 	fr := c.box.frame

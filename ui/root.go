@@ -25,9 +25,6 @@ func (c *Root) Init(vugu.InitCtx) {
 	if c.Model == nil {
 		c.Model = NewModel()
 	}
-	if c.tab == "" {
-		c.tab = viewTabs[0].Name
-	}
 	c.changed()
 }
 
@@ -45,19 +42,13 @@ func (c *Root) State() string {
 	}
 }
 
-// Tab returns the name of the selected view.
-func (c *Root) Tab() string { return c.tab }
+// Tab returns the name of the selected view, from the page state.
+func (c *Root) Tab() string { return c.Model.Views().Tab }
 
 // showTab selects the view named name. Special cases are: an unknown name changes nothing.
-func (c *Root) showTab(name string) {
-	for _, v := range viewTabs {
-		if v.Name == name {
-			c.tab = name
-		}
-	}
-}
+func (c *Root) showTab(name string) { c.Model.SetTab(name) }
 
-func (c *Root) selectedText(name string) string { return strconv.FormatBool(c.tab == name) }
+func (c *Root) selectedText(name string) string { return strconv.FormatBool(c.Tab() == name) }
 
 // fieldless is the problem of the scenario that no single input can be blamed for, shown
 // at the foot of the editor; "" when there is none.
