@@ -367,7 +367,9 @@ func TestWorkersAgreeWithEngine(t *testing.T) {
 		const id = hdriskJobs.start("eval", args, null, () => { late = true; });
 		hdriskJobs.cancel(id);
 		const all = await Promise.all(Array.from({length: %d}, one));
-		await new Promise((r) => setTimeout(r, 200));
+		// A worker answers in order: once every worker has answered a job posted after the
+		// cancel, no answer of the cancelled one can still be on its way.
+		await Promise.all(Array.from({length: hdriskJobs.size()}, one));
 		return JSON.stringify({late, all, size: hdriskJobs.size()});
 	})()`, args, 2*size)
 	var out string
@@ -487,15 +489,14 @@ func (b *browser) typeThen(t *testing.T, sel, text, key string) {
 		t.Fatalf("focusing %s: %v (found and focused: %v)", sel, err, ok)
 	}
 	// The whole text at full speed, as a quick typist would, then a wait until the page
-	// has taken in every key: the box must show the text and the page's own copy of it (the
-	// hdriskText property, written by input events) must match. No key may be lost to a
-	// redraw, so nothing is typed twice.
+	// has taken in every key: the box shows the text once the page has rendered what the
+	// keys did (it is not busy). No key may be lost to a redraw, so nothing is typed twice.
 	if err := chromedp.Run(b.ctx, chromedp.KeyEvent(text)); err != nil {
 		t.Fatalf("typing into %s: %v", sel, err)
 	}
 	var shown bool
 	if err := chromedp.Run(b.ctx, chromedp.Poll(
-		fmt.Sprintf(`(e=>e&&e.value===%q&&e._hdriskLast===%q?true:null)(document.querySelector(%q))`, text, text, sel),
+		fmt.Sprintf(`(e=>e&&e.value===%q&&document.getElementById("hdrisk").getAttribute("data-state")!=="busy"?true:null)(document.querySelector(%q))`, text, sel),
 		&shown, chromedp.WithPollingTimeout(10*time.Second))); err != nil {
 		var got string
 		_ = chromedp.Run(b.ctx, chromedp.Evaluate(fmt.Sprintf(`(e=>e?e.value:"(missing)")(document.querySelector(%q))`, sel), &got))

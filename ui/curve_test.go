@@ -380,7 +380,7 @@ func TestStudyThatNoLongerFitsIsReplaced(t *testing.T) {
 	if st == nil || st.Sweep == nil || st.Sweep.Over != "l2" || st.Best == nil || st.Best.Over != "l2" || st.Plan == nil {
 		t.Errorf("the sweep and the tuned weight over l1 should be replaced by l2, the plan kept: %+v", st)
 	}
-	if n := m.Views().Notes; len(n) != 2 || !strings.Contains(n[0], "varied l1") || !strings.Contains(n[1], "tuned l1") {
+	if n := m.Views().Notes; len(n) != 3 || !strings.Contains(n[0], "curve varied l1") || !strings.Contains(n[1], "x axis varied l1") || !strings.Contains(n[2], "tuned l1") {
 		t.Errorf("the replacements should be noted: %q", n)
 	}
 	if err := m.SetKind("penalty", "l1"); err != nil {

@@ -494,3 +494,7 @@ func (c *Mapview) Caption() string {
 }
 
 func (c *Mapview) staleText() string { return strconv.FormatBool(c.Stale()) }
+
+// doneText and totalText are the rows finished and the rows of the map (data hooks).
+func (c *Mapview) doneText() string  { return strconv.Itoa(c.done) }
+func (c *Mapview) totalText() string { return strconv.Itoa(c.total) }

@@ -56,9 +56,11 @@ func (c *Mapview) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	var vgn *vugu.VGNode
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "study map"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "map-heading"}, vugu.VGAttribute{Namespace: "", Key: "data-view", Val: "map"}}}
 	vgout.Out = append(vgout.Out, vgn) // root for output
+	vgn.AddAttrInterface("data-done", c.doneText())
 	vgn.AddAttrInterface("data-figure-seconds", c.FigureSeconds())
 	vgn.AddAttrInterface("data-run", c.Run())
 	vgn.AddAttrInterface("data-seconds", c.Seconds())
+	vgn.AddAttrInterface("data-total", c.totalText())
 	{
 		vgparent := vgn
 		_ = vgparent

@@ -265,7 +265,7 @@ func pathMenuTextOf(s scenario.Scenario, p scenario.PathInfo) string {
 func (m *Model) fitViews(s scenario.Scenario) {
 	v := &m.views
 	var notes []string
-	fit := func(a *axisText, what, part, fallback string, points int, avoid string) {
+	fit := func(a *axisText, what, fallback string, points int, avoid string) {
 		if a.Over != "" {
 			if _, ok := pathNamed(s, a.Over); ok {
 				return
@@ -283,25 +283,25 @@ func (m *Model) fitViews(s scenario.Scenario) {
 			return
 		}
 		val, _ := s.Get(over)
-		if a.Over != "" && v.travel[part] {
+		if a.Over != "" {
 			notes = append(notes, fmt.Sprintf("The %s varied %s, which this scenario does not have; it now varies %s.", what, a.Over, over))
 		}
 		*a = defaultAxis(p, val, points)
 	}
-	fit(&v.Curve, "curve", partSweep, study.DefaultOver(s), sweepPoints, "")
-	fit(&v.Map[1], "map's y axis", partMap, "alpha", mapPoints, "")
+	fit(&v.Curve, "curve", study.DefaultOver(s), sweepPoints, "")
+	fit(&v.Map[1], "map's y axis", "alpha", mapPoints, "")
 	x := study.DefaultOver(s)
 	if x == "" {
 		x = "noise"
 	}
-	fit(&v.Map[0], "map's x axis", partMap, x, mapPoints, v.Map[1].Over)
+	fit(&v.Map[0], "map's x axis", x, mapPoints, v.Map[1].Over)
 	ws := Weights(s)
 	if !slices.ContainsFunc(ws, func(w [2]string) bool { return w[0] == v.Over }) {
 		next := ""
 		if len(ws) > 0 {
 			next = ws[0][0]
 		}
-		if v.Over != "" && v.Over != next && v.travel[partBest] {
+		if v.Over != "" && v.Over != next {
 			notes = append(notes, fmt.Sprintf("The planner tuned %s, which this penalty does not have; it now tunes %s.", v.Over, next))
 		}
 		v.Over = next
