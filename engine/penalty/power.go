@@ -3,6 +3,8 @@ package penalty
 import (
 	"fmt"
 	"math"
+
+	"hdrisk/engine/param"
 )
 
 // power is f(x) = weight |x|^q with 1 <= q <= 2. For q = 1 and q = 2 it is the l1 and the
@@ -23,18 +25,18 @@ func Power(weight, q float64) (Penalty, error) {
 	}
 	switch {
 	case math.IsNaN(q) || math.IsInf(q, 0):
-		return nil, &ParamError{"q", fmt.Sprintf("must be a finite number (got %v)", q)}
+		return nil, &param.Error{Field: "q", Reason: fmt.Sprintf("must be a finite number (got %v)", q)}
 	case q < 1:
-		return nil, &ParamError{"q", fmt.Sprintf("must be >= 1 (got %v): |x|^q with q < 1 is non-convex, which the theory does not cover", q)}
+		return nil, &param.Error{Field: "q", Reason: fmt.Sprintf("must be >= 1 (got %v): |x|^q with q < 1 is non-convex, which the theory does not cover", q)}
 	case q > 2:
-		return nil, &ParamError{"q", fmt.Sprintf("must be <= 2 (got %v): the power penalty is supported for 1 <= q <= 2", q)}
+		return nil, &param.Error{Field: "q", Reason: fmt.Sprintf("must be <= 2 (got %v): the power penalty is supported for 1 <= q <= 2", q)}
 	}
 	p := power{weight: weight, q: q}
 	switch q {
 	case 1:
-		p.exact = elasticNet{"power", weight, 0}
+		p.exact = FromPieces(elasticNet{"power", weight, 0})
 	case 2:
-		p.exact = elasticNet{"power", 0, 2 * weight}
+		p.exact = FromPieces(elasticNet{"power", 0, 2 * weight})
 	}
 	return p, nil
 }
