@@ -10,6 +10,8 @@ import "github.com/vugu/vugu"
 import js "github.com/vugu/vugu/js"
 import "log"
 
+import "time"
+
 // Root is the whole page: the scenario editor beside the headline figures, and below the
 // figures the views in tabs (curve, map, plan, check, data, share, assumptions).
 // Eval must be set before the first render.
@@ -29,6 +31,11 @@ type Root struct {
 	zeroes  bool    // its penalty can set entries exactly to zero
 	checked Checked // the editor's inputs, checked
 	cancel  func()
+
+	Clock     func() time.Time // nil: the real clock (tests set a fake)
+	evalStart time.Time        // when the running evaluation started
+	slowKinds string           // design|signal|penalty kinds whose last evaluation in the page was slow
+	onWorker  bool             // the running evaluation is on a compute worker
 
 	designPlot, signalPlot lawPlot
 	designKey, signalKey   string // the laws the two plots show
@@ -132,6 +139,13 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 			{
 				vgparent := vgn
 				_ = vgparent
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+				vgparent.AppendChild(vgn)
+				if c.WorkerNote() != "" {
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "eval-worker"}, vugu.VGAttribute{Namespace: "", Key: "class", Val: "note"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}}}
+					vgparent.AppendChild(vgn)
+					vgn.SetInnerHTML(c.WorkerNote())
+				}
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 				vgparent.AppendChild(vgn)
 				{
