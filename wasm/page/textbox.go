@@ -9,18 +9,25 @@ import (
 	"github.com/hack-pad/safejs"
 )
 
+// maxEchoes bounds the texts a box remembers between two writes of the page; past it the
+// oldest echoes are forgotten, which only a page that never renders could reach.
+const maxEchoes = 4096
+
 // installTextGuard defines the hdriskText property of text inputs and text areas, which ui
 // binds in place of value. The renderer sets every bound property at every render; set on
-// value, a render that carries the text of one key would overwrite a box in which the user
-// has typed the next keys already, and lose them. hdriskText writes value only when the
-// page's text for the box differs from what the page last wrote and from what the box last
-// reported itself (an input listener records the box's own text at every key), so a box the
-// user is typing in is never rewritten, while a text the page changes (a link opened, an
-// example) still goes in. The page's Content Security Policy allows no script from text, so
-// the property is made of Go functions.
+// value, a render made for one key (it may come after the next keys are in the box) would
+// overwrite the box and lose them. hdriskText ignores a text the box itself reported since
+// the page last wrote it (an input listener records each), since that is an echo of the
+// user's own typing, old or new; any other text (a link opened, an example) goes in and
+// clears the record. The page's Content Security Policy allows no script from text, so the
+// property is made of Go functions.
 func installTextGuard() error {
 	global := safejs.Global()
 	object, err := global.Get("Object")
+	if err != nil {
+		return fmt.Errorf("page: text guard: %w", err)
+	}
+	setCtor, err := global.Get("Set")
 	if err != nil {
 		return fmt.Errorf("page: text guard: %w", err)
 	}
@@ -32,12 +39,14 @@ func installTextGuard() error {
 		if err != nil {
 			return nil
 		}
-		if last, err := this.Get("_hdriskLast"); err == nil && last.Type() == safejs.TypeString {
-			if s, _ := last.String(); s == v {
-				return nil
+		if echoes, err := this.Get("_hdriskEchoes"); err == nil && !echoes.IsUndefined() && !echoes.IsNull() {
+			if has, err := echoes.Call("has", v); err == nil {
+				if yes, _ := has.Bool(); yes {
+					return nil
+				}
 			}
 		}
-		_ = this.Set("_hdriskLast", v)
+		_ = this.Set("_hdriskEchoes", safejs.Undefined())
 		if cur, err := this.Get("value"); err == nil {
 			if s, _ := cur.String(); s != v {
 				_ = this.Set("value", v)
@@ -87,9 +96,21 @@ func installTextGuard() error {
 		if err != nil || t.IsNull() || t.IsUndefined() {
 			return nil
 		}
-		if v, err := t.Get("value"); err == nil && v.Type() == safejs.TypeString {
-			_ = t.Set("_hdriskLast", v)
+		v, err := t.Get("value")
+		if err != nil || v.Type() != safejs.TypeString {
+			return nil
 		}
+		echoes, err := t.Get("_hdriskEchoes")
+		if err != nil {
+			return nil
+		}
+		if n, err := echoes.Get("size"); echoes.IsUndefined() || echoes.IsNull() || err != nil || func() bool { k, _ := n.Int(); return k > maxEchoes }() {
+			if echoes, err = setCtor.New(); err != nil {
+				return nil
+			}
+			_ = t.Set("_hdriskEchoes", echoes)
+		}
+		_, _ = echoes.Call("add", v)
 		return nil
 	})
 	if err == nil {
