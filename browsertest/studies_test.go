@@ -245,11 +245,12 @@ func TestStudiesInPage(t *testing.T) {
 	if err := chromedp.Run(b.ctx, chromedp.Evaluate(`(e=>{e.scrollIntoView();const r=e.getBoundingClientRect();return [r.left,r.top,r.width,r.height]})(document.querySelector("#curve-figure ~ .figure-overlay"))`, &box)); err != nil || len(box) != 4 {
 		t.Fatalf("the figure's overlay: %v %v", err, box)
 	}
+	before := b.text(t, "#curve-readout")
 	if err := chromedp.Run(b.ctx, chromedp.MouseEvent(input.MouseMoved, box[0]+box[2]/2, box[1]+box[3]/2)); err != nil {
 		t.Fatal(err)
 	}
 	var readout string
-	if err := chromedp.Run(b.ctx, chromedp.Poll(`(e=>e&&e.textContent.includes(" = ")?e.textContent:null)(document.getElementById("curve-readout"))`,
+	if err := chromedp.Run(b.ctx, chromedp.Poll(fmt.Sprintf(`(e=>e&&e.textContent!==%q&&e.textContent.includes(%q)?e.textContent:null)(document.getElementById("curve-readout"))`, before, over+" = "),
 		&readout, chromedp.WithPollingTimeout(5*time.Second))); err != nil {
 		t.Errorf("no readout under the pointer: %v (%q)", err, b.text(t, "#curve-readout"))
 	}
