@@ -32,5 +32,8 @@ func Eval(args protocol.EvalArgs) (fixedpoint.Result, error) {
 // EvalChecked solves the fixed point of a scenario checked already (the page's own
 // evaluation, which checked it once for the edit).
 func EvalChecked(c scenario.Checked) (fixedpoint.Result, error) {
+	if g, ok := c.GLM(); ok {
+		return fixedpoint.SolveGLM(g, fixedpoint.Options{})
+	}
 	return fixedpoint.Solve(c.Problem(), fixedpoint.Options{})
 }
