@@ -109,7 +109,7 @@ func (b *figureBox) draw(jobs Jobs, br Browser, spec protocol.FigureArgs, shown 
 		b.problem = "the figure waits for the compute workers"
 		return
 	}
-	b.cancel = start(jobs, protocol.Figure, spec, nil, func(r protocol.FigureResult, err error) {
+	b.cancel = start(jobs, protocol.Figure, spec.Packed(), nil, func(r protocol.FigureResult, err error) {
 		b.cancel = nil
 		if err != nil {
 			b.problem = "the figure could not be drawn: " + err.Error()
@@ -266,7 +266,7 @@ func (b *figureBox) save(jobs Jobs, br Browser, base, what string, csv func() ([
 	}
 	spec.PDF = what == "pdf"
 	b.saving++
-	start(jobs, protocol.Figure, spec, nil, func(r protocol.FigureResult, err error) {
+	start(jobs, protocol.Figure, spec.Packed(), nil, func(r protocol.FigureResult, err error) {
 		b.saving--
 		if err != nil {
 			report(err)

@@ -128,14 +128,15 @@ func (f *Figure) SVG() ([]byte, error) {
 
 // svgFixes corrects what gonum's SVG canvas writes for the page and for export:
 //   - an SVG <image> keeps its own aspect ratio unless told otherwise, which would shrink a
-//     heat map's raster inside its axes; the axes need it stretched;
+//     heat map's raster inside its axes; the axes need it stretched, each cell a sharp
+//     block of colour (pixelated, not smoothed);
 //   - the raster is a PNG, which the canvas labels image/jpg;
 //   - the text is laid out with Liberation Sans metrics: where that face is not installed,
 //     the metric-compatible Arial or Helvetica keeps the legend's and labels' widths. The
 //     one face every text uses is named once, on the root, rather than on every text with
 //     the default variant, weight and style beside it.
 var svgFixes = strings.NewReplacer(
-	"<image ", `<image preserveAspectRatio="none" `,
+	"<image ", `<image preserveAspectRatio="none" image-rendering="pixelated" `,
 	"data:image/jpg;base64,", "data:image/png;base64,",
 	`xmlns:xlink="http://www.w3.org/1999/xlink">`, `xmlns:xlink="http://www.w3.org/1999/xlink" font-family="'Liberation Sans',Arial,Helvetica,sans-serif">`,
 	"font-family:Liberation Sans;font-variant:normal;font-weight:normal;font-style:normal;", "",

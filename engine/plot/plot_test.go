@@ -157,7 +157,7 @@ func TestHeatReadoutFindsMissingCell(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if bytes.Contains(svg, []byte("<image x=")) || !bytes.Contains(svg, []byte(`<image preserveAspectRatio="none" `)) {
+		if bytes.Contains(svg, []byte("<image x=")) || !bytes.Contains(svg, []byte(`<image preserveAspectRatio="none" image-rendering="pixelated" `)) {
 			t.Error("the SVG's raster must stretch to the axes (preserveAspectRatio none)")
 		}
 		if !bytes.Contains(svg, []byte(`xlink:href="data:image/png;base64,`)) {
