@@ -205,7 +205,8 @@ func (r *raster) image() *image.Paletted {
 	k := max(1, (300+min(nx, ny)-1)/min(nx, ny))
 	pal := make(color.Palette, 256)
 	for i := range nanIndex {
-		c, err := r.cmap.At(r.lo + (r.hi-r.lo)*float64(i)/float64(nanIndex-1))
+		// The top entry computed as lo + (hi - lo) can round past hi, which the colour map refuses.
+		c, err := r.cmap.At(math.Min(r.hi, r.lo+(r.hi-r.lo)*float64(i)/float64(nanIndex-1)))
 		if err != nil {
 			c = color.Black
 		}
