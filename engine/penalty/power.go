@@ -34,9 +34,9 @@ func Power(weight, q float64) (Penalty, error) {
 	p := power{weight: weight, q: q}
 	switch q {
 	case 1:
-		p.exact = elasticNet{"power", weight, 0}
+		p.exact = FromPieces(elasticNet{"power", weight, 0})
 	case 2:
-		p.exact = elasticNet{"power", 0, 2 * weight}
+		p.exact = FromPieces(elasticNet{"power", 0, 2 * weight})
 	}
 	return p, nil
 }

@@ -31,17 +31,21 @@ const tunedWindow = 100
 // tuning the field the axis varies is an error, as are the errors of the spec's checks
 // (unknown field, range). On cancellation Tuned returns the points done and ctx.Err().
 func Tuned(ctx context.Context, s scenario.Scenario, spec SweepSpec, best BestSpec, progress Progress) ([]TunedPoint, error) {
-	xs, err := spec.check(s, scenario.MaxSweepPoints)
+	c, err := s.Check()
+	if err != nil {
+		return nil, err
+	}
+	bind, xs, err := spec.bind(c, scenario.MaxSweepPoints, "")
 	if err != nil {
 		return nil, err
 	}
 	if best.Over == "" {
-		best.Over = DefaultOver(s)
+		best.Over = defaultOver(c.Paths())
 	}
 	if best.Over == spec.Over || (best.Over == Ratio && (spec.Over == "l1" || spec.Over == "l2")) {
 		return nil, specErr("best", "the sweep varies %s itself, so it cannot be re-tuned along the sweep", spec.Over)
 	}
-	if _, err := newBestRun(s, best); err != nil {
+	if _, err := newBestRun(c, best); err != nil {
 		return nil, err
 	}
 	out := make([]TunedPoint, 0, len(xs))
@@ -51,11 +55,11 @@ func Tuned(ctx context.Context, s scenario.Scenario, spec SweepSpec, best BestSp
 			return out, err
 		}
 		tp := TunedPoint{Point: Point{X: x}, Weight: math.NaN()}
-		sx, err := s.With(spec.Over, x)
+		cx, err := bind.At(x)
 		if err != nil {
 			tp.Failed = err.Error()
 		} else {
-			b, err := tunedAt(ctx, sx, best, prev)
+			b, err := tunedAt(ctx, cx, best, prev)
 			if err != nil {
 				if ctx.Err() != nil {
 					return out, ctx.Err()
@@ -77,20 +81,20 @@ func Tuned(ctx context.Context, s scenario.Scenario, spec SweepSpec, best BestSp
 }
 
 // tunedAt runs Best at one point, first in the window around prev (when prev is a number).
-func tunedAt(ctx context.Context, s scenario.Scenario, best BestSpec, prev float64) (BestResult, error) {
+func tunedAt(ctx context.Context, c scenario.Checked, best BestSpec, prev float64) (BestResult, error) {
 	if !math.IsNaN(prev) && best.Lo == 0 && best.Hi == 0 {
 		near := best
 		near.Lo, near.Hi = prev/tunedWindow, prev*tunedWindow
-		if full, err := newBestRun(s, best); err == nil {
+		if full, err := newBestRun(c, best); err == nil {
 			near.Lo = math.Max(near.Lo, full.spec.Lo)
 			near.Hi = math.Min(near.Hi, full.spec.Hi)
 		}
 		if near.Lo < near.Hi {
-			b, err := Best(ctx, s, near)
+			b, err := BestChecked(ctx, c, near)
 			if err == nil && b.AtBound == "" {
 				return b, nil
 			}
 		}
 	}
-	return Best(ctx, s, best)
+	return BestChecked(ctx, c, best)
 }
