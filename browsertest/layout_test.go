@@ -60,7 +60,8 @@ func (b *browser) seconds(t *testing.T, view, attr string) float64 {
 	return v
 }
 
-// TestFigureLayoutAndViewports draws a 200-point curve, a 100 x 100 map and a plan, logs
+// TestFigureLayoutAndViewports draws a 200-point curve, a 100 x 100 map and a plan (with its
+// figure of the target), logs
 // the views' own timings, and checks the layout at three window sizes: no tab scrolls
 // sideways, the tabs and controls are clickable wherever the page is scrolled, the figures'
 // text is at least 10 pixels tall, the pointer readout names what it reads (by touch too),
@@ -129,8 +130,9 @@ func TestFigureLayoutAndViewports(t *testing.T) {
 	b.studyClick(t, "#tab-plan")
 	b.studyClick(t, "#plan-run")
 	if got := b.studyWait(t, "[data-view=plan]", "data-run", 60*time.Second, "done", "error"); got != "done" {
-		t.Logf("the plan ended in %s: %s", got, b.text(t, "[data-view=plan] .problem"))
+		t.Fatalf("the plan ended in %s: %s", got, b.text(t, "[data-view=plan] .problem"))
 	}
+	b.imageShown(t, "#plan-figure")
 
 	for _, vp := range [][2]int64{{1366, 768}, {1366, 900}, {820, 1180}, {390, 844}} {
 		b.viewport(t, vp[0], vp[1])
