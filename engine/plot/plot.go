@@ -18,8 +18,11 @@ import (
 	"encoding/base64"
 	"errors"
 	"fmt"
+	"html"
 	"image/color"
 	"math"
+	"regexp"
+	"strconv"
 	"strings"
 
 	gplot "gonum.org/v1/plot"
@@ -123,7 +126,29 @@ func (f *Figure) SVG() ([]byte, error) {
 	if _, err := c.WriteTo(&b); err != nil {
 		return nil, err
 	}
-	return []byte(svgFixes.Replace(b.String())), nil
+	return fitTexts([]byte(svgFixes.Replace(b.String()))), nil
+}
+
+// svgText matches a text of gonum's SVG canvas once svgFixes has run: its attributes, its
+// font size and its (escaped) content.
+var svgText = regexp.MustCompile(`<text ([^>]*?)\n?\s*style="font-size:([0-9.]+)px">([^<]*)</text>`)
+
+// fitTexts gives every text of six characters or more the width the figure was laid out
+// with (textLength, with glyphs and spacing adjusted): where neither Liberation Sans nor a
+// metric-compatible face is installed, the browser's fallback face is wider or narrower,
+// and a title, a legend entry or a label would run out of its box, over a swatch or off
+// the canvas. A shorter text (a tick label) moves by a pixel or two at most.
+func fitTexts(svg []byte) []byte {
+	return svgText.ReplaceAllFunc(svg, func(m []byte) []byte {
+		sub := svgText.FindSubmatch(m)
+		size, err := strconv.ParseFloat(string(sub[2]), 64)
+		if err != nil || len(sub[3]) < 6 {
+			return m
+		}
+		w := textStyle(vg.Length(size)).Width(html.UnescapeString(string(sub[3])))
+		return []byte(fmt.Sprintf(`<text %s textLength="%.1f" lengthAdjust="spacingAndGlyphs" style="font-size:%spx">%s</text>`,
+			strings.TrimSpace(string(sub[1])), float64(w), sub[2], sub[3]))
+	})
 }
 
 // svgFixes corrects what gonum's SVG canvas writes for the page and for export:
