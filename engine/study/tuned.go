@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 
+	"hdrisk/engine/param"
 	"hdrisk/engine/scenario"
 )
 
@@ -35,14 +36,20 @@ func Tuned(ctx context.Context, s scenario.Scenario, spec SweepSpec, best BestSp
 	if err != nil {
 		return nil, err
 	}
-	bind, xs, err := spec.bind(c, scenario.MaxSweepPoints, "")
+	return TunedChecked(ctx, c, spec, best, progress)
+}
+
+// TunedChecked is Tuned over a scenario checked already; the axis is bound once.
+func TunedChecked(ctx context.Context, c scenario.Checked, spec SweepSpec, best BestSpec, progress Progress) ([]TunedPoint, error) {
+	bx, xs, err := spec.bind(c, scenario.MaxSweepPoints, "")
 	if err != nil {
 		return nil, err
 	}
 	if best.Over == "" {
 		best.Over = defaultOver(c.Paths())
 	}
-	if best.Over == spec.Over || (best.Over == Ratio && (spec.Over == "l1" || spec.Over == "l2")) {
+	ax := bx.Info()
+	if best.Over == ax.Name || best.Over == ax.Path || (best.Over == Ratio && ax.Object == "penalty" && ax.Role == param.Strength) {
 		return nil, specErr("best", "the sweep varies %s itself, so it cannot be re-tuned along the sweep", spec.Over)
 	}
 	if _, err := newBestRun(c, best); err != nil {
@@ -55,11 +62,11 @@ func Tuned(ctx context.Context, s scenario.Scenario, spec SweepSpec, best BestSp
 			return out, err
 		}
 		tp := TunedPoint{Point: Point{X: x}, Weight: math.NaN()}
-		cx, err := bind.At(x)
+		sx, err := bx.At(x)
 		if err != nil {
 			tp.Failed = err.Error()
 		} else {
-			b, err := tunedAt(ctx, cx, best, prev)
+			b, err := tunedAt(ctx, sx, best, prev)
 			if err != nil {
 				if ctx.Err() != nil {
 					return out, ctx.Err()
@@ -81,20 +88,20 @@ func Tuned(ctx context.Context, s scenario.Scenario, spec SweepSpec, best BestSp
 }
 
 // tunedAt runs Best at one point, first in the window around prev (when prev is a number).
-func tunedAt(ctx context.Context, c scenario.Checked, best BestSpec, prev float64) (BestResult, error) {
+func tunedAt(ctx context.Context, s scenario.Checked, best BestSpec, prev float64) (BestResult, error) {
 	if !math.IsNaN(prev) && best.Lo == 0 && best.Hi == 0 {
 		near := best
 		near.Lo, near.Hi = prev/tunedWindow, prev*tunedWindow
-		if full, err := newBestRun(c, best); err == nil {
+		if full, err := newBestRun(s, best); err == nil {
 			near.Lo = math.Max(near.Lo, full.spec.Lo)
 			near.Hi = math.Min(near.Hi, full.spec.Hi)
 		}
 		if near.Lo < near.Hi {
-			b, err := BestChecked(ctx, c, near)
+			b, err := BestChecked(ctx, s, near)
 			if err == nil && b.AtBound == "" {
 				return b, nil
 			}
 		}
 	}
-	return BestChecked(ctx, c, best)
+	return BestChecked(ctx, s, best)
 }
