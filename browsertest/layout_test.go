@@ -179,7 +179,13 @@ func TestFigureLayoutAndViewports(t *testing.T) {
 		chromedp.WithPollingTimeout(5*time.Second))); err != nil {
 		t.Fatalf("a touch on the figure gave the readout %q: %v", b.text(t, "#curve-readout"), err)
 	}
-	b.shareWait(t, "the crosshair", `document.querySelectorAll("[data-view=curve] .crosshair").length===2`)
+	b.shareWait(t, "the crosshair", `document.querySelectorAll("[data-view=curve] .crosshair.on").length===2`)
+	cross := b.cdJS(t, `(()=>{const v=document.getElementById("curve-cross-v"),h=document.getElementById("curve-cross-h");
+		return getComputedStyle(v).display+" "+v.style.left+" "+getComputedStyle(h).display+" "+h.style.top})()`)
+	if f := strings.Fields(cross); len(f) != 4 || f[0] != "block" || f[2] != "block" || !strings.HasSuffix(f[1], "%") || !strings.HasSuffix(f[3], "%") {
+		t.Errorf("the crosshair is not placed: %q", cross)
+	}
+	t.Logf("crosshair: %s", cross)
 	t.Logf("touch readout: %s", b.text(t, "#curve-readout"))
 	b.screenshot(t, "view-curve-touch-390x844.png")
 	b.alive(t, "after the layout checks")

@@ -633,7 +633,7 @@ func (c *CurveView) FigureProblem() string { return c.box.problem }
 // Readout is the value under the pointer, in words.
 func (c *CurveView) Readout() string { return c.box.readout }
 
-func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say, c.Browser, "curve") }
+func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
 
 func (c *CurveView) leave() { c.box.leave() }
 
