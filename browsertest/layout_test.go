@@ -29,13 +29,15 @@ func (b *browser) viewport(t *testing.T, w, h int64) {
 		`new Promise(r=>requestAnimationFrame(()=>requestAnimationFrame(()=>r(innerWidth===%d))))`, w))
 }
 
-// overflow returns "" when the page fits its window's width, else the widest elements.
+// overflow returns "" when the page fits its window's width (scrollWidth <= innerWidth) and
+// nothing lies under a vertical scroll bar (scrollWidth <= clientWidth), else the widest
+// elements.
 func (b *browser) overflow(t *testing.T) string {
 	t.Helper()
-	return b.cdJS(t, `(()=>{const d=document.documentElement;if(d.scrollWidth<=innerWidth)return "";
-		const wide=[...document.querySelectorAll("body *")].filter(e=>e.getBoundingClientRect().right>innerWidth+0.5&&e.offsetParent!==null)
+	return b.cdJS(t, `(()=>{const d=document.documentElement;if(d.scrollWidth<=innerWidth&&d.scrollWidth<=d.clientWidth)return "";
+		const wide=[...document.querySelectorAll("body *")].filter(e=>e.getBoundingClientRect().right>d.clientWidth+0.5&&e.offsetParent!==null)
 			.map(e=>e.tagName.toLowerCase()+(e.id?"#"+e.id:"")+(e.className&&typeof e.className==="string"?"."+e.className.split(" ").join("."):"")+" right "+Math.round(e.getBoundingClientRect().right));
-		return "scrollWidth "+d.scrollWidth+" > innerWidth "+innerWidth+": "+wide.slice(0,8).join("; ")})()`)
+		return "scrollWidth "+d.scrollWidth+", innerWidth "+innerWidth+", clientWidth "+d.clientWidth+": "+wide.slice(0,8).join("; ")})()`)
 }
 
 // covered returns the controls of the shown panel and the tabs that lie in the window but
