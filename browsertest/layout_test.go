@@ -177,7 +177,7 @@ func TestFigureLayoutAndViewports(t *testing.T) {
 	b.cdJS(t, `(()=>{const o=document.querySelector("[data-view=curve] .figure-overlay");o.scrollIntoView({block:"center"});
 		const r=o.getBoundingClientRect();
 		o.dispatchEvent(new PointerEvent("pointerdown",{bubbles:true,pointerType:"touch",clientX:r.left+r.width*0.55,clientY:r.top+r.height*0.5}));return ""})()`)
-	if err := chromedp.Run(b.ctx, chromedp.Poll(`document.getElementById("curve-readout").textContent.startsWith("this scenario: ")`, nil,
+	if err := chromedp.Run(b.ctx, chromedp.Poll(`document.getElementById("curve-readout").textContent.startsWith("this scenario: nearest computed point l1 = ")`, nil,
 		chromedp.WithPollingTimeout(5*time.Second))); err != nil {
 		t.Fatalf("a touch on the figure gave the readout %q: %v", b.text(t, "#curve-readout"), err)
 	}

@@ -666,7 +666,7 @@ func (c *CurveView) say(x, y float64, where func(x, y float64) (float64, float64
 	if name == "" {
 		name = "this scenario"
 	}
-	return fmt.Sprintf("%s: %s = %s, %s = %s", name, c.axis.Over, full(s.X[bi]), q.Label, full(s.Y[bi])), s.X[bi], s.Y[bi]
+	return fmt.Sprintf("%s: nearest computed point %s = %s, %s = %s", name, c.axis.Over, full(s.X[bi]), q.Label, full(s.Y[bi])), s.X[bi], s.Y[bi]
 }
 
 // Status says how far the sweep is, or how long it took.
