@@ -662,16 +662,6 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.AddAttrInterface("src", c.FigureURL())
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 							vgparent.AppendChild(vgn)
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-v"}}}
-							vgparent.AppendChild(vgn)
-							vgn.AddAttrInterface("class", "crosshair crosshair-v"+c.crossClass())
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
-							vgparent.AppendChild(vgn)
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-h"}}}
-							vgparent.AppendChild(vgn)
-							vgn.AddAttrInterface("class", "crosshair crosshair-h"+c.crossClass())
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
-							vgparent.AppendChild(vgn)
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figure-overlay"}, vugu.VGAttribute{Namespace: "", Key: "aria-hidden", Val: "true"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
@@ -689,6 +679,16 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								Func:      func(event vugu.DOMEvent) { c.leave() },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-v"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("class", "crosshair crosshair-v"+c.crossClass())
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-h"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("class", "crosshair crosshair-h"+c.crossClass())
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 							vgparent.AppendChild(vgn)
 						}

@@ -674,7 +674,7 @@ func (c *CurveView) FigureProblem() string { return c.box.problem }
 // Readout is the value under the pointer, in words.
 func (c *CurveView) Readout() string { return c.box.readout }
 
-func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say, c.Browser, "curve") }
+func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
 
 func (c *CurveView) leave() { c.box.leave() }
 
@@ -707,7 +707,7 @@ func (c *CurveView) say(x, y float64, where func(x, y float64) (float64, float64
 	if name == "" {
 		name = "this scenario"
 	}
-	return fmt.Sprintf("%s: %s = %s, %s = %s", name, c.axis.Over, full(s.X[bi]), q.Label, full(s.Y[bi])), s.X[bi], s.Y[bi]
+	return fmt.Sprintf("%s: nearest computed point %s = %s, %s = %s", name, c.axis.Over, full(s.X[bi]), q.Label, full(s.Y[bi])), s.X[bi], s.Y[bi]
 }
 
 // Status says how far the sweep is, or how long it took.

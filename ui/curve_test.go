@@ -210,7 +210,7 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	// curve, with the crosshair on it.
 	fr := c.box.frame
 	c.box.pointAt((fr.Left+fr.Right)/2*600, (fr.Top+fr.Bottom)/2*400, 600, 400, c.say)
-	if !strings.Contains(c.Readout(), "l1 = ") || !strings.HasPrefix(c.Readout(), "this scenario: ") || !c.crossOn() {
+	if !strings.Contains(c.Readout(), "l1 = ") || !strings.HasPrefix(c.Readout(), "this scenario: nearest computed point ") || !c.crossOn() {
 		t.Errorf("readout %q, crosshair %v", c.Readout(), c.crossOn())
 	}
 	c.box.pointAt(1, 1, 600, 400, c.say)

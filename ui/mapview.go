@@ -290,7 +290,7 @@ func (c *Mapview) fit() {
 // FigureProblem says why there is no figure.
 func (c *Mapview) FigureProblem() string { return c.box.problem }
 
-func (c *Mapview) pointer(e vugu.DOMEvent) { c.box.point(e, c.say, c.Browser, "map") }
+func (c *Mapview) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
 
 func (c *Mapview) leave() { c.box.leave() }
 

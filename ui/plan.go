@@ -204,6 +204,7 @@ func (c *PlanView) settle() {
 		if len(c.rows) > 0 && c.rows[0].Err != "" {
 			c.run, c.problem = RunError, c.rows[0].Err
 		}
+		c.startFigure()
 	}
 }
 
@@ -217,6 +218,10 @@ func (c *PlanView) Cancel() {
 }
 
 func (c *PlanView) stop() {
+	if c.fig.cancel != nil {
+		c.fig.cancel()
+		c.fig.cancel = nil
+	}
 	for _, r := range c.rows {
 		if r.cancel != nil {
 			r.cancel()
