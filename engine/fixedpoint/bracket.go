@@ -117,7 +117,9 @@ func (b *bracketer) phi(t1 float64) (float64, bool) {
 			return 0, false
 		}
 	}
-	const reach = 690 // about log(1e300)
+	// g2 within 1e+-140 of the mean eigenvalue 1: S2 ~ 1/g2^2 stays a normal number, and
+	// at the upper end the estimate is zero to any precision (g1 is E[lambda] = 1 there).
+	const reach = 322
 	lo, hi, flo, fhi := x0, x0, f0, f0
 	x := x0
 	switch {

@@ -287,14 +287,14 @@ func (s *solver) solve(start *State, sc, mean float64) (Result, error) {
 		return last, nil
 	}
 	r, err := s.bracket()
-	if err != nil {
-		if d := s.diagnose(); d != nil {
-			return Result{}, d
-		}
-		return Result{}, err
-	}
-	if r.Converged {
+	if err == nil && r.Converged {
 		return r, nil
+	}
+	if d := s.diagnose(); d != nil {
+		return Result{}, d
+	}
+	if err != nil {
+		return Result{}, err
 	}
 	if last.Iterations > 0 && last.Residual < r.Residual {
 		return last, nil
