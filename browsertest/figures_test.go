@@ -18,9 +18,9 @@ import (
 	cdpbrowser "github.com/chromedp/cdproto/browser"
 	"github.com/chromedp/chromedp"
 
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/ui"
-	"hdrisk/ui/plot"
 )
 
 // imageShown waits until the <img> matched by sel shows a loaded image from a blob: URL

@@ -21,6 +21,7 @@ import (
 	"github.com/chromedp/chromedp"
 	"github.com/chromedp/chromedp/kb"
 
+	"hdrisk/protocol"
 	"hdrisk/ui"
 	"hdrisk/wasm/job"
 )
@@ -395,8 +396,13 @@ func TestWorkersAgreeWithEngine(t *testing.T) {
 			t.Errorf("job %d: %s", i, r.E)
 			continue
 		}
+		res, err := protocol.Eval.DecodeResult([]byte(r.R))
+		if err != nil {
+			t.Fatal(err)
+		}
+		named, _ := json.Marshal(ui.FiguresOf(res))
 		var f map[string]any
-		if err := json.Unmarshal([]byte(r.R), &f); err != nil {
+		if err := json.Unmarshal(named, &f); err != nil {
 			t.Fatal(err)
 		}
 		figs := map[string]string{}
@@ -445,10 +451,11 @@ func (b *browser) compareNative(t *testing.T, what string, m *ui.Model, figs map
 	if err != nil {
 		t.Fatal(err)
 	}
-	want, err := job.Eval(job.EvalArgs{Scenario: data})
+	res, err := job.Eval(protocol.EvalArgs{Scenario: data})
 	if err != nil {
 		t.Fatalf("%s: native engine: %v", what, err)
 	}
+	want := ui.FiguresOf(res)
 	for name, w := range map[string]float64{
 		"mse": want.MSE, "nmse_db": want.NMSEdB, "susceptibility": want.Susceptibility,
 		"nonzero_fraction": want.NonzeroFraction,

@@ -204,7 +204,7 @@ func TestStudiesInPage(t *testing.T) {
 	}
 	// The bare job, timed in the page: what the sweep itself costs on a worker.
 	var bare float64
-	sweepArgs := fmt.Sprintf(`{"scenario":%s,"over":%q,"from":%s,"to":%s,"points":200,"log":%s}`, ch.JSON, over, from, to, logs)
+	sweepArgs := fmt.Sprintf(`{"scenario":%s,"axis":{"Over":%q,"From":%s,"To":%s,"Points":200,"Log":%s}}`, ch.JSON, over, from, to, logs)
 	if err := chromedp.Run(b.ctx, chromedp.Evaluate(fmt.Sprintf(`new Promise((resolve)=>{const t0=performance.now();
 		hdriskJobs.start("sweep", %q, null, (e)=>resolve(e ? -1 : performance.now()-t0))})`, sweepArgs), &bare,
 		func(p *runtime.EvaluateParams) *runtime.EvaluateParams { return p.WithAwaitPromise(true) })); err != nil || bare < 0 {

@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"hdrisk/engine/scenario"
+	"hdrisk/protocol"
 	"hdrisk/wasm/job"
 )
 
@@ -33,14 +34,14 @@ func (j *cdJobs) Start(kind string, args any, progress func(int, int), done func
 			done(nil, err)
 			return func() {}
 		}
-		var last job.Reply
-		job.Run(job.Request{Kind: kind, Args: raw}, func(r job.Reply) {
-			if r.Type == job.Progress && progress != nil {
+		var last protocol.Reply
+		job.Run(protocol.Request{Kind: kind, Args: raw}, func(r protocol.Reply) {
+			if r.Type == protocol.Progress && progress != nil {
 				progress(r.Done, r.Total)
 			}
 			last = r
 		})
-		if last.Type == job.Failed {
+		if last.Type == protocol.Failed {
 			done(nil, errors.New(last.Error))
 		} else {
 			done(last.Result, nil)
@@ -159,7 +160,7 @@ func TestCheckProgressAndCancel(t *testing.T) {
 	if c.Run() != RunRunning || !c.Running() || len(jobs.started) != 1 || jobs.started[0] != "check" {
 		t.Fatalf("run %s, started %v", c.Run(), jobs.started)
 	}
-	a := jobs.args[0].(job.CheckArgs)
+	a := jobs.args[0].(protocol.CheckArgs)
 	if a.N != 500 || a.Trials != 20 || a.Solver != "cd" || a.Factors != "fast" || a.Curve != nil {
 		t.Errorf("job arguments %+v", a)
 	}
@@ -191,7 +192,7 @@ func TestCheckRunsToTheEnd(t *testing.T) {
 		t.Fatalf("run %s problem %q running %v", c.Run(), c.Problem(), c.Running())
 	}
 	r, _ := c.Latest()
-	want, err := job.Check(jobs.args[0].(job.CheckArgs), nil)
+	want, err := job.Check(jobs.args[0].(protocol.CheckArgs), nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -242,7 +243,7 @@ func TestCheckOverValues(t *testing.T) {
 	if c.Run() != RunDone || len(jobs.started) != 2 {
 		t.Fatalf("run %s (%s), %d jobs", c.Run(), c.Problem(), len(jobs.started))
 	}
-	first, second := jobs.args[0].(job.CheckArgs), jobs.args[1].(job.CheckArgs)
+	first, second := jobs.args[0].(protocol.CheckArgs), jobs.args[1].(protocol.CheckArgs)
 	if first.At != 0.05 || second.At != 0.2 || first.Curve == nil || second.Curve != nil ||
 		first.Curve.From != 0.05 || first.Curve.To != 0.2 || !first.Curve.Log {
 		t.Errorf("jobs %+v / %+v", first, second)
@@ -258,8 +259,8 @@ func TestCheckOverValues(t *testing.T) {
 // A trial at its iteration limit is stated in words, never hidden.
 func TestCheckStatesUnconvergedTrials(t *testing.T) {
 	c := &CheckView{Model: lassoModel(t)}
-	c.points = []checkPoint{{Result: job.CheckResult{Trials: 3, NotConverged: 1, MaxIter: 10, Criterion: "duality gap / ||y||^2",
-		PredictionConverged: true, PerTrial: []job.CheckTrial{{Converged: true}, {Converged: false}, {Converged: true}}}}}
+	c.points = []checkPoint{{Result: protocol.CheckResult{Trials: 3, NotConverged: 1, MaxIter: 10, Criterion: "duality gap / ||y||^2",
+		PredictionConverged: true, PerTrial: []protocol.CheckTrial{{Converged: true}, {Converged: false}, {Converged: true}}}}}
 	var conv string
 	for _, f := range c.Facts() {
 		if f[0] == "check_converged" {

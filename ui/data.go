@@ -10,9 +10,10 @@ import (
 
 	"github.com/vugu/vugu"
 
+	"hdrisk/engine/data"
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
-	"hdrisk/ui/plot"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // Caps on what the page reads, checked against the file's size before it is read whole
@@ -37,16 +38,16 @@ const (
 
 // Sources a design can come from, with the page's labels.
 var DataSources = []Kind{
-	{Name: job.SourceMatrix, Label: "A measurement matrix (CSV, TSV, spaces or Matrix Market)"},
-	{Name: job.SourceSingular, Label: "A list of its singular values"},
-	{Name: job.SourceEigenvalues, Label: "A list of the eigenvalues of FᵀF"},
+	{Name: protocol.SourceMatrix, Label: "A measurement matrix (CSV, TSV, spaces or Matrix Market)"},
+	{Name: protocol.SourceSingular, Label: "A list of its singular values"},
+	{Name: protocol.SourceEigenvalues, Label: "A list of the eigenvalues of FᵀF"},
 }
 
 // FitMethods are the ways samples become a signal law, with the page's labels.
 var FitMethods = []Kind{
-	{Name: job.FitNone, Label: "Use the samples as they are (empirical law)"},
-	{Name: job.FitBernoulli, Label: "Fit a sparse Gaussian law (zeros and a Gaussian)"},
-	{Name: job.FitMixture, Label: "Fit a mixture of Gaussians"},
+	{Name: protocol.FitNone, Label: "Use the samples as they are (empirical law)"},
+	{Name: protocol.FitBernoulli, Label: "Fit a sparse Gaussian law (zeros and a Gaussian)"},
+	{Name: protocol.FitMixture, Label: "Fit a mixture of Gaussians"},
 }
 
 // dataPart is the state of one half of the view: the design or the signal.
@@ -56,6 +57,7 @@ type dataPart struct {
 	fileName     string
 	text         string // pasted text, kept across errors
 	started      time.Time
+	done, total  int // progress of the job, as its worker reports it
 	elapsed      time.Duration
 	cancel       func()
 	figURL       string
@@ -73,7 +75,7 @@ func (p *dataPart) reset(br Browser) {
 func (c *DataView) start() {
 	if c.design.run == "" {
 		c.design.run, c.signal.run = RunIdle, RunIdle
-		c.Source, c.Method, c.kText, c.alphaText = job.SourceMatrix, job.FitNone, "2", "1"
+		c.Source, c.Method, c.kText, c.alphaText = protocol.SourceMatrix, protocol.FitNone, "2", "1"
 	}
 }
 
@@ -134,7 +136,7 @@ const (
 )
 
 func (c *DataView) limit(part string) int64 {
-	if part == "design" && c.Source == job.SourceMatrix {
+	if part == "design" && c.Source == protocol.SourceMatrix {
 		return MaxMatrixBytes
 	}
 	return MaxListBytes
@@ -160,7 +162,7 @@ func (c *DataView) ReadFile(part string) {
 	limit := c.limit(part)
 	reading := true
 	p.cancel = func() { reading = false }
-	c.Browser.ReadFile(id, limit, func(name string, data []byte, err error) {
+	c.Browser.ReadFile(id, limit, func(name string, content []byte, err error) {
 		if !reading {
 			return
 		}
@@ -170,7 +172,13 @@ func (c *DataView) ReadFile(part string) {
 			p.run, p.problem = RunError, fmt.Sprintf("%v (the page reads files of at most %d MB)", err, limit>>20)
 			return
 		}
-		c.compute(part, string(data))
+		// Refused by its first bytes here, a binary file never goes to a worker: its text
+		// would cost seconds to copy and minutes to read.
+		if err := data.Sniff(content); err != nil {
+			p.run, p.problem = RunError, name+": "+err.Error()
+			return
+		}
+		c.compute(part, string(content))
 	})
 }
 
@@ -204,11 +212,11 @@ func (c *DataView) compute(part, text string) {
 		p.run, p.problem = RunError, "the compute workers are still starting; try again in a moment"
 		return
 	}
-	p.run = RunRunning
+	p.run, p.done, p.total = RunRunning, 0, 0
 	var args any
 	if part == "design" {
-		a := job.SpectrumArgs{Source: c.Source, Text: text, MaxBytes: c.limit(part)}
-		if c.Source != job.SourceMatrix {
+		a := protocol.SpectrumArgs{Source: c.Source, Text: text, MaxBytes: c.limit(part)}
+		if c.Source != protocol.SourceMatrix {
 			alpha, err := c.listAlpha()
 			if err != nil {
 				p.run, p.problem = RunError, err.Error()
@@ -219,9 +227,9 @@ func (c *DataView) compute(part, text string) {
 		args = a
 		p.stage = "Reading the numbers"
 	} else {
-		a := job.FitArgs{Text: text, Method: c.Method, MaxBytes: c.limit(part), Bins: signalBins}
-		if c.Method == job.FitMixture {
-			k, err := wholeNumber("k", c.kText, 1, job.MaxMixture)
+		a := protocol.FitArgs{Text: text, Method: c.Method, MaxBytes: c.limit(part), Bins: signalBins}
+		if c.Method == protocol.FitMixture {
+			k, err := wholeNumber("k", c.kText, 1, protocol.MaxMixture)
 			if err != nil {
 				p.run, p.problem = RunError, err.Error()
 				return
@@ -235,10 +243,8 @@ func (c *DataView) compute(part, text string) {
 	finished := false // a fake or a failing pool may answer before Start returns
 	cancel := c.Jobs.Start(kind, args, func(done, total int) {
 		if part == "design" {
-			if st, ok := map[int]string{job.StepRead: "Reading the numbers",
-				job.StepSVD: "Computing the singular values (one step: no finer progress)", job.StepSummary: "Summarizing"}[done]; ok {
-				p.stage = st
-			}
+			p.done, p.total = done, total
+			p.stage = spectrumStages[protocol.SpectrumStep(done)]
 		} else if done >= 1 {
 			p.stage = "Fitting"
 		}
@@ -247,12 +253,15 @@ func (c *DataView) compute(part, text string) {
 		p.elapsed = c.now().Sub(p.started)
 		if err == nil {
 			if part == "design" {
-				var r job.SpectrumResult
+				var r protocol.SpectrumResult
 				if err = json.Unmarshal(res, &r); err == nil {
-					c.spectrum = &r
+					c.spectrum, c.matrixText = &r, ""
+					if r.Source == protocol.SourceMatrix {
+						c.matrixText = text
+					}
 				}
 			} else {
-				var r job.FitResult
+				var r protocol.FitResult
 				if err = json.Unmarshal(res, &r); err == nil {
 					c.fit = &r
 				}
@@ -272,6 +281,15 @@ func (c *DataView) compute(part, text string) {
 	if !finished {
 		p.cancel = cancel
 	}
+}
+
+// spectrumStages are the page's words for the steps of the "spectrum" kind.
+var spectrumStages = map[string]string{
+	protocol.StepReading:     "Reading the numbers",
+	protocol.StepGram:        "Forming the Gram matrix (the matrix times its transpose)",
+	protocol.StepReduction:   "Reducing the Gram matrix to tridiagonal form",
+	protocol.StepEigenvalues: "Computing its eigenvalues",
+	protocol.StepSummary:     "Summarizing",
 }
 
 // listAlpha reads the m/n a list of singular values belongs to.
@@ -321,6 +339,21 @@ func (c *DataView) Stage(part string) string {
 	return p.stage + "…"
 }
 
+// Progress returns the done and total of part's job; total is 0 before its first report.
+func (c *DataView) Progress(part string) (done, total int) {
+	p := c.part(part)
+	return p.done, p.total
+}
+
+// ProgressPermille is part's progress in thousandths, for the progress bar.
+func (c *DataView) ProgressPermille(part string) int {
+	p := c.part(part)
+	if p.total <= 0 {
+		return 0
+	}
+	return 1000 * p.done / p.total
+}
+
 // Problem is part's message; "" when there is none.
 func (c *DataView) Problem(part string) string { return c.part(part).problem }
 
@@ -366,7 +399,7 @@ func (c *DataView) drawPart(part string) {
 				x, y = append(x, float64(d.X)), append(y, float64(d.Density))
 			}
 			name := "fitted density"
-			if c.fit.Method == job.FitBernoulli {
+			if c.fit.Method == protocol.FitBernoulli {
 				name = fmt.Sprintf("fitted Gaussian part (plus %s of the mass at 0)", fmtNum(float64(c.fit.SpikeMass)))
 			}
 			spec.Series = append(spec.Series, plot.Series{Name: name, X: x, Y: y})
@@ -394,7 +427,7 @@ func (c *DataView) drawPart(part string) {
 // shortList fits values into the editor's box (see maxListChars) and says what it did to
 // them; "" when nothing.
 func shortList(values []float64, what string) ([]float64, string) {
-	out, digits, thinned := job.ShortList(values, maxListChars)
+	out, digits, thinned := protocol.ShortList(values, maxListChars)
 	switch {
 	case thinned:
 		return out, fmt.Sprintf(" The %d %s were thinned to %d evenly spaced quantiles at %d significant digits, the most the editor's box can show.", len(values), what, len(out), digits)
@@ -422,7 +455,7 @@ func (c *DataView) DesignFacts() [][3]string {
 		{"data_rank", strconv.Itoa(r.Rank), fmt.Sprintf("Rank %d (values above %s)", r.Rank, fmtNum(float64(r.Tolerance)))},
 		{"data_seconds", fullNum(c.design.elapsed.Seconds()), fmt.Sprintf("Took %.2f s in all", c.design.elapsed.Seconds())},
 	}
-	if r.Source == job.SourceMatrix {
+	if r.Source == protocol.SourceMatrix {
 		out = append(out, [3]string{"data_svd_seconds", fullNum(float64(r.SVDSeconds)),
 			fmt.Sprintf("Reading %.2f s, singular values %.2f s", float64(r.ReadSeconds), float64(r.SVDSeconds))})
 	}
@@ -440,16 +473,16 @@ func (c *DataView) SignalFacts() [][3]string {
 		{"data_mean", fullNum(float64(r.Mean)), fmt.Sprintf("Mean %s, variance %s, from %s to %s", fmtNum(float64(r.Mean)), fmtNum(float64(r.Variance)), fmtNum(float64(r.Min)), fmtNum(float64(r.Max)))},
 	}
 	switch r.Method {
-	case job.FitNone:
+	case protocol.FitNone:
 		what := "the samples themselves"
 		if r.Quantiles {
 			what = fmt.Sprintf("%d evenly spaced quantiles of the %d samples (the page's longest list)", len(r.Values), r.Count)
 		}
 		out = append(out, [3]string{"data_values", strconv.Itoa(len(r.Values)), "The empirical law uses " + what})
-	case job.FitBernoulli:
+	case protocol.FitBernoulli:
 		out = append(out, [3]string{"data_density", fullNum(float64(r.Density)),
 			fmt.Sprintf("Fitted: nonzero with probability %s, then Gaussian with variance %s", fmtNum(float64(r.Density)), fmtNum(float64(r.SlabVar)))})
-	case job.FitMixture:
+	case protocol.FitMixture:
 		var parts []string
 		for i := range r.Weights {
 			parts = append(parts, fmt.Sprintf("%s × N(%s, %s)", fmtNum(r.Weights[i]), fmtNum(r.Means[i]), fmtNum(r.Variances[i])))
@@ -473,7 +506,7 @@ func (c *DataView) UseDesign() {
 		return
 	}
 	alpha := float64(r.Alpha)
-	if r.Source != job.SourceMatrix {
+	if r.Source != protocol.SourceMatrix {
 		a, err := c.listAlpha()
 		if err != nil {
 			c.design.problem = err.Error()
@@ -482,15 +515,41 @@ func (c *DataView) UseDesign() {
 		alpha = a
 	}
 	values, note := shortList(r.SingularValues, "singular values")
+	old := c.Model.Matrix
+	c.Model.Matrix = nil
+	if r.Source == protocol.SourceMatrix && c.matrixText != "" {
+		c.Model.Matrix = &UserMatrix{Name: c.design.fileName, Text: c.matrixText, Rows: r.Rows, Cols: r.Cols,
+			MaxBytes: MaxMatrixBytes, Locked: true}
+	}
 	err := c.apply(func(s *scenario.Scenario) {
 		s.Design = scenario.Design{Shape: "empirical-sv", Alpha: alpha, Scale: s.Design.Scale,
 			Lists: map[string][]float64{"values": values}}
 	})
 	if err != nil {
+		c.Model.Matrix = old
 		c.design.problem = "cannot use these values as the design: " + err.Error()
 		return
 	}
 	c.design.applied = fmt.Sprintf("The design is now these %d singular values with m/n = %s.", len(r.SingularValues), fmtNum(alpha)) + note
+	if c.Model.Matrix != nil {
+		c.design.applied += fmt.Sprintf(" m/n is locked to the matrix's shape, %d × %d; the check view can now run trials with the matrix itself.", r.Rows, r.Cols)
+	}
+}
+
+// Locked is the user's matrix whose shape m/n follows; nil when none.
+func (c *DataView) Locked() *UserMatrix { return c.Model.MatrixDesign() }
+
+// UnlockAlpha frees m/n from the matrix's shape, saying what that means.
+func (c *DataView) UnlockAlpha() {
+	u := c.Model.MatrixDesign()
+	if u == nil {
+		return
+	}
+	u.Locked = false
+	c.design.applied = "m/n is free: a design with these singular values at another sampling ratio is no longer your matrix, so the check with the matrix itself is off. Use the matrix as the design again to lock m/n to its shape."
+	if c.Changed != nil {
+		c.Changed()
+	}
 }
 
 // UseSignal makes the signal law of the scenario the empirical law of the samples or the
@@ -503,21 +562,21 @@ func (c *DataView) UseSignal() {
 	var sig scenario.Signal
 	note := ""
 	switch r.Method {
-	case job.FitNone:
+	case protocol.FitNone:
 		var values []float64
 		values, note = shortList(r.Values, "values")
 		sig = scenario.Signal{Law: "empirical", Lists: map[string][]float64{"values": values}}
-	case job.FitBernoulli:
+	case protocol.FitBernoulli:
 		sig = scenario.Signal{Law: "bernoulli-gauss", Params: map[string]float64{"density": float64(r.Density), "variance": float64(r.SlabVar)}}
-	case job.FitMixture:
+	case protocol.FitMixture:
 		sig = scenario.Signal{Law: "gauss-mixture", Lists: map[string][]float64{"weights": r.Weights, "means": r.Means, "variances": r.Variances}}
 	}
 	if err := c.apply(func(s *scenario.Scenario) { s.Signal = sig }); err != nil {
 		c.signal.problem = "cannot use this as the signal: " + err.Error()
 		return
 	}
-	c.signal.applied = "The signal is now " + map[string]string{job.FitNone: "the empirical law of the samples.",
-		job.FitBernoulli: "the fitted sparse Gaussian law.", job.FitMixture: "the fitted Gaussian mixture."}[r.Method] + note
+	c.signal.applied = "The signal is now " + map[string]string{protocol.FitNone: "the empirical law of the samples.",
+		protocol.FitBernoulli: "the fitted sparse Gaussian law.", protocol.FitMixture: "the fitted Gaussian mixture."}[r.Method] + note
 }
 
 // apply changes the open scenario through edit, checks the result with the engine and

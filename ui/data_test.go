@@ -8,7 +8,7 @@ import (
 	"testing"
 
 	"hdrisk/engine/scenario"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 func dataNum(s string) float64 {
@@ -88,7 +88,7 @@ func TestDataErrorsNameTheLineAndKeepTheScenario(t *testing.T) {
 	// Text when a file is too large for the cap: the browser refuses it before reading.
 	br := &cdBrowser{fileName: "big.txt", file: make([]byte, MaxListBytes+1)}
 	c.Browser = br
-	_ = c.SetSetting("source", job.SourceSingular)
+	_ = c.SetSetting("source", protocol.SourceSingular)
 	c.ReadFile("design")
 	if c.DesignRun() != RunError || !strings.Contains(c.Problem("design"), "big.txt") || !strings.Contains(c.Problem("design"), "32 MB") {
 		t.Errorf("oversized file: %q", c.Problem("design"))
@@ -105,7 +105,7 @@ func TestDataEigenvalueList(t *testing.T) {
 	m := lassoModel(t)
 	c := &DataView{Model: m, Jobs: &cdJobs{run: true}}
 	c.start()
-	_ = c.SetSetting("source", job.SourceEigenvalues)
+	_ = c.SetSetting("source", protocol.SourceEigenvalues)
 	_ = c.SetSetting("alpha", "0.5")
 	_ = c.SetSetting("design-text", "4\n1\n")
 	c.ReadText("design")
@@ -133,13 +133,13 @@ func TestDataSignalSamples(t *testing.T) {
 		method, k string
 		check     func(s scenario.Signal) bool
 	}{
-		{job.FitNone, "", func(s scenario.Signal) bool {
+		{protocol.FitNone, "", func(s scenario.Signal) bool {
 			return s.Law == "empirical" && fmt.Sprint(s.Lists["values"]) == "[-2 0 0 0 0 0 0.5 1.5]"
 		}},
-		{job.FitBernoulli, "", func(s scenario.Signal) bool {
+		{protocol.FitBernoulli, "", func(s scenario.Signal) bool {
 			return s.Law == "bernoulli-gauss" && s.Params["density"] == 3.0/8 && s.Params["variance"] == (2.25+4+0.25)/3
 		}},
-		{job.FitMixture, "2", func(s scenario.Signal) bool { return s.Law == "gauss-mixture" && len(s.Lists["weights"]) == 2 }},
+		{protocol.FitMixture, "2", func(s scenario.Signal) bool { return s.Law == "gauss-mixture" && len(s.Lists["weights"]) == 2 }},
 	} {
 		v := &DataView{Model: m, Jobs: &cdJobs{run: true}}
 		v.start()
@@ -164,7 +164,7 @@ func TestDataSignalSamples(t *testing.T) {
 	}
 	v := &DataView{Model: m, Jobs: &cdJobs{run: true}}
 	v.start()
-	_ = v.SetSetting("method", job.FitMixture)
+	_ = v.SetSetting("method", protocol.FitMixture)
 	_ = v.SetSetting("k", "50")
 	_ = v.SetSetting("signal-text", samples)
 	v.ReadText("signal")
@@ -182,8 +182,8 @@ func TestDataCancelAndNoWorkers(t *testing.T) {
 	if !c.Busy("design") || c.Run() != RunRunning || jobs.started[0] != "spectrum" {
 		t.Fatalf("busy %v run %s", c.Busy("design"), c.Run())
 	}
-	jobs.progress(job.StepSVD, job.SpectrumSteps)
-	if !strings.HasPrefix(c.Stage("design"), "Computing the singular values") {
+	jobs.progress(protocol.SpectrumGramEnd+1, protocol.SpectrumTotal)
+	if d, tot := c.Progress("design"); !strings.HasPrefix(c.Stage("design"), "Reducing the Gram matrix") || d != protocol.SpectrumGramEnd+1 || tot != protocol.SpectrumTotal {
 		t.Errorf("stage %q", c.Stage("design"))
 	}
 	c.Cancel("design")
@@ -212,7 +212,7 @@ func TestDataLongListIsShortenedAndSaid(t *testing.T) {
 	}
 	c := &DataView{Model: m, Jobs: &cdJobs{run: true}}
 	c.start()
-	_ = c.SetSetting("source", job.SourceSingular)
+	_ = c.SetSetting("source", protocol.SourceSingular)
 	_ = c.SetSetting("design-text", b.String())
 	c.ReadText("design")
 	c.UseDesign()

@@ -1,8 +1,11 @@
 package ui
 
+import "hdrisk/protocol"
+
 // Jobs runs heavy work (sweeps, maps, finite-size checks, singular values of a user's matrix)
-// on the page's compute workers. kind names a job registered in wasm/job; args is encoded to
-// JSON as its arguments. progress (may be nil) and done are called with the page's render lock
+// on the page's compute workers. kind names a kind of the protocol (package protocol); args
+// is encoded to JSON as its arguments and the result comes back as protocol.Marshal wrote it.
+// Components start jobs through start, which checks the types of both. progress (may be nil) and done are called with the page's render lock
 // held, so they may change component state directly; done is called exactly once unless the
 // returned cancel is called first, after which neither is called again.
 type Jobs interface {
@@ -46,4 +49,16 @@ type Browser interface {
 	// as PNG. Special cases are: scale outside (0, 8] and an image the browser cannot draw
 	// are errors.
 	SVGToPNG(svg []byte, scale float64, done func(png []byte, err error))
+}
+
+// start runs a job of the protocol's kind k and hands done its result, decoded as k's result
+// type. The callbacks are those of Jobs.Start.
+func start[A, R any](jobs Jobs, k protocol.Kind[A, R], args A, progress func(done, total int), done func(R, error)) (cancel func()) {
+	return jobs.Start(k.Name, args, progress, func(res []byte, err error) {
+		var r R
+		if err == nil {
+			r, err = k.DecodeResult(res)
+		}
+		done(r, err)
+	})
 }

@@ -1,5 +1,7 @@
 package ui
 
+import "hdrisk/engine/fixedpoint"
+
 // Figures are the headline results of one scenario, named as `hdrisk eval` prints them
 // (architecture.md, contract 3). The JSON tags are those names.
 type Figures struct {
@@ -13,6 +15,13 @@ type Figures struct {
 	Converged       bool    `json:"converged"`
 	Iterations      int     `json:"iterations"`
 	EstimateZero    bool    `json:"estimate_zero"` // the penalty sets the whole estimate to zero
+}
+
+// FiguresOf names the engine's figures as `hdrisk eval` prints them.
+func FiguresOf(r fixedpoint.Result) Figures {
+	return Figures{MSE: r.MSE, NMSEdB: r.NMSEdB, Susceptibility: r.Susceptibility, NonzeroFraction: r.NonZero,
+		TPP: r.TPP, FDP: r.FDP, TrainError: r.TrainError, Converged: r.Converged, Iterations: r.Iterations,
+		EstimateZero: r.EstimateZero}
 }
 
 // Evaluator computes the figures of a scenario (contract 1 JSON) away from the page's render

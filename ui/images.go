@@ -6,7 +6,7 @@ import (
 
 	"github.com/vugu/vugu"
 
-	"hdrisk/ui/plot"
+	"hdrisk/engine/plot"
 )
 
 // pngScale is the pixel density of a figure saved as PNG: two device pixels per CSS pixel,

@@ -3,7 +3,6 @@ package ui
 import (
 	"bytes"
 	"encoding/csv"
-	"encoding/json"
 	"fmt"
 	"math"
 	"strconv"
@@ -13,7 +12,7 @@ import (
 
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
-	"hdrisk/wasm/job"
+	"hdrisk/protocol"
 )
 
 // Planner defaults: a target in dB and the largest m/n searched.
@@ -27,7 +26,7 @@ type planRow struct {
 	Shape, Label string
 	Current      bool
 	Scen         scenario.Scenario
-	Out          *job.PlanOut
+	Out          *study.PlanResult
 	Err          string
 	cancel       func()
 }
@@ -186,13 +185,9 @@ func (c *PlanView) Start() {
 			r.Err = err.Error()
 			continue
 		}
-		r.cancel = c.Jobs.Start("plan", job.PlanArgs{Scenario: data, Target: target, MSE: isMSE, AlphaMax: amax, Over: c.Over}, nil,
-			func(res []byte, err error) {
+		r.cancel = start(c.Jobs, protocol.Plan, protocol.PlanArgs{Scenario: data, Target: target, MSE: isMSE, AlphaMax: amax, Over: c.Over}, nil,
+			func(out study.PlanResult, err error) {
 				r.cancel = nil
-				var out job.PlanOut
-				if err == nil {
-					err = json.Unmarshal(res, &out)
-				}
 				if err != nil {
 					r.Err = err.Error()
 				} else {
@@ -258,15 +253,15 @@ func (c *PlanView) Lines() []planLine {
 		switch {
 		case r.Out != nil && r.Out.Reached:
 			o := r.Out
-			l.Reached, l.Value, l.Alpha = true, full(float64(o.Alpha)), num4(float64(o.Alpha))
-			l.Weight = fmt.Sprintf("%s = %s", o.Best.Over, num4(float64(o.Best.Value)))
-			l.Error = num4(float64(o.Best.NMSEdB)) + " dB"
+			l.Reached, l.Value, l.Alpha = true, full(o.Alpha), num4(o.Alpha)
+			l.Weight = fmt.Sprintf("%s = %s", o.Best.Over, num4(o.Best.Value))
+			l.Error = num4(o.Best.Result.NMSEdB) + " dB"
 			l.Note = o.Reason
 		case r.Out != nil:
 			o := r.Out
 			l.Value, l.Alpha = "not reached", "not reached up to m/n = "+num4(c.alphaMax)
 			l.Note = o.Reason
-			l.Error = "lowest " + num4(float64(o.Best.NMSEdB)) + " dB"
+			l.Error = "lowest " + num4(o.Best.Result.NMSEdB) + " dB"
 		case r.Err != "":
 			l.Value, l.Alpha, l.Note = "error", "—", r.Err
 		default:
@@ -291,8 +286,8 @@ func (c *PlanView) Headline() (h [3]string, ok bool) {
 	if !o.Reached {
 		return [3]string{"plan_alpha", "not reached", fmt.Sprintf("The target %s%s is not reached up to m/n = %s. %s", num4(c.target), unit, num4(c.alphaMax), o.Reason)}, true
 	}
-	return [3]string{"plan_alpha", full(float64(o.Alpha)), fmt.Sprintf("To reach %s%s this design needs m/n = %s measurements per unknown, with %s = %s.",
-		num4(c.target), unit, num4(float64(o.Alpha)), o.Best.Over, num4(float64(o.Best.Value)))}, true
+	return [3]string{"plan_alpha", full(o.Alpha), fmt.Sprintf("To reach %s%s this design needs m/n = %s measurements per unknown, with %s = %s.",
+		num4(c.target), unit, num4(o.Alpha), o.Best.Over, num4(o.Best.Value))}, true
 }
 
 // Status says how far the plans are.
@@ -333,10 +328,10 @@ func (c *PlanView) CSV() ([]byte, error) {
 			o := r.Out
 			alpha := ""
 			if o.Reached {
-				alpha = full(float64(o.Alpha))
+				alpha = full(o.Alpha)
 			}
-			rec = append(rec, strconv.FormatBool(o.Reached), alpha, o.Best.Over, full(float64(o.Best.Value)),
-				full(float64(o.Best.NMSEdB)), strconv.Itoa(o.Solves), o.Reason)
+			rec = append(rec, strconv.FormatBool(o.Reached), alpha, o.Best.Over, full(o.Best.Value),
+				full(o.Best.Result.NMSEdB), strconv.Itoa(o.Solves), o.Reason)
 		}
 		_ = w.Write(rec)
 	}

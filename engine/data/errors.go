@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"strconv"
+
+	"hdrisk/engine/param"
 )
 
 // LineError reports a problem with the content of a file: the line it was found on
@@ -12,7 +14,11 @@ import (
 type LineError struct {
 	Line   int
 	Reason string
+	err    error // a sentinel the error wraps (ErrBinary), or nil
 }
+
+// Unwrap returns the sentinel the error carries, if any.
+func (e *LineError) Unwrap() error { return e.err }
 
 func (e *LineError) Error() string {
 	if e.Line <= 0 {
@@ -25,16 +31,12 @@ func lineErr(line int, format string, args ...any) error {
 	return &LineError{Line: line, Reason: fmt.Sprintf(format, args...)}
 }
 
-// ParamError reports an argument out of its domain: the parameter's name and the reason.
-type ParamError struct {
-	Field  string
-	Reason string
-}
-
-func (e *ParamError) Error() string { return e.Field + ": " + e.Reason }
+// ParamError reports an argument out of its domain, naming the parameter and the reason:
+// the engine's one error type.
+type ParamError = param.Error
 
 func paramErr(field, format string, args ...any) error {
-	return &ParamError{Field: field, Reason: fmt.Sprintf(format, args...)}
+	return param.Errorf(field, format, args...)
 }
 
 // ErrCanceled is returned when the context of a long computation is done before it ends.

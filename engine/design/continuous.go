@@ -5,6 +5,8 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/integrate/quad"
+
+	"hdrisk/engine/param"
 )
 
 // Discretization of the continuous shapes. Each is integrated in the variable in which its
@@ -56,13 +58,13 @@ func newAtoms(alpha, mean, f float64, x, w []float64, width float64, lam func(fl
 
 func checkRange(lo, hi float64) error {
 	if math.IsNaN(lo) || math.IsInf(lo, 0) || lo < 0 {
-		return &ParamError{Field: "min", Reason: fmt.Sprintf("%v: must be finite and nonnegative", lo)}
+		return &param.Error{Field: "min", Reason: fmt.Sprintf("%v: must be finite and nonnegative", lo)}
 	}
 	if math.IsNaN(hi) || math.IsInf(hi, 0) || hi <= 0 {
-		return &ParamError{Field: "max", Reason: fmt.Sprintf("%v: must be finite and positive", hi)}
+		return &param.Error{Field: "max", Reason: fmt.Sprintf("%v: must be finite and positive", hi)}
 	}
 	if lo > hi {
-		return &ParamError{Field: "min", Reason: fmt.Sprintf("%v exceeds max %v", lo, hi)}
+		return &param.Error{Field: "min", Reason: fmt.Sprintf("%v exceeds max %v", lo, hi)}
 	}
 	return nil
 }
@@ -77,7 +79,7 @@ type uniformSV struct {
 // [min, max] before scaling. The law is discretized once, by composite Gauss-Legendre in
 // sigma graded towards 0; the transforms are sums over its nodes.
 // Special cases are: min = max is a single value; min < 0, max <= 0, min > max, NaN or Inf
-// bounds, alpha <= 0 and an unknown scale give a *ParamError.
+// bounds, alpha <= 0 and an unknown scale give a *param.Error.
 func UniformSV(alpha, min, max float64, s Scale) (Law, error) {
 	if err := checkAlpha(alpha); err != nil {
 		return nil, err
@@ -123,7 +125,7 @@ type uniformEV struct {
 // singular values of F) are uniform on [min, max] before scaling. The law is discretized
 // once, by composite Gauss-Legendre in lambda graded towards 0.
 // Special cases are: min = max is a single value; min < 0, max <= 0, min > max, NaN or Inf
-// bounds, alpha <= 0 and an unknown scale give a *ParamError.
+// bounds, alpha <= 0 and an unknown scale give a *param.Error.
 func UniformEV(alpha, min, max float64, s Scale) (Law, error) {
 	if err := checkAlpha(alpha); err != nil {
 		return nil, err
@@ -168,13 +170,13 @@ type geometricSV struct {
 // given condition number). The law is discretized once, by composite Gauss-Legendre in
 // log sigma on panels no longer than 3.
 // Special cases are: condition = 1 is the orthogonal design; condition < 1, above 1e15,
-// NaN or Inf, alpha <= 0 and an unknown scale give a *ParamError.
+// NaN or Inf, alpha <= 0 and an unknown scale give a *param.Error.
 func GeometricSV(alpha, condition float64, s Scale) (Law, error) {
 	if err := checkAlpha(alpha); err != nil {
 		return nil, err
 	}
 	if math.IsNaN(condition) || condition < 1 || condition > maxCond {
-		return nil, &ParamError{Field: "condition", Reason: fmt.Sprintf("%v: must lie in [1, %g]", condition, maxCond)}
+		return nil, &param.Error{Field: "condition", Reason: fmt.Sprintf("%v: must lie in [1, %g]", condition, maxCond)}
 	}
 	if err := checkScale(s); err != nil {
 		return nil, err

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"slices"
+
+	"hdrisk/engine/param"
 )
 
 // MaxValues is the largest number of singular values EmpiricalSV accepts.
@@ -21,7 +23,7 @@ type empirical struct {
 // add to the atom at zero; equal values are merged into one atom; order does not matter.
 // Special cases are: an empty list, more than MaxValues values, a negative, NaN or Inf value,
 // all values zero, a value whose square overflows under AsGiven (the other scales divide by
-// the largest value first), alpha <= 0 and an unknown scale give a *ParamError.
+// the largest value first), alpha <= 0 and an unknown scale give a *param.Error.
 func EmpiricalSV(alpha float64, values []float64, s Scale) (Law, error) {
 	if err := checkAlpha(alpha); err != nil {
 		return nil, err
@@ -31,23 +33,23 @@ func EmpiricalSV(alpha float64, values []float64, s Scale) (Law, error) {
 	}
 	k := len(values)
 	if k == 0 {
-		return nil, &ParamError{Field: "values", Reason: "empty: give at least one singular value"}
+		return nil, &param.Error{Field: "values", Reason: "empty: give at least one singular value"}
 	}
 	if k > MaxValues {
-		return nil, &ParamError{Field: "values", Reason: fmt.Sprintf("%d values exceed the cap of %d", k, MaxValues)}
+		return nil, &param.Error{Field: "values", Reason: fmt.Sprintf("%d values exceed the cap of %d", k, MaxValues)}
 	}
 	sv := slices.Clone(values)
 	for i, v := range sv {
 		if math.IsNaN(v) || math.IsInf(v, 0) || v < 0 {
-			return nil, &ParamError{Field: "values", Reason: fmt.Sprintf("entry %d is %v: singular values must be finite and nonnegative", i, v)}
+			return nil, &param.Error{Field: "values", Reason: fmt.Sprintf("entry %d is %v: singular values must be finite and nonnegative", i, v)}
 		}
 		if s == AsGiven && math.IsInf(v*v, 0) {
-			return nil, &ParamError{Field: "values", Reason: fmt.Sprintf("entry %d is %v: its square overflows", i, v)}
+			return nil, &param.Error{Field: "values", Reason: fmt.Sprintf("entry %d is %v: its square overflows", i, v)}
 		}
 	}
 	slices.Sort(sv)
 	if sv[k-1] == 0 {
-		return nil, &ParamError{Field: "values", Reason: "all zero: the design would carry no information"}
+		return nil, &param.Error{Field: "values", Reason: "all zero: the design would carry no information"}
 	}
 	p0, q := parts(alpha)
 	// The mean of the squares, relative to the largest value so that it cannot underflow.

@@ -38,5 +38,5 @@ func ExampleEmpiricalSV() {
 	fmt.Println(err)
 	// Output:
 	// mean 1.0000, atom at zero 0.6000
-	// design: values: entry 1 is -2: singular values must be finite and nonnegative
+	// values: entry 1 is -2: singular values must be finite and nonnegative
 }

@@ -24,7 +24,7 @@ type gaussian struct {
 // 2010, Spectral Analysis of Large Dimensional Random Matrices, chapter 3), written so that
 // every term is nonnegative.
 // Special cases are: alpha = 1 has support reaching 0 and no atom, so S1, S2, S3 and W are
-// +Inf at g = 0 while T = 1; alpha <= 0, NaN or Inf and an unknown scale give a *ParamError.
+// +Inf at g = 0 while T = 1; alpha <= 0, NaN or Inf and an unknown scale give a *param.Error.
 func Gaussian(alpha float64, s Scale) (Law, error) {
 	if err := checkAlpha(alpha); err != nil {
 		return nil, err

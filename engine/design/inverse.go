@@ -3,6 +3,8 @@ package design
 import (
 	"fmt"
 	"math"
+
+	"hdrisk/engine/param"
 )
 
 // reachTol is the relative distance below which a v just above S1(0) is read as S1(0)
@@ -17,8 +19,8 @@ const eps = 0x1p-52
 // answer in [max(0, 1/v - Mean), 1/v]. Newton's method runs on 1/S1(g) - 1/v, which is
 // nearly linear in g (it tends to g + Mean - 1/v for large g and is linear near 0 when there
 // is an atom at zero), and falls back to bisection whenever a step leaves the bracket.
-// Special cases are: v <= 0, NaN or Inf give a *ParamError for "v"; without an atom at
-// zero, v = S1(0) (within a relative 1e-12) gives g = 0 and a larger v gives a *ParamError
+// Special cases are: v <= 0, NaN or Inf give a *param.Error for "v"; without an atom at
+// zero, v = S1(0) (within a relative 1e-12) gives g = 0 and a larger v gives a *param.Error
 // saying that v is beyond the design's reach; with an atom at zero every v > 0 has a
 // solution g > 0.
 func InverseS1(l Law, v float64) (g float64, err error) {
@@ -30,7 +32,7 @@ func InverseS1(l Law, v float64) (g float64, err error) {
 // most of the steps. A near outside the bracket, or NaN, is ignored.
 func InverseS1Near(l Law, v, near float64) (g float64, err error) {
 	if math.IsNaN(v) || math.IsInf(v, 0) || v <= 0 {
-		return 0, &ParamError{Field: "v", Reason: fmt.Sprintf("%v: S1 can only take finite positive values", v)}
+		return 0, &param.Error{Field: "v", Reason: fmt.Sprintf("%v: S1 can only take finite positive values", v)}
 	}
 	hi := 1 / v
 	lo := max(0, hi-l.Mean())
@@ -38,7 +40,7 @@ func InverseS1Near(l Law, v, near float64) (g float64, err error) {
 		s0, _ := l.Stieltjes(0)
 		switch {
 		case v > s0*(1+reachTol):
-			return 0, &ParamError{Field: "v", Reason: fmt.Sprintf("%v is beyond the design's reach: the largest value of S1 is S1(0) = %v", v, s0)}
+			return 0, &param.Error{Field: "v", Reason: fmt.Sprintf("%v is beyond the design's reach: the largest value of S1 is S1(0) = %v", v, s0)}
 		case v >= s0*(1-reachTol):
 			return 0, nil
 		}
@@ -76,5 +78,5 @@ func InverseS1Near(l Law, v, near float64) (g float64, err error) {
 		}
 		x = next
 	}
-	return 0, &ParamError{Field: "v", Reason: fmt.Sprintf("S1(g) = %v was not solved in 400 steps", v)}
+	return 0, &param.Error{Field: "v", Reason: fmt.Sprintf("S1(g) = %v was not solved in 400 steps", v)}
 }

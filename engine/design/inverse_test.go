@@ -4,6 +4,8 @@ import (
 	"errors"
 	"math"
 	"testing"
+
+	"hdrisk/engine/param"
 )
 
 // TestInverseS1RoundTrip solves S1(g) = S1(g0) over a log grid of g0 for every shape. The
@@ -50,7 +52,7 @@ func TestInverseS1Reach(t *testing.T) {
 		t.Errorf("v just above S1(0) by rounding: g = %v, err = %v", g, err)
 	}
 	_, err = InverseS1(l, 1.1*s0)
-	var pe *ParamError
+	var pe *param.Error
 	if !errors.As(err, &pe) || pe.Field != "v" {
 		t.Errorf("v beyond reach: err = %v", err)
 	}

@@ -3,6 +3,8 @@ package design
 import (
 	"fmt"
 	"math"
+
+	"hdrisk/engine/param"
 )
 
 // Transforms holds the transforms of a law nu at one point g (method.md sections 2 and 3).
@@ -64,14 +66,14 @@ func parts(alpha float64) (p0, q float64) {
 
 func checkAlpha(alpha float64) error {
 	if math.IsNaN(alpha) || math.IsInf(alpha, 0) || alpha <= 0 {
-		return &ParamError{Field: "alpha", Reason: fmt.Sprintf("%v: the sampling ratio m/n must be finite and positive", alpha)}
+		return &param.Error{Field: "alpha", Reason: fmt.Sprintf("%v: the sampling ratio m/n must be finite and positive", alpha)}
 	}
 	return nil
 }
 
 func checkScale(s Scale) error {
 	if !s.valid() {
-		return &ParamError{Field: "scale", Reason: fmt.Sprintf("%v is not one of rows, columns, as-given", s)}
+		return &param.Error{Field: "scale", Reason: fmt.Sprintf("%v is not one of rows, columns, as-given", s)}
 	}
 	return nil
 }

@@ -13,7 +13,7 @@ type orthogonal struct {
 // alpha > 1, Columns gives 1/alpha and 1, AsGiven gives 1. All transforms are closed forms
 // over the two atoms.
 // Special cases are: for alpha >= 1 there is no atom at zero and W = 0; alpha <= 0, NaN or
-// Inf and an unknown scale give a *ParamError.
+// Inf and an unknown scale give a *param.Error.
 func Orthogonal(alpha float64, s Scale) (Law, error) {
 	if err := checkAlpha(alpha); err != nil {
 		return nil, err

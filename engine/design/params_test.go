@@ -5,9 +5,11 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"hdrisk/engine/param"
 )
 
-// TestParamErrors: every invalid field gives a *ParamError naming it.
+// TestParamErrors: every invalid field gives a *param.Error naming it.
 func TestParamErrors(t *testing.T) {
 	nan, inf := math.NaN(), math.Inf(1)
 	tooMany := make([]float64, MaxValues+1)
@@ -54,9 +56,9 @@ func TestParamErrors(t *testing.T) {
 	}
 	for _, c := range cases {
 		l, err := c.make()
-		var pe *ParamError
+		var pe *param.Error
 		if !errors.As(err, &pe) {
-			t.Errorf("%s: law %v, error %v; want a *ParamError", c.name, l, err)
+			t.Errorf("%s: law %v, error %v; want a *param.Error", c.name, l, err)
 			continue
 		}
 		if pe.Field != c.field || pe.Reason == "" || !strings.Contains(err.Error(), c.field) {
@@ -76,7 +78,7 @@ func TestScaleNames(t *testing.T) {
 			t.Errorf("ParseScale(%q) = %v, %v", s.String(), got, err)
 		}
 	}
-	var pe *ParamError
+	var pe *param.Error
 	if _, err := ParseScale("Rows"); !errors.As(err, &pe) || pe.Field != "scale" {
 		t.Errorf("ParseScale(\"Rows\") error = %v", err)
 	}

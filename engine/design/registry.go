@@ -2,44 +2,29 @@ package design
 
 import (
 	"fmt"
-	"maps"
 	"math"
-	"slices"
 	"strings"
+
+	"hdrisk/engine/param"
 )
 
-// Param describes one parameter of a shape for the scenario decoder and the page's menus.
-// The domain of a number (of each entry, for a list) is the interval from Min to Max, with
-// each end excluded when MinOpen or MaxOpen is set. Cross-parameter rules (min <= max) are
-// left to the constructors, which report them with the parameter's name.
-type Param struct {
-	Name             string
-	Unit             string
-	Min, Max         float64
-	MinOpen, MaxOpen bool
-	List             bool    // a list of numbers rather than one number
-	MaxLen           int     // the longest list accepted, when List is set
-	Optional         bool    // may be left out; then Default is used
-	Default          float64 // the value used when an optional number is left out
-	Help             string  // one line, plain words
-}
-
-// Shape describes one shape of the registry. Every shape also takes the sampling ratio
-// alpha and a Scale, which are not listed among its Params.
-type Shape struct {
-	Name   string // the scenario's design.shape
-	Help   string // one line, plain words
-	Params []Param
-}
+// Shape describes one shape of the registry: Name is the scenario's design.shape. Every
+// shape also takes the sampling ratio alpha and a Scale, which are not listed among its
+// Params.
+type Shape = param.Kind
 
 var (
-	svMin = Param{Name: "min", Unit: "singular value", Max: math.Inf(1), MaxOpen: true,
+	svMin = param.Param{Name: "min", Unit: "singular value", Max: math.Inf(1), MaxOpen: true,
+		Log: true, Role: param.Scale,
 		Help: "smallest singular value, before scaling"}
-	svMax = Param{Name: "max", Unit: "singular value", Max: math.Inf(1), MinOpen: true, MaxOpen: true,
+	svMax = param.Param{Name: "max", Unit: "singular value", Max: math.Inf(1), MinOpen: true, MaxOpen: true,
+		Log: true, Role: param.Scale,
 		Help: "largest singular value, before scaling"}
-	evMin = Param{Name: "min", Unit: "eigenvalue", Max: math.Inf(1), MaxOpen: true,
+	evMin = param.Param{Name: "min", Unit: "eigenvalue", Max: math.Inf(1), MaxOpen: true,
+		Log: true, Role: param.Scale,
 		Help: "smallest nonzero eigenvalue of F^T F, before scaling"}
-	evMax = Param{Name: "max", Unit: "eigenvalue", Max: math.Inf(1), MinOpen: true, MaxOpen: true,
+	evMax = param.Param{Name: "max", Unit: "eigenvalue", Max: math.Inf(1), MinOpen: true, MaxOpen: true,
+		Log: true, Role: param.Scale,
 		Help: "largest eigenvalue of F^T F, before scaling"}
 )
 
@@ -49,26 +34,26 @@ var shapes = []struct {
 	Shape
 	build func(alpha float64, s Scale, v map[string]float64, l lists) (Law, error)
 }{
-	{Shape{"gaussian", "i.i.d. Gaussian entries: Marchenko-Pastur eigenvalues", nil},
+	{Shape{Name: "gaussian", Help: "i.i.d. Gaussian entries: Marchenko-Pastur eigenvalues"},
 		func(a float64, s Scale, _ map[string]float64, _ lists) (Law, error) { return Gaussian(a, s) }},
-	{Shape{"orthogonal", "all nonzero singular values equal: orthonormal rows (or columns)", nil},
+	{Shape{Name: "orthogonal", Help: "all nonzero singular values equal: orthonormal rows (or columns)"},
 		func(a float64, s Scale, _ map[string]float64, _ lists) (Law, error) { return Orthogonal(a, s) }},
-	{Shape{"uniform-sv", "nonzero singular values spread evenly between min and max", []Param{svMin, svMax}},
+	{Shape{Name: "uniform-sv", Help: "nonzero singular values spread evenly between min and max", Params: []param.Param{svMin, svMax}},
 		func(a float64, s Scale, v map[string]float64, _ lists) (Law, error) {
 			return UniformSV(a, v["min"], v["max"], s)
 		}},
-	{Shape{"uniform-ev", "nonzero eigenvalues of F^T F spread evenly between min and max", []Param{evMin, evMax}},
+	{Shape{Name: "uniform-ev", Help: "nonzero eigenvalues of F^T F spread evenly between min and max", Params: []param.Param{evMin, evMax}},
 		func(a float64, s Scale, v map[string]float64, _ lists) (Law, error) {
 			return UniformEV(a, v["min"], v["max"], s)
 		}},
-	{Shape{"geometric-sv", "singular values spread evenly on a log scale over the given condition number", []Param{
-		{Name: "condition", Unit: "ratio of largest to smallest singular value", Min: 1, Max: maxCond,
+	{Shape{Name: "geometric-sv", Help: "singular values spread evenly on a log scale over the given condition number", Params: []param.Param{
+		{Name: "condition", Unit: "ratio of largest to smallest singular value", Min: 1, Max: maxCond, Role: param.Shape,
 			Help: "condition number of F; 1 is the orthogonal design"}}},
 		func(a float64, s Scale, v map[string]float64, _ lists) (Law, error) {
 			return GeometricSV(a, v["condition"], s)
 		}},
-	{Shape{"empirical-sv", "your own singular values, each an equal share of the spectrum", []Param{
-		{Name: "values", Unit: "singular value", Max: math.Inf(1), MaxOpen: true, List: true, MaxLen: MaxValues,
+	{Shape{Name: "empirical-sv", Help: "your own singular values, each an equal share of the spectrum", Params: []param.Param{
+		{Name: "values", Unit: "singular value", Max: math.Inf(1), MaxOpen: true, List: true, MaxLen: MaxValues, Role: param.Scale,
 			Help: "the singular values, in any order"}}},
 		func(a float64, s Scale, _ map[string]float64, l lists) (Law, error) {
 			return EmpiricalSV(a, l["values"], s)
@@ -80,8 +65,7 @@ var shapes = []struct {
 func Shapes() []Shape {
 	out := make([]Shape, len(shapes))
 	for i, k := range shapes {
-		out[i] = k.Shape
-		out[i].Params = slices.Clone(k.Params)
+		out[i] = k.Clone()
 	}
 	return out
 }
@@ -95,52 +79,13 @@ func New(shape string, alpha float64, s Scale, params map[string]float64, lists 
 	names := make([]string, len(shapes))
 	for i, k := range shapes {
 		names[i] = k.Name
-		if k.Name != shape {
-			continue
-		}
-		v := make(map[string]float64, len(k.Params))
-		l := make(map[string][]float64)
-		for _, p := range k.Params {
-			if p.List {
-				x, ok := lists[p.Name]
-				if !ok {
-					return nil, &ParamError{p.Name, fmt.Sprintf("missing (shape %s needs it)", shape)}
-				}
-				l[p.Name] = x
-				continue
+		if k.Name == shape {
+			v, l, err := param.Gather("shape "+shape, k.Params, params, lists)
+			if err != nil {
+				return nil, err
 			}
-			x, ok := params[p.Name]
-			switch {
-			case ok:
-				v[p.Name] = x
-			case p.Optional:
-				v[p.Name] = p.Default
-			default:
-				return nil, &ParamError{p.Name, fmt.Sprintf("missing (shape %s needs it)", shape)}
-			}
+			return k.build(alpha, s, v, l)
 		}
-		for _, name := range slices.Sorted(maps.Keys(params)) {
-			if _, ok := v[name]; !ok {
-				return nil, &ParamError{name, fmt.Sprintf("not a parameter of shape %s (its parameters: %s)", shape, paramNames(k.Params))}
-			}
-		}
-		for _, name := range slices.Sorted(maps.Keys(lists)) {
-			if _, ok := l[name]; !ok {
-				return nil, &ParamError{name, fmt.Sprintf("not a parameter of shape %s (its parameters: %s)", shape, paramNames(k.Params))}
-			}
-		}
-		return k.build(alpha, s, v, l)
 	}
-	return nil, &ParamError{"shape", fmt.Sprintf("unknown shape %q (known: %s)", shape, strings.Join(names, ", "))}
-}
-
-func paramNames(ps []Param) string {
-	if len(ps) == 0 {
-		return "none besides alpha and scale"
-	}
-	n := make([]string, len(ps))
-	for i, p := range ps {
-		n[i] = p.Name
-	}
-	return strings.Join(n, ", ")
+	return nil, &param.Error{Field: "shape", Reason: fmt.Sprintf("unknown shape %q (known: %s)", shape, strings.Join(names, ", "))}
 }

@@ -1,6 +1,10 @@
 package design
 
-import "fmt"
+import (
+	"fmt"
+
+	"hdrisk/engine/param"
+)
 
 // Scale fixes the overall size of F, that is the mean eigenvalue E_nu[lambda] of F^T F
 // (method.md section 1).
@@ -33,7 +37,7 @@ func (s Scale) String() string {
 }
 
 // ParseScale is the inverse of Scale.String for the three valid scales.
-// Special cases are: any other text gives a *ParamError for the field "scale".
+// Special cases are: any other text gives a *param.Error for the field "scale".
 func ParseScale(name string) (Scale, error) {
 	switch name {
 	case "rows":
@@ -43,7 +47,7 @@ func ParseScale(name string) (Scale, error) {
 	case "as-given":
 		return AsGiven, nil
 	}
-	return 0, &ParamError{Field: "scale", Reason: fmt.Sprintf("%q is not one of rows, columns, as-given", name)}
+	return 0, &param.Error{Field: "scale", Reason: fmt.Sprintf("%q is not one of rows, columns, as-given", name)}
 }
 
 func (s Scale) valid() bool { return s == Rows || s == Columns || s == AsGiven }

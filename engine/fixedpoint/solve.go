@@ -30,6 +30,7 @@ import (
 	"slices"
 
 	"hdrisk/engine/design"
+	"hdrisk/engine/param"
 	"hdrisk/engine/penalty"
 	"hdrisk/engine/signal"
 )
@@ -69,8 +70,9 @@ type Result struct {
 	// the error floor below). A result with Converged false is the last iterate: a study
 	// must not use it as a best point, a planner answer or a contour without a mark.
 	Converged    bool
-	Residual     float64 // last relative change of (g1, t1)
-	EstimateZero bool    // the estimate is zero except on an exponentially small set
+	Residual     float64         // last relative change of (g1, t1)
+	EstimateZero bool            // the estimate is zero except on an exponentially small set
+	GLM          *GLMObservables // the generalized model's own observables (SolveGLM); nil from Solve
 	// Floor reports an error below FloorNMSE times E[x0^2], the solver's floor: the error
 	// is at most that (with noise 0 it falls to 0, exact recovery), not the printed digits.
 	Floor bool
@@ -84,18 +86,11 @@ func (r Result) State() State { return State{G1: r.G1, T1: r.T1} }
 // ErrInput reports a problem that cannot be solved as stated.
 var ErrInput = errors.New("fixedpoint: invalid problem")
 
-// Error is a problem that has no finite, unique fixed point, or that cannot be solved as
-// stated: Field names the scenario field to change ("penalty", "design.alpha", "noise") and
-// Reason says why and what to do. It wraps ErrInput.
-type Error struct {
-	Field, Reason string
-}
-
-func (e *Error) Error() string { return e.Field + ": " + e.Reason }
-func (e *Error) Unwrap() error { return ErrInput }
-
+// fieldErr reports a problem that has no finite, unique fixed point, or that cannot be
+// solved as stated, as a *param.Error: Field names the scenario field to change ("penalty",
+// "design.alpha", "noise") and Reason says why and what to do.
 func fieldErr(field, format string, args ...any) error {
-	return &Error{Field: field, Reason: fmt.Sprintf(format, args...)}
+	return &param.Error{Field: field, Reason: fmt.Sprintf(format, args...)}
 }
 
 const (
@@ -149,7 +144,7 @@ const (
 //	no convergence within MaxIter and no bracket: the last iterate, Converged = false, and
 //	  the residual; with MaxIter below the default the bracketing strategy is not tried.
 //
-// An *Error (wrapping ErrInput) is returned for a nil part, a negative or non-finite Delta,
+// A *param.Error naming the field is returned for a nil part, a negative or non-finite Delta,
 // a NaN, infinite or >= 1 tolerance, a signal of zero power, a problem whose minimizer is not
 // unique (no penalty below m/n = 1) and one whose error is infinite (least squares on a
 // design whose eigenvalues reach 0, or no finite fixed point). No result holds NaN or Inf.
@@ -632,10 +627,15 @@ func (p scaled) Linear(g float64) (penalty.Linear, bool) {
 		return penalty.Linear{}, false
 	}
 	l, ok := lf.Linear(p.c * g)
-	for i := range l.N {
-		l.P[i] = p.piece(l.P[i])
+	if !ok {
+		return penalty.Linear{}, false
 	}
-	return l, ok
+	var out penalty.Linear
+	for _, q := range l.Pieces() {
+		q = p.piece(q)
+		out.Then(q.Hi, q.Slope, q.Intercept)
+	}
+	return out, true
 }
 
 func (p scaled) piece(q penalty.Piece) penalty.Piece {

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"hdrisk/engine/design"
+	"hdrisk/engine/param"
 	"hdrisk/engine/penalty"
 	"hdrisk/engine/signal"
 )
@@ -15,7 +16,7 @@ import (
 func refused(t *testing.T, name string, p Problem, o Options, field string) {
 	t.Helper()
 	_, err := Solve(p, o)
-	var fe *Error
+	var fe *param.Error
 	if !errors.As(err, &fe) || fe.Field != field {
 		t.Errorf("%s: want a refusal naming %q, got %v", name, field, err)
 	}

@@ -16,43 +16,27 @@ func Box(bound, l2 float64) (Penalty, error) {
 	if err := checkWeight("l2", l2); err != nil {
 		return nil, err
 	}
-	return box{bound, l2}, nil
+	return FromPieces(box{bound, l2}), nil
 }
 
 func (p box) Name() string { return "box" }
 
-func (p box) Prox(r, g float64) float64 {
-	return math.Max(-p.bound, math.Min(p.bound, g/(g+p.l2)*r))
-}
+func (p box) Strengths() []Strength { return []Strength{{"l2", p.l2}} }
 
-func (p box) Deriv(r, g float64) float64 {
-	l, _ := p.Linear(g)
-	return l.at(r).Slope
-}
-
-func (p box) Kinks(g float64) []float64 {
-	l, _ := p.Linear(g)
-	return l.kinks()
-}
-
-func (p box) Pieces(g float64) ([]Piece, bool) {
-	l, _ := p.Linear(g)
-	return l.slice(), true
-}
-
-// Linear returns (-Inf, -b/c): -b; [-b/c, b/c): c r; [b/c, Inf): b, with c = g/(g + l2).
-func (p box) Linear(g float64) (Linear, bool) {
+// Piecewise returns (-Inf, -b/c): -b; [-b/c, b/c): c r; [b/c, Inf): b, with c = g/(g + l2).
+func (p box) Piecewise(g float64) Linear {
 	c := g / (g + p.l2)
 	e := p.bound / c
 	inf := math.Inf(1)
+	var l Linear
 	if math.IsInf(e, 1) {
-		return Linear{N: 1, P: [MaxPieces]Piece{{-inf, inf, c, 0}}}, true
+		l.Then(inf, c, 0)
+		return l
 	}
-	return Linear{N: 3, P: [MaxPieces]Piece{
-		{-inf, -e, 0, -p.bound},
-		{-e, e, c, 0},
-		{e, inf, 0, p.bound},
-	}}, true
+	l.Then(-e, 0, -p.bound)
+	l.Then(e, c, 0)
+	l.Then(inf, 0, p.bound)
+	return l
 }
 
 func (p box) HasZeroRegion() bool { return false }
@@ -78,56 +62,32 @@ func Huber(l1, width float64) (Penalty, error) {
 	if err := checkPositive("width", width); err != nil {
 		return nil, err
 	}
-	return huber{l1, width}, nil
+	return FromPieces(huber{l1, width}), nil
 }
 
 func (p huber) Name() string { return "huber" }
 
-func (p huber) Prox(r, g float64) float64 {
-	shift := p.l1 / g
-	edge := p.width + shift
-	switch {
-	case r >= edge:
-		return r - shift
-	case r <= -edge:
-		return r + shift
-	}
-	return g / (g + p.l1/p.width) * r
-}
+func (p huber) Strengths() []Strength { return []Strength{{"l1", p.l1}} }
 
-func (p huber) Deriv(r, g float64) float64 {
-	l, _ := p.Linear(g)
-	return l.at(r).Slope
-}
-
-func (p huber) Kinks(g float64) []float64 {
-	l, _ := p.Linear(g)
-	return l.kinks()
-}
-
-func (p huber) Pieces(g float64) ([]Piece, bool) {
-	l, _ := p.Linear(g)
-	return l.slice(), true
-}
-
-// Linear returns (-Inf, -e): r + l1/g; [-e, e): c r; [e, Inf): r - l1/g, with e = w + l1/g
+// Piecewise returns (-Inf, -e): r + l1/g; [-e, e): c r; [e, Inf): r - l1/g, with e = w + l1/g
 // and c = g/(g + l1/w).
-func (p huber) Linear(g float64) (Linear, bool) {
+func (p huber) Piecewise(g float64) Linear {
 	inf := math.Inf(1)
 	shift := p.l1 / g
 	c := g / (g + p.l1/p.width)
 	e := p.width + shift
+	var l Linear
 	switch {
 	case p.l1 == 0:
-		return Linear{N: 1, P: [MaxPieces]Piece{{-inf, inf, 1, 0}}}, true
+		l.Then(inf, 1, 0)
 	case math.IsInf(e, 1):
-		return Linear{N: 1, P: [MaxPieces]Piece{{-inf, inf, c, 0}}}, true
+		l.Then(inf, c, 0)
+	default:
+		l.Then(-e, 1, shift)
+		l.Then(e, c, 0)
+		l.Then(inf, 1, -shift)
 	}
-	return Linear{N: 3, P: [MaxPieces]Piece{
-		{-inf, -e, 1, shift},
-		{-e, e, c, 0},
-		{e, inf, 1, -shift},
-	}}, true
+	return l
 }
 
 func (p huber) HasZeroRegion() bool { return false }

@@ -19,6 +19,6 @@
 //     kink because integrals are split there).
 //   - Weights carry the units of the loss 1/2 ||y - F x||^2: l1 per unit of |x|, l2 per unit
 //     of x^2; bound and width carry the units of x0.
-//   - Non-convex choices (negative weights, exponents q < 1) are refused with a *ParamError:
+//   - Non-convex choices (negative weights, exponents q < 1) are refused with a *param.Error:
 //     the theory of the fixed point covers convex penalties only.
 package penalty

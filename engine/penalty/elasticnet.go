@@ -16,7 +16,7 @@ func L1(l1 float64) (Penalty, error) {
 	if err := checkWeight("l1", l1); err != nil {
 		return nil, err
 	}
-	return elasticNet{"l1", l1, 0}, nil
+	return FromPieces(elasticNet{"l1", l1, 0}), nil
 }
 
 // Ridge returns the ridge penalty (l2/2) x^2 (l2 >= 0, finite). Its prox is g r / (g + l2).
@@ -26,7 +26,7 @@ func Ridge(l2 float64) (Penalty, error) {
 	if err := checkWeight("l2", l2); err != nil {
 		return nil, err
 	}
-	return elasticNet{"ridge", 0, l2}, nil
+	return FromPieces(elasticNet{"ridge", 0, l2}), nil
 }
 
 // ElasticNet returns l1 |x| + (l2/2) x^2 (l1, l2 >= 0, finite).
@@ -39,59 +39,40 @@ func ElasticNet(l1, l2 float64) (Penalty, error) {
 	if err := checkWeight("l2", l2); err != nil {
 		return nil, err
 	}
-	return elasticNet{"elastic-net", l1, l2}, nil
+	return FromPieces(elasticNet{"elastic-net", l1, l2}), nil
 }
 
 func (p elasticNet) Name() string { return p.name }
 
-// Prox returns c soft(r, l1/g), c = g/(g + l2).
-func (p elasticNet) Prox(r, g float64) float64 {
-	theta := p.l1 / g
-	c := g / (g + p.l2)
-	switch {
-	case r > theta:
-		return c * (r - theta)
-	case r < -theta:
-		return c * (r + theta)
-	case math.IsNaN(r):
-		return r
+func (p elasticNet) Strengths() []Strength {
+	switch p.name {
+	case "l1":
+		return []Strength{{"l1", p.l1}}
+	case "ridge":
+		return []Strength{{"l2", p.l2}}
 	}
-	return 0
+	return []Strength{{"l1", p.l1}, {"l2", p.l2}}
 }
 
-func (p elasticNet) Deriv(r, g float64) float64 {
-	l, _ := p.Linear(g)
-	return l.at(r).Slope
-}
-
-func (p elasticNet) Kinks(g float64) []float64 {
-	l, _ := p.Linear(g)
-	return l.kinks()
-}
-
-func (p elasticNet) Pieces(g float64) ([]Piece, bool) {
-	l, _ := p.Linear(g)
-	return l.slice(), true
-}
-
-// Linear returns (-Inf, -theta): c(r + theta); [-theta, theta): 0; [theta, Inf): c(r - theta).
-// With theta = 0 it is the single piece c r; with theta = +Inf (g underflowing against l1)
-// the single zero piece.
-func (p elasticNet) Linear(g float64) (Linear, bool) {
+// Piecewise returns (-Inf, -theta): c(r + theta); [-theta, theta): 0; [theta, Inf): c(r - theta),
+// with theta = l1/g and c = g/(g + l2). With theta = 0 it is the single piece c r; with
+// theta = +Inf (g underflowing against l1) the single zero piece.
+func (p elasticNet) Piecewise(g float64) Linear {
 	theta := p.l1 / g
 	c := g / (g + p.l2)
 	inf := math.Inf(1)
+	var l Linear
 	switch {
 	case theta == 0:
-		return Linear{N: 1, P: [MaxPieces]Piece{{-inf, inf, c, 0}}}, true
+		l.Then(inf, c, 0)
 	case math.IsInf(theta, 1):
-		return Linear{N: 1, P: [MaxPieces]Piece{{-inf, inf, 0, 0}}}, true
+		l.Then(inf, 0, 0)
+	default:
+		l.Then(-theta, c, c*theta)
+		l.Then(theta, 0, 0)
+		l.Then(inf, c, -c*theta)
 	}
-	return Linear{N: 3, P: [MaxPieces]Piece{
-		{-inf, -theta, c, c * theta},
-		{-theta, theta, 0, 0},
-		{theta, inf, c, -c * theta},
-	}}, true
+	return l
 }
 
 func (p elasticNet) HasZeroRegion() bool { return p.l1 > 0 }
@@ -117,46 +98,26 @@ func NonnegL1(l1, l2 float64) (Penalty, error) {
 	if err := checkWeight("l2", l2); err != nil {
 		return nil, err
 	}
-	return nonnegL1{l1, l2}, nil
+	return FromPieces(nonnegL1{l1, l2}), nil
 }
 
 func (p nonnegL1) Name() string { return "nonneg-l1" }
 
-func (p nonnegL1) Prox(r, g float64) float64 {
-	theta := p.l1 / g
-	if r > theta || math.IsNaN(r) {
-		return g / (g + p.l2) * (r - theta)
-	}
-	return 0
-}
+func (p nonnegL1) Strengths() []Strength { return []Strength{{"l1", p.l1}, {"l2", p.l2}} }
 
-func (p nonnegL1) Deriv(r, g float64) float64 {
-	l, _ := p.Linear(g)
-	return l.at(r).Slope
-}
-
-func (p nonnegL1) Kinks(g float64) []float64 {
-	l, _ := p.Linear(g)
-	return l.kinks()
-}
-
-func (p nonnegL1) Pieces(g float64) ([]Piece, bool) {
-	l, _ := p.Linear(g)
-	return l.slice(), true
-}
-
-// Linear returns (-Inf, theta): 0; [theta, Inf): c(r - theta).
-func (p nonnegL1) Linear(g float64) (Linear, bool) {
+// Piecewise returns (-Inf, theta): 0; [theta, Inf): c(r - theta).
+func (p nonnegL1) Piecewise(g float64) Linear {
 	theta := p.l1 / g
 	c := g / (g + p.l2)
 	inf := math.Inf(1)
+	var l Linear
 	if math.IsInf(theta, 1) {
-		return Linear{N: 1, P: [MaxPieces]Piece{{-inf, inf, 0, 0}}}, true
+		l.Then(inf, 0, 0)
+		return l
 	}
-	return Linear{N: 2, P: [MaxPieces]Piece{
-		{-inf, theta, 0, 0},
-		{theta, inf, c, -c * theta},
-	}}, true
+	l.Then(theta, 0, 0)
+	l.Then(inf, c, -c*theta)
+	return l
 }
 
 func (p nonnegL1) HasZeroRegion() bool { return true }

@@ -3,6 +3,8 @@ package penalty
 import (
 	"fmt"
 	"math"
+
+	"hdrisk/engine/param"
 )
 
 // Piece is one linear piece of a proximal operator: prox(r) = Slope*r + Intercept for r in
@@ -33,40 +35,31 @@ type Penalty interface {
 	HasZeroRegion() bool
 	// StartG returns a first g1 for the fixed point when t1 = t (method.md section 3).
 	StartG(t float64) float64
+	// Strengths returns the penalty's strengths (the parameters of its registry kind with
+	// the role param.Strength), in the registry's order, with their values.
+	Strengths() []Strength
 }
 
-// MaxPieces is the largest number of linear pieces of any piecewise-linear prox in this
-// package.
-const MaxPieces = 3
-
-// Linear is the piecewise-linear form of a prox held by value, so that the hot path of
-// package signal needs no allocation: P[:N] are the pieces.
-type Linear struct {
-	N int
-	P [MaxPieces]Piece
+// Strength is one strength of a penalty and its value, for example l1 = 0.05.
+type Strength struct {
+	Name  string
+	Value float64
 }
 
 // LinearForm is implemented by every penalty of this package. Linear(g) returns the same
-// pieces as Pieces(g) without allocating; ok is false when the prox is not piecewise linear.
+// pieces as Pieces(g), without allocating for up to four pieces; ok is false when the prox
+// is not piecewise linear.
 type LinearForm interface {
 	Linear(g float64) (l Linear, ok bool)
 }
-
-// ParamError reports a parameter outside the domain where the penalty is defined and convex.
-type ParamError struct {
-	Field  string // parameter name, as in the registry ("l1", "q", ...)
-	Reason string
-}
-
-func (e *ParamError) Error() string { return "penalty: " + e.Field + ": " + e.Reason }
 
 // checkWeight accepts finite w >= 0.
 func checkWeight(field string, w float64) error {
 	switch {
 	case math.IsNaN(w) || math.IsInf(w, 0):
-		return &ParamError{field, fmt.Sprintf("must be a finite number (got %v)", w)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be a finite number (got %v)", w)}
 	case w < 0:
-		return &ParamError{field, fmt.Sprintf("must be >= 0 (got %v): a negative weight makes the penalty non-convex, which the theory does not cover", w)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be >= 0 (got %v): a negative weight makes the penalty non-convex, which the theory does not cover", w)}
 	}
 	return nil
 }
@@ -75,34 +68,9 @@ func checkWeight(field string, w float64) error {
 func checkPositive(field string, w float64) error {
 	switch {
 	case math.IsNaN(w) || math.IsInf(w, 0):
-		return &ParamError{field, fmt.Sprintf("must be a finite number (got %v)", w)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be a finite number (got %v)", w)}
 	case w <= 0:
-		return &ParamError{field, fmt.Sprintf("must be > 0 (got %v)", w)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be > 0 (got %v)", w)}
 	}
 	return nil
-}
-
-// pieces converts a Linear into a fresh slice.
-func (l Linear) slice() []Piece { return append([]Piece(nil), l.P[:l.N]...) }
-
-// kinks returns the interior boundaries of a Linear form whose slope changes there.
-func (l Linear) kinks() []float64 {
-	k := []float64{}
-	for i := 1; i < l.N; i++ {
-		if l.P[i].Slope != l.P[i-1].Slope {
-			k = append(k, l.P[i].Lo)
-		}
-	}
-	return k
-}
-
-// at returns the piece of l containing r (pieces are [Lo, Hi), so a kink belongs to the
-// piece on its right).
-func (l Linear) at(r float64) Piece {
-	for i := 0; i < l.N-1; i++ {
-		if r < l.P[i].Hi {
-			return l.P[i]
-		}
-	}
-	return l.P[l.N-1]
 }

@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"hdrisk/engine/param"
 )
 
 // testCase pairs a penalty with its definition f written out independently of the package,
@@ -172,15 +174,16 @@ func TestPiecesReproduceProx(t *testing.T) {
 				}
 				continue
 			}
-			if len(ps) != lin.N || len(ps) == 0 || len(ps) > MaxPieces {
-				t.Fatalf("%s: %d pieces, Linear has %d", c.name, len(ps), lin.N)
+			lp := lin.Pieces()
+			if len(ps) != len(lp) || len(ps) == 0 {
+				t.Fatalf("%s: %d pieces, Linear has %d", c.name, len(ps), len(lp))
 			}
 			if !math.IsInf(ps[0].Lo, -1) || !math.IsInf(ps[len(ps)-1].Hi, 1) {
 				t.Errorf("%s: pieces do not cover the line: %v", c.name, ps)
 			}
 			for i, q := range ps {
-				if q != lin.P[i] {
-					t.Errorf("%s: Pieces[%d] = %v, Linear %v", c.name, i, q, lin.P[i])
+				if q != lp[i] {
+					t.Errorf("%s: Pieces[%d] = %v, Linear %v", c.name, i, q, lp[i])
 				}
 				if i > 0 {
 					if ps[i-1].Hi != q.Lo || !(q.Lo < q.Hi) {
@@ -342,9 +345,9 @@ func TestBadParameters(t *testing.T) {
 	}
 	for _, tc := range tests {
 		p, err := tc.build()
-		var pe *ParamError
+		var pe *param.Error
 		if !errors.As(err, &pe) {
-			t.Errorf("%s: got (%v, %v), want a *ParamError", tc.name, p, err)
+			t.Errorf("%s: got (%v, %v), want a *param.Error", tc.name, p, err)
 			continue
 		}
 		if pe.Field != tc.field {

@@ -3,6 +3,8 @@ package penalty
 import (
 	"fmt"
 	"math"
+
+	"hdrisk/engine/param"
 )
 
 // Limits of the power penalty.
@@ -38,20 +40,20 @@ func Power(weight, q float64) (Penalty, error) {
 	}
 	switch {
 	case math.IsNaN(q) || math.IsInf(q, 0):
-		return nil, &ParamError{"q", fmt.Sprintf("must be a finite number (got %v)", q)}
+		return nil, &param.Error{Field: "q", Reason: fmt.Sprintf("must be a finite number (got %v)", q)}
 	case q < 1:
-		return nil, &ParamError{"q", fmt.Sprintf("must be >= 1 (got %v): |x|^q with q < 1 is non-convex, which the theory does not cover", q)}
+		return nil, &param.Error{Field: "q", Reason: fmt.Sprintf("must be >= 1 (got %v): |x|^q with q < 1 is non-convex, which the theory does not cover", q)}
 	case q > MaxPowerQ:
-		return nil, &ParamError{"q", fmt.Sprintf("must be <= %d (got %v): beyond, |x|^q is the box |x| <= 1 (use the box penalty)", MaxPowerQ, q)}
+		return nil, &param.Error{Field: "q", Reason: fmt.Sprintf("must be <= %d (got %v): beyond, |x|^q is the box |x| <= 1 (use the box penalty)", MaxPowerQ, q)}
 	}
 	p := power{weight: weight, q: q}
 	switch {
 	case weight == 0:
-		p.exact = elasticNet{"power", 0, 0}
+		p.exact = FromPieces(elasticNet{"power", 0, 0})
 	case q-1 < powerNear:
-		p.exact = elasticNet{"power", weight, 0}
+		p.exact = FromPieces(elasticNet{"power", weight, 0})
 	case math.Abs(q-2) < powerNear:
-		p.exact = elasticNet{"power", 0, 2 * weight}
+		p.exact = FromPieces(elasticNet{"power", 0, 2 * weight})
 	}
 	return p, nil
 }

@@ -3,8 +3,11 @@ package penalty
 import (
 	"errors"
 	"math"
+	"slices"
 	"strings"
 	"testing"
+
+	"hdrisk/engine/param"
 )
 
 func TestKindsListEveryPenalty(t *testing.T) {
@@ -33,7 +36,7 @@ func TestKindsListEveryPenalty(t *testing.T) {
 }
 
 // inside returns a value strictly inside the domain of p.
-func inside(p Param) float64 {
+func inside(p param.Param) float64 {
 	switch {
 	case !math.IsInf(p.Max, 0):
 		return (p.Min + p.Max) / 2
@@ -63,7 +66,7 @@ func TestRegistryDomainsMatchConstructors(t *testing.T) {
 				}
 				m[p.Name] = v
 				_, err := New(k.Name, m)
-				var pe *ParamError
+				var pe *param.Error
 				switch {
 				case ok && err != nil:
 					t.Errorf("%s.%s = %v refused: %v", k.Name, p.Name, v, err)
@@ -127,9 +130,89 @@ func TestNewErrors(t *testing.T) {
 		{"power", map[string]float64{"weight": 1, "q": 0.5}, "q", "non-convex"},
 	} {
 		_, err := New(tc.kind, tc.params)
-		var pe *ParamError
+		var pe *param.Error
 		if !errors.As(err, &pe) || pe.Field != tc.field || !strings.Contains(pe.Reason, tc.says) {
 			t.Errorf("New(%q, %v) = %v, want field %q saying %q", tc.kind, tc.params, err, tc.field, tc.says)
 		}
+	}
+}
+
+// Every penalty states as its strengths exactly the parameters its registry kind marks with
+// the role param.Strength, in order, with the values it was built from.
+func TestStrengthsFollowTheRegistry(t *testing.T) {
+	for _, k := range Kinds() {
+		v := map[string]float64{}
+		var want []Strength
+		for i, p := range k.Params {
+			v[p.Name] = inside(p) + float64(i)/8
+			if p.Role == param.Strength {
+				want = append(want, Strength{p.Name, v[p.Name]})
+			}
+		}
+		pen, err := New(k.Name, v)
+		if err != nil {
+			t.Fatalf("%s: %v", k.Name, err)
+		}
+		if got := pen.Strengths(); !slices.Equal(got, want) {
+			t.Errorf("%s: Strengths = %v, want %v", k.Name, got, want)
+		}
+	}
+	for _, q := range []float64{1, 1.5, 2} {
+		pen, _ := Power(0.3, q)
+		if got := pen.Strengths(); !slices.Equal(got, []Strength{{"weight", 0.3}}) {
+			t.Errorf("power q = %v: Strengths = %v", q, got)
+		}
+	}
+}
+
+// A prox of more pieces than Linear holds inline spills into a slice and keeps every piece.
+func TestLinearHoldsAnyNumberOfPieces(t *testing.T) {
+	var l Linear
+	for i := range 9 {
+		hi := float64(i)
+		if i == 8 {
+			hi = math.Inf(1)
+		}
+		l.Then(hi, float64(i%2), float64(i))
+	}
+	ps := l.Pieces()
+	if len(ps) != 9 || !math.IsInf(ps[0].Lo, -1) || !math.IsInf(ps[8].Hi, 1) {
+		t.Fatalf("pieces %v", ps)
+	}
+	for i := 1; i < len(ps); i++ {
+		if ps[i].Lo != ps[i-1].Hi || ps[i].Intercept != float64(i) {
+			t.Errorf("piece %d = %v after %v", i, ps[i], ps[i-1])
+		}
+	}
+	if q := l.at(3.5); q.Intercept != 4 {
+		t.Errorf("at(3.5) = %v, want the piece [3, 4)", q)
+	}
+	var e Linear
+	e.Then(0, 1, 0)
+	e.Then(0, 5, 5)
+	e.Then(math.Inf(1), 2, 0)
+	if ps := e.Pieces(); len(ps) != 2 || ps[1].Slope != 2 || ps[1].Lo != 0 {
+		t.Errorf("an empty piece was kept: %v", ps)
+	}
+}
+
+func TestRegisterRefusesBadKinds(t *testing.T) {
+	build := func(map[string]float64) (Penalty, error) { return L1(1) }
+	for _, k := range []Kind{
+		{Name: ""},
+		{Name: "l1"},
+		{Name: "x", Params: []param.Param{{Name: "a", Min: 2, Max: 1}}},
+		{Name: "x", Params: []param.Param{{Name: "a", Max: 1}, {Name: "a", Max: 1}}},
+	} {
+		var pe *param.Error
+		if err := Register(k, build); !errors.As(err, &pe) {
+			t.Errorf("Register(%+v) = %v, want a *param.Error", k, err)
+		}
+	}
+	if err := Register(Kind{Name: "y"}, nil); err == nil {
+		t.Error("a nil constructor was accepted")
+	}
+	if len(Kinds()) != 7 {
+		t.Errorf("a refused kind was registered: %d kinds", len(Kinds()))
 	}
 }

@@ -139,7 +139,7 @@ func TestDecodeErrors(t *testing.T) {
 		{"sweep same ends", edit(t, `"penalty": {`, `"study": {"view": "curve", "sweep": {"over": "l1", "from": 1, "to": 1, "points": 10}}, "penalty": {`), "study.sweep.to", "two different ends"},
 		{"map same axes", edit(t, `"penalty": {`, `"study": {"view": "map", "map": {"x": "l1", "x_from": 0.1, "x_to": 1, "x_points": 5, "y": "penalty.l1", "y_from": 0.1, "y_to": 1, "y_points": 5}}, "penalty": {`), "study.map.y", "same value"},
 		{"map missing y", edit(t, `"penalty": {`, `"study": {"view": "map", "map": {"x": "l1", "x_from": 0.1, "x_to": 1, "x_points": 5}}, "penalty": {`), "study.map.y", "missing"},
-		{"best over absent l2", edit(t, `"kind": "elastic-net", "l1": 0.05, "l2": 0`, `"kind": "l1", "l1": 0.05}, "study": {"view": "curve", "best": {"over": "l2"}`), "study.best.over", "penalty l1 has no l2"},
+		{"best over absent l2", edit(t, `"kind": "elastic-net", "l1": 0.05, "l2": 0`, `"kind": "l1", "l1": 0.05}, "study": {"view": "curve", "best": {"over": "l2"}`), "study.best.over", "penalty l1 has no l2 (its strengths: l1)"},
 		{"plan target", edit(t, `"penalty": {`, `"study": {"view": "plan", "plan": {"target_db": -1000}}, "penalty": {`), "study.plan.target_db", "dB"},
 		{"check seed too large", edit(t, `"penalty": {`, `"study": {"view": "check", "check": {"n": 100, "trials": 5, "seed": 9007199254740992}}, "penalty": {`), "study.check.seed", "between 0 and 9007199254740991"},
 		{"check n fraction", edit(t, `"penalty": {`, `"study": {"view": "check", "check": {"n": 100.5, "trials": 5, "seed": 1}}, "penalty": {`), "study.check.n", "whole number"},

@@ -1,19 +1,12 @@
 package scenario
 
-// FieldError reports a scenario that cannot be accepted. Field is the JSON path of the
-// offending value ("penalty.l1", "signal.weights[3]"); it is empty when the problem
-// concerns the document as a whole (not JSON, too large, trailing data).
-type FieldError struct {
-	Field  string
-	Reason string
-}
+import "hdrisk/engine/param"
 
-func (e *FieldError) Error() string {
-	if e.Field == "" {
-		return "scenario: " + e.Reason
-	}
-	return e.Field + ": " + e.Reason
-}
+// FieldError reports a scenario that cannot be accepted: the engine's one error type,
+// whose Field is here the JSON path of the offending value ("penalty.l1",
+// "signal.weights[3]"), empty when the problem concerns the document as a whole (not
+// JSON, too large, trailing data).
+type FieldError = param.Error
 
 // LinkError reports a share link that cannot be read or written, before any scenario
 // field is involved (an invalid scenario inside a readable link is a *FieldError).
@@ -24,8 +17,5 @@ type LinkError struct {
 func (e *LinkError) Error() string { return "share link: " + e.Reason }
 
 func fieldErr(field, format string, args ...any) *FieldError {
-	if len(args) == 0 {
-		return &FieldError{Field: field, Reason: format}
-	}
-	return &FieldError{Field: field, Reason: sprintf(format, args...)}
+	return param.Errorf(field, format, args...)
 }

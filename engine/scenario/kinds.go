@@ -1,38 +1,27 @@
 package scenario
 
 import (
-	"math"
 	"strings"
+
+	"hdrisk/engine/param"
 )
 
-// param describes one numeric parameter (or list of numbers) of a shape, a law or a
-// penalty kind, as the engine registries state it. The scenario format never lists these
-// itself: adding a law to a registry makes it readable, writable and sweepable here.
-type param struct {
-	Name, Label, Unit string
-	Min, Max          float64 // closed bounds unless MinOpen / MaxOpen
-	MinOpen, MaxOpen  bool
-	Log               bool // a sweep over it is best spaced logarithmically
-	List              bool // a list of numbers rather than one number
-	MaxLen            int  // for lists
-	Optional          bool // may be left out; Default is then used and written back
-	Default           float64
-	full              string // the JSON path, "penalty.l1", set when the registry is read
-}
-
-// kindSpec is one entry of a registry: a shape, a law or a penalty kind.
+// kindSpec is one entry of a registry: a shape, a law or a penalty kind, with the
+// parameters its registry states. The scenario format never lists these itself: adding
+// a law to a registry makes it readable, writable and sweepable here.
 type kindSpec struct {
 	Name, Label string
-	Params      []param
+	Params      []param.Param
+	full        []string // the JSON path of each parameter, "penalty.l1"
 }
 
-func (k kindSpec) param(name string) (param, bool) {
+func (k kindSpec) param(name string) (param.Param, bool) {
 	for _, p := range k.Params {
 		if p.Name == name {
 			return p, true
 		}
 	}
-	return param{}, false
+	return param.Param{}, false
 }
 
 // family is one registry as the scenario sees it: design shapes, signal laws or penalty
@@ -40,6 +29,14 @@ func (k kindSpec) param(name string) (param, bool) {
 type family struct {
 	Object, Key, Noun string
 	Kinds             []kindSpec
+}
+
+func (f *family) add(name, label string, ps []param.Param) {
+	k := kindSpec{Name: name, Label: label, Params: ps}
+	for _, p := range ps {
+		k.full = append(k.full, f.Object+"."+p.Name)
+	}
+	f.Kinds = append(f.Kinds, k)
 }
 
 func (f *family) find(name string) (kindSpec, bool) {
@@ -68,27 +65,4 @@ func (f *family) isParamOfAny(name string) bool {
 		}
 	}
 	return false
-}
-
-// check reports whether x lies in the stated range of p.
-func (p param) check(path string, x float64) error {
-	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return fieldErr(path, "must be a finite number")
-	}
-	lo, hi := p.Min, p.Max
-	if x < lo || (p.MinOpen && x == lo) || x > hi || (p.MaxOpen && x == hi) {
-		return fieldErr(path, "must be in %s, not %s", p.rangeText(), num(x))
-	}
-	return nil
-}
-
-func (p param) rangeText() string {
-	l, r := "[", "]"
-	if p.MinOpen {
-		l = "("
-	}
-	if p.MaxOpen {
-		r = ")"
-	}
-	return l + num(p.Min) + ", " + num(p.Max) + r
 }

@@ -4,6 +4,8 @@ import (
 	"maps"
 	"math"
 	"strings"
+
+	"hdrisk/engine/param"
 )
 
 // PathInfo describes one number of the current scenario that can be read, set and swept.
@@ -12,20 +14,17 @@ type PathInfo struct {
 	Path             string // the full JSON path ("design.alpha", "penalty.l1")
 	Label, Unit      string
 	Min, Max         float64
-	MinOpen, MaxOpen bool // the bound itself is excluded
-	Log              bool // best swept on a logarithmic axis
+	MinOpen, MaxOpen bool       // the bound itself is excluded
+	Log              bool       // best swept on a logarithmic axis
+	Object           string     // "design", "signal", "noise" or "penalty"
+	Role             param.Role // what the number does; the penalty's strengths are param.Strength
 }
-
-var (
-	noiseParam = param{Name: "variance", Label: "noise variance Delta", Min: 0, Max: MaxNoiseVar, Log: true}
-	snrParam   = param{Name: "snr_db", Label: "signal-to-noise ratio", Unit: "dB", Min: MinSNRdB, Max: MaxSNRdB}
-)
 
 // target is a resolved path.
 type target struct {
 	full   string // "penalty.l1"
 	object string // "design", "signal", "penalty", "noise"
-	p      param
+	p      param.Param
 	scalar bool
 }
 
@@ -38,19 +37,20 @@ func (s Scenario) eachTarget(fn func(t target) bool) {
 		if !ok {
 			return true
 		}
-		for _, p := range k.Params {
-			if !fn(target{full: p.full, object: object, p: p, scalar: !p.List}) {
+		for i, p := range k.Params {
+			if !fn(target{full: k.full[i], object: object, p: p, scalar: !p.List}) {
 				return false
 			}
 		}
 		return true
 	}
-	_ = fn(target{full: "design.alpha", object: "design", p: alphaParam, scalar: true}) &&
+	_ = fn(target{full: "design.alpha", object: "design", p: AlphaParam, scalar: true}) &&
 		kind("design", designs(), s.Design.Shape) &&
 		kind("signal", signals(), s.Signal.Law) &&
-		fn(target{full: "noise.variance", object: "noise", p: noiseParam, scalar: true}) &&
-		fn(target{full: "noise.snr_db", object: "noise", p: snrParam, scalar: true}) &&
-		kind("penalty", penalties(), s.Penalty.Kind)
+		fn(target{full: "noise.variance", object: "noise", p: NoiseParam, scalar: true}) &&
+		fn(target{full: "noise.snr_db", object: "noise", p: SNRParam, scalar: true}) &&
+		kind("penalty", penalties(), s.Penalty.Kind) &&
+		s.glmTargets(fn, kind)
 }
 
 // targets lists every number of s, in the order of eachTarget.
@@ -129,8 +129,9 @@ func (s Scenario) Paths() []PathInfo {
 		if r, err := s.resolve(name); err != nil || r.full != t.full {
 			name = t.full
 		}
-		out = append(out, PathInfo{Name: name, Path: t.full, Label: t.p.Label, Unit: t.p.Unit,
-			Min: t.p.Min, Max: t.p.Max, MinOpen: t.p.MinOpen, MaxOpen: t.p.MaxOpen, Log: t.p.Log})
+		out = append(out, PathInfo{Name: name, Path: t.full, Label: t.p.Title(), Unit: t.p.Unit,
+			Min: t.p.Min, Max: t.p.Max, MinOpen: t.p.MinOpen, MaxOpen: t.p.MaxOpen, Log: t.p.Log,
+			Object: t.object, Role: t.p.Role})
 	}
 	return out
 }
@@ -168,6 +169,9 @@ func (s Scenario) Get(path string) (float64, error) {
 	case "signal":
 		return s.Signal.Params[t.p.Name], nil
 	}
+	if isGLMObject(t.object) {
+		return s.choiceOf(t.object).Params[t.p.Name], nil
+	}
 	return s.Penalty.Params[t.p.Name], nil
 }
 
@@ -190,15 +194,17 @@ func (s Scenario) With(path string, v float64) (Scenario, error) {
 	case "design.alpha":
 		c.Design.Alpha = v
 	case "noise.variance":
-		c.Noise = Noise{Variance: v}
+		c.Noise = Noise{Variance: v, Law: c.Noise.Law}
 	case "noise.snr_db":
-		c.Noise = Noise{SNRdB: v, SNR: true}
+		c.Noise = Noise{SNRdB: v, SNR: true, Law: c.Noise.Law}
 	default:
 		switch t.object {
 		case "design":
 			c.Design.Params[t.p.Name] = v
 		case "signal":
 			c.Signal.Params[t.p.Name] = v
+		case "readout", "loss", "noise":
+			c.choiceOf(t.object).Params[t.p.Name] = v
 		default:
 			c.Penalty.Params[t.p.Name] = v
 		}
@@ -217,6 +223,7 @@ func (s Scenario) clone() Scenario {
 	c.Signal.Params = maps.Clone(s.Signal.Params)
 	c.Signal.Lists = cloneLists(s.Signal.Lists)
 	c.Penalty.Params = maps.Clone(s.Penalty.Params)
+	c.Readout, c.Loss, c.Noise.Law = s.Readout.clone(), s.Loss.clone(), s.Noise.Law.clone()
 	if s.Study != nil {
 		st := *s.Study
 		st.Sweep = clonePtr(st.Sweep)

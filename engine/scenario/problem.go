@@ -15,6 +15,7 @@ type laws struct {
 	d design.Law
 	x signal.Law
 	p penalty.Penalty
+	g glmLaws
 }
 
 func (s Scenario) laws() (laws, error) {
@@ -37,7 +38,7 @@ func (s Scenario) laws() (laws, error) {
 		return l, err
 	}
 	if s.Noise.SNR && !(x.Second()*d.Mean() > 0) {
-		return l, fieldErr("noise.snr_db", "the signal has no power (E[x0^2] = 0), so an SNR cannot fix the noise; state noise.variance instead")
+		return l, errNoPower()
 	}
 	if err := validateParams(penalties(), s.Penalty.Kind, s.Penalty.Params, nil); err != nil {
 		return l, err
@@ -46,7 +47,15 @@ func (s Scenario) laws() (laws, error) {
 	if err != nil {
 		return l, err
 	}
-	return laws{d, x, p}, nil
+	l = laws{d: d, x: x, p: p}
+	if l.g, err = s.buildGLM(noiseVar(s.Noise, l)); err != nil {
+		return l, err
+	}
+	return l, nil
+}
+
+func errNoPower() error {
+	return fieldErr("noise.snr_db", "the signal has no power (E[x0^2] = 0), so an SNR cannot fix the noise; state noise.variance instead")
 }
 
 // Problem returns the fixed-point problem of s, with the laws built through the engine

@@ -4,6 +4,8 @@ import (
 	"math"
 	"slices"
 	"strings"
+
+	"hdrisk/engine/param"
 )
 
 var (
@@ -120,21 +122,7 @@ func readSweep(v *jval) (Sweep, error) {
 	if err := r.restExcept(sweepKeys); err != nil {
 		return sw, err
 	}
-	if sw.Over, err = r.text("over", true); err != nil {
-		return sw, err
-	}
-	if sw.From, _, err = r.float("from", true); err != nil {
-		return sw, err
-	}
-	if sw.To, _, err = r.float("to", true); err != nil {
-		return sw, err
-	}
-	n, err := r.integer("points", 2, MaxSweepPoints)
-	if err != nil {
-		return sw, err
-	}
-	sw.Points = int(n)
-	sw.Log, err = r.boolean("log")
+	err = r.axis("over", "", MaxSweepPoints, &sw.Over, &sw.From, &sw.To, &sw.Points, &sw.Log)
 	return sw, err
 }
 
@@ -147,30 +135,33 @@ func readMap(v *jval) (Map, error) {
 	if err := r.restExcept(mapKeys); err != nil {
 		return m, err
 	}
-	axis := func(p string, over *string, from, to *float64, points *int, log *bool) error {
-		var err error
-		if *over, err = r.text(p, true); err != nil {
-			return err
-		}
-		if *from, _, err = r.float(p+"_from", true); err != nil {
-			return err
-		}
-		if *to, _, err = r.float(p+"_to", true); err != nil {
-			return err
-		}
-		n, err := r.integer(p+"_points", 2, MaxMapPoints)
-		if err != nil {
-			return err
-		}
-		*points = int(n)
-		*log, err = r.boolean(p + "_log")
-		return err
-	}
-	if err := axis("x", &m.X, &m.XFrom, &m.XTo, &m.XPoints, &m.XLog); err != nil {
+	if err := r.axis("x", "x_", MaxMapPoints, &m.X, &m.XFrom, &m.XTo, &m.XPoints, &m.XLog); err != nil {
 		return m, err
 	}
-	err = axis("y", &m.Y, &m.YFrom, &m.YTo, &m.YPoints, &m.YLog)
+	err = r.axis("y", "y_", MaxMapPoints, &m.Y, &m.YFrom, &m.YTo, &m.YPoints, &m.YLog)
 	return m, err
+}
+
+// axis reads one swept value: its path under the key over, then from, to, points (2 to
+// maxPoints) and the optional log, each key led by prefix ("x_from" for a map's x axis).
+func (r *reader) axis(over, prefix string, maxPoints int64, path *string, from, to *float64, points *int, log *bool) error {
+	var err error
+	if *path, err = r.text(over, true); err != nil {
+		return err
+	}
+	if *from, _, err = r.float(prefix+"from", true); err != nil {
+		return err
+	}
+	if *to, _, err = r.float(prefix+"to", true); err != nil {
+		return err
+	}
+	n, err := r.integer(prefix+"points", 2, maxPoints)
+	if err != nil {
+		return err
+	}
+	*points = int(n)
+	*log, err = r.boolean(prefix + "log")
+	return err
 }
 
 func (s Scenario) validateStudy() error {
@@ -200,18 +191,15 @@ func (s Scenario) validateStudy() error {
 		}
 	}
 	if b := st.Best; b != nil {
-		if b.Over != "l1" && b.Over != "l2" {
-			return fieldErr("study.best.over", "must be l1 or l2, not %q", clip(b.Over, 40))
-		}
-		if _, ok := s.Penalty.Params[b.Over]; !ok {
-			return fieldErr("study.best.over", "penalty %s has no %s", s.Penalty.Kind, b.Over)
+		if t, err := s.resolve(b.Over); err != nil || t.object != "penalty" || t.p.Role != param.Strength {
+			return fieldErr("study.best.over", "penalty %s has no %s (its strengths: %s)", s.Penalty.Kind, clip(b.Over, 40), strings.Join(s.strengths(), ", "))
 		}
 	}
 	if p := st.Plan; p != nil {
 		if math.IsNaN(p.TargetDB) || p.TargetDB < MinTargetDB || p.TargetDB > MaxTargetDB {
 			return fieldErr("study.plan.target_db", "must be in [%s, %s] dB, not %s", num(MinTargetDB), num(MaxTargetDB), num(p.TargetDB))
 		}
-		if err := alphaParam.check("study.plan.alpha_max", p.AlphaMax); err != nil {
+		if err := AlphaParam.Check("study.plan.alpha_max", p.AlphaMax); err != nil {
 			return err
 		}
 	}
@@ -230,6 +218,19 @@ func (s Scenario) validateStudy() error {
 	return nil
 }
 
+// strengths lists the names of the penalty's strengths (the parameters with the role
+// param.Strength), in registry order.
+func (s Scenario) strengths() []string {
+	var n []string
+	s.eachTarget(func(t target) bool {
+		if t.object == "penalty" && t.p.Role == param.Strength {
+			n = append(n, t.p.Name)
+		}
+		return true
+	})
+	return n
+}
+
 // checkAxis validates one swept value: the path exists in s, the ends lie in its range,
 // differ, and are positive on a log axis.
 func (s Scenario) checkAxis(overField, over, fromField string, from float64, toField string, to float64,
@@ -241,10 +242,10 @@ func (s Scenario) checkAxis(overField, over, fromField string, from float64, toF
 	if !t.scalar {
 		return t, fieldErr(overField, "%s is a list, not a number that can be swept", t.full)
 	}
-	if err := t.p.check(fromField, from); err != nil {
+	if err := t.p.Check(fromField, from); err != nil {
 		return t, err
 	}
-	if err := t.p.check(toField, to); err != nil {
+	if err := t.p.Check(toField, to); err != nil {
 		return t, err
 	}
 	if from == to {

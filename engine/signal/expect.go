@@ -39,7 +39,7 @@ func Expect(l Law, p penalty.Penalty, g, t float64) Moments {
 	ok := false
 	if lf, isLin := p.(penalty.LinearForm); isLin {
 		lin, ok = lf.Linear(g)
-		pieces = lin.P[:lin.N]
+		pieces = lin.Pieces()
 	} else {
 		pieces, ok = p.Pieces(g)
 	}

@@ -5,6 +5,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"slices"
+
+	"hdrisk/engine/param"
 )
 
 // Component is one Gaussian component x0 ~ N(Mean, Var) of a mixture, with probability Weight.
@@ -31,14 +33,6 @@ type Law interface {
 	Sample(rng *rand.Rand, n int) []float64
 }
 
-// ParamError reports a law parameter outside its domain.
-type ParamError struct {
-	Field  string // parameter name, as in the registry ("density", "weights", ...)
-	Reason string
-}
-
-func (e *ParamError) Error() string { return "signal: " + e.Field + ": " + e.Reason }
-
 // mixture is the Gaussian-mixture form shared by every law of this package.
 type mixture struct{ comps []Component }
 
@@ -58,7 +52,7 @@ func componentsOf(l Law) []Component {
 
 func finite(field string, v float64) error {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return &ParamError{field, fmt.Sprintf("must be a finite number (got %v)", v)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be a finite number (got %v)", v)}
 	}
 	return nil
 }
@@ -68,7 +62,7 @@ func nonnegative(field string, v float64) error {
 		return err
 	}
 	if v < 0 {
-		return &ParamError{field, fmt.Sprintf("must be >= 0 (got %v)", v)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be >= 0 (got %v)", v)}
 	}
 	return nil
 }
@@ -78,7 +72,7 @@ func positive(field string, v float64) error {
 		return err
 	}
 	if v <= 0 {
-		return &ParamError{field, fmt.Sprintf("must be > 0 (got %v)", v)}
+		return &param.Error{Field: field, Reason: fmt.Sprintf("must be > 0 (got %v)", v)}
 	}
 	return nil
 }
@@ -88,7 +82,7 @@ func checkDensity(v float64) error {
 		return err
 	}
 	if !(v > 0 && v <= 1) {
-		return &ParamError{"density", fmt.Sprintf("must be in (0, 1] (got %v)", v)}
+		return &param.Error{Field: "density", Reason: fmt.Sprintf("must be in (0, 1] (got %v)", v)}
 	}
 	return nil
 }

@@ -9,6 +9,8 @@ import (
 	"gonum.org/v1/gonum/integrate/quad"
 	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"hdrisk/engine/param"
 )
 
 // Sizes of the discretizations and caps on user lists.
@@ -245,7 +247,7 @@ func StudentT(dof, scale float64) (Law, error) {
 		return nil, err
 	}
 	if !(dof > 2) {
-		return nil, &ParamError{"dof", fmt.Sprintf("must be > 2 (got %v): with 2 or fewer degrees of freedom E[x0^2] is infinite", dof)}
+		return nil, &param.Error{Field: "dof", Reason: fmt.Sprintf("must be > 2 (got %v): with 2 or fewer degrees of freedom E[x0^2] is infinite", dof)}
 	}
 	if err := positive("scale", scale); err != nil {
 		return nil, err
@@ -348,13 +350,13 @@ func GaussMixture(weights, means, variances []float64) (Law, error) {
 	n := len(weights)
 	switch {
 	case n == 0:
-		return nil, &ParamError{"weights", "must hold at least one weight"}
+		return nil, &param.Error{Field: "weights", Reason: "must hold at least one weight"}
 	case n > MaxMixture:
-		return nil, &ParamError{"weights", fmt.Sprintf("holds %d components, more than the maximum %d", n, MaxMixture)}
+		return nil, &param.Error{Field: "weights", Reason: fmt.Sprintf("holds %d components, more than the maximum %d", n, MaxMixture)}
 	case len(means) != n:
-		return nil, &ParamError{"means", fmt.Sprintf("holds %d values, but weights holds %d", len(means), n)}
+		return nil, &param.Error{Field: "means", Reason: fmt.Sprintf("holds %d values, but weights holds %d", len(means), n)}
 	case len(variances) != n:
-		return nil, &ParamError{"variances", fmt.Sprintf("holds %d values, but weights holds %d", len(variances), n)}
+		return nil, &param.Error{Field: "variances", Reason: fmt.Sprintf("holds %d values, but weights holds %d", len(variances), n)}
 	}
 	sum := 0.0
 	for i := range n {
@@ -370,7 +372,7 @@ func GaussMixture(weights, means, variances []float64) (Law, error) {
 		sum += weights[i]
 	}
 	if math.Abs(sum-1) > weightSumTol {
-		return nil, &ParamError{"weights", fmt.Sprintf("must sum to 1 (they sum to %.17g)", sum)}
+		return nil, &param.Error{Field: "weights", Reason: fmt.Sprintf("must sum to 1 (they sum to %.17g)", sum)}
 	}
 	comps := make([]Component, 0, n)
 	second := 0.0
@@ -412,9 +414,9 @@ type empirical struct {
 func Empirical(values []float64) (Law, error) {
 	switch {
 	case len(values) == 0:
-		return nil, &ParamError{"values", "must hold at least one value"}
+		return nil, &param.Error{Field: "values", Reason: "must hold at least one value"}
 	case len(values) > MaxEmpirical:
-		return nil, &ParamError{"values", fmt.Sprintf("holds %d values, more than the maximum %d", len(values), MaxEmpirical)}
+		return nil, &param.Error{Field: "values", Reason: fmt.Sprintf("holds %d values, more than the maximum %d", len(values), MaxEmpirical)}
 	}
 	second := 0.0
 	for i, v := range values {

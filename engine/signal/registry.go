@@ -2,74 +2,62 @@ package signal
 
 import (
 	"fmt"
-	"maps"
 	"math"
 	"slices"
 	"strings"
-)
 
-// Param describes one parameter of a law for the scenario decoder and the page's menus. A
-// scalar's domain (or, for a list, each element's domain) is the interval from Min to Max,
-// with an end excluded when MinOpen or MaxOpen is set.
-type Param struct {
-	Name             string
-	Unit             string
-	Min, Max         float64
-	MinOpen, MaxOpen bool
-	List             bool   // a list of numbers rather than one number
-	MaxLen           int    // the longest list accepted (lists only)
-	Help             string // one line, plain words
-}
+	"hdrisk/engine/param"
+)
 
 // Kind describes one law of the registry.
 type Kind struct {
 	Name   string // the scenario's signal.law
 	Help   string // one line, plain words
 	Exact  bool   // whether the mixture is the law itself (see Law.Exact)
-	Params []Param
+	Params []param.Param
 }
 
 var (
 	inf        = math.Inf(1)
-	pDensity   = Param{Name: "density", Unit: "fraction of entries", Min: 0, Max: 1, MinOpen: true, Help: "share of the entries that are nonzero"}
-	pVariance  = Param{Name: "variance", Unit: "units of x0 squared", Max: inf, MaxOpen: true, Help: "variance of a nonzero entry"}
-	pAmplitude = Param{Name: "amplitude", Unit: "units of x0", Max: inf, MaxOpen: true, Help: "size of a nonzero entry, equally often positive and negative"}
+	pDensity   = param.Param{Name: "density", Unit: "fraction of entries", Min: 0, Max: 1, MinOpen: true, Help: "share of the entries that are nonzero"}
+	pVariance  = param.Param{Name: "variance", Unit: "units of x0 squared", Max: inf, MaxOpen: true, Log: true, Role: param.Scale, Help: "variance of a nonzero entry"}
+	pAmplitude = param.Param{Name: "amplitude", Unit: "units of x0", Max: inf, MaxOpen: true, Log: true, Role: param.Scale, Help: "size of a nonzero entry, equally often positive and negative"}
 )
 
 var laws = []struct {
 	Kind
 	build func(v map[string]float64, l map[string][]float64) (Law, error)
 }{
-	{Kind{"gauss", "Gaussian entries with mean 0: a dense signal", true, []Param{
-		{Name: "variance", Unit: "units of x0 squared", Max: inf, MaxOpen: true, Help: "variance of every entry"}}},
+	{Kind{"gauss", "Gaussian entries with mean 0: a dense signal", true, []param.Param{
+		{Name: "variance", Unit: "units of x0 squared", Max: inf, MaxOpen: true, Log: true, Role: param.Scale, Help: "variance of every entry"}}},
 		func(v map[string]float64, _ map[string][]float64) (Law, error) { return Gauss(v["variance"]) }},
-	{Kind{"bernoulli-gauss", "sparse: zero, or Gaussian with the given probability", true, []Param{pDensity, pVariance}},
+	{Kind{"bernoulli-gauss", "sparse: zero, or Gaussian with the given probability", true, []param.Param{pDensity, pVariance}},
 		func(v map[string]float64, _ map[string][]float64) (Law, error) {
 			return BernoulliGauss(v["density"], v["variance"])
 		}},
-	{Kind{"bernoulli-rademacher", "sparse: zero, or plus or minus the amplitude", true, []Param{pDensity, pAmplitude}},
+	{Kind{"bernoulli-rademacher", "sparse: zero, or plus or minus the amplitude", true, []param.Param{pDensity, pAmplitude}},
 		func(v map[string]float64, _ map[string][]float64) (Law, error) {
 			return BernoulliRademacher(v["density"], v["amplitude"])
 		}},
-	{Kind{"laplace", "Laplace (double exponential): heavier tails than Gaussian", false, []Param{
-		{Name: "scale", Unit: "units of x0", Max: inf, MinOpen: true, MaxOpen: true, Help: "mean absolute value of an entry; the variance is 2 scale^2"}}},
+	{Kind{"laplace", "Laplace (double exponential): heavier tails than Gaussian", false, []param.Param{
+		{Name: "scale", Unit: "units of x0", Max: inf, MinOpen: true, MaxOpen: true, Log: true, Role: param.Scale, Help: "mean absolute value of an entry; the variance is 2 scale^2"}}},
 		func(v map[string]float64, _ map[string][]float64) (Law, error) { return Laplace(v["scale"]) }},
-	{Kind{"uniform", "uniform between -halfwidth and halfwidth", false, []Param{
-		{Name: "halfwidth", Unit: "units of x0", Max: inf, MinOpen: true, MaxOpen: true, Help: "largest absolute value of an entry"}}},
+	{Kind{"uniform", "uniform between -halfwidth and halfwidth", false, []param.Param{
+		{Name: "halfwidth", Unit: "units of x0", Max: inf, MinOpen: true, MaxOpen: true, Log: true, Role: param.Scale, Help: "largest absolute value of an entry"}}},
 		func(v map[string]float64, _ map[string][]float64) (Law, error) { return Uniform(v["halfwidth"]) }},
-	{Kind{"student-t", "Student-t: heavy tails, more so with fewer degrees of freedom", false, []Param{
-		{Name: "dof", Unit: "degrees of freedom", Min: 2, Max: inf, MinOpen: true, MaxOpen: true, Help: "more than 2, so that the variance is finite"},
-		{Name: "scale", Unit: "units of x0", Max: inf, MinOpen: true, MaxOpen: true, Help: "spread; the variance is scale^2 dof/(dof - 2)"}}},
+	{Kind{"student-t", "Student-t: heavy tails, more so with fewer degrees of freedom", false, []param.Param{
+		{Name: "dof", Unit: "degrees of freedom", Min: 2, Max: inf, MinOpen: true, MaxOpen: true, Log: true, Role: param.Shape, Help: "more than 2, so that the variance is finite"},
+		{Name: "scale", Unit: "units of x0", Max: inf, MinOpen: true, MaxOpen: true, Log: true, Role: param.Scale, Help: "spread; the variance is scale^2 dof/(dof - 2)"}}},
 		func(v map[string]float64, _ map[string][]float64) (Law, error) { return StudentT(v["dof"], v["scale"]) }},
-	{Kind{"gauss-mixture", "a mixture of Gaussians with the given weights, means and variances", true, []Param{
+	{Kind{"gauss-mixture", "a mixture of Gaussians with the given weights, means and variances", true, []param.Param{
 		{Name: "weights", Unit: "probability", Min: 0, Max: 1, List: true, MaxLen: MaxMixture, Help: "probability of each component; they sum to 1"},
-		{Name: "means", Unit: "units of x0", Min: -inf, Max: inf, MinOpen: true, MaxOpen: true, List: true, MaxLen: MaxMixture, Help: "mean of each component"},
-		{Name: "variances", Unit: "units of x0 squared", Max: inf, MaxOpen: true, List: true, MaxLen: MaxMixture, Help: "variance of each component; 0 is a fixed value"}}},
+		{Name: "means", Unit: "units of x0", Min: -inf, Max: inf, MinOpen: true, MaxOpen: true, List: true, MaxLen: MaxMixture, Role: param.Scale, Help: "mean of each component"},
+		{Name: "variances", Unit: "units of x0 squared", Max: inf, MaxOpen: true, List: true, Role: param.Scale, MaxLen: MaxMixture, Help: "variance of each component; 0 is a fixed value"}}},
 		func(_ map[string]float64, l map[string][]float64) (Law, error) {
 			return GaussMixture(l["weights"], l["means"], l["variances"])
 		}},
-	{Kind{"empirical", "the entries of your own vector, each equally likely", true, []Param{
-		{Name: "values", Unit: "units of x0", Min: -inf, Max: inf, MinOpen: true, MaxOpen: true, List: true, MaxLen: MaxEmpirical, Help: "the values of the entries"}}},
+	{Kind{"empirical", "the entries of your own vector, each equally likely", true, []param.Param{
+		{Name: "values", Unit: "units of x0", Min: -inf, Max: inf, MinOpen: true, MaxOpen: true, List: true, MaxLen: MaxEmpirical, Role: param.Scale, Help: "the values of the entries"}}},
 		func(_ map[string]float64, l map[string][]float64) (Law, error) { return Empirical(l["values"]) }},
 }
 
@@ -92,40 +80,13 @@ func New(law string, params map[string]float64, lists map[string][]float64) (Law
 	names := make([]string, len(laws))
 	for i, k := range laws {
 		names[i] = k.Name
-		if k.Name != law {
-			continue
-		}
-		known := map[string]bool{}
-		for _, p := range k.Params {
-			known[p.Name] = true
-			_, isNum := params[p.Name]
-			_, isList := lists[p.Name]
-			switch {
-			case p.List && isNum, !p.List && isList:
-				return nil, &ParamError{p.Name, fmt.Sprintf("must be %s", map[bool]string{true: "a list of numbers", false: "a single number"}[p.List])}
-			case !isNum && !isList:
-				return nil, &ParamError{p.Name, fmt.Sprintf("missing (law %s needs it)", law)}
+		if k.Name == law {
+			v, l, err := param.Gather("law "+law, k.Params, params, lists)
+			if err != nil {
+				return nil, err
 			}
+			return k.build(v, l)
 		}
-		for _, name := range slices.Sorted(maps.Keys(params)) {
-			if !known[name] {
-				return nil, &ParamError{name, fmt.Sprintf("not a parameter of law %s (its parameters: %s)", law, paramNames(k.Params))}
-			}
-		}
-		for _, name := range slices.Sorted(maps.Keys(lists)) {
-			if !known[name] {
-				return nil, &ParamError{name, fmt.Sprintf("not a parameter of law %s (its parameters: %s)", law, paramNames(k.Params))}
-			}
-		}
-		return k.build(params, lists)
 	}
-	return nil, &ParamError{"law", fmt.Sprintf("unknown law %q (known: %s)", law, strings.Join(names, ", "))}
-}
-
-func paramNames(ps []Param) string {
-	n := make([]string, len(ps))
-	for i, p := range ps {
-		n[i] = p.Name
-	}
-	return strings.Join(n, ", ")
+	return nil, &param.Error{Field: "law", Reason: fmt.Sprintf("unknown law %q (known: %s)", law, strings.Join(names, ", "))}
 }

@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"hdrisk/engine/param"
 )
 
 func TestBadParameters(t *testing.T) {
@@ -62,9 +64,9 @@ func TestBadParameters(t *testing.T) {
 		{"empirical Inf", func() (Law, error) { return Empirical([]float64{1, inf}) }, "values[1]", "finite"},
 	} {
 		l, err := tc.build()
-		var pe *ParamError
+		var pe *param.Error
 		if !errors.As(err, &pe) {
-			t.Errorf("%s: got (%v, %v), want a *ParamError", tc.name, l, err)
+			t.Errorf("%s: got (%v, %v), want a *param.Error", tc.name, l, err)
 			continue
 		}
 		if pe.Field != tc.field || !strings.Contains(pe.Reason, tc.says) {
@@ -133,7 +135,7 @@ func TestRegistryDomainsMatchConstructors(t *testing.T) {
 				}
 				m[p.Name] = v
 				_, err := New(k.Name, m, lists)
-				var pe *ParamError
+				var pe *param.Error
 				switch {
 				case ok && err != nil:
 					t.Errorf("%s.%s = %v refused: %v", k.Name, p.Name, v, err)
@@ -169,7 +171,7 @@ func TestNewErrors(t *testing.T) {
 		{"student-t", map[string]float64{"dof": 2, "scale": 1}, nil, "dof", "> 2"},
 	} {
 		_, err := New(tc.law, tc.params, tc.lists)
-		var pe *ParamError
+		var pe *param.Error
 		if !errors.As(err, &pe) || pe.Field != tc.field || !strings.Contains(pe.Reason, tc.says) {
 			t.Errorf("New(%q, %v, %v) = %v, want field %q saying %q", tc.law, tc.params, tc.lists, err, tc.field, tc.says)
 		}

@@ -1,17 +1,11 @@
 package simulate
 
-import "fmt"
+import "hdrisk/engine/param"
 
-// ParamError reports an input that the simulation refuses, naming the field and the reason.
-type ParamError struct {
-	Field  string
-	Reason string
-}
-
-func (e *ParamError) Error() string {
-	return fmt.Sprintf("simulate: %s: %s", e.Field, e.Reason)
-}
+// ParamError reports an input that the simulation refuses, naming the field and the
+// reason: the engine's one error type.
+type ParamError = param.Error
 
 func paramErr(field, format string, args ...any) error {
-	return &ParamError{Field: field, Reason: fmt.Sprintf(format, args...)}
+	return param.Errorf(field, format, args...)
 }

@@ -6,20 +6,23 @@ import (
 	"math"
 
 	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/param"
 	"hdrisk/engine/scenario"
 )
 
-// Ratio is the BestSpec.Over that moves l1 and l2 together, keeping l1/l2 as the scenario
-// states it (an elastic net along a fixed mix).
+// Ratio is the BestSpec.Over that moves every strength of the penalty together, keeping
+// their ratios as the scenario states them (for the elastic net, l1 and l2 along a fixed
+// mix); Value is then the first strength.
 const Ratio = "l1+l2"
 
 // BestSpec says which regularization Best varies and where it looks.
 type BestSpec struct {
-	// Over is the weight to vary: "l1", "l2", Ratio, or any other field with positive values
-	// ("weight", "width", ...). Empty: "l1" when the penalty has one, else "l2".
+	// Over is the weight to vary: a strength of the penalty ("l1", "l2", "weight", ...),
+	// Ratio, or any other field with positive values ("width", ...). Empty: the penalty's
+	// first strength (see DefaultOver).
 	Over string
 	// Lo and Hi bound the search (default 1e-8 and 1e4, clipped to the field's range). With
-	// Ratio they bound l1.
+	// Ratio they bound the first strength.
 	Lo, Hi float64
 	// PerDecade is the density of the bracketing grid, in points per factor of 10 (default 4).
 	PerDecade int
@@ -39,7 +42,7 @@ const (
 // BestResult is the regularization with the lowest MSE.
 type BestResult struct {
 	Over     string            // the field that was varied
-	Value    float64           // its best value (with Ratio: the best l1)
+	Value    float64           // its best value (with Ratio: of the first strength)
 	MSE      float64           // the MSE there
 	AtBound  string            // "" when the minimum is interior to [Lo, Hi], else Lower or Upper
 	Note     string            // why a bound was reported short of Lo or Hi, in words
@@ -49,13 +52,27 @@ type BestResult struct {
 	Solves   int               // fixed points computed
 }
 
-// DefaultOver returns the weight Best varies when none is named: "l1" when the penalty of s
-// has one, else "l2"; "" when it has neither.
-func DefaultOver(s scenario.Scenario) string {
-	for _, f := range []string{"l1", "l2"} {
-		if fullPath(s, f) == "penalty."+f {
-			return f
+// Strengths lists the penalty's strengths in s (its parameters with the role
+// param.Strength), in the registry's order.
+func Strengths(s scenario.Scenario) []scenario.PathInfo { return strengths(s.Paths()) }
+
+func strengths(paths []scenario.PathInfo) []scenario.PathInfo {
+	var out []scenario.PathInfo
+	for _, p := range paths {
+		if p.Object == "penalty" && p.Role == param.Strength {
+			out = append(out, p)
 		}
+	}
+	return out
+}
+
+// DefaultOver returns the weight Best varies when none is named: the first strength of
+// the penalty of s (l1 before l2); "" when it has none.
+func DefaultOver(s scenario.Scenario) string { return defaultOver(s.Paths()) }
+
+func defaultOver(paths []scenario.PathInfo) string {
+	if st := strengths(paths); len(st) > 0 {
+		return st[0].Name
 	}
 	return ""
 }
@@ -76,7 +93,16 @@ func DefaultOver(s scenario.Scenario) string {
 // the bound, at the lowest point, with a Note. An error is returned when no point of the
 // grid converges, for an unknown field, and for bounds that are not 0 < Lo < Hi.
 func Best(ctx context.Context, s scenario.Scenario, spec BestSpec) (BestResult, error) {
-	b, err := newBestRun(s, spec)
+	c, err := s.Check()
+	if err != nil {
+		return BestResult{}, err
+	}
+	return BestChecked(ctx, c, spec)
+}
+
+// BestChecked is Best over a scenario checked already.
+func BestChecked(ctx context.Context, c scenario.Checked, spec BestSpec) (BestResult, error) {
+	b, err := newBestRun(c, spec)
 	if err != nil {
 		return BestResult{}, err
 	}
@@ -84,39 +110,54 @@ func Best(ctx context.Context, s scenario.Scenario, spec BestSpec) (BestResult, 
 }
 
 type bestRun struct {
-	s      scenario.Scenario
+	c      scenario.Checked
 	spec   BestSpec
-	ratio  float64 // l2/l1, with Ratio
+	first  scenario.Binding // the field varied (with Ratio, the first strength)
+	others []string         // with Ratio: the other strengths, set to ratios[i] times the first
+	ratios []float64
 	rho2   float64
 	w      walker
 	solves int
 }
 
-func newBestRun(s scenario.Scenario, spec BestSpec) (*bestRun, error) {
+func newBestRun(c scenario.Checked, spec BestSpec) (*bestRun, error) {
+	paths := c.Paths()
+	kind := c.Scenario().Penalty.Kind
 	if spec.Over == "" {
-		spec.Over = DefaultOver(s)
+		spec.Over = defaultOver(paths)
 		if spec.Over == "" {
-			return nil, specErr("over", "the %s penalty has no l1 or l2 weight; name the field to vary (%s)", s.Penalty.Kind, fieldList(s))
+			return nil, specErr("over", "the %s penalty has no strength; name the field to vary (%s)", kind, fieldList(paths))
 		}
 	}
-	b := &bestRun{s: s, spec: spec}
+	b := &bestRun{c: c, spec: spec}
 	field := spec.Over
 	if spec.Over == Ratio {
-		l1, err1 := s.Get("l1")
-		l2, err2 := s.Get("l2")
-		if err1 != nil || err2 != nil || fullPath(s, "l1") != "penalty.l1" || fullPath(s, "l2") != "penalty.l2" {
-			return nil, specErr("over", "%s needs a penalty with both l1 and l2 (the %s penalty)", Ratio, s.Penalty.Kind)
+		st := strengths(paths)
+		if len(st) < 2 {
+			return nil, specErr("over", "%s needs a penalty with two strengths or more (the %s penalty)", Ratio, kind)
 		}
-		if !(l1 > 0 && l2 > 0) {
-			return nil, specErr("over", "%s keeps l2/l1 fixed, so both must be > 0 (l1 %v, l2 %v)", Ratio, l1, l2)
+		v := make([]float64, len(st))
+		for i, p := range st {
+			v[i], _ = c.Get(p.Path)
+			if !(v[i] > 0) {
+				return nil, specErr("over", "%s keeps the ratios of the strengths fixed, so each must be > 0 (%s %v)", Ratio, p.Name, v[i])
+			}
+			if i > 0 {
+				b.others = append(b.others, p.Path)
+				b.ratios = append(b.ratios, v[i]/v[0])
+			}
 		}
-		b.ratio = l2 / l1
-		field = "l1"
+		field = st[0].Path
 	}
-	info, ok := pathInfo(s, field)
+	info, ok := pathInfo(paths, field)
 	if !ok {
-		return nil, specErr("over", "%q is not a field of this scenario (%s)", field, fieldList(s))
+		return nil, specErr("over", "%q is not a field of this scenario (%s)", field, fieldList(paths))
 	}
+	first, err := c.Bind(info.Path)
+	if err != nil {
+		return nil, err
+	}
+	b.first = first
 	if b.spec.Lo == 0 {
 		b.spec.Lo = math.Max(1e-8, info.Min)
 	}
@@ -140,17 +181,13 @@ func newBestRun(s scenario.Scenario, spec BestSpec) (*bestRun, error) {
 	if b.spec.Solver.Tol <= 0 {
 		b.spec.Solver.Tol = 1e-12
 	}
-	p, err := s.Problem()
-	if err != nil {
-		return nil, err
-	}
-	b.rho2 = p.Signal.Second()
+	b.rho2 = c.Problem().Signal.Second()
 	b.w = walker{opt: b.spec.Solver}
 	return b, nil
 }
 
-func pathInfo(s scenario.Scenario, name string) (scenario.PathInfo, bool) {
-	for _, p := range s.Paths() {
+func pathInfo(paths []scenario.PathInfo, name string) (scenario.PathInfo, bool) {
+	for _, p := range paths {
 		if p.Name == name || p.Path == name {
 			return p, true
 		}
@@ -158,16 +195,20 @@ func pathInfo(s scenario.Scenario, name string) (scenario.PathInfo, bool) {
 	return scenario.PathInfo{}, false
 }
 
-// at returns the scenario with the weight set to v.
-func (b *bestRun) at(v float64) (scenario.Scenario, error) {
-	if b.spec.Over != Ratio {
-		return b.s.With(b.spec.Over, v)
+// at returns the scenario with the weight set to v (with Ratio, every strength at its
+// ratio to v).
+func (b *bestRun) at(v float64) (scenario.Checked, error) {
+	c, err := b.first.At(v)
+	for i, path := range b.others {
+		if err != nil {
+			break
+		}
+		var o scenario.Binding
+		if o, err = c.Bind(path); err == nil {
+			c, err = o.At(v * b.ratios[i])
+		}
 	}
-	c, err := b.s.With("l1", v)
-	if err != nil {
-		return c, err
-	}
-	return c.With("l2", v*b.ratio)
+	return c, err
 }
 
 // eval solves at weight v and returns the MSE to minimize: +Inf where there is no
@@ -263,7 +304,7 @@ func (b *bestRun) golden(ctx context.Context, a, x, c, fx float64, px Point) (Po
 }
 
 func (b *bestRun) result(p Point, bound, note string) BestResult {
-	sc, _ := b.at(p.X)
+	c, _ := b.at(p.X)
 	return BestResult{Over: b.spec.Over, Value: p.X, MSE: p.Result.MSE, AtBound: bound, Note: note,
-		Lo: b.spec.Lo, Hi: b.spec.Hi, Result: p.Result, Scenario: sc, Solves: b.solves}
+		Lo: b.spec.Lo, Hi: b.spec.Hi, Result: p.Result, Scenario: c.Scenario(), Solves: b.solves}
 }

@@ -210,7 +210,6 @@ func TestBestErrors(t *testing.T) {
 		want      string
 	}{
 		{lasso(0.1), "l2", BestSpec{}, "l2"},
-		{`{"kind": "power", "weight": 0.1, "q": 1.5}`, "", BestSpec{}, "over"},
 		{lasso(0.1), Ratio, BestSpec{}, "over"},
 		{`{"kind": "elastic-net", "l1": 0.1, "l2": 0}`, Ratio, BestSpec{}, "over"},
 		{lasso(0.1), "l1", BestSpec{Lo: 1, Hi: 0.5}, "lo"},
@@ -221,6 +220,11 @@ func TestBestErrors(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%s over %q: error %v, want one naming %q", c.pen, c.over, err, c.want)
 		}
+	}
+	// The power penalty's one strength is its weight, found by its role rather than its name.
+	pw := scen(t, gaussDesign(0.5, "rows"), bgSignal(0.1, 1), 0.01, `{"kind": "power", "weight": 0.1, "q": 1.5}`)
+	if b, err := Best(context.Background(), pw, BestSpec{Lo: 1e-3, Hi: 10, Tol: 1e-3}); err != nil || b.Over != "weight" {
+		t.Errorf("power penalty, no field named: over %q, %v; want weight", b.Over, err)
 	}
 	s := scen(t, gaussDesign(0.5, "rows"), bgSignal(0.1, 1), 0.01, `{"kind": "huber", "l1": 0.1, "width": 0.5}`)
 	if b, err := Best(context.Background(), s, BestSpec{Over: "width", Lo: 1e-3, Hi: 1e3}); err != nil || b.Over != "width" {

@@ -1,16 +1,11 @@
 package study
 
-import "fmt"
+import "hdrisk/engine/param"
 
-// SpecError reports a study specification that cannot be carried out. Field names the
-// setting ("points", "from", "over", "target", ...) and Reason says why.
-type SpecError struct {
-	Field  string
-	Reason string
-}
-
-func (e *SpecError) Error() string { return "study: " + e.Field + ": " + e.Reason }
+// SpecError reports a study specification that cannot be carried out: the engine's one
+// error type, with Field naming the setting ("points", "from", "over", "target", ...).
+type SpecError = param.Error
 
 func specErr(field, format string, args ...any) *SpecError {
-	return &SpecError{Field: field, Reason: fmt.Sprintf(format, args...)}
+	return param.Errorf(field, format, args...)
 }

@@ -26,31 +26,28 @@ type Grid struct {
 // At returns the cell at column i (X[i]) and row j (Y[j]).
 func (g Grid) At(i, j int) Point { return g.Cells[j*len(g.X)+i] }
 
-func (m MapSpec) check(s scenario.Scenario) (xs, ys []float64, err error) {
-	if xs, err = m.X.check(s, scenario.MaxMapPoints); err != nil {
-		return nil, nil, prefix("x", err)
+// bind resolves both axes in c and checks their ends.
+func (m MapSpec) bind(c scenario.Checked) (bx, by scenario.Binding, xs, ys []float64, err error) {
+	if bx, xs, err = m.X.bind(c, scenario.MaxMapPoints, "x"); err != nil {
+		return bx, by, nil, nil, err
 	}
-	if ys, err = m.Y.check(s, scenario.MaxMapPoints); err != nil {
-		return nil, nil, prefix("y", err)
+	if by, ys, err = m.Y.bind(c, scenario.MaxMapPoints, "y"); err != nil {
+		return bx, by, nil, nil, err
 	}
-	px, py := fullPath(s, m.X.Over), fullPath(s, m.Y.Over)
+	px, py := bx.Info().Path, by.Info().Path
 	if px == py || (strings.HasPrefix(px, "noise.") && strings.HasPrefix(py, "noise.")) {
-		return nil, nil, specErr("y", "%s and %s state the same quantity; a map needs two different fields", m.X.Over, m.Y.Over)
+		return bx, by, nil, nil, specErr("y", "%s and %s state the same quantity; a map needs two different fields", m.X.Over, m.Y.Over)
 	}
-	return xs, ys, nil
-}
-
-// prefix names the axis in an error about one of the axis settings.
-func prefix(axis string, err error) error {
-	if e, ok := err.(*SpecError); ok {
-		return &SpecError{Field: axis + "." + e.Field, Reason: e.Reason}
-	}
-	return err
+	return bx, by, xs, ys, nil
 }
 
 // Rows returns the number of rows (values of Y) the map has, after checking spec against s.
 func (m MapSpec) Rows(s scenario.Scenario) (int, error) {
-	_, ys, err := m.check(s)
+	c, err := s.Check()
+	if err != nil {
+		return 0, err
+	}
+	_, _, _, ys, err := m.bind(c)
 	return len(ys), err
 }
 
@@ -63,7 +60,16 @@ func (m MapSpec) Rows(s scenario.Scenario) (int, error) {
 // marked as in Sweep. On cancellation MapRows returns the rows finished so far and
 // ctx.Err(). A row range outside [0, rows] is a *SpecError.
 func MapRows(ctx context.Context, s scenario.Scenario, spec MapSpec, rowFrom, rowTo int) ([]Point, error) {
-	xs, ys, err := spec.check(s)
+	c, err := s.Check()
+	if err != nil {
+		return nil, err
+	}
+	return MapRowsChecked(ctx, c, spec, rowFrom, rowTo)
+}
+
+// MapRowsChecked is MapRows over a scenario checked already.
+func MapRowsChecked(ctx context.Context, c scenario.Checked, spec MapSpec, rowFrom, rowTo int) ([]Point, error) {
+	_, by, xs, ys, err := spec.bind(c)
 	if err != nil {
 		return nil, err
 	}
@@ -73,7 +79,7 @@ func MapRows(ctx context.Context, s scenario.Scenario, spec MapSpec, rowFrom, ro
 	out := make([]Point, 0, (rowTo-rowFrom)*len(xs))
 	for j := rowFrom; j < rowTo; j++ {
 		row := make([]Point, len(xs))
-		if err := spec.row(ctx, s, xs, ys[j], row); err != nil {
+		if err := spec.row(ctx, by, xs, ys[j], row); err != nil {
 			return out, err
 		}
 		out = append(out, row...)
@@ -81,9 +87,14 @@ func MapRows(ctx context.Context, s scenario.Scenario, spec MapSpec, rowFrom, ro
 	return out, nil
 }
 
-// row fills one row of cells at Y = y.
-func (m MapSpec) row(ctx context.Context, s scenario.Scenario, xs []float64, y float64, row []Point) error {
-	sy, yerr := s.With(m.Y.Over, y)
+// row fills one row of cells at Y = y, with Y bound in by: X is bound once per row, in the
+// scenario at that y.
+func (m MapSpec) row(ctx context.Context, by scenario.Binding, xs []float64, y float64, row []Point) error {
+	var bx scenario.Binding
+	cy, yerr := by.At(y)
+	if yerr == nil {
+		bx, yerr = cy.Bind(m.X.Over)
+	}
 	w := walker{opt: m.Solver}
 	for i, x := range xs {
 		if err := ctx.Err(); err != nil {
@@ -93,7 +104,7 @@ func (m MapSpec) row(ctx context.Context, s scenario.Scenario, xs []float64, y f
 		if yerr != nil {
 			p = Point{Failed: yerr.Error()}
 		} else {
-			p = w.solve(sy.With(m.X.Over, x))
+			p = w.solve(bx.At(x))
 		}
 		p.X, p.Y = x, y
 		row[i] = p
@@ -108,7 +119,16 @@ func (m MapSpec) row(ctx context.Context, s scenario.Scenario, xs []float64, y f
 // Special cases are: the cells are identical for every number of workers (see MapRows); on
 // cancellation Map waits for the workers to stop and returns an empty Grid and ctx.Err().
 func Map(ctx context.Context, s scenario.Scenario, spec MapSpec, workers int, progress Progress) (Grid, error) {
-	xs, ys, err := spec.check(s)
+	c, err := s.Check()
+	if err != nil {
+		return Grid{}, err
+	}
+	return MapChecked(ctx, c, spec, workers, progress)
+}
+
+// MapChecked is Map over a scenario checked already.
+func MapChecked(ctx context.Context, c scenario.Checked, spec MapSpec, workers int, progress Progress) (Grid, error) {
+	_, by, xs, ys, err := spec.bind(c)
 	if err != nil {
 		return Grid{}, err
 	}
@@ -123,7 +143,7 @@ func Map(ctx context.Context, s scenario.Scenario, spec MapSpec, workers int, pr
 	for range workers {
 		wg.Go(func() {
 			for j := range rows {
-				done <- spec.row(ctx, s, xs, ys[j], g.Cells[j*len(xs):(j+1)*len(xs)])
+				done <- spec.row(ctx, by, xs, ys[j], g.Cells[j*len(xs):(j+1)*len(xs)])
 			}
 		})
 	}

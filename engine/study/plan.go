@@ -49,7 +49,20 @@ type PlanResult struct {
 // that is not finite (or an MSE target <= 0), bounds outside (0, scenario.MaxAlpha], and
 // the errors of Best.
 func Plan(ctx context.Context, s scenario.Scenario, spec PlanSpec) (PlanResult, error) {
-	pl := planner{s: s, spec: spec}
+	c, err := s.Check()
+	if err != nil {
+		return PlanResult{}, err
+	}
+	return PlanChecked(ctx, c, spec)
+}
+
+// PlanChecked is Plan over a scenario checked already.
+func PlanChecked(ctx context.Context, c scenario.Checked, spec PlanSpec) (PlanResult, error) {
+	alpha, err := c.Bind("design.alpha")
+	if err != nil {
+		return PlanResult{}, err
+	}
+	pl := planner{c: c, alpha: alpha, spec: spec}
 	if err := pl.init(); err != nil {
 		return PlanResult{}, err
 	}
@@ -57,7 +70,8 @@ func Plan(ctx context.Context, s scenario.Scenario, spec PlanSpec) (PlanResult, 
 }
 
 type planner struct {
-	s      scenario.Scenario
+	c      scenario.Checked
+	alpha  scenario.Binding
 	spec   PlanSpec
 	target float64 // MSE
 	solves int
@@ -86,11 +100,7 @@ func (pl *planner) init() error {
 	if sp.Tol <= 0 {
 		sp.Tol = 1e-8
 	}
-	p, err := pl.s.Problem()
-	if err != nil {
-		return err
-	}
-	rho2 := p.Signal.Second()
+	rho2 := pl.c.Problem().Signal.Second()
 	if sp.MSE {
 		if !(sp.Target > 0) {
 			return specErr("target", "an MSE target must be > 0, not %v", sp.Target)
@@ -104,11 +114,11 @@ func (pl *planner) init() error {
 
 // best returns the best-regularized point at alpha.
 func (pl *planner) best(ctx context.Context, alpha float64) (BestResult, error) {
-	sa, err := pl.s.With("alpha", alpha)
+	ca, err := pl.alpha.At(alpha)
 	if err != nil {
 		return BestResult{}, err
 	}
-	b, err := Best(ctx, sa, pl.spec.Best)
+	b, err := BestChecked(ctx, ca, pl.spec.Best)
 	pl.solves += b.Solves
 	if err != nil {
 		return BestResult{}, fmt.Errorf("at alpha = %v: %w", alpha, err)

@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/param"
 	"hdrisk/engine/scenario"
 )
 
@@ -54,43 +55,36 @@ func (a Axis) Values() ([]float64, error) {
 	return v, nil
 }
 
-// check validates the axis against s: the field exists and both end points are values the
-// scenario accepts (fields have interval ranges, so every value between them is accepted too).
-func (a Axis) check(s scenario.Scenario, maxPoints int) ([]float64, error) {
+// bind resolves the axis in c and checks that both end points are values the scenario
+// accepts (fields have interval ranges, so every value between them is accepted too). The
+// errors about the axis's own settings name them under axis ("x.points" for a map's x
+// axis; "points" when axis is empty); those of the scenario name its field.
+func (a Axis) bind(c scenario.Checked, maxPoints int, axis string) (scenario.Binding, []float64, error) {
 	if a.Over == "" {
-		return nil, specErr("over", "name the field to vary (%s)", fieldList(s))
+		return scenario.Binding{}, nil, param.Under(axis, specErr("over", "name the field to vary (%s)", fieldList(c.Paths())))
 	}
 	if a.Points > maxPoints {
-		return nil, specErr("points", "at most %d, not %d", maxPoints, a.Points)
+		return scenario.Binding{}, nil, param.Under(axis, specErr("points", "at most %d, not %d", maxPoints, a.Points))
 	}
 	v, err := a.Values()
 	if err != nil {
-		return nil, err
+		return scenario.Binding{}, nil, param.Under(axis, err)
 	}
-	if _, err := s.Get(a.Over); err != nil {
-		return nil, err
+	b, err := c.Bind(a.Over)
+	if err != nil {
+		return scenario.Binding{}, nil, err
 	}
 	for _, x := range []float64{a.From, a.To} {
-		if _, err := s.With(a.Over, x); err != nil {
-			return nil, err
+		if _, err := b.At(x); err != nil {
+			return scenario.Binding{}, nil, err
 		}
 	}
-	return v, nil
+	return b, v, nil
 }
 
-// fullPath returns the JSON path that a field name of s stands for, or "" if none.
-func fullPath(s scenario.Scenario, name string) string {
-	for _, p := range s.Paths() {
-		if p.Name == name || p.Path == name {
-			return p.Path
-		}
-	}
-	return ""
-}
-
-func fieldList(s scenario.Scenario) string {
+func fieldList(paths []scenario.PathInfo) string {
 	t := "this scenario has "
-	for i, p := range s.Paths() {
+	for i, p := range paths {
 		if i > 0 {
 			t += ", "
 		}
@@ -140,9 +134,19 @@ type SweepSpec struct {
 // the sweep goes on; a point that does not converge is returned with Result.Converged false.
 // On cancellation Sweep returns the points done so far and ctx.Err(). An invalid spec (an
 // unknown field, an end point outside the field's range, Points above
-// scenario.MaxSweepPoints) is an error before anything is solved.
+// scenario.MaxSweepPoints) and an invalid scenario are errors before anything is solved.
 func Sweep(ctx context.Context, s scenario.Scenario, spec SweepSpec, progress Progress) ([]Point, error) {
-	xs, err := spec.check(s, scenario.MaxSweepPoints)
+	c, err := s.Check()
+	if err != nil {
+		return nil, err
+	}
+	return SweepChecked(ctx, c, spec, progress)
+}
+
+// SweepChecked is Sweep over a scenario checked already. The swept field is bound once,
+// so that each point rebuilds only the law that holds it (see scenario.Binding.At).
+func SweepChecked(ctx context.Context, c scenario.Checked, spec SweepSpec, progress Progress) ([]Point, error) {
+	b, xs, err := spec.bind(c, scenario.MaxSweepPoints, "")
 	if err != nil {
 		return nil, err
 	}
@@ -152,7 +156,7 @@ func Sweep(ctx context.Context, s scenario.Scenario, spec SweepSpec, progress Pr
 		if err := ctx.Err(); err != nil {
 			return pts, err
 		}
-		p := w.solve(s.With(spec.Over, x))
+		p := w.solve(b.At(x))
 		p.X = x
 		pts = append(pts, p)
 		if progress != nil {
@@ -175,17 +179,16 @@ type walker struct {
 // warmFloor is the NMSE below which a fixed point counts as exact recovery for warm starts.
 const warmFloor = 1e-10
 
-func (w *walker) solve(s scenario.Scenario, err error) Point {
+func (w *walker) solve(c scenario.Checked, err error) Point {
 	if err != nil {
 		return Point{Failed: err.Error()}
 	}
-	p, err := s.Problem()
-	if err != nil {
-		return Point{Failed: err.Error()}
+	if g, ok := c.GLM(); ok {
+		return solveGLM(g, w.opt)
 	}
 	o := w.opt
 	o.Start = w.warm
-	r, err := fixedpoint.Solve(p, o)
+	r, err := fixedpoint.Solve(c.Problem(), o)
 	if err != nil {
 		return Point{Failed: err.Error()}
 	}

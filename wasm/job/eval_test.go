@@ -1,11 +1,12 @@
 package job
 
 import (
-	"encoding/json"
 	"testing"
 
 	"hdrisk/engine/fixedpoint"
 	"hdrisk/engine/scenario"
+	"hdrisk/engine/study"
+	"hdrisk/protocol"
 )
 
 // The eval job must hand on the engine's figures unchanged: this checks the glue, not the
@@ -27,21 +28,11 @@ func TestEvalPassesEngineFiguresThrough(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var replies []Reply
-	args, _ := json.Marshal(EvalArgs{Scenario: text})
-	Run(Request{ID: 9, Kind: "eval", Args: args}, func(r Reply) { replies = append(replies, r) })
-	last := replies[len(replies)-1]
-	if last.Type != Result {
-		t.Fatalf("eval failed: %+v", last)
+	got, _, fail := run(t, protocol.Eval, protocol.EvalArgs{Scenario: text})
+	if fail != "" {
+		t.Fatalf("eval failed: %s", fail)
 	}
-	var got Figures
-	if err := json.Unmarshal(last.Result, &got); err != nil {
-		t.Fatal(err)
-	}
-	if got.MSE != want.MSE || got.NMSEdB != want.NMSEdB || got.Susceptibility != want.Susceptibility ||
-		got.NonzeroFraction != want.NonZero || got.TPP != want.TPP || got.FDP != want.FDP ||
-		got.TrainError != want.TrainError || got.Converged != want.Converged ||
-		got.Iterations != want.Iterations || got.EstimateZero != want.EstimateZero {
+	if !samePoint(study.Point{Result: got}, study.Point{Result: want}) {
 		t.Errorf("eval job = %+v, engine = %+v", got, want)
 	}
 	if !got.Converged || got.MSE <= 0 {

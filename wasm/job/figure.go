@@ -1,102 +1,18 @@
 package job
 
 import (
-	"encoding/json"
 	"errors"
 	"math"
 
-	"hdrisk/ui/plot"
+	"hdrisk/engine/plot"
+	"hdrisk/protocol"
 )
 
-// SeriesArgs is a plot.Series that travels as JSON (NaN gaps as null).
-type SeriesArgs struct {
-	Name    string  `json:"name,omitempty"`
-	X       []Float `json:"x"`
-	Y       []Float `json:"y"`
-	Err     []Float `json:"err,omitempty"`
-	Missing []Float `json:"missing,omitempty"`
-	Marks   bool    `json:"marks,omitempty"`
-	NoLine  bool    `json:"no_line,omitempty"`
-	Dashed  bool    `json:"dashed,omitempty"`
+func init() {
+	Serve(protocol.Figure, func(a protocol.FigureArgs, _ func(int, int)) (protocol.FigureResult, error) { return Figure(a) })
 }
 
-// LineArgs is a plot.Line that travels as JSON.
-type LineArgs struct {
-	Title, XLabel, YLabel string
-	XLog, YLog            bool
-	Series                []SeriesArgs
-	VLines, HLines        []plot.Mark
-}
-
-// HeatArgs is a plot.Heat that travels as JSON (cells without a value as null).
-type HeatArgs struct {
-	Title, XLabel, YLabel, ZLabel string
-	X, Y, Z                       []Float
-	XLog, YLog                    bool
-	Lines                         []SeriesArgs
-	Levels                        []Float // nil: plot's default levels
-}
-
-// FigureArgs are the arguments of the "figure" kind: one of Line or Heat, rendered as SVG.
-// The page makes a PNG from the SVG itself, on a canvas of the browser.
-type FigureArgs struct {
-	Line *LineArgs `json:"line,omitempty"`
-	Heat *HeatArgs `json:"heat,omitempty"`
-}
-
-// FigureResult is the rendered figure: its SVG (base64 in JSON) and where its data area
-// lies, for the pointer readout.
-type FigureResult struct {
-	Data  []byte     `json:"data"`
-	Frame plot.Frame `json:"frame"`
-}
-
-func init() { Register("figure", runFigure) }
-
-// Floats converts numbers to their JSON form.
-func Floats(v []float64) []Float {
-	if v == nil {
-		return nil
-	}
-	out := make([]Float, len(v))
-	for i, x := range v {
-		out[i] = Float(x)
-	}
-	return out
-}
-
-func floats(v []Float) []float64 {
-	if v == nil {
-		return nil
-	}
-	out := make([]float64, len(v))
-	for i, x := range v {
-		out[i] = float64(x)
-	}
-	return out
-}
-
-// SeriesOf converts a plot.Series to its JSON form.
-func SeriesOf(s plot.Series) SeriesArgs {
-	return SeriesArgs{Name: s.Name, X: Floats(s.X), Y: Floats(s.Y), Err: Floats(s.Err), Missing: Floats(s.Missing),
-		Marks: s.Marks, NoLine: s.NoLine, Dashed: s.Dashed}
-}
-
-func (s SeriesArgs) series() plot.Series {
-	return plot.Series{Name: s.Name, X: floats(s.X), Y: floats(s.Y), Err: floats(s.Err), Missing: floats(s.Missing),
-		Marks: s.Marks, NoLine: s.NoLine, Dashed: s.Dashed}
-}
-
-// LineOf converts a plot.Line to its JSON form (its size is left to the defaults).
-func LineOf(l plot.Line) *LineArgs {
-	a := &LineArgs{Title: l.Title, XLabel: l.XLabel, YLabel: l.YLabel, XLog: l.XLog, YLog: l.YLog, VLines: finiteMarks(l.VLines), HLines: finiteMarks(l.HLines)}
-	for _, s := range l.Series {
-		a.Series = append(a.Series, SeriesOf(s))
-	}
-	return a
-}
-
-// finiteMarks drops marks that cannot be placed (and could not travel as JSON).
+// finiteMarks drops marks that cannot be placed.
 func finiteMarks(ms []plot.Mark) []plot.Mark {
 	var out []plot.Mark
 	for _, m := range ms {
@@ -107,55 +23,36 @@ func finiteMarks(ms []plot.Mark) []plot.Mark {
 	return out
 }
 
-// HeatOf converts a plot.Heat to its JSON form.
-func HeatOf(h plot.Heat) *HeatArgs {
-	a := &HeatArgs{Title: h.Title, XLabel: h.XLabel, YLabel: h.YLabel, ZLabel: h.ZLabel, X: Floats(h.X), Y: Floats(h.Y), Z: Floats(h.Z),
-		XLog: h.XLog, YLog: h.YLog, Levels: Floats(h.Levels)}
-	for _, s := range h.Lines {
-		a.Lines = append(a.Lines, SeriesOf(s))
-	}
-	return a
-}
-
-// Figure builds a figure and renders it as SVG. Special cases are: neither or both of Line
-// and Heat is an error; the errors of plot's Build and render are returned as they are.
-func Figure(a FigureArgs) (FigureResult, error) {
+// Figure builds a figure and renders it as SVG, and as PDF when asked. Special cases are: neither or both of Line
+// and Heat is an error; marks at a NaN or infinite place are left out; the errors of plot's
+// Build and render are returned as they are.
+func Figure(a protocol.FigureArgs) (protocol.FigureResult, error) {
 	var (
 		f   *plot.Figure
 		err error
 	)
 	switch {
 	case a.Line != nil && a.Heat == nil:
-		l := plot.Line{Title: a.Line.Title, XLabel: a.Line.XLabel, YLabel: a.Line.YLabel, XLog: a.Line.XLog, YLog: a.Line.YLog,
-			VLines: a.Line.VLines, HLines: a.Line.HLines}
-		for _, s := range a.Line.Series {
-			l.Series = append(l.Series, s.series())
-		}
+		l := *a.Line
+		l.VLines, l.HLines = finiteMarks(l.VLines), finiteMarks(l.HLines)
 		f, err = l.Build()
 	case a.Heat != nil && a.Line == nil:
-		h := plot.Heat{Title: a.Heat.Title, XLabel: a.Heat.XLabel, YLabel: a.Heat.YLabel, ZLabel: a.Heat.ZLabel,
-			X: floats(a.Heat.X), Y: floats(a.Heat.Y), Z: floats(a.Heat.Z), XLog: a.Heat.XLog, YLog: a.Heat.YLog, Levels: floats(a.Heat.Levels)}
-		for _, s := range a.Heat.Lines {
-			h.Lines = append(h.Lines, s.series())
-		}
-		f, err = h.Build()
+		f, err = a.Heat.Build()
 	default:
-		return FigureResult{}, errors.New("figure: give exactly one of line and heat")
+		return protocol.FigureResult{}, errors.New("figure: give exactly one of line and heat")
 	}
 	if err != nil {
-		return FigureResult{}, err
+		return protocol.FigureResult{}, err
 	}
 	data, err := f.SVG()
 	if err != nil {
-		return FigureResult{}, err
+		return protocol.FigureResult{}, err
 	}
-	return FigureResult{Data: data, Frame: f.Frame()}, nil
-}
-
-func runFigure(raw json.RawMessage, _ func(done, total int)) (any, error) {
-	var a FigureArgs
-	if err := json.Unmarshal(raw, &a); err != nil {
-		return nil, errors.New("figure arguments: " + err.Error())
+	r := protocol.FigureResult{Data: data, Frame: f.Frame()}
+	if a.PDF {
+		if r.PDF, err = f.PDF(); err != nil {
+			return protocol.FigureResult{}, err
+		}
 	}
-	return Figure(a)
+	return r, nil
 }

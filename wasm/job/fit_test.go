@@ -9,6 +9,8 @@ import (
 	"testing"
 
 	"hdrisk/engine/data"
+
+	"hdrisk/protocol"
 )
 
 func samplesText(x []float64) string {
@@ -33,7 +35,7 @@ func TestFitPassesEngineFitsThrough(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	r, err := Fit(FitArgs{Text: text, Method: FitBernoulli}, nil)
+	r, err := Fit(protocol.FitArgs{Text: text, Method: protocol.FitBernoulli}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -58,7 +60,7 @@ func TestFitPassesEngineFitsThrough(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	r, err = Fit(FitArgs{Text: text, Method: FitMixture, K: 2}, nil)
+	r, err = Fit(protocol.FitArgs{Text: text, Method: protocol.FitMixture, K: 2}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -67,72 +69,47 @@ func TestFitPassesEngineFitsThrough(t *testing.T) {
 	}
 }
 
-// Past MaxListValues samples the law used as is is their quantiles, which keep the range.
+// Past protocol.MaxListValues samples the law used as is is their quantiles, which keep the range.
 func TestFitQuantilesOfManySamples(t *testing.T) {
-	x := make([]float64, 3*MaxListValues+7)
+	x := make([]float64, 3*protocol.MaxListValues+7)
 	for i := range x {
 		x[i] = float64(i)
 	}
-	r, err := Fit(FitArgs{Text: samplesText(x)}, nil)
+	r, err := Fit(protocol.FitArgs{Text: samplesText(x)}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !r.Quantiles || len(r.Values) != MaxListValues {
+	if !r.Quantiles || len(r.Values) != protocol.MaxListValues {
 		t.Fatalf("quantiles %v, %d values", r.Quantiles, len(r.Values))
 	}
 	n := float64(len(x) - 1)
-	for _, i := range []int{0, MaxListValues / 2, MaxListValues - 1} {
-		want := (float64(i) + 0.5) / MaxListValues * n // the data are 0..n, so a quantile is its position
+	for _, i := range []int{0, protocol.MaxListValues / 2, protocol.MaxListValues - 1} {
+		want := (float64(i) + 0.5) / protocol.MaxListValues * n // the data are 0..n, so a quantile is its position
 		if math.Abs(r.Values[i]-want) > 1e-9 {
 			t.Errorf("quantile %d = %v, want %v", i, r.Values[i], want)
 		}
 	}
-	if r.Mean != Num(n/2) || r.Min != 0 || r.Max != Num(n) {
+	if r.Mean != protocol.Num(n/2) || r.Min != 0 || r.Max != protocol.Num(n) {
 		t.Errorf("mean %v min %v max %v", r.Mean, r.Min, r.Max)
 	}
 }
 
 func TestFitRefusals(t *testing.T) {
 	var le *data.LineError
-	if _, err := Fit(FitArgs{Text: "1\n2\nthree\n"}, nil); !errors.As(err, &le) || le.Line != 3 {
+	if _, err := Fit(protocol.FitArgs{Text: "1\n2\nthree\n"}, nil); !errors.As(err, &le) || le.Line != 3 {
 		t.Errorf("a word on line 3: err = %v", err)
 	}
-	if _, err := Fit(FitArgs{Text: "0\n0\n", Method: FitBernoulli}, nil); err == nil {
+	if _, err := Fit(protocol.FitArgs{Text: "0\n0\n", Method: protocol.FitBernoulli}, nil); err == nil {
 		t.Errorf("all zeros were fitted")
 	}
-	if _, err := Fit(FitArgs{Text: "1\n2\n", Method: FitMixture, K: 11}, nil); err == nil || !strings.HasPrefix(err.Error(), "k:") {
+	if _, err := Fit(protocol.FitArgs{Text: "1\n2\n", Method: protocol.FitMixture, K: 11}, nil); err == nil || !strings.HasPrefix(err.Error(), "k:") {
 		t.Errorf("k = 11: err = %v", err)
 	}
-	if _, err := Fit(FitArgs{Text: "1\n2\n", Method: "spline"}, nil); err == nil || !strings.HasPrefix(err.Error(), "method:") {
+	if _, err := Fit(protocol.FitArgs{Text: "1\n2\n", Method: "spline"}, nil); err == nil || !strings.HasPrefix(err.Error(), "method:") {
 		t.Errorf("unknown method: err = %v", err)
 	}
-	last, _ := runJob(t, "fit", FitArgs{Text: "1\n\n2,,3\n"})
-	if last.Type != Failed || !strings.Contains(last.Error, "line 3") {
+	last, _ := runJob(t, "fit", protocol.FitArgs{Text: "1\n\n2,,3\n"})
+	if last.Type != protocol.Failed || !strings.Contains(last.Error, "line 3") {
 		t.Errorf("an empty field on line 3: reply %+v", last)
-	}
-}
-
-func TestShortList(t *testing.T) {
-	v := []float64{1, 2.5, 3}
-	if got, d, q := ShortList(v, 100); fmt.Sprint(got) != "[1 2.5 3]" || d != 0 || q {
-		t.Errorf("a short list changed: %v %d %v", got, d, q)
-	}
-	rng := rand.New(rand.NewPCG(5, 6))
-	long := make([]float64, 1000)
-	for i := range long {
-		long[i] = 40 + 10*rng.Float64()
-	}
-	r, d, q := ShortList(long, 12000)
-	if q || d < 6 || d > 16 || listLen(r) > 12000 || len(r) != 1000 {
-		t.Fatalf("1000 values in 12000 characters: %d values at %d digits (quantiles %v), %d characters", len(r), d, q, listLen(r))
-	}
-	for i := range r {
-		if math.Abs(r[i]-long[i]) > 0.5*math.Pow(10, -float64(d-1))*long[i] {
-			t.Errorf("value %d rounded from %v to %v at %d digits", i, long[i], r[i], d)
-		}
-	}
-	r, d, q = ShortList(long, 1000)
-	if !q || d != 6 || listLen(r) > 1000 || len(r) < 50 || r[0] < 40 || r[len(r)-1] > 50 {
-		t.Errorf("1000 values in 1000 characters: %d quantiles at %d digits (%v), %d characters", len(r), d, q, listLen(r))
 	}
 }

@@ -4,6 +4,8 @@ import (
 	"encoding/json"
 	"os"
 	"testing"
+
+	"hdrisk/protocol"
 )
 
 // FuzzHandle feeds a worker arbitrary request texts: whatever arrives, the worker answers with
@@ -22,26 +24,26 @@ func FuzzHandle(f *testing.F) {
 	f.Add(`{"id":`)
 	f.Add(``)
 	f.Fuzz(func(t *testing.T, text string) {
-		var req Request
+		var req protocol.Request
 		if json.Unmarshal([]byte(text), &req) == nil && req.Kind != "eval" {
 			if _, known := runners[req.Kind]; known {
 				t.Skip()
 			}
 		}
-		var replies []Reply
-		Handle(text, func(r Reply) { replies = append(replies, r) })
+		var replies []protocol.Reply
+		Handle(text, func(r protocol.Reply) { replies = append(replies, r) })
 		if len(replies) == 0 {
 			t.Fatal("no reply")
 		}
 		last := replies[len(replies)-1]
-		if last.Type != Result && last.Type != Failed {
+		if last.Type != protocol.Result && last.Type != protocol.Failed {
 			t.Fatalf("last reply is %q", last.Type)
 		}
-		if last.Type == Failed && last.Error == "" {
+		if last.Type == protocol.Failed && last.Error == "" {
 			t.Fatal("an error reply says nothing")
 		}
 		for _, r := range replies[:len(replies)-1] {
-			if r.Type != Progress {
+			if r.Type != protocol.Progress {
 				t.Fatalf("a %q reply before the end", r.Type)
 			}
 		}

@@ -1,10 +1,8 @@
-// Package job is the protocol between the page and its compute workers, and the registry of
-// the kinds of work a worker can do. It holds no browser code, so it builds and tests natively.
+// Package job is the registry of the kinds of work a worker can do (the protocol's kinds,
+// package protocol) and runs them. It holds no browser code, so it builds and tests natively.
 //
-// The page posts a Request as JSON text; the worker answers with Replies as JSON text: any
-// number of "progress" replies, then exactly one "result" or "error". A worker runs one
-// request at a time. Cancelling is the page's business: it terminates the worker and starts
-// a fresh one, so a Runner never has to watch for cancellation.
+// A worker runs one request at a time. Cancelling is the page's business: it terminates the
+// worker and starts a fresh one, so a Runner never has to watch for cancellation.
 package job
 
 import (
@@ -13,37 +11,13 @@ import (
 	"sort"
 	"sync"
 	"time"
+
+	"hdrisk/protocol"
 )
-
-// Request is one piece of work. Args holds the arguments of Kind (see each kind's doc).
-type Request struct {
-	ID   uint64          `json:"id"`
-	Kind string          `json:"kind"`
-	Args json.RawMessage `json:"args"`
-}
-
-// Reply types.
-const (
-	Ready    = "ready"    // the worker has started and takes requests (ID 0)
-	Progress = "progress" // Done of Total steps are finished
-	Result   = "result"   // Result holds the kind's JSON result
-	Failed   = "error"    // Error says what went wrong
-	Fatal    = "fatal"    // the worker itself could not start (sent by the bootstrap script)
-)
-
-// Reply is one message from a worker.
-type Reply struct {
-	ID     uint64          `json:"id"`
-	Type   string          `json:"type"`
-	Done   int             `json:"done,omitempty"`
-	Total  int             `json:"total,omitempty"`
-	Result json.RawMessage `json:"result,omitempty"`
-	Error  string          `json:"error,omitempty"`
-}
 
 // Runner does the work of one kind. It decodes args itself, calls progress(done, total) as it
-// goes (as often as it likes; Run thins the calls out), and returns a value that encodes to
-// JSON. Errors name the argument and the reason.
+// goes (as often as it likes; Run thins the calls out), and returns a value that
+// protocol.Marshal encodes. Errors name the argument and the reason.
 type Runner func(args json.RawMessage, progress func(done, total int)) (any, error)
 
 var (
@@ -66,6 +40,18 @@ func Register(kind string, r Runner) {
 	runners[kind] = r
 }
 
+// Serve registers run as the worker side of the protocol's kind k: its arguments are
+// decoded as k's, and its result is k's result type.
+func Serve[A, R any](k protocol.Kind[A, R], run func(A, func(done, total int)) (R, error)) {
+	Register(k.Name, func(raw json.RawMessage, progress func(done, total int)) (any, error) {
+		a, err := k.DecodeArgs(raw)
+		if err != nil {
+			return nil, err
+		}
+		return run(a, progress)
+	})
+}
+
 // Kinds returns the registered kinds, sorted.
 func Kinds() []string {
 	mu.RLock()
@@ -86,12 +72,12 @@ const minGap = 50 * time.Millisecond
 // Failed reply. A panic in the runner is reported as a Failed reply, not propagated, so that
 // one bad request cannot take the worker down.
 // Special cases are: an unknown kind is a Failed reply naming it.
-func Run(req Request, emit func(Reply)) {
+func Run(req protocol.Request, emit func(protocol.Reply)) {
 	mu.RLock()
 	r, ok := runners[req.Kind]
 	mu.RUnlock()
 	if !ok {
-		emit(Reply{ID: req.ID, Type: Failed, Error: fmt.Sprintf("kind: unknown job kind %q", req.Kind)})
+		emit(protocol.Reply{ID: req.ID, Type: protocol.Failed, Error: fmt.Sprintf("kind: unknown job kind %q", req.Kind)})
 		return
 	}
 	var last time.Time
@@ -101,19 +87,19 @@ func Run(req Request, emit func(Reply)) {
 			return
 		}
 		last = now
-		emit(Reply{ID: req.ID, Type: Progress, Done: done, Total: total})
+		emit(protocol.Reply{ID: req.ID, Type: protocol.Progress, Done: done, Total: total})
 	}
 	v, err := call(r, req.Args, progress)
 	if err != nil {
-		emit(Reply{ID: req.ID, Type: Failed, Error: err.Error()})
+		emit(protocol.Reply{ID: req.ID, Type: protocol.Failed, Error: err.Error()})
 		return
 	}
-	b, err := json.Marshal(v)
+	b, err := protocol.Marshal(v)
 	if err != nil {
-		emit(Reply{ID: req.ID, Type: Failed, Error: "result: " + err.Error()})
+		emit(protocol.Reply{ID: req.ID, Type: protocol.Failed, Error: "result: " + err.Error()})
 		return
 	}
-	emit(Reply{ID: req.ID, Type: Result, Result: b})
+	emit(protocol.Reply{ID: req.ID, Type: protocol.Result, Result: b})
 }
 
 func call(r Runner, args json.RawMessage, progress func(int, int)) (v any, err error) {
@@ -126,11 +112,11 @@ func call(r Runner, args json.RawMessage, progress func(int, int)) (v any, err e
 }
 
 // Handle decodes one request text and runs it. It is what a worker does with each message.
-// Special cases are: text that is not a Request is a Failed reply with ID 0.
-func Handle(text string, emit func(Reply)) {
-	var req Request
+// Special cases are: text that is not a protocol.Request is a Failed reply with ID 0.
+func Handle(text string, emit func(protocol.Reply)) {
+	var req protocol.Request
 	if err := json.Unmarshal([]byte(text), &req); err != nil {
-		emit(Reply{Type: Failed, Error: "request: " + err.Error()})
+		emit(protocol.Reply{Type: protocol.Failed, Error: "request: " + err.Error()})
 		return
 	}
 	Run(req, emit)

@@ -5,6 +5,8 @@ import (
 	"errors"
 	"strings"
 	"testing"
+
+	"hdrisk/protocol"
 )
 
 func init() {
@@ -25,24 +27,24 @@ func init() {
 	})
 }
 
-func collect(text string) []Reply {
-	var out []Reply
-	Handle(text, func(r Reply) { out = append(out, r) })
+func collect(text string) []protocol.Reply {
+	var out []protocol.Reply
+	Handle(text, func(r protocol.Reply) { out = append(out, r) })
 	return out
 }
 
 func TestRunEndsWithOneResult(t *testing.T) {
 	replies := collect(`{"id":7,"kind":"test-count","args":1000}`)
 	last := replies[len(replies)-1]
-	if last.Type != Result || last.ID != 7 || string(last.Result) != `{"n":1000}` {
+	if last.Type != protocol.Result || last.ID != 7 || string(last.Result) != `{"n":1000}` {
 		t.Fatalf("last reply = %+v, want the result of job 7", last)
 	}
-	// Progress is thinned to one reply per 50 ms, but the final step always goes out.
+	// protocol.Progress is thinned to one reply per 50 ms, but the final step always goes out.
 	if len(replies) > 10 {
 		t.Errorf("%d replies for a job of a few microseconds; progress is not thinned", len(replies))
 	}
 	prev := replies[len(replies)-2]
-	if prev.Type != Progress || prev.Done != 1000 || prev.Total != 1000 {
+	if prev.Type != protocol.Progress || prev.Done != 1000 || prev.Total != 1000 {
 		t.Errorf("reply before the result = %+v, want progress 1000/1000", prev)
 	}
 }
@@ -60,7 +62,7 @@ func TestRunErrors(t *testing.T) {
 	}
 	for _, c := range cases {
 		replies := collect(c.text)
-		if len(replies) != 1 || replies[0].Type != Failed || !strings.Contains(replies[0].Error, c.want) {
+		if len(replies) != 1 || replies[0].Type != protocol.Failed || !strings.Contains(replies[0].Error, c.want) {
 			t.Errorf("%s: replies %+v, want one error containing %q", c.text, replies, c.want)
 		}
 	}

@@ -5,17 +5,17 @@ import (
 	"context"
 	"encoding/json"
 	"math"
-	"reflect"
 	"strings"
 	"testing"
 
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
-	"hdrisk/ui/plot"
+	"hdrisk/protocol"
 )
 
 // These tests check the glue of the study kinds: that the numbers of engine/study cross the
-// JSON protocol unchanged. The mathematics is tested in engine/study.
+// protocol unchanged. The mathematics is tested in engine/study.
 
 const studyScenario = `{"kind":"hdrisk.scenario","version":1,"title":"invented example",` +
 	`"design":{"shape":"gaussian","alpha":0.5,"scale":"rows"},` +
@@ -31,31 +31,31 @@ func decoded(t *testing.T) scenario.Scenario {
 	return s
 }
 
-// run sends args through the job protocol and decodes the result into out; it returns the
+// run sends args through the job protocol and decodes the result; it returns the number of
 // progress replies seen, or the error text of a failed job.
-func run(t *testing.T, kind string, args any, out any) (progress int, failure string) {
+func run[A, R any](t *testing.T, k protocol.Kind[A, R], args A) (out R, progress int, failure string) {
 	t.Helper()
-	raw, err := json.Marshal(args)
+	raw, err := k.EncodeArgs(args)
 	if err != nil {
 		t.Fatal(err)
 	}
-	var last Reply
-	Run(Request{ID: 1, Kind: kind, Args: raw}, func(r Reply) {
-		if r.Type == Progress {
+	var last protocol.Reply
+	Run(protocol.Request{ID: 1, Kind: k.Name, Args: raw}, func(r protocol.Reply) {
+		if r.Type == protocol.Progress {
 			progress++
 		}
 		last = r
 	})
-	if last.Type == Failed {
-		return progress, last.Error
+	if last.Type == protocol.Failed {
+		return out, progress, last.Error
 	}
-	if last.Type != Result {
-		t.Fatalf("%s ended with %+v", kind, last)
+	if last.Type != protocol.Result {
+		t.Fatalf("%s ended with %+v", k.Name, last)
 	}
-	if err := json.Unmarshal(last.Result, out); err != nil {
+	if out, err = k.DecodeResult(last.Result); err != nil {
 		t.Fatal(err)
 	}
-	return progress, ""
+	return out, progress, ""
 }
 
 func samePoint(a, b study.Point) bool {
@@ -69,59 +69,57 @@ func samePoint(a, b study.Point) bool {
 }
 
 func TestSweepJobMatchesEngine(t *testing.T) {
-	ax := Axis{Over: "l1", From: 1e-3, To: 10, Points: 40, Log: true}
-	want, err := study.Sweep(context.Background(), decoded(t), study.SweepSpec{Axis: ax.study()}, nil)
+	ax := study.Axis{Over: "l1", From: 1e-3, To: 10, Points: 40, Log: true}
+	want, err := study.Sweep(context.Background(), decoded(t), study.SweepSpec{Axis: ax}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	var got SweepResult
-	if _, fail := run(t, "sweep", SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: ax}, &got); fail != "" {
+	got, _, fail := run(t, protocol.Sweep, protocol.SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: ax})
+	if fail != "" {
 		t.Fatal(fail)
 	}
 	if len(got.Points) != len(want) {
 		t.Fatalf("%d points, want %d", len(got.Points), len(want))
 	}
 	for i := range want {
-		if p := got.Points[i].Point(); !samePoint(p, want[i]) {
+		if p := got.Points[i]; !samePoint(p, want[i]) {
 			t.Errorf("point %d: job %+v, engine %+v", i, p, want[i])
 		}
 	}
 	// Two blocks swept apart: the same x values, numbers within the solver's tolerance.
-	var joined []Cell
+	var joined []study.Point
 	for _, b := range [][2]int{{0, 25}, {25, 40}} {
-		var part SweepResult
-		if _, fail := run(t, "sweep", SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: ax, PointFrom: b[0], PointTo: b[1]}, &part); fail != "" {
+		part, _, fail := run(t, protocol.Sweep, protocol.SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: ax, PointFrom: b[0], PointTo: b[1]})
+		if fail != "" {
 			t.Fatal(fail)
 		}
 		joined = append(joined, part.Points...)
 	}
 	for i := range want {
-		p := joined[i].Point()
+		p := joined[i]
 		if p.X != want[i].X || p.OK() != want[i].OK() || math.Abs(p.Result.MSE-want[i].Result.MSE) > 1e-9*want[i].Result.MSE {
 			t.Errorf("block point %d: (%v, %v), whole sweep (%v, %v)", i, p.X, p.Result.MSE, want[i].X, want[i].Result.MSE)
 		}
 	}
-	var none SweepResult
-	if _, fail := run(t, "sweep", SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: ax, PointFrom: 30, PointTo: 41}, &none); !strings.Contains(fail, "point") {
+	if _, _, fail := run(t, protocol.Sweep, protocol.SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: ax, PointFrom: 30, PointTo: 41}); !strings.Contains(fail, "point") {
 		t.Errorf("a block past the last point should be refused: %q", fail)
 	}
-	if _, fail := run(t, "sweep", SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: Axis{Over: "nothing", From: 1, To: 2, Points: 3}}, &none); !strings.Contains(fail, "nothing") {
+	if _, _, fail := run(t, protocol.Sweep, protocol.SweepArgs{Scenario: json.RawMessage(studyScenario), Axis: study.Axis{Over: "nothing", From: 1, To: 2, Points: 3}}); !strings.Contains(fail, "nothing") {
 		t.Errorf("an unknown field should be named: %q", fail)
 	}
 }
 
 // Blocks of rows computed apart must put together the map that study.Map computes at once.
 func TestMapBlocksAssembleEngineMap(t *testing.T) {
-	x := Axis{Over: "l1", From: 1e-2, To: 1, Points: 7, Log: true}
-	y := Axis{Over: "alpha", From: 0.2, To: 1.5, Points: 5}
-	want, err := study.Map(context.Background(), decoded(t), study.MapSpec{X: x.study(), Y: y.study()}, 1, nil)
+	x := study.Axis{Over: "l1", From: 1e-2, To: 1, Points: 7, Log: true}
+	y := study.Axis{Over: "alpha", From: 0.2, To: 1.5, Points: 5}
+	want, err := study.Map(context.Background(), decoded(t), study.MapSpec{X: x, Y: y}, 1, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	var cells []Cell
+	var cells []study.Point
 	for _, b := range [][2]int{{0, 2}, {2, 3}, {3, 5}} {
-		var got MapResult
-		n, fail := run(t, "map_rows", MapArgs{Scenario: json.RawMessage(studyScenario), X: x, Y: y, RowFrom: b[0], RowTo: b[1]}, &got)
+		got, n, fail := run(t, protocol.MapRows, protocol.MapArgs{Scenario: json.RawMessage(studyScenario), X: x, Y: y, RowFrom: b[0], RowTo: b[1]})
 		if fail != "" {
 			t.Fatal(fail)
 		}
@@ -131,12 +129,11 @@ func TestMapBlocksAssembleEngineMap(t *testing.T) {
 		cells = append(cells, got.Cells...)
 	}
 	for k, c := range cells {
-		if !samePoint(c.Point(), want.Cells[k]) {
-			t.Errorf("cell %d: job %+v, engine %+v", k, c.Point(), want.Cells[k])
+		if !samePoint(c, want.Cells[k]) {
+			t.Errorf("cell %d: job %+v, engine %+v", k, c, want.Cells[k])
 		}
 	}
-	var bad MapResult
-	if _, fail := run(t, "map_rows", MapArgs{Scenario: json.RawMessage(studyScenario), X: x, Y: y, RowFrom: 3, RowTo: 9}, &bad); !strings.Contains(fail, "rows") {
+	if _, _, fail := run(t, protocol.MapRows, protocol.MapArgs{Scenario: json.RawMessage(studyScenario), X: x, Y: y, RowFrom: 3, RowTo: 9}); !strings.Contains(fail, "rows") {
 		t.Errorf("a block past the last row should be refused naming the rows: %q", fail)
 	}
 }
@@ -147,11 +144,11 @@ func TestBestPlanBayesJobsMatchEngine(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var b BestOut
-	if _, fail := run(t, "best", BestArgs{Scenario: json.RawMessage(studyScenario), Over: "l1"}, &b); fail != "" {
+	b, _, fail := run(t, protocol.Best, protocol.BestArgs{Scenario: json.RawMessage(studyScenario), Over: "l1"})
+	if fail != "" {
 		t.Fatal(fail)
 	}
-	if float64(b.Value) != wb.Value || float64(b.MSE) != wb.MSE || b.AtBound != wb.AtBound || b.Solves != wb.Solves {
+	if b.Value != wb.Value || b.MSE != wb.MSE || !samePoint(study.Point{Result: b.Result}, study.Point{Result: wb.Result}) || b.AtBound != wb.AtBound || b.Solves != wb.Solves {
 		t.Errorf("best job %+v, engine %+v", b, wb)
 	}
 
@@ -159,18 +156,18 @@ func TestBestPlanBayesJobsMatchEngine(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var p PlanOut
-	if _, fail := run(t, "plan", PlanArgs{Scenario: json.RawMessage(studyScenario), Target: -15, AlphaMax: 3}, &p); fail != "" {
+	p, _, fail := run(t, protocol.Plan, protocol.PlanArgs{Scenario: json.RawMessage(studyScenario), Target: -15, AlphaMax: 3})
+	if fail != "" {
 		t.Fatal(fail)
 	}
-	if float64(p.Alpha) != wp.Alpha || p.Reached != wp.Reached || p.Reason != wp.Reason || float64(p.Best.Value) != wp.Best.Value {
+	if p.Alpha != wp.Alpha || p.Reached != wp.Reached || p.Reason != wp.Reason || p.Best.Value != wp.Best.Value {
 		t.Errorf("plan job %+v, engine %+v", p, wp)
 	}
 	if !p.Reached {
 		t.Errorf("the invented example should reach -15 dB below alpha = 3: %s", p.Reason)
 	}
-	var far PlanOut
-	if _, fail := run(t, "plan", PlanArgs{Scenario: json.RawMessage(studyScenario), Target: -80, AlphaMax: 0.3}, &far); fail != "" {
+	far, _, fail := run(t, protocol.Plan, protocol.PlanArgs{Scenario: json.RawMessage(studyScenario), Target: -80, AlphaMax: 0.3})
+	if fail != "" {
 		t.Fatal(fail)
 	}
 	if far.Reached || far.Reason == "" {
@@ -182,31 +179,16 @@ func TestBestPlanBayesJobsMatchEngine(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var y BayesOut
-	if _, fail := run(t, "bayes", BayesArgs{Scenario: json.RawMessage(studyScenario)}, &y); fail != "" {
+	y, _, fail := run(t, protocol.Bayes, protocol.BayesArgs{Scenario: json.RawMessage(studyScenario)})
+	if fail != "" {
 		t.Fatal(fail)
 	}
-	if float64(y.Uninformed.MSE) != wy.Uninformed.MSE || float64(y.Informed.NMSEdB) != wy.Informed.NMSEdB || y.Differ != wy.Differ {
+	if y.Uninformed.MSE != wy.Uninformed.MSE || y.Informed.NMSEdB != wy.Informed.NMSEdB || y.Differ != wy.Differ {
 		t.Errorf("bayes job %+v, engine %+v", y, wy)
 	}
 	lap := strings.Replace(studyScenario, `"law":"bernoulli-gauss","density":0.1,"variance":1`, `"law":"laplace","scale":1`, 1)
-	if _, fail := run(t, "bayes", BayesArgs{Scenario: json.RawMessage(lap)}, &y); !strings.Contains(fail, "signal") {
+	if _, _, fail := run(t, protocol.Bayes, protocol.BayesArgs{Scenario: json.RawMessage(lap)}); !strings.Contains(fail, "signal") {
 		t.Errorf("a Laplace signal has no Bayes reference here; the error should name the signal: %q", fail)
-	}
-}
-
-func TestFloatCarriesNonFinite(t *testing.T) {
-	in := []Float{Float(math.NaN()), Float(math.Inf(1)), 1.0 / 3, -0.0, 5e-324}
-	b, err := json.Marshal(in)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var out []Float
-	if err := json.Unmarshal(b, &out); err != nil {
-		t.Fatal(err)
-	}
-	if !math.IsNaN(float64(out[0])) || !math.IsNaN(float64(out[1])) || !reflect.DeepEqual(out[2:], in[2:]) {
-		t.Errorf("%s read back as %v", b, out)
 	}
 }
 
@@ -219,8 +201,8 @@ func TestFigureJobMatchesPlot(t *testing.T) {
 		t.Fatal(err)
 	}
 	wsvg, _ := want.SVG()
-	var got FigureResult
-	if _, fail := run(t, "figure", FigureArgs{Line: LineOf(l)}, &got); fail != "" {
+	got, _, fail := run(t, protocol.Figure, protocol.FigureArgs{Line: &l})
+	if fail != "" {
 		t.Fatal(fail)
 	}
 	if !bytes.Equal(got.Data, wsvg) || got.Frame != want.Frame() {
@@ -232,13 +214,13 @@ func TestFigureJobMatchesPlot(t *testing.T) {
 		t.Fatal(err)
 	}
 	hsvg, _ := hf.SVG()
-	if _, fail := run(t, "figure", FigureArgs{Heat: HeatOf(h)}, &got); fail != "" {
+	if got, _, fail = run(t, protocol.Figure, protocol.FigureArgs{Heat: &h}); fail != "" {
 		t.Fatal(fail)
 	}
 	if !bytes.Equal(got.Data, hsvg) || got.Frame != hf.Frame() {
 		t.Errorf("heat figure job differs from plot: frame %+v vs %+v", got.Frame, hf.Frame())
 	}
-	if _, fail := run(t, "figure", FigureArgs{}, &got); !strings.Contains(fail, "exactly one") {
+	if _, _, fail := run(t, protocol.Figure, protocol.FigureArgs{}); !strings.Contains(fail, "exactly one") {
 		t.Errorf("no figure: %q", fail)
 	}
 }

@@ -5,7 +5,6 @@
 package page
 
 import (
-	"encoding/json"
 	"errors"
 	"fmt"
 	"os"
@@ -16,6 +15,8 @@ import (
 	"github.com/vugu/vugu"
 	"github.com/vugu/vugu/domrender"
 
+	"hdrisk/engine/fixedpoint"
+	"hdrisk/protocol"
 	"hdrisk/ui"
 	"hdrisk/wasm/job"
 	"hdrisk/wasm/pool"
@@ -170,7 +171,7 @@ func (e *evaluator) settle(d time.Duration) {
 // cancelled evaluation changes nothing on the page.
 func (e *evaluator) Evaluate(scenario []byte, done func(ui.Figures, error)) func() {
 	cancelled := false
-	args, err := json.Marshal(job.EvalArgs{Scenario: scenario})
+	args, err := protocol.Eval.EncodeArgs(protocol.EvalArgs{Scenario: scenario})
 	e.mu.Lock()
 	e.running++
 	fromEvent, builds := !e.inBuild, e.builds
@@ -178,13 +179,15 @@ func (e *evaluator) Evaluate(scenario []byte, done func(ui.Figures, error)) func
 	go func() {
 		var f ui.Figures
 		if err == nil {
-			var last job.Reply
-			job.Run(job.Request{Kind: "eval", Args: args}, func(r job.Reply) { last = r })
+			var last protocol.Reply
+			job.Run(protocol.Request{Kind: protocol.Eval.Name, Args: args}, func(r protocol.Reply) { last = r })
 			switch {
-			case last.Type == job.Failed:
+			case last.Type == protocol.Failed:
 				err = errors.New(last.Error)
 			default:
-				err = json.Unmarshal(last.Result, &f)
+				var r fixedpoint.Result
+				r, err = protocol.Eval.DecodeResult(last.Result)
+				f = ui.FiguresOf(r)
 			}
 		}
 		e.env.Lock()

@@ -10,6 +10,8 @@ import (
 
 	"github.com/hack-pad/safejs"
 
+	"hdrisk/engine/plot"
+	"hdrisk/protocol"
 	"hdrisk/wasm/job"
 )
 
@@ -18,7 +20,7 @@ import (
 // must not block.
 func Serve() error {
 	self := safejs.Global()
-	post := func(r job.Reply) {
+	post := func(r protocol.Reply) {
 		b, err := json.Marshal(r)
 		if err != nil {
 			b = []byte(fmt.Sprintf(`{"id":%d,"type":"error","error":"reply: cannot encode"}`, r.ID))
@@ -42,10 +44,14 @@ func Serve() error {
 	}
 	if err != nil {
 		// Tell the page, or its jobs would wait for a worker that never becomes ready.
-		post(job.Reply{Type: job.Fatal, Error: "worker: onmessage: " + err.Error()})
+		post(protocol.Reply{Type: protocol.Fatal, Error: "worker: onmessage: " + err.Error()})
 		return fmt.Errorf("worker: onmessage: %w", err)
 	}
-	post(job.Reply{Type: job.Ready})
+	post(protocol.Reply{Type: protocol.Ready})
+	// The first figure a worker draws loads the font and warms the code that lays figures
+	// out (a quarter of a second in WebAssembly); doing it now, while the page starts,
+	// keeps that out of the first map's time to its figure.
+	plot.Warm()
 	for text := range requests {
 		job.Handle(text, post)
 	}

@@ -1,0 +1,53 @@
+package param
+
+import (
+	"errors"
+	"fmt"
+)
+
+// Error is the engine's one error for an input it refuses: Field names the value the way
+// the scenario file does ("l1", "penalty.l1", "signal.weights[3]"; empty when the problem
+// concerns the input as a whole) and Reason says what is wrong, in words a user can act on.
+type Error struct {
+	Field  string
+	Reason string
+}
+
+// Error returns "field: reason", or the reason alone when Field is empty.
+func (e *Error) Error() string {
+	if e.Field == "" {
+		return e.Reason
+	}
+	return e.Field + ": " + e.Reason
+}
+
+// Errorf returns an *Error with the reason formatted as by fmt.Sprintf.
+func Errorf(field, format string, args ...any) *Error {
+	if len(args) == 0 {
+		return &Error{Field: field, Reason: format}
+	}
+	return &Error{Field: field, Reason: fmt.Sprintf(format, args...)}
+}
+
+// Under places the field of err under prefix: an *Error for "l1" under "penalty" becomes
+// one for "penalty.l1"; one without a field takes prefix as its field. Any other error
+// becomes an *Error for prefix with the error's text as its reason. Under(prefix, nil) is
+// nil.
+func Under(prefix string, err error) error {
+	if err == nil {
+		return nil
+	}
+	var e *Error
+	if !errors.As(err, &e) {
+		return &Error{Field: prefix, Reason: err.Error()}
+	}
+	switch {
+	case prefix == "":
+		return e
+	case e.Field == "":
+		return &Error{Field: prefix, Reason: e.Reason}
+	case e.Field[0] == '[':
+		return &Error{Field: prefix + e.Field, Reason: e.Reason}
+	}
+	return &Error{Field: prefix + "." + e.Field, Reason: e.Reason}
+}
