@@ -124,6 +124,9 @@ const (
 	// MinPower is the smallest E[x0^2] solved: below, the weights and variances of the
 	// signal's components approach the subnormal numbers.
 	MinPower = 1e-280
+	// MaxSpread is the largest ratio of the largest to the smallest nonzero eigenvalue of a
+	// design held as atoms.
+	MaxSpread = 1e30
 )
 
 // Solve finds the fixed point of the state evolution and its observables.
@@ -170,6 +173,9 @@ func Solve(p Problem, o Options) (Result, error) {
 	}
 	if a := p.Design.Alpha(); a < MinAlpha {
 		return Result{}, fieldErr("design.alpha", "m/n = %v is below the solver's limit %v (fewer than one measurement per 100 million unknowns, where 1 - m/n rounds to 1): the error there is E[x0^2] to within m/n", a, MinAlpha)
+	}
+	if sp := design.Spread(p.Design); !(sp <= MaxSpread) {
+		return Result{}, fieldErr("design", "its nonzero eigenvalues spread over a factor %.3g, beyond the solver's limit %g (singular values over a factor 1e15), where the smallest ones are zeros to double precision: raise the smallest singular value (design.min, or the smallest of design.values), or give it as 0", sp, MaxSpread)
 	}
 	mean := p.Design.Mean()
 	if !(mean > 0) || math.IsInf(mean, 0) {
@@ -236,6 +242,10 @@ func refuse(q Problem) error {
 // interpolant), which lies beyond double precision.
 func (s *solver) diagnose() error {
 	pull := math.Abs(0.5-s.p.Penalty.Prox(0.5, 1)) / 0.5
+	if small := 1e-3; s.p.Penalty.Prox(small, 1) == small {
+		// Flat about 0 (a box without l2): small entries are left as they are.
+		pull = 0
+	}
 	if pull < 1e-9 && s.p.Design.Atom0() > 0 {
 		return fieldErr("penalty", "the penalty barely acts on entries of the size of the signal (it moves them by %.2g of their size) and %.3g of the design's eigenvalues are 0 (m/n = %v): the minimizer is not unique, or is the limit of a vanishing penalty, beyond the solver's reach; strengthen the penalty (a box penalty needs an l2 term here), or raise design.alpha", pull, s.p.Design.Atom0(), s.p.Design.Alpha())
 	}
