@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 
+	"hdrisk/engine/param"
 	"hdrisk/engine/scenario"
 )
 
@@ -31,17 +32,27 @@ const tunedWindow = 100
 // tuning the field the axis varies is an error, as are the errors of the spec's checks
 // (unknown field, range). On cancellation Tuned returns the points done and ctx.Err().
 func Tuned(ctx context.Context, s scenario.Scenario, spec SweepSpec, best BestSpec, progress Progress) ([]TunedPoint, error) {
-	xs, err := spec.check(s, scenario.MaxSweepPoints)
+	c, err := s.Check()
+	if err != nil {
+		return nil, err
+	}
+	return TunedChecked(ctx, c, spec, best, progress)
+}
+
+// TunedChecked is Tuned over a scenario checked already; the axis is bound once.
+func TunedChecked(ctx context.Context, c scenario.Checked, spec SweepSpec, best BestSpec, progress Progress) ([]TunedPoint, error) {
+	bx, xs, err := spec.bind(c, scenario.MaxSweepPoints, "")
 	if err != nil {
 		return nil, err
 	}
 	if best.Over == "" {
-		best.Over = DefaultOver(s)
+		best.Over = defaultOver(c.Paths())
 	}
-	if best.Over == spec.Over || (best.Over == Ratio && (spec.Over == "l1" || spec.Over == "l2")) {
+	ax := bx.Info()
+	if best.Over == ax.Name || best.Over == ax.Path || (best.Over == Ratio && ax.Object == "penalty" && ax.Role == param.Strength) {
 		return nil, specErr("best", "the sweep varies %s itself, so it cannot be re-tuned along the sweep", spec.Over)
 	}
-	if _, err := newBestRun(s, best); err != nil {
+	if _, err := newBestRun(c, best); err != nil {
 		return nil, err
 	}
 	out := make([]TunedPoint, 0, len(xs))
@@ -51,7 +62,7 @@ func Tuned(ctx context.Context, s scenario.Scenario, spec SweepSpec, best BestSp
 			return out, err
 		}
 		tp := TunedPoint{Point: Point{X: x}, Weight: math.NaN()}
-		sx, err := s.With(spec.Over, x)
+		sx, err := bx.At(x)
 		if err != nil {
 			tp.Failed = err.Error()
 		} else {
@@ -77,7 +88,7 @@ func Tuned(ctx context.Context, s scenario.Scenario, spec SweepSpec, best BestSp
 }
 
 // tunedAt runs Best at one point, first in the window around prev (when prev is a number).
-func tunedAt(ctx context.Context, s scenario.Scenario, best BestSpec, prev float64) (BestResult, error) {
+func tunedAt(ctx context.Context, s scenario.Checked, best BestSpec, prev float64) (BestResult, error) {
 	if !math.IsNaN(prev) && best.Lo == 0 && best.Hi == 0 {
 		near := best
 		near.Lo, near.Hi = prev/tunedWindow, prev*tunedWindow
@@ -86,11 +97,11 @@ func tunedAt(ctx context.Context, s scenario.Scenario, best BestSpec, prev float
 			near.Hi = math.Min(near.Hi, full.spec.Hi)
 		}
 		if near.Lo < near.Hi {
-			b, err := Best(ctx, s, near)
+			b, err := BestChecked(ctx, s, near)
 			if err == nil && b.AtBound == "" {
 				return b, nil
 			}
 		}
 	}
-	return Best(ctx, s, best)
+	return BestChecked(ctx, s, best)
 }
