@@ -65,7 +65,11 @@ func (s *solver) bracket() (Result, error) {
 	if err == nil && r.Iterations > 0 {
 		return r, nil
 	}
-	return s.observe(Result{G1: b.g1, T1: t1, G2: b.g2, Iterations: 1, Residual: math.Abs(f(y))})
+	r, err = s.observe(Result{G1: b.g1, T1: t1, G2: b.g2, Iterations: 1, Residual: math.Abs(f(y))})
+	if err != nil {
+		return Result{}, errNoBracket()
+	}
+	return r, nil
 }
 
 // crawls reports whether t1 = Phi(t1) fails to cross at r: Phi - t1 keeps its sign a factor
