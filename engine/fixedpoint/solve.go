@@ -116,6 +116,8 @@ const (
 	suspectT = 1e6
 
 	defaultMaxIter = 2000
+	// stallIter is how many steps a start may go without halving its best residual.
+	stallIter = 400
 
 	// MinAlpha is the smallest sampling ratio solved: below, the atom 1 - alpha of the
 	// design at zero is 1 to within 1e-8 and the observables differ from those of no
@@ -432,6 +434,7 @@ func (s *solver) run(st State) (Result, error) {
 	scale := s.rho2 + s.p.Noise*(1+1/s.p.Design.Mean()) + 1
 	damp := 0.5
 	prevRes := math.Inf(1)
+	bestRes, bestIt := math.Inf(1), 0
 	zeroCount := 0
 	var r Result
 	im, err := s.apply(g1, t1, math.NaN())
@@ -460,6 +463,13 @@ func (s *solver) run(st State) (Result, error) {
 				g1, t1, im = ng1, nt1, nim
 				continue
 			}
+		}
+		if im.res < bestRes/2 {
+			bestRes, bestIt = im.res, it
+		} else if it-bestIt > stallIter && s.o.MaxIter >= defaultMaxIter {
+			// No halving of the residual in stallIter steps: this start is stuck, and the
+			// bracketing strategy is cheaper than the rest of the budget.
+			break
 		}
 		if im.res > prevRes {
 			damp = math.Max(0.05, damp*0.5)
