@@ -426,44 +426,6 @@ func studyOf(m *Model, view string) *scenario.Study {
 	return &st
 }
 
-// fitStudy returns the study of s without the settings that no longer fit its problem (a
-// sweep over l1 after the penalty became ridge, a plan for a weight the penalty lost), so
-// that a change in the editor never makes the scenario invalid because of a study run
-// earlier. Special cases are: nil gives nil; a study with nothing left that fits gives nil.
-func fitStudy(s scenario.Scenario) *scenario.Study {
-	if s.Study == nil {
-		return nil
-	}
-	valid := func(st scenario.Study) bool {
-		t := s
-		t.Study = &st
-		return t.Validate() == nil
-	}
-	if valid(*s.Study) {
-		return s.Study
-	}
-	st := *s.Study
-	if st.Sweep != nil && !valid(scenario.Study{View: st.View, Sweep: st.Sweep}) {
-		st.Sweep = nil
-	}
-	if st.Map != nil && !valid(scenario.Study{View: st.View, Map: st.Map}) {
-		st.Map = nil
-	}
-	if st.Best != nil && !valid(scenario.Study{View: st.View, Best: st.Best}) {
-		st.Best = nil
-	}
-	if st.Plan != nil && !valid(scenario.Study{View: st.View, Plan: st.Plan}) {
-		st.Plan = nil
-	}
-	if st.Check != nil && !valid(scenario.Study{View: st.View, Check: st.Check}) {
-		st.Check = nil
-	}
-	if !valid(st) {
-		return nil
-	}
-	return &st
-}
-
 // pathCache keeps the numbers a study can vary for the last combination of kinds: they
 // depend on the kinds only, and checking the whole scenario at every render of three views
 // costs the page more than it may spend on a render.
@@ -479,7 +441,10 @@ func modelPaths(m *Model) []scenario.PathInfo {
 	if m == nil {
 		return nil
 	}
-	key := m.Kind("design") + "|" + m.Kind("signal") + "|" + m.Kind("penalty") + "|" + m.Scale
+	key := m.Scale
+	for _, g := range Groups() {
+		key += "|" + m.Kind(g.Name)
+	}
 	if key == pathCache.key && pathCache.paths != nil {
 		return pathCache.paths
 	}

@@ -70,14 +70,22 @@ type Result struct {
 	// the error floor below). A result with Converged false is the last iterate: a study
 	// must not use it as a best point, a planner answer or a contour without a mark.
 	Converged    bool
-	Residual     float64         // last relative change of (g1, t1)
-	EstimateZero bool            // the estimate is zero except on an exponentially small set
-	GLM          *GLMObservables // the generalized model's own observables (SolveGLM); nil from Solve
+	Residual     float64 // last relative change of (g1, t1)
+	EstimateZero bool    // the estimate is zero except on an exponentially small set
 	// Floor reports an error below FloorNMSE times E[x0^2], the solver's floor: the error
 	// is at most that (with noise 0 it falls to 0, exact recovery), not the printed digits.
 	Floor bool
 	// Note says in plain words which limit or special case applies, if any.
 	Note string
+
+	// Set by SolveGLM only (method.md section 10); zero from Solve.
+	GLM         bool    // solved as a generalized linear model
+	Labels      bool    // the readout gives labels: TestError and TrainMisfit apply
+	Cosine      float64 // lim <xhat, x0> / (|xhat| |x0|)
+	NormRatio   float64 // lim |xhat| / |x0|
+	TestError   float64 // P(sign of a fresh row's prediction != its fresh label)
+	TrainMisfit float64 // fraction of training labels that sign(F xhat) gets wrong
+	TrainLoss   float64 // (1/m) sum_mu L(y_mu, (F xhat)_mu)
 }
 
 // State returns the fixed point as a warm start for a neighbouring problem.

@@ -22,9 +22,18 @@ func Eval(args protocol.EvalArgs) (fixedpoint.Result, error) {
 	if err != nil {
 		return fixedpoint.Result{}, err
 	}
-	p, err := s.Problem()
+	c, err := s.Check()
 	if err != nil {
 		return fixedpoint.Result{}, err
 	}
-	return fixedpoint.Solve(p, fixedpoint.Options{})
+	return EvalChecked(c)
+}
+
+// EvalChecked solves the fixed point of a scenario checked already (the page's own
+// evaluation, which checked it once for the edit).
+func EvalChecked(c scenario.Checked) (fixedpoint.Result, error) {
+	if g, ok := c.GLM(); ok {
+		return fixedpoint.SolveGLM(g, fixedpoint.Options{})
+	}
+	return fixedpoint.Solve(c.Problem(), fixedpoint.Options{})
 }
