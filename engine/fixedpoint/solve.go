@@ -347,6 +347,27 @@ type solver struct {
 	o         Options
 	rho2      float64 // E[x0^2] in the solver's units: 1 to rounding
 	unbounded bool    // set by bracket when t1 = Phi(t1) has no root below tFar
+
+	// The last moments and where they were taken: the observables at the end of a run are
+	// taken where the last step of the iteration already evaluated them, and on a mixture
+	// of many components (Laplace, Student-t) that evaluation is most of a fixed point's time.
+	lastG1, lastT1 float64
+	last           signal.Moments
+	// jac is the Jacobian of the last Newton step, updated by Broyden's rule after each
+	// accepted step (valid when jacOK); see newton.
+	jac   [2][2]float64
+	jacOK bool
+}
+
+// expect returns the moments of the scalar channel at (g1, t1), reusing the last ones when
+// the point is the same.
+func (s *solver) expect(g1, t1 float64) signal.Moments {
+	if s.lastG1 == g1 && s.lastT1 == t1 && g1 > 0 {
+		return s.last
+	}
+	m := signal.Expect(s.p.Signal, s.p.Penalty, g1, t1)
+	s.lastG1, s.lastT1, s.last = g1, t1, m
+	return m
 }
 
 // coldStart starts sparse (method.md section 3): t1 = rho2 and g1 such that a threshold
@@ -374,7 +395,7 @@ type image struct {
 // apply evaluates the update map of the package comment at (g1, t1); near is a guess of g2.
 func (s *solver) apply(g1, t1, near float64) (image, error) {
 	p := s.p
-	m := signal.Expect(p.Signal, p.Penalty, g1, t1)
+	m := s.expect(g1, t1)
 	v := math.Max(m.A, zeroA) / g1
 	g2, err := invertS1(p.Design, v, near)
 	if err != nil {
@@ -395,12 +416,31 @@ func (s *solver) apply(g1, t1, near float64) (image, error) {
 // weakly (near alpha = 1, at vanishing penalties, near a recovery threshold).
 const newtonFrom = 1e-2
 
-// newton tries one Newton step on F(x) = log M(x) - x, x = (log g1, log t1), with a
-// forward-difference Jacobian and a step capped at a factor e^2 per coordinate; it returns the
-// new point only if the map's residual there is smaller than at the current one.
+// newton tries one Newton step on F(x) = log M(x) - x, x = (log g1, log t1), with a step
+// capped at a factor e^2 per coordinate; it returns the new point only if the map's residual
+// there is smaller than at the current one. The Jacobian is a forward difference at the first
+// step and is then carried by Broyden's update (Broyden 1965, Math. Comp. 19:577-593), which
+// saves the two evaluations of the map a difference costs (most of a fixed point's time on a
+// mixture of many components); a step the carried Jacobian cannot make is retried with a
+// fresh difference.
 func (s *solver) newton(g1, t1 float64, cur image) (float64, float64, image, bool) {
-	const h = 1e-6
 	f0 := [2]float64{math.Log(cur.g1 / g1), math.Log(cur.t1 / t1)}
+	if s.jacOK {
+		if ng1, nt1, im, ok := s.newtonStep(g1, t1, cur, f0, s.jac); ok {
+			return ng1, nt1, im, true
+		}
+	}
+	jac, ok := s.difference(g1, t1, cur, f0)
+	if !ok {
+		s.jacOK = false
+		return 0, 0, image{}, false
+	}
+	return s.newtonStep(g1, t1, cur, f0, jac)
+}
+
+// difference returns the forward-difference Jacobian of F at (g1, t1), where F = f0.
+func (s *solver) difference(g1, t1 float64, cur image, f0 [2]float64) ([2][2]float64, bool) {
+	const h = 1e-6
 	var jac [2][2]float64
 	for k := 0; k < 2; k++ {
 		pg, pt := g1, t1
@@ -411,12 +451,19 @@ func (s *solver) newton(g1, t1 float64, cur image) (float64, float64, image, boo
 		}
 		im, err := s.apply(pg, pt, cur.g2)
 		if err != nil || !(im.t1 > 0) {
-			return 0, 0, image{}, false
+			return jac, false
 		}
 		fk := [2]float64{math.Log(im.g1 / pg), math.Log(im.t1 / pt)}
 		jac[0][k] = (fk[0] - f0[0]) / h
 		jac[1][k] = (fk[1] - f0[1]) / h
 	}
+	return jac, true
+}
+
+// newtonStep takes the Newton step with the given Jacobian, halving it up to three times;
+// on success it stores the Broyden update of the Jacobian for the next step.
+func (s *solver) newtonStep(g1, t1 float64, cur image, f0 [2]float64, jac [2][2]float64) (float64, float64, image, bool) {
+	s.jacOK = false
 	det := jac[0][0]*jac[1][1] - jac[0][1]*jac[1][0]
 	if !(math.Abs(det) > 1e-300) {
 		return 0, 0, image{}, false
@@ -430,6 +477,16 @@ func (s *solver) newton(g1, t1 float64, cur image) (float64, float64, image, boo
 		ng1, nt1 := g1*math.Exp(d0), t1*math.Exp(d1)
 		im, err := s.apply(ng1, nt1, cur.g2)
 		if err == nil && im.res < cur.res {
+			if im.t1 > 0 {
+				// Broyden: J += (dF - J dx) dx^T / (dx . dx).
+				df := [2]float64{math.Log(im.g1/ng1) - f0[0], math.Log(im.t1/nt1) - f0[1]}
+				for i := 0; i < 2; i++ {
+					u := (df[i] - jac[i][0]*d0 - jac[i][1]*d1) / (d0*d0 + d1*d1)
+					jac[i][0] += u * d0
+					jac[i][1] += u * d1
+				}
+				s.jac, s.jacOK = jac, finiteAll(jac[0][0], jac[0][1], jac[1][0], jac[1][1])
+			}
 			return ng1, nt1, im, true
 		}
 		d0, d1 = d0/2, d1/2
@@ -439,6 +496,7 @@ func (s *solver) newton(g1, t1 float64, cur image) (float64, float64, image, boo
 
 func (s *solver) run(st State) (Result, error) {
 	g1, t1 := st.G1, st.T1
+	s.jacOK = false
 	scale := s.rho2 + s.p.Noise*(1+1/s.p.Design.Mean()) + 1
 	damp := 0.5
 	prevRes := math.Inf(1)
@@ -498,7 +556,7 @@ func (s *solver) run(st State) (Result, error) {
 // observe evaluates every observable at the final (g1, t1).
 func (s *solver) observe(r Result) (Result, error) {
 	p := s.p
-	m := signal.Expect(p.Signal, p.Penalty, r.G1, r.T1)
+	m := s.expect(r.G1, r.T1)
 	if m.A < zeroA {
 		return s.zeroResult(r.Iterations, r.G1, r.T1, m), nil
 	}
