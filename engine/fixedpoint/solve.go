@@ -502,6 +502,7 @@ func (s *solver) run(st State) (Result, error) {
 	prevRes := math.Inf(1)
 	bestRes, bestIt := math.Inf(1), 0
 	zeroCount := 0
+	newtonNext, newtonWait := 0, 1
 	var r Result
 	im, err := s.apply(g1, t1, math.NaN())
 	for it := 1; it <= s.o.MaxIter; it++ {
@@ -524,11 +525,17 @@ func (s *solver) run(st State) (Result, error) {
 			r.Converged = true
 			break
 		}
-		if im.res < newtonFrom {
+		if im.res < newtonFrom && it >= newtonNext {
 			if ng1, nt1, nim, ok := s.newton(g1, t1, im); ok {
 				g1, t1, im = ng1, nt1, nim
+				newtonWait = 1
 				continue
 			}
+			// A failed Newton step costs up to six evaluations of the map; where the map
+			// is too rough for it (quadrature noise at an extreme t1) it keeps failing,
+			// so the next try waits twice as long.
+			newtonNext = it + newtonWait
+			newtonWait *= 2
 		}
 		if im.res < bestRes/2 {
 			bestRes, bestIt = im.res, it
