@@ -242,10 +242,11 @@ func TestRandomScenarios(t *testing.T) {
 		}
 	}
 	// The solver's reach is not yet the whole domain: scenarios it can neither solve nor
-	// refuse for a stated reason are listed above and must stay below 1 % of the draws
-	// (0.4 % of the first 20000 when this bound was set; the goal is none).
-	if beyond*100 > n {
-		t.Errorf("%d of %d scenarios beyond the solver's reach, more than 1 %%", beyond, n)
+	// refuse for a stated reason are listed above and must stay below 0.1 % of the draws
+	// (4 of the first 20000 when this bound was set, down from 21 before an SNR beyond
+	// +-600 dB got its own account; the goal is none).
+	if beyond*1000 > n {
+		t.Errorf("%d of %d scenarios beyond the solver's reach, more than 0.1 %%", beyond, n)
 	}
 	t.Logf("%d scenarios, %v in Solve; the slowest %d:", n, total, len(slowest))
 	for _, sl := range slowest {
