@@ -11,6 +11,37 @@ generate() {
 	gofmt -w ui/*_gen.go
 }
 
+# examples writes ui/examples_data.go from testdata/scenarios (the go:generate step of ui/).
+examples() {
+	(cd ui && go run ./examplesmake)
+}
+
+# checkformat fails, listing them, when tracked or new Go files are not gofmt-formatted.
+checkformat() {
+	local bad
+	bad="$(gofmt -l $(git ls-files --cached --others --exclude-standard '*.go'))"
+	if [ -n "$bad" ]; then
+		echo "gofmt: these files are not formatted (run gofmt -w on them):" >&2
+		echo "$bad" >&2
+		return 1
+	fi
+}
+
+# checkgenerated regenerates the vugu and example files and fails when they differ from the
+# commit, or when a generated file is not committed at all.
+checkgenerated() {
+	generate
+	examples
+	local paths=(ui/*_gen.go ui/examples_data.go)
+	local new
+	new="$(git ls-files --others --exclude-standard -- "${paths[@]}")"
+	if ! git diff --exit-code --stat HEAD -- "${paths[@]}" || [ -n "$new" ]; then
+		[ -z "$new" ] || echo "$new"
+		echo "generated files differ from the commit: regenerate (./build.sh build; cd ui && go generate) and commit them" >&2
+		return 1
+	fi
+}
+
 build() {
 	generate
 	mkdir -p dist
@@ -46,8 +77,11 @@ serve)
 	exec go run ./internal/tools/serve -dir dist -port "$port"
 	;;
 test)
+	checkformat
+	checkgenerated
 	build
 	go vet ./...
+	GOOS=js GOARCH=wasm go vet ./wasm/... ./ui/... ./protocol/...
 	go test -count=1 ./...
 	;;
 *)

@@ -153,10 +153,13 @@ func TestCheckInPage(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	t0 := time.Now()
 	native, err := job.Check(protocol.CheckArgs{Scenario: scen, N: 500, Trials: 20, Seed: 1, Solver: "cd", Factors: "fast"}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
+	t.Logf("the same check natively in one process: %v (goal: the page within 2x); in the page %v on %s workers",
+		time.Since(t0).Round(time.Millisecond), elapsed.Round(time.Millisecond), b.cdJS(t, `String(hdriskJobs.size())`))
 	for name, w := range map[string]float64{"check_mean_mse": float64(native.MeanMSE), "check_stderr": float64(native.StdErr),
 		"check_predicted_mse": float64(native.PredictedMSE), "check_tpp": float64(native.TPP.Mean), "check_predicted_fdp": float64(native.FDP.Predicted)} {
 		if got := cdNum(t, figs, name); math.Abs(got-w) > 1e-6*math.Max(math.Abs(w), 1e-12) {
@@ -239,7 +242,7 @@ func TestDataInPage(t *testing.T) {
 	if err := chromedp.Run(b.ctx, chromedp.SetUploadFiles("#data-design-file", []string{path}, chromedp.ByQuery)); err != nil {
 		t.Fatal(err)
 	}
-	run, seen := b.cdWaitRun(t, "[data-part=design]", "[data-part=design] [role=status]", 80*time.Second)
+	run, seen := b.cdWaitRun(t, "[data-part=design]", "[data-part=design] [role=status]", 120*time.Second)
 	elapsed := time.Since(start)
 	if run != "done" {
 		t.Fatalf("reading the matrix ended %s: %s", run, b.text(t, "[data-part=design] .problem"))
@@ -302,6 +305,56 @@ func TestDataInPage(t *testing.T) {
 	b.checkNoNetwork(t)
 }
 
+// TestSpectrumInPage1500x3000 reads the size the issue measured (1500 x 3000, about 70 MB of
+// CSV) through the file box and logs the time of each step the page shows, beside the same
+// singular values computed natively; the summary must match them.
+func TestSpectrumInPage1500x3000(t *testing.T) {
+	dir := t.TempDir()
+	path, a := cdGaussianCSV(t, dir, 1500, 3000)
+	info, _ := os.Stat(path)
+	t0 := time.Now()
+	sv, err := data.SingularValues(context.Background(), a, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	nativeTime := time.Since(t0)
+	b, _ := cdLassoPage(t)
+	b.cdTab(t, "data")
+	start := time.Now()
+	if err := chromedp.Run(b.ctx, chromedp.SetUploadFiles("#data-design-file", []string{path}, chromedp.ByQuery)); err != nil {
+		t.Fatal(err)
+	}
+	var steps []string
+	deadline := time.Now().Add(170 * time.Second)
+	for {
+		out := b.cdJS(t, `(function(){const e=document.querySelector("[data-part=design]");const s=document.querySelector("[data-part=design] [role=status]");return e.getAttribute("data-run")+"|"+(s?s.textContent:"")})()`)
+		run, status, _ := strings.Cut(out, "|")
+		if status != "" && (len(steps) == 0 || !strings.HasPrefix(steps[len(steps)-1], status)) {
+			steps = append(steps, fmt.Sprintf("%s at %.1f s", status, time.Since(start).Seconds()))
+		}
+		if run != "running" && run != "idle" {
+			if run != "done" {
+				t.Fatalf("reading the matrix ended %s: %s", run, b.text(t, "[data-part=design] .problem"))
+			}
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("still running after 170 s: %q", steps)
+		}
+		time.Sleep(100 * time.Millisecond)
+	}
+	figs := b.figures(t)
+	t.Logf("1500 x 3000 Gaussian matrix (%.1f MB of CSV): %v in the page from choosing the file to the summary (%s; goal 20 s), %v natively for the singular values alone; steps shown: %q",
+		float64(info.Size())/1e6, time.Since(start).Round(time.Millisecond), b.text(t, "[data-figure=data_svd_seconds]"), nativeTime.Round(time.Millisecond), steps)
+	if figs["data_rows"] != "1500" || figs["data_rank"] != "1500" {
+		t.Errorf("summary rows %s rank %s", figs["data_rows"], figs["data_rank"])
+	}
+	if got, want := cdNum(t, figs, "data_condition"), sv[0]/sv[len(sv)-1]; math.Abs(got-want) > 1e-9*want {
+		t.Errorf("condition %v in the page, %v natively", got, want)
+	}
+	b.checkNoNetwork(t)
+}
+
 // TestDataErrorsAndSignalInPage feeds a bad file (the message names the line and the open
 // scenario stays) and then fits pasted samples and uses the fit as the signal. It is apart
 // from TestDataInPage so that each stays well inside the browser's time limit.
@@ -360,5 +413,115 @@ func TestDataErrorsAndSignalInPage(t *testing.T) {
 		t.Errorf("the signal menu shows %q after using the fit", law)
 	}
 	b.screenshot(t, "data-signal.png")
+	b.checkNoNetwork(t)
+}
+
+// cdMatrixMarket writes an invented m x n matrix with correlated columns (an AR(1) recursion
+// along each row) in Matrix Market array format and returns its path and text.
+func cdMatrixMarket(t *testing.T, dir string, m, n int) (string, string) {
+	rng := rand.New(rand.NewPCG(21, 22))
+	a := make([]float64, m*n) // column-major, as the format lists entries
+	for i := 0; i < m; i++ {
+		prev := rng.NormFloat64()
+		for j := 0; j < n; j++ {
+			if j > 0 {
+				prev = 0.7*prev + math.Sqrt(1-0.49)*rng.NormFloat64()
+			}
+			a[j*m+i] = prev / math.Sqrt(float64(m))
+		}
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "%%%%MatrixMarket matrix array real general\n%% invented for a browser test\n%d %d\n", m, n)
+	for _, v := range a {
+		fmt.Fprintf(&b, "%.8g\n", v)
+	}
+	path := filepath.Join(dir, fmt.Sprintf("invented-ar1-%dx%d.mtx", m, n))
+	if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path, b.String()
+}
+
+// TestMatrixCheckInPage uploads a matrix through the data tab, uses it as the design (m/n is
+// then locked to its shape), runs the check with the matrix itself to the end on the page's
+// workers, and compares the verdict with the same check run natively.
+func TestMatrixCheckInPage(t *testing.T) {
+	dir := t.TempDir()
+	const m, n, trials = 60, 120, 40
+	path, text := cdMatrixMarket(t, dir, m, n)
+	b, model := cdLassoPage(t)
+	b.cdTab(t, "data")
+	if err := chromedp.Run(b.ctx, chromedp.SetUploadFiles("#data-design-file", []string{path}, chromedp.ByQuery)); err != nil {
+		t.Fatal(err)
+	}
+	if run, _ := b.cdWaitRun(t, "[data-part=design]", "[data-part=design] [role=status]", 30*time.Second); run != "done" {
+		t.Fatalf("reading the matrix ended %s: %s", run, b.text(t, "[data-part=design] .problem"))
+	}
+	b.cdClick(t, "#data-design-use")
+	if state := b.settle(t); state != "ready" {
+		t.Fatalf("after using the matrix: data-state=%s: %s", state, b.text(t, ".problem"))
+	}
+	if got := b.cdJS(t, `(e=>e?e.readOnly+"|"+e.value:"missing")(document.getElementById("in-design-alpha"))`); got != "true|0.5" {
+		t.Errorf("m/n after using the matrix: readOnly|value = %s, want locked at 0.5", got)
+	}
+	if figs := b.figures(t); figs["data_alpha_locked"] != "true" {
+		t.Errorf("the data tab does not show m/n locked: %v", figs["data_alpha_locked"])
+	}
+	var used []float64
+	for _, w := range strings.Split(b.cdJS(t, `document.getElementById("in-design-empirical-sv-values").value`), ",") {
+		v, err := strconv.ParseFloat(strings.TrimSpace(w), 64)
+		if err != nil {
+			t.Fatalf("the editor's list of singular values holds %q", w)
+		}
+		used = append(used, v)
+	}
+
+	b.cdTab(t, "check")
+	if got := b.cdJS(t, `(c=>c?String(c.checked):"missing")(document.getElementById("check-with-matrix"))+"|"+document.getElementById("check-n").value`); got != "true|120" {
+		t.Fatalf("check view with the matrix: checked|n = %s", got)
+	}
+	b.typeInto(t, "#check-trials", strconv.Itoa(trials))
+	start := time.Now()
+	b.cdClick(t, "#check-run")
+	run, seen := b.cdWaitRun(t, "[data-view=check]", "[data-view=check] [role=status]", 120*time.Second)
+	if run != "done" {
+		t.Fatalf("check ended %s: %s", run, b.text(t, "[data-view=check] .problem"))
+	}
+	t.Logf("check with a %d x %d matrix, %d trials (each with the matrix and with random rotations): %v in the page on %s workers; progress seen: %q",
+		m, n, trials, time.Since(start).Round(time.Millisecond), b.cdJS(t, `String(hdriskJobs.size())`), seen)
+	b.screenshot(t, "check-matrix.png")
+	figs := b.figures(t)
+	if figs["check_agrees"] != "true" && figs["check_agrees"] != "false" {
+		t.Fatalf("no verdict shown: %v", figs)
+	}
+	t.Logf("verdict: %s", b.text(t, "[data-figure=check_agrees]"))
+
+	ch := model.Check()
+	if ch.Err != nil {
+		t.Fatal(ch.Err)
+	}
+	s := ch.Scenario
+	s.Design = scenario.Design{Shape: "empirical-sv", Alpha: 0.5, Scale: s.Design.Scale, Lists: map[string][]float64{"values": used}}
+	if err := model.Load(s); err != nil {
+		t.Fatal(err)
+	}
+	scen, err := model.JSON()
+	if err != nil {
+		t.Fatal(err)
+	}
+	native, err := job.Check(protocol.CheckArgs{Scenario: scen, N: n, Trials: trials, Seed: 1, Solver: "cd", Factors: "fast", Matrix: text}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	k := native.Comparison
+	for name, w := range map[string]float64{"check_matrix_mean_mse": float64(k.MatrixMeanMSE), "check_rotated_mean_mse": float64(k.RotatedMeanMSE),
+		"check_z": float64(k.Z), "check_mean_mse": float64(native.MeanMSE)} {
+		if got := cdNum(t, figs, name); math.Abs(got-w) > 1e-6*math.Max(math.Abs(w), 1e-12) {
+			t.Errorf("%s = %v in the page, %v natively", name, got, w)
+		}
+	}
+	if figs["check_agrees"] != strconv.FormatBool(k.Agrees) {
+		t.Errorf("check_agrees = %s in the page, %v natively", figs["check_agrees"], k.Agrees)
+	}
 	b.checkNoNetwork(t)
 }

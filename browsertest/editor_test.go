@@ -108,7 +108,7 @@ func TestEditorFollowsTyping(t *testing.T) {
 	if err := chromedp.Run(b.ctx, chromedp.Evaluate(`Array.from(document.querySelectorAll("select option")).map(o=>o.parentElement.id+"="+o.value)`, &options)); err != nil {
 		t.Fatal(err)
 	}
-	for _, g := range ui.Groups {
+	for _, g := range ui.Groups() {
 		for _, k := range g.Kinds {
 			if !strings.Contains(strings.Join(options, " "), "pick-"+g.Name+"="+k.Name) {
 				t.Errorf("menu %s lacks %s", g.Name, k.Name)

@@ -19,6 +19,31 @@ type CheckArgs struct {
 	// Curve, when set, asks for the prediction along an axis of the scenario as given (not
 	// moved to At): the line the checks are drawn over.
 	Curve *CurveSpec `json:"curve,omitempty"`
+	// First is the index of the first trial: trial t of this job draws from PCG(Seed,
+	// First+t), so that the trials of one check can be shared between workers and merged
+	// by MergeChecks into the numbers of one job.
+	First int `json:"first,omitempty"`
+	// Matrix, when set, is the text of the user's own matrix (as the data tab read it),
+	// held fixed as the design in every trial beside random rotations of its spectrum; the
+	// scenario's design must be its spectrum (the same m/n). MaxBytes caps it.
+	Matrix   string `json:"matrix,omitempty"`
+	MaxBytes int64  `json:"max_bytes,omitempty"`
+}
+
+// CheckComparison is the verdict of a check with the user's own matrix: the trials with the
+// matrix beside trials with random rotations of its spectrum (same x0 and w), and
+// z = (matrix - rotated) / sqrt(se_matrix^2 + se_rotated^2); Agrees is |z| <= 3.
+type CheckComparison struct {
+	MatrixMeanMSE       Num          `json:"matrix_mean_mse"`
+	MatrixStdErr        Num          `json:"matrix_stderr"`
+	RotatedMeanMSE      Num          `json:"rotated_mean_mse"`
+	RotatedStdErr       Num          `json:"rotated_stderr"`
+	RotatedFactors      string       `json:"rotated_factors"`
+	RotatedSolver       string       `json:"rotated_solver,omitempty"`
+	RotatedNotConverged int          `json:"rotated_not_converged"`
+	Z                   Num          `json:"z"`
+	Agrees              bool         `json:"agrees"`
+	RotatedPerTrial     []CheckTrial `json:"rotated_per_trial"`
 }
 
 // CurveSpec is an axis of the predicted curve: Points values of Over from From to To,
@@ -61,30 +86,33 @@ type CurvePoint struct {
 // CheckResult is the result of the "check" kind. The names of mean_mse, stderr, trials, n
 // and predicted_mse are those of `hdrisk check` (contract 3).
 type CheckResult struct {
-	MeanMSE             Num          `json:"mean_mse"`
-	StdErr              Num          `json:"stderr"`
-	Trials              int          `json:"trials"`
-	N                   int          `json:"n"`
-	M                   int          `json:"m"`
-	PredictedMSE        Num          `json:"predicted_mse"`
-	PredictionConverged bool         `json:"prediction_converged"`
-	Nonzero             CheckStat    `json:"nonzero_fraction"`
-	TPP                 CheckStat    `json:"tpp"`
-	FDP                 CheckStat    `json:"fdp"`
-	Seed                uint64       `json:"seed"`
-	Solver              string       `json:"solver"`
-	Factors             string       `json:"factors"`
-	Criterion           string       `json:"stop_criterion"`
-	Tol                 Num          `json:"tol"`
-	MaxIter             int          `json:"max_iter"`
-	Converged           bool         `json:"converged"` // every trial met its stopping rule
-	NotConverged        int          `json:"not_converged"`
-	Warnings            []string     `json:"warnings"`
-	Seconds             Num          `json:"seconds"`
-	PerTrial            []CheckTrial `json:"per_trial"`
-	Over                string       `json:"over,omitempty"`
-	At                  Num          `json:"at,omitempty"`
-	Curve               []CurvePoint `json:"curve,omitempty"`
+	MeanMSE             Num              `json:"mean_mse"`
+	StdErr              Num              `json:"stderr"`
+	Trials              int              `json:"trials"`
+	N                   int              `json:"n"`
+	M                   int              `json:"m"`
+	PredictedMSE        Num              `json:"predicted_mse"`
+	PredictionConverged bool             `json:"prediction_converged"`
+	Nonzero             CheckStat        `json:"nonzero_fraction"`
+	TPP                 CheckStat        `json:"tpp"`
+	FDP                 CheckStat        `json:"fdp"`
+	Seed                uint64           `json:"seed"`
+	Solver              string           `json:"solver"`
+	SolverNote          string           `json:"solver_note,omitempty"`
+	Factors             string           `json:"factors"`
+	Criterion           string           `json:"stop_criterion"`
+	Tol                 Num              `json:"tol"`
+	MaxIter             int              `json:"max_iter"`
+	Converged           bool             `json:"converged"` // every trial met its stopping rule
+	NotConverged        int              `json:"not_converged"`
+	Warnings            []string         `json:"warnings"`
+	Seconds             Num              `json:"seconds"`
+	PerTrial            []CheckTrial     `json:"per_trial"`
+	Over                string           `json:"over,omitempty"`
+	At                  Num              `json:"at,omitempty"`
+	Curve               []CurvePoint     `json:"curve,omitempty"`
+	First               int              `json:"first,omitempty"`
+	Comparison          *CheckComparison `json:"comparison,omitempty"`
 }
 
 // Check runs finite-size trials of a scenario.

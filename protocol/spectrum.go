@@ -50,13 +50,42 @@ type SpectrumResult struct {
 	SVDSeconds     Num          `json:"svd_seconds"` // 0 for a list
 }
 
-// Spectrum steps, as reported to progress (done of SpectrumSteps).
+// Progress of the "spectrum" kind, in thousandths of the work (done of SpectrumTotal): the
+// reading of the text up to SpectrumReadEnd, by the bytes read; then the steps of the
+// singular values (engine/data): the Gram product up to SpectrumGramEnd, the tridiagonal
+// reduction up to SpectrumReduceEnd, the eigenvalues up to SpectrumEigenEnd; then the
+// summary. The shares are rough measures of each step's time on a 1500 x 3000 matrix.
 const (
-	StepRead      = 0 // reading the text
-	StepSVD       = 1 // computing the singular values
-	StepSummary   = 2 // summarizing
-	SpectrumSteps = 3
+	SpectrumReadEnd   = 250
+	SpectrumGramEnd   = 650
+	SpectrumReduceEnd = 950
+	SpectrumEigenEnd  = 990
+	SpectrumTotal     = 1000
 )
+
+// Spectrum steps, named by SpectrumStep.
+const (
+	StepReading     = "reading"
+	StepGram        = "gram"
+	StepReduction   = "tridiagonal"
+	StepEigenvalues = "eigenvalues"
+	StepSummary     = "summary"
+)
+
+// SpectrumStep names the step a progress report of the "spectrum" kind falls in.
+func SpectrumStep(done int) string {
+	switch {
+	case done < SpectrumReadEnd:
+		return StepReading
+	case done < SpectrumGramEnd:
+		return StepGram
+	case done < SpectrumReduceEnd:
+		return StepReduction
+	case done < SpectrumEigenEnd:
+		return StepEigenvalues
+	}
+	return StepSummary
+}
 
 // Spectrum reads a matrix or a list and summarizes its singular values.
 var Spectrum = Kind[SpectrumArgs, SpectrumResult]{Name: "spectrum"}

@@ -8,6 +8,10 @@ self.onmessage = function (ev) {
 	const go = new Go();
 	WebAssembly.instantiate(m.module, go.importObject).then(function (instance) {
 		return go.run(instance);
+	}).then(function () {
+		// The Go program serves jobs until the worker ends; when it returns, the runtime
+		// stopped (out of memory or a fault): tell the page, which replaces the worker.
+		self.postMessage(JSON.stringify({ type: "fatal", error: "its program stopped, most likely out of memory" }));
 	}).catch(function (err) {
 		self.postMessage(JSON.stringify({ type: "fatal", error: String(err && err.message ? err.message : err) }));
 	});

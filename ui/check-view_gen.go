@@ -31,6 +31,7 @@ type CheckView struct {
 	Solver, Factors, Over string
 
 	nText, trialsText, seedText, atText string
+	trialsTyped, noMatrix               bool
 	run, problem                        string
 	settingsUsed                        scenario.Check
 	scen                                []byte
@@ -90,6 +91,55 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 				}
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 				vgparent.AppendChild(vgn)
+				if c.HasMatrix() {
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "check-matrix"}}}
+					vgparent.AppendChild(vgn)
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute(nil)}
+						vgparent.AppendChild(vgn)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-with-matrix"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "checkbox"}}}
+							vgparent.AppendChild(vgn)
+							{
+								b, err := vjson.Marshal(c.Matrix() != nil)
+								if err != nil {
+									panic(err)
+								}
+								vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "checked", JSONVal: vjson.RawMessage(b)})
+							}
+							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+								EventType: "change",
+								Func:      func(event vugu.DOMEvent) { c.toggleMatrix(event) },
+								// TODO: implement capture, etc. mostly need to decide syntax
+							})
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: " "}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "label", Attr: []vugu.VGAttribute{{Namespace: "", Key: "for", Val: "check-with-matrix"}}}
+							vgparent.AppendChild(vgn)
+							vgn.SetInnerHTML("Check with your matrix itself, " + c.Model.MatrixDesign().Label() + ", beside random rotations of its spectrum")
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "hint"}}}
+						vgparent.AppendChild(vgn)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Each trial draws a fresh signal and noise, solves with your matrix held fixed, and again with random rotations of its singular vectors. The prediction assumes generic singular vectors: if the two means differ by more than 3 standard errors, it does not hold for your matrix. n is its column count."}
+							vgparent.AppendChild(vgn)
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+						vgparent.AppendChild(vgn)
+					}
+				}
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+				vgparent.AppendChild(vgn)
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "settings"}}}
 				vgparent.AppendChild(vgn)
 				{
@@ -116,6 +166,13 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgparent.AppendChild(vgn)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-n"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "text"}, vugu.VGAttribute{Namespace: "", Key: "inputmode", Val: "numeric"}, vugu.VGAttribute{Namespace: "", Key: "autocomplete", Val: "off"}}}
 						vgparent.AppendChild(vgn)
+						{
+							b, err := vjson.Marshal(c.Matrix() != nil)
+							if err != nil {
+								panic(err)
+							}
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "readOnly", JSONVal: vjson.RawMessage(b)})
+						}
 						{
 							b, err := vjson.Marshal(c.NText())
 							if err != nil {
@@ -616,6 +673,31 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							}
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 							vgparent.AppendChild(vgn)
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+						if len(c.MatrixFacts()) > 0 {
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "ul", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "facts verdict"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "check-verdict"}}}
+							vgparent.AppendChild(vgn)
+							{
+								vgparent := vgn
+								_ = vgparent
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+								vgparent.AppendChild(vgn)
+								for vgiterkeyt, f := range c.MatrixFacts() {
+									var vgiterkey interface{} = vgiterkeyt
+									_ = vgiterkey
+									f := f
+									_ = f
+									vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "li", Attr: []vugu.VGAttribute(nil)}
+									vgparent.AppendChild(vgn)
+									vgn.AddAttrInterface("data-figure", f[0])
+									vgn.AddAttrInterface("data-value", f[1])
+									vgn.SetInnerHTML(f[2])
+								}
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+								vgparent.AppendChild(vgn)
+							}
 						}
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)

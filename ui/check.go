@@ -3,7 +3,6 @@ package ui
 import (
 	"bytes"
 	"encoding/csv"
-	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
@@ -79,21 +78,53 @@ func (c *CheckView) Init(vugu.InitCtx) { c.checkStart() }
 // Run is the data-run hook: idle, running, done, cancelled or error.
 func (c *CheckView) Run() string { return c.run }
 
-// Settings texts, as the inputs show them.
-func (c *CheckView) NText() string      { return c.nText }
-func (c *CheckView) TrialsText() string { return c.trialsText }
-func (c *CheckView) SeedText() string   { return c.seedText }
-func (c *CheckView) AtText() string     { return c.atText }
+// matrixTrials is the trial count a check with the user's matrix starts from: enough for its
+// verdict to have power (a few percent between the means is several standard errors at a
+// few hundred unknowns).
+const matrixTrials = "200"
+
+// Matrix is the user's matrix the check holds fixed, beside random rotations of its
+// spectrum: the design's own matrix (Model.MatrixDesign) unless the user turned it off.
+func (c *CheckView) Matrix() *UserMatrix {
+	if c.noMatrix {
+		return nil
+	}
+	return c.Model.MatrixDesign()
+}
+
+// HasMatrix reports whether the design is the user's matrix, so that it can be checked.
+func (c *CheckView) HasMatrix() bool { return c.Model.MatrixDesign() != nil }
+
+// Settings texts, as the inputs show them. With the user's matrix, n is its column count and
+// the trials start from matrixTrials.
+func (c *CheckView) NText() string {
+	if u := c.Matrix(); u != nil {
+		return strconv.Itoa(u.Cols)
+	}
+	return c.nText
+}
+
+func (c *CheckView) TrialsText() string {
+	if c.Matrix() != nil && !c.trialsTyped {
+		return matrixTrials
+	}
+	return c.trialsText
+}
+func (c *CheckView) SeedText() string { return c.seedText }
+func (c *CheckView) AtText() string   { return c.atText }
 
 // SetSetting stores the text of one input of the check: "n", "trials", "seed", "solver",
-// "factors", "over" or "at". Special cases are: an unknown name is an error.
+// "factors", "over", "at" or "matrix" ("on" or "off": the check with the user's matrix).
+// Special cases are: an unknown name is an error.
 func (c *CheckView) SetSetting(name, text string) error {
 	c.checkStart()
 	switch name {
 	case "n":
 		c.nText = text
 	case "trials":
-		c.trialsText = text
+		c.trialsText, c.trialsTyped = text, true
+	case "matrix":
+		c.noMatrix = text != "on"
 	case "seed":
 		c.seedText = text
 	case "solver":
@@ -126,10 +157,14 @@ func wholeNumber(field, text string, lo, hi int) (int, error) {
 func (c *CheckView) settings() (scenario.Check, []float64, error) {
 	var k scenario.Check
 	var err error
-	if k.N, err = wholeNumber("n", c.nText, 2, maxCheckN); err != nil {
+	minTrials := 1
+	if c.Matrix() != nil {
+		minTrials = 2 // the verdict needs standard errors
+	}
+	if k.N, err = wholeNumber("n", c.NText(), 2, maxCheckN); err != nil {
 		return k, nil, err
 	}
-	if k.Trials, err = wholeNumber("trials", c.trialsText, 1, maxCheckTrials); err != nil {
+	if k.Trials, err = wholeNumber("trials", c.TrialsText(), minTrials, maxCheckTrials); err != nil {
 		return k, nil, err
 	}
 	seed, err := strconv.ParseUint(strings.TrimSpace(c.seedText), 10, 64)
@@ -226,6 +261,9 @@ func (c *CheckView) now() time.Time {
 func (c *CheckView) args() protocol.CheckArgs {
 	k := c.settingsUsed
 	a := protocol.CheckArgs{Scenario: c.scen, N: k.N, Trials: k.Trials, Seed: k.Seed, Solver: k.Solver, Factors: c.Factors}
+	if u := c.Matrix(); u != nil {
+		a.Matrix, a.MaxBytes = u.Text, u.MaxBytes
+	}
 	if len(c.xs) > 0 {
 		a.Over, a.At = c.Over, c.xs[len(c.points)]
 		if len(c.points) == 0 {
@@ -255,40 +293,88 @@ func (c *CheckView) curveSpec() *protocol.CurveSpec {
 	return &protocol.CurveSpec{Over: c.Over, From: lo, To: hi, Points: curvePoints, Log: log}
 }
 
+// workers is the number of compute workers the check's trials are shared between: all of the
+// page's, when the pool says how many it has.
+func (c *CheckView) workers() int {
+	if s, ok := c.Jobs.(interface{ Size() int }); ok {
+		return max(1, s.Size())
+	}
+	return 1
+}
+
+// next runs the check of the next point, its trials shared between the page's workers (each
+// part a job with its own first trial; protocol.MergeChecks joins them into the numbers of
+// one job, whatever the number of parts).
 func (c *CheckView) next() {
 	c.trial, c.trials = 0, c.settingsUsed.Trials
 	if len(c.points) == 0 {
 		c.curve = nil
 	}
-	finished := false // a fake or a failing pool may answer before Start returns
-	cancel := c.Jobs.Start("check", c.args(), func(done, total int) {
-		c.trial, c.trials = done, total
-	}, func(res []byte, err error) {
-		finished, c.cancel = true, nil
-		if err == nil {
-			var r protocol.CheckResult
-			if err = json.Unmarshal(res, &r); err == nil {
-				c.points = append(c.points, checkPoint{At: float64(r.At), Result: r})
-				if r.Curve != nil {
-					c.curve = r.Curve
-				}
+	base := c.args()
+	split := protocol.SplitTrials(0, base.Trials, c.workers())
+	parts := make([]protocol.CheckResult, len(split))
+	done := make([]int, len(split))
+	cancels := make([]func(), len(split))
+	left, over := len(split), false // over: failed or cancelled, no more callbacks count
+	stopAll := func() {
+		over = true
+		for _, cancel := range cancels {
+			if cancel != nil {
+				cancel()
 			}
 		}
-		if err != nil {
+	}
+	c.cancel = stopAll
+	for i, sp := range split {
+		a := base
+		a.First, a.Trials = sp[0], sp[1]
+		if i > 0 {
+			a.Curve = nil
+		}
+		cancels[i] = start(c.Jobs, protocol.Check, a, func(d, _ int) {
+			if over {
+				return
+			}
+			done[i] = d
+			c.trial = 0
+			for _, v := range done {
+				c.trial += v
+			}
+		}, func(r protocol.CheckResult, err error) {
+			if over {
+				return
+			}
+			cancels[i] = nil
+			if err == nil {
+				parts[i], done[i] = r, r.Trials
+				if left--; left > 0 {
+					return
+				}
+				var merged protocol.CheckResult
+				if merged, err = protocol.MergeChecks(parts); err == nil {
+					over, c.cancel = true, nil
+					c.points = append(c.points, checkPoint{At: float64(merged.At), Result: merged})
+					if merged.Curve != nil {
+						c.curve = merged.Curve
+					}
+					if len(c.xs) > len(c.points) {
+						c.next()
+						return
+					}
+					c.run, c.elapsed = RunDone, c.now().Sub(c.started)
+					c.draw()
+					return
+				}
+			}
+			stopAll()
+			c.cancel = nil
 			c.run, c.problem = RunError, err.Error()
 			c.elapsed = c.now().Sub(c.started)
 			c.draw()
+		})
+		if over {
 			return
 		}
-		if len(c.xs) > len(c.points) {
-			c.next()
-			return
-		}
-		c.run, c.elapsed = RunDone, c.now().Sub(c.started)
-		c.draw()
-	})
-	if !finished {
-		c.cancel = cancel
 	}
 }
 
@@ -388,6 +474,31 @@ func (c *CheckView) Facts() [][3]string {
 		out = append(out, [3]string{"check_at", fullNum(float64(r.At)), fmt.Sprintf("At %s = %s", r.Over, fmtNum(float64(r.At)))})
 	}
 	return out
+}
+
+// MatrixFacts are the lines of the verdict of a check with the user's matrix, as name,
+// data-value and text; nil for a check with random rotations only.
+func (c *CheckView) MatrixFacts() [][3]string {
+	r, ok := c.Latest()
+	if !ok || r.Comparison == nil {
+		return nil
+	}
+	k := r.Comparison
+	rot := k.RotatedFactors + " factors"
+	if k.RotatedSolver != "" {
+		rot += ", solved by " + k.RotatedSolver
+	}
+	verdict := fmt.Sprintf("Agrees: your matrix and random rotations of its spectrum give the same mean error within %d standard errors. The prediction from its singular values applies to it.", 3)
+	if !k.Agrees {
+		verdict = fmt.Sprintf("Does not agree: the two means differ by more than %d standard errors. Your matrix's singular vectors are not generic for this signal and penalty, and the prediction from its singular values should not be trusted for it.", 3)
+	}
+	return [][3]string{
+		{"check_matrix_mean_mse", fullNum(float64(k.MatrixMeanMSE)), "Your matrix held fixed: MSE " + fmtNum(float64(k.MatrixMeanMSE)) + " ± " + fmtNum(float64(k.MatrixStdErr))},
+		{"check_rotated_mean_mse", fullNum(float64(k.RotatedMeanMSE)), "Random rotations of its spectrum, same x0 and noise (" + rot + "): MSE " + fmtNum(float64(k.RotatedMeanMSE)) + " ± " + fmtNum(float64(k.RotatedStdErr))},
+		{"check_matrix_predicted_mse", fullNum(float64(r.PredictedMSE)), "Prediction from its singular values (the limit of many unknowns): MSE " + fmtNum(float64(r.PredictedMSE))},
+		{"check_z", fullNum(float64(k.Z)), "z = (matrix − rotations) / combined standard error = " + fmtNum(float64(k.Z))},
+		{"check_agrees", strconv.FormatBool(k.Agrees), verdict},
+	}
 }
 
 // PerTrial are the latest check's trials as text lines.
@@ -508,7 +619,8 @@ func (c *CheckView) CSV() []byte {
 	var b bytes.Buffer
 	w := csv.NewWriter(&b)
 	_ = w.Write([]string{"over", "at", "trial", "mse", "nonzero_fraction", "tpp", "fdp", "iterations", "converged", "residual", "seconds",
-		"mean_mse", "stderr", "predicted_mse", "n", "m", "seed", "solver", "factors", "stop_criterion", "tol"})
+		"mean_mse", "stderr", "predicted_mse", "n", "m", "seed", "solver", "factors", "stop_criterion", "tol",
+		"rotated_mse", "rotated_mean_mse", "rotated_stderr", "z", "agrees"})
 	for _, p := range c.points {
 		r := p.Result
 		at := ""
@@ -516,11 +628,18 @@ func (c *CheckView) CSV() []byte {
 			at = fullNum(p.At)
 		}
 		for i, t := range r.PerTrial {
-			_ = w.Write([]string{r.Over, at, strconv.Itoa(i + 1), fullNum(float64(t.MSE)), fullNum(float64(t.Nonzero)),
+			// A check with the user's matrix adds, trial by trial, the error with random
+			// rotations of its spectrum (same x0 and noise) and the verdict.
+			rot := []string{"", "", "", "", ""}
+			if k := r.Comparison; k != nil && i < len(k.RotatedPerTrial) {
+				rot = []string{fullNum(float64(k.RotatedPerTrial[i].MSE)), fullNum(float64(k.RotatedMeanMSE)),
+					fullNum(float64(k.RotatedStdErr)), fullNum(float64(k.Z)), strconv.FormatBool(k.Agrees)}
+			}
+			_ = w.Write(append([]string{r.Over, at, strconv.Itoa(i + 1), fullNum(float64(t.MSE)), fullNum(float64(t.Nonzero)),
 				fullNum(float64(t.TPP)), fullNum(float64(t.FDP)), strconv.Itoa(t.Iterations), strconv.FormatBool(t.Converged),
 				fullNum(float64(t.Residual)), fullNum(float64(t.Seconds)), fullNum(float64(r.MeanMSE)), fullNum(float64(r.StdErr)),
 				fullNum(float64(r.PredictedMSE)), strconv.Itoa(r.N), strconv.Itoa(r.M), strconv.FormatUint(r.Seed, 10),
-				r.Solver, r.Factors, r.Criterion, fullNum(float64(r.Tol))})
+				r.Solver, r.Factors, r.Criterion, fullNum(float64(r.Tol))}, rot...))
 		}
 	}
 	w.Flush()
@@ -568,4 +687,12 @@ func (c *CheckView) Running() bool { return c.cancel != nil }
 
 func (c *CheckView) typed(e vugu.DOMEvent, name string) {
 	_ = c.SetSetting(name, e.PropString("target", "value"))
+}
+
+func (c *CheckView) toggleMatrix(e vugu.DOMEvent) {
+	on := "off"
+	if e.PropBool("target", "checked") {
+		on = "on"
+	}
+	_ = c.SetSetting("matrix", on)
 }

@@ -31,6 +31,7 @@ type DataView struct {
 	kText, alphaText string
 	design, signal   dataPart
 	spectrum         *protocol.SpectrumResult
+	matrixText       string // the text of the matrix whose spectrum was read last
 	fit              *protocol.FitResult
 }
 
@@ -75,6 +76,11 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Bring a measurement matrix or its spectrum for the design, and samples for the signal. Files are read in this page and never leave it."}
 					vgparent.AppendChild(vgn)
 				}
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+				vgparent.AppendChild(vgn)
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "hint"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "data-limits"}}}
+				vgparent.AppendChild(vgn)
+				vgn.SetInnerHTML(DataLimits())
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 				vgparent.AppendChild(vgn)
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "data-part"}, vugu.VGAttribute{Namespace: "", Key: "data-part", Val: "design"}}}
@@ -330,8 +336,9 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 					vgparent.AppendChild(vgn)
 					if c.Busy("design") {
-						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "progress", Attr: []vugu.VGAttribute{{Namespace: "", Key: "aria-label", Val: "computing the singular values"}}}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "progress", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-design-progress"}, vugu.VGAttribute{Namespace: "", Key: "aria-label", Val: "computing the singular values"}, vugu.VGAttribute{Namespace: "", Key: "max", Val: "1000"}}}
 						vgparent.AppendChild(vgn)
+						vgn.AddAttrInterface("value", c.ProgressPermille("design"))
 					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 					vgparent.AppendChild(vgn)
@@ -423,10 +430,54 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 					vgparent.AppendChild(vgn)
+					if len(c.DesignFacts()) > 0 && c.Source == "matrix" {
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "hint"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "data-accuracy"}}}
+						vgparent.AppendChild(vgn)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Accuracy: the singular values are the square roots of the eigenvalues of the smaller of FFᵀ and FᵀF, which squares the condition number. A value σ carries a relative error of about 1e-16 × (σ_max/σ)²: some 8 correct digits down to 1e-4 σ_max, and none below √(max(m, n) × 2.2e-16) σ_max, the level counted as zero for the rank."}
+							vgparent.AppendChild(vgn)
+						}
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+					vgparent.AppendChild(vgn)
 					if c.Applied("design") != "" {
-						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}}}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "data-design-applied"}}}
 						vgparent.AppendChild(vgn)
 						vgn.SetInnerHTML(c.Applied("design"))
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+					vgparent.AppendChild(vgn)
+					if c.Locked() != nil {
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "actions data-lock"}, vugu.VGAttribute{Namespace: "", Key: "data-figure", Val: "data_alpha_locked"}, vugu.VGAttribute{Namespace: "", Key: "data-value", Val: "true"}}}
+						vgparent.AppendChild(vgn)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "hint"}}}
+							vgparent.AppendChild(vgn)
+							vgn.SetInnerHTML("m/n = " + fmtNum(float64(c.Locked().Rows)/float64(c.Locked().Cols)) + " follows " + c.Locked().Label() + ": the design is your matrix’s own spectrum. Unlocking frees m/n for the same singular values at another sampling ratio, which is no longer your matrix; the check with the matrix itself is then off.")
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "data-alpha-unlock"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
+							vgparent.AppendChild(vgn)
+							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+								EventType: "click",
+								Func:      func(event vugu.DOMEvent) { c.UnlockAlpha() },
+								// TODO: implement capture, etc. mostly need to decide syntax
+							})
+							{
+								vgparent := vgn
+								_ = vgparent
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Unlock m/n"}
+								vgparent.AppendChild(vgn)
+							}
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+							vgparent.AppendChild(vgn)
+						}
 					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 					vgparent.AppendChild(vgn)

@@ -10,6 +10,7 @@ import (
 
 	"github.com/vugu/vugu"
 
+	"hdrisk/engine/data"
 	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/protocol"
@@ -56,6 +57,7 @@ type dataPart struct {
 	fileName     string
 	text         string // pasted text, kept across errors
 	started      time.Time
+	done, total  int // progress of the job, as its worker reports it
 	elapsed      time.Duration
 	cancel       func()
 	figURL       string
@@ -160,7 +162,7 @@ func (c *DataView) ReadFile(part string) {
 	limit := c.limit(part)
 	reading := true
 	p.cancel = func() { reading = false }
-	c.Browser.ReadFile(id, limit, func(name string, data []byte, err error) {
+	c.Browser.ReadFile(id, limit, func(name string, content []byte, err error) {
 		if !reading {
 			return
 		}
@@ -170,7 +172,13 @@ func (c *DataView) ReadFile(part string) {
 			p.run, p.problem = RunError, fmt.Sprintf("%v (the page reads files of at most %d MB)", err, limit>>20)
 			return
 		}
-		c.compute(part, string(data))
+		// Refused by its first bytes here, a binary file never goes to a worker: its text
+		// would cost seconds to copy and minutes to read.
+		if err := data.Sniff(content); err != nil {
+			p.run, p.problem = RunError, name+": "+err.Error()
+			return
+		}
+		c.compute(part, string(content))
 	})
 }
 
@@ -204,7 +212,7 @@ func (c *DataView) compute(part, text string) {
 		p.run, p.problem = RunError, "the compute workers are still starting; try again in a moment"
 		return
 	}
-	p.run = RunRunning
+	p.run, p.done, p.total = RunRunning, 0, 0
 	var args any
 	if part == "design" {
 		a := protocol.SpectrumArgs{Source: c.Source, Text: text, MaxBytes: c.limit(part)}
@@ -235,10 +243,8 @@ func (c *DataView) compute(part, text string) {
 	finished := false // a fake or a failing pool may answer before Start returns
 	cancel := c.Jobs.Start(kind, args, func(done, total int) {
 		if part == "design" {
-			if st, ok := map[int]string{protocol.StepRead: "Reading the numbers",
-				protocol.StepSVD: "Computing the singular values (one step: no finer progress)", protocol.StepSummary: "Summarizing"}[done]; ok {
-				p.stage = st
-			}
+			p.done, p.total = done, total
+			p.stage = spectrumStages[protocol.SpectrumStep(done)]
 		} else if done >= 1 {
 			p.stage = "Fitting"
 		}
@@ -249,7 +255,10 @@ func (c *DataView) compute(part, text string) {
 			if part == "design" {
 				var r protocol.SpectrumResult
 				if err = json.Unmarshal(res, &r); err == nil {
-					c.spectrum = &r
+					c.spectrum, c.matrixText = &r, ""
+					if r.Source == protocol.SourceMatrix {
+						c.matrixText = text
+					}
 				}
 			} else {
 				var r protocol.FitResult
@@ -272,6 +281,15 @@ func (c *DataView) compute(part, text string) {
 	if !finished {
 		p.cancel = cancel
 	}
+}
+
+// spectrumStages are the page's words for the steps of the "spectrum" kind.
+var spectrumStages = map[string]string{
+	protocol.StepReading:     "Reading the numbers",
+	protocol.StepGram:        "Forming the Gram matrix (the matrix times its transpose)",
+	protocol.StepReduction:   "Reducing the Gram matrix to tridiagonal form",
+	protocol.StepEigenvalues: "Computing its eigenvalues",
+	protocol.StepSummary:     "Summarizing",
 }
 
 // listAlpha reads the m/n a list of singular values belongs to.
@@ -319,6 +337,21 @@ func (c *DataView) Stage(part string) string {
 		return ""
 	}
 	return p.stage + "…"
+}
+
+// Progress returns the done and total of part's job; total is 0 before its first report.
+func (c *DataView) Progress(part string) (done, total int) {
+	p := c.part(part)
+	return p.done, p.total
+}
+
+// ProgressPermille is part's progress in thousandths, for the progress bar.
+func (c *DataView) ProgressPermille(part string) int {
+	p := c.part(part)
+	if p.total <= 0 {
+		return 0
+	}
+	return 1000 * p.done / p.total
 }
 
 // Problem is part's message; "" when there is none.
@@ -482,15 +515,41 @@ func (c *DataView) UseDesign() {
 		alpha = a
 	}
 	values, note := shortList(r.SingularValues, "singular values")
+	old := c.Model.Matrix
+	c.Model.Matrix = nil
+	if r.Source == protocol.SourceMatrix && c.matrixText != "" {
+		c.Model.Matrix = &UserMatrix{Name: c.design.fileName, Text: c.matrixText, Rows: r.Rows, Cols: r.Cols,
+			MaxBytes: MaxMatrixBytes, Locked: true}
+	}
 	err := c.apply(func(s *scenario.Scenario) {
 		s.Design = scenario.Design{Shape: "empirical-sv", Alpha: alpha, Scale: s.Design.Scale,
 			Lists: map[string][]float64{"values": values}}
 	})
 	if err != nil {
+		c.Model.Matrix = old
 		c.design.problem = "cannot use these values as the design: " + err.Error()
 		return
 	}
 	c.design.applied = fmt.Sprintf("The design is now these %d singular values with m/n = %s.", len(r.SingularValues), fmtNum(alpha)) + note
+	if c.Model.Matrix != nil {
+		c.design.applied += fmt.Sprintf(" m/n is locked to the matrix's shape, %d × %d; the check view can now run trials with the matrix itself.", r.Rows, r.Cols)
+	}
+}
+
+// Locked is the user's matrix whose shape m/n follows; nil when none.
+func (c *DataView) Locked() *UserMatrix { return c.Model.MatrixDesign() }
+
+// UnlockAlpha frees m/n from the matrix's shape, saying what that means.
+func (c *DataView) UnlockAlpha() {
+	u := c.Model.MatrixDesign()
+	if u == nil {
+		return
+	}
+	u.Locked = false
+	c.design.applied = "m/n is free: a design with these singular values at another sampling ratio is no longer your matrix, so the check with the matrix itself is off. Use the matrix as the design again to lock m/n to its shape."
+	if c.Changed != nil {
+		c.Changed()
+	}
 }
 
 // UseSignal makes the signal law of the scenario the empirical law of the samples or the

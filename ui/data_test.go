@@ -182,8 +182,8 @@ func TestDataCancelAndNoWorkers(t *testing.T) {
 	if !c.Busy("design") || c.Run() != RunRunning || jobs.started[0] != "spectrum" {
 		t.Fatalf("busy %v run %s", c.Busy("design"), c.Run())
 	}
-	jobs.progress(protocol.StepSVD, protocol.SpectrumSteps)
-	if !strings.HasPrefix(c.Stage("design"), "Computing the singular values") {
+	jobs.progress(protocol.SpectrumGramEnd+1, protocol.SpectrumTotal)
+	if d, tot := c.Progress("design"); !strings.HasPrefix(c.Stage("design"), "Reducing the Gram matrix") || d != protocol.SpectrumGramEnd+1 || tot != protocol.SpectrumTotal {
 		t.Errorf("stage %q", c.Stage("design"))
 	}
 	c.Cancel("design")

@@ -38,7 +38,11 @@ func (c *Editor) helpText(f Field) string {
 	if f.Unit != "" {
 		t += "; " + f.Unit
 	}
-	return t + ". " + capital(f.Help) + "."
+	t += ". " + capital(f.Help) + "."
+	if c.Model.alphaLocked(f) {
+		t += c.Model.alphaLockNote()
+	}
+	return t
 }
 
 func (c *Editor) staleText() string {
@@ -112,7 +116,9 @@ func (c *Editor) boxText(f Field) string {
 
 // locked tells whether f's box refuses typing: a compact list the user has not asked to
 // replace.
-func (c *Editor) locked(f Field) bool { return compact(f) && c.replacing[f.ID] != f.Text }
+func (c *Editor) locked(f Field) bool {
+	return compact(f) && c.replacing[f.ID] != f.Text || c.Model.alphaLocked(f)
+}
 
 // placeholder is the hint in an empty box of a compact list.
 func (c *Editor) placeholder(f Field) string {

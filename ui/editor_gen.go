@@ -45,7 +45,7 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgn.SetInnerHTML(vugu.HTML("Scenario"))
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 		vgparent.AppendChild(vgn)
-		for vgiterkeyt, g := range Groups {
+		for vgiterkeyt, g := range Groups() {
 			var vgiterkey interface{} = vgiterkeyt
 			_ = vgiterkey
 			g := g

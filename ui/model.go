@@ -6,31 +6,25 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"sync"
 
 	"hdrisk/engine/design"
 	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/param"
 	"hdrisk/engine/penalty"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/signal"
 )
 
 // Param is one editable number (or list of numbers) of a scenario, under its contract-1 name.
-// Everything but Label and Default comes from the engine's registries, so a parameter added
-// there appears here with its unit, range and explanation.
+// The embedded param.Param is the engine's description (name, unit, help, domain, list
+// length, optional default), so a parameter added to a registry appears here with its unit,
+// range and explanation; the page adds its own Label and the starting Default text, which
+// stand in front of the registry's fields of the same names.
 type Param struct {
-	Name     string // JSON key within its group, e.g. "l1"
-	Label    string // what the input is called on the page
-	Unit     string // e.g. "loss per unit of |x|"; "" when the number has none
-	Help     string // one line, plain words
-	Default  string // the starting text of the input
-	List     bool   // a list of numbers, separated by commas or spaces
-	MaxLen   int    // the longest list the engine accepts (lists only)
-	Optional bool   // the engine would take its default if it were left out
-
-	Min, Max         float64 // domain of the number (of each entry of a list)
-	MinOpen, MaxOpen bool
-
-	def float64 // the registry's default of an optional number
+	param.Param
+	Label   string // what the input is called on the page
+	Default string // the starting text of the input
 }
 
 // Kind is one choice of a group's menu (a design shape, a signal law, a penalty kind, a form
@@ -145,8 +139,9 @@ var (
 )
 
 // Groups lists the editable parts of a scenario in page order, built from the engine's
-// registries (design.Shapes, signal.Laws, penalty.Kinds) and the scenario's limits.
-var Groups = buildGroups()
+// registries (design.Shapes, signal.Laws, penalty.Kinds) and the scenario's limits the
+// first time it is called, so that kinds registered by init functions are included.
+var Groups = sync.OnceValue(buildGroups)
 
 func lookup(m map[string]string, group, kind, param string) (string, bool) {
 	if v, ok := m[group+"."+kind+"."+param]; ok && kind != "" {
@@ -156,7 +151,8 @@ func lookup(m map[string]string, group, kind, param string) (string, bool) {
 	return v, ok
 }
 
-func newParam(group, kind string, p Param) Param {
+func newParam(group, kind string, rp param.Param) Param {
+	p := Param{Param: rp}
 	if l, ok := lookup(paramLabels, group, kind, p.Name); ok {
 		p.Label = l
 	} else {
@@ -176,7 +172,7 @@ func fallbackDefault(p Param) string {
 	var v float64
 	switch {
 	case p.Optional:
-		v = p.def
+		v = p.Param.Default
 	case p.Min <= 1 && 1 <= p.Max && !(p.Max == 1 && p.MaxOpen) && !(p.Min == 1 && p.MinOpen):
 		v = 1
 	case !math.IsInf(p.Min, 0) && !math.IsInf(p.Max, 0):
@@ -198,93 +194,31 @@ func kindLabel(group, name string) string {
 
 func buildGroups() []Group {
 	d := Group{Name: "design", Title: "Measurement design", KindKey: "shape", Menu: "Shape of the spectrum",
-		Common: []Param{newParam("design", "", Param{Name: "alpha", Unit: "measurements per unknown",
-			Help: "how many measurements m there are for each of the n unknowns", Min: 0, MinOpen: true, Max: scenario.MaxAlpha})}}
+		Common: []Param{newParam("design", "", scenario.AlphaParam)}}
 	for _, s := range design.Shapes() {
-		k := Kind{Name: s.Name, Label: kindLabel("design", s.Name), Help: s.Help}
-		for _, p := range s.Params {
-			k.Params = append(k.Params, newParam("design", s.Name, Param{Name: p.Name, Unit: p.Unit, Help: p.Help,
-				List: p.List, MaxLen: p.MaxLen, Optional: p.Optional, Min: p.Min, Max: p.Max,
-				MinOpen: p.MinOpen, MaxOpen: p.MaxOpen, def: p.Default}))
-		}
-		d.Kinds = append(d.Kinds, k)
+		d.Kinds = append(d.Kinds, newKind("design", s.Name, s.Help, s.Params))
 	}
 	x := Group{Name: "signal", Title: "Signal entries", KindKey: "law", Menu: "Distribution"}
 	for _, l := range signal.Laws() {
-		k := Kind{Name: l.Name, Label: kindLabel("signal", l.Name), Help: l.Help}
-		for _, p := range l.Params {
-			k.Params = append(k.Params, newParam("signal", l.Name, Param{Name: p.Name, Unit: p.Unit, Help: p.Help,
-				List: p.List, MaxLen: p.MaxLen, Min: p.Min, Max: p.Max, MinOpen: p.MinOpen, MaxOpen: p.MaxOpen}))
-		}
-		x.Kinds = append(x.Kinds, k)
+		x.Kinds = append(x.Kinds, newKind("signal", l.Name, l.Help, l.Params))
 	}
 	n := Group{Name: "noise", Title: "Measurement noise", Menu: "Stated as", Kinds: []Kind{
-		{Name: "variance", Label: kindLabel("noise", "variance"), Help: "the variance of each noise entry",
-			Params: []Param{newParam("noise", "variance", Param{Name: "variance", Unit: "units of y squared",
-				Help: "variance Δ of each entry of the noise w", Min: 0, Max: scenario.MaxNoiseVar})}},
-		{Name: "snr_db", Label: kindLabel("noise", "snr_db"), Help: "the power of F x0 over the power of the noise",
-			Params: []Param{newParam("noise", "snr_db", Param{Name: "snr_db", Unit: "dB",
-				Help: "10 log10 of E‖F x0‖² / E‖w‖²; higher is cleaner", Min: scenario.MinSNRdB, Max: scenario.MaxSNRdB})}},
+		newKind("noise", "variance", "the variance of each noise entry", []param.Param{scenario.NoiseParam}),
+		newKind("noise", "snr_db", "the power of F x0 over the power of the noise", []param.Param{scenario.SNRParam}),
 	}}
 	pen := Group{Name: "penalty", Title: "Penalty", KindKey: "kind", Menu: "Kind"}
-	for _, pk := range penalty.Kinds() {
-		k := Kind{Name: pk.Name, Label: kindLabel("penalty", pk.Name), Help: pk.Help}
-		for _, p := range pk.Params {
-			k.Params = append(k.Params, newParam("penalty", pk.Name, Param{Name: p.Name, Unit: p.Unit, Help: p.Help,
-				Optional: p.Optional, Min: p.Min, Max: p.Max, MinOpen: p.MinOpen, MaxOpen: p.MaxOpen, def: p.Default}))
-		}
-		pen.Kinds = append(pen.Kinds, k)
+	for _, k := range penalty.Kinds() {
+		pen.Kinds = append(pen.Kinds, newKind("penalty", k.Name, k.Help, k.Params))
 	}
 	return []Group{d, x, n, pen}
 }
 
-// Range states the domain of p in words, e.g. "in (0, 1]", "≥ 0", "each > 0, at most 100000
-// numbers".
-func (p Param) Range() string {
-	r := p.scalarRange()
-	if p.List {
-		r = "each " + r
-		if p.MaxLen > 0 {
-			r += fmt.Sprintf(", at most %d numbers", p.MaxLen)
-		}
+func newKind(group, name, help string, ps []param.Param) Kind {
+	k := Kind{Name: name, Label: kindLabel(group, name), Help: help}
+	for _, p := range ps {
+		k.Params = append(k.Params, newParam(group, name, p))
 	}
-	return r
-}
-
-func (p Param) scalarRange() string {
-	num := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
-	lo, hi := !math.IsInf(p.Min, -1), !math.IsInf(p.Max, 1)
-	var r string
-	switch {
-	case lo && hi:
-		open, close := "[", "]"
-		if p.MinOpen {
-			open = "("
-		}
-		if p.MaxOpen {
-			close = ")"
-		}
-		r = "in " + open + num(p.Min) + ", " + num(p.Max) + close
-	case lo && p.MinOpen:
-		r = "> " + num(p.Min)
-	case lo:
-		r = "≥ " + num(p.Min)
-	case hi && p.MaxOpen:
-		r = "< " + num(p.Max)
-	case hi:
-		r = "≤ " + num(p.Max)
-	default:
-		r = "any number"
-	}
-	return r
-}
-
-// inDomain tells whether v lies in the domain of p.
-func (p Param) inDomain(v float64) bool {
-	if v < p.Min || v > p.Max || (p.MinOpen && v == p.Min) || (p.MaxOpen && v == p.Max) {
-		return false
-	}
-	return true
+	return k
 }
 
 // Scales are the choices of design.scale (contract 1, method.md section 1).
@@ -302,8 +236,10 @@ type Model struct {
 	Notes string
 	Scale string
 	Study *scenario.Study
-	kinds map[string]string // group -> kind name
-	texts map[string]string // "group/kind/param" -> text
+	// Matrix is the user's own matrix once the data tab made it the design (datamatrix.go).
+	Matrix *UserMatrix
+	kinds  map[string]string // group -> kind name
+	texts  map[string]string // "group/kind/param" -> text
 }
 
 // NewModel returns the starting scenario. It is an invented example, not data from any
@@ -311,7 +247,7 @@ type Model struct {
 func NewModel() *Model {
 	m := &Model{Title: "Invented example: sparse signal, orthogonal design", Scale: scenario.ScaleRows,
 		kinds: map[string]string{}, texts: map[string]string{}}
-	for _, g := range Groups {
+	for _, g := range Groups() {
 		if len(g.Kinds) > 0 {
 			m.kinds[g.Name] = g.Kinds[0].Name
 			if _, ok := g.kind(startKinds[g.Name]); ok {
@@ -324,7 +260,7 @@ func NewModel() *Model {
 
 // FindGroup returns the group named name.
 func FindGroup(name string) (Group, bool) {
-	for _, g := range Groups {
+	for _, g := range Groups() {
 		if g.Name == name {
 			return g, true
 		}
@@ -419,7 +355,7 @@ func (m *Model) Fields(g string) []Field {
 // SetText stores the text typed into the input with the given element id.
 // Special cases are: an id that is not an input of the current choices is an error.
 func (m *Model) SetText(id, text string) error {
-	for _, g := range Groups {
+	for _, g := range Groups() {
 		for _, f := range m.Fields(g.Name) {
 			if f.ID == id {
 				m.texts[f.key] = text
@@ -461,7 +397,7 @@ func (m *Model) Load(s scenario.Scenario) error {
 		"noise": {"variance": s.Noise.Variance, "snr_db": s.Noise.SNRdB}}
 	lists := map[string]map[string][]float64{"design": s.Design.Lists, "signal": s.Signal.Lists}
 	params["design"] = mergeAlpha(s.Design.Params, s.Design.Alpha)
-	for _, g := range Groups {
+	for _, g := range Groups() {
 		for _, f := range m.Fields(g.Name) {
 			if f.List {
 				if v, ok := lists[g.Name][f.Name]; ok {
@@ -492,6 +428,9 @@ type Checked struct {
 	Scenario scenario.Scenario  // valid only when Err is nil
 	JSON     []byte             // contract-1 file of Scenario
 	Problem  fixedpoint.Problem // its laws, built by the engine
+	// Engine is the scenario as the engine checked it, once: studies take it
+	// (study.SweepChecked, ...) and links are written from it without checking again.
+	Engine scenario.Checked
 	// Invalid maps the id of every input that cannot be accepted to a message naming its
 	// field and the reason, e.g. "penalty.l1: -1 is out of range: must be ≥ 0".
 	Invalid map[string]string
@@ -509,7 +448,7 @@ func (m *Model) Check() Checked {
 		Signal:  scenario.Signal{Law: m.kinds["signal"]},
 		Penalty: scenario.Penalty{Kind: m.kinds["penalty"]}}
 	var first error
-	for _, g := range Groups {
+	for _, g := range Groups() {
 		for _, f := range m.Fields(g.Name) {
 			num, list, err := parseField(f)
 			if err != nil {
@@ -527,7 +466,7 @@ func (m *Model) Check() Checked {
 		return c
 	}
 	s.Study = fitStudy(s) // a study run earlier must not invalidate an edited scenario
-	p, err := s.Problem()
+	sc, err := s.Check()
 	if err != nil {
 		var fe *scenario.FieldError
 		if errors.As(err, &fe) {
@@ -538,12 +477,7 @@ func (m *Model) Check() Checked {
 		c.Err = err
 		return c
 	}
-	data, err := s.Encode()
-	if err != nil {
-		c.Err = err
-		return c
-	}
-	c.Scenario, c.JSON, c.Problem = s, data, p
+	c.Scenario, c.JSON, c.Problem, c.Engine = s, sc.Encode(), sc.Problem(), sc
 	return c
 }
 
@@ -553,7 +487,7 @@ func (m *Model) inputFor(field string) (string, bool) {
 	if i := strings.IndexByte(field, '['); i >= 0 {
 		field = field[:i]
 	}
-	for _, g := range Groups {
+	for _, g := range Groups() {
 		for _, f := range m.Fields(g.Name) {
 			if f.Path == field {
 				return f.ID, true
@@ -660,8 +594,8 @@ func parseNumber(path, text string, p Param) (float64, error) {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return 0, fmt.Errorf("%s: not a finite number: %q", path, t)
 	}
-	if !p.inDomain(v) {
-		return 0, fmt.Errorf("%s: %s is out of range: must be %s", path, t, p.scalarRange())
+	if !p.Contains(v) {
+		return 0, fmt.Errorf("%s: %s is out of range: must be %s", path, t, p.ScalarRange())
 	}
 	return v, nil
 }

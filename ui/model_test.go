@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"hdrisk/engine/design"
+	"hdrisk/engine/param"
 	"hdrisk/engine/penalty"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/signal"
@@ -17,7 +18,7 @@ import (
 // Every menu choice, with its default inputs, must make a scenario the engine accepts: the
 // page's menus and contract 1 must not drift apart.
 func TestEveryChoiceDecodes(t *testing.T) {
-	for _, g := range Groups {
+	for _, g := range Groups() {
 		kinds := g.Kinds
 		if len(kinds) == 0 {
 			kinds = []Kind{{}}
@@ -104,90 +105,11 @@ func TestUnknownChoices(t *testing.T) {
 	}
 }
 
-// The menus must offer exactly the kinds and parameters of the engine's registries (signal
-// laws, penalty kinds): a law added there fails here until the page has its label and
-// starting value in Groups.
-func TestMenusFollowEngineRegistries(t *testing.T) {
-	type kp = map[string][]string
-	fromUI := func(group string) kp {
-		g, _ := FindGroup(group)
-		out := kp{}
-		for _, k := range g.Kinds {
-			for _, p := range k.Params {
-				out[k.Name] = append(out[k.Name], p.Name)
-			}
-			if _, ok := out[k.Name]; !ok {
-				out[k.Name] = nil
-			}
-		}
-		return out
-	}
-	laws := kp{}
-	for _, k := range signal.Laws() {
-		laws[k.Name] = nil
-		for _, p := range k.Params {
-			laws[k.Name] = append(laws[k.Name], p.Name)
-		}
-	}
-	pens := kp{}
-	for _, k := range penalty.Kinds() {
-		pens[k.Name] = nil
-		for _, p := range k.Params {
-			pens[k.Name] = append(pens[k.Name], p.Name)
-		}
-	}
-	for _, c := range []struct {
-		group string
-		want  kp
-	}{{"signal", laws}, {"penalty", pens}} {
-		got := fromUI(c.group)
-		for name, params := range c.want {
-			have, ok := got[name]
-			if !ok {
-				t.Errorf("%s: the engine has %q, the page's menu does not", c.group, name)
-				continue
-			}
-			if !sameSet(have, params) {
-				t.Errorf("%s %s: page asks for %v, engine takes %v", c.group, name, have, params)
-			}
-		}
-		for name := range got {
-			if _, ok := c.want[name]; !ok {
-				t.Errorf("%s: the page offers %q, the engine has no such kind", c.group, name)
-			}
-		}
-	}
-}
-
-func sameSet(a, b []string) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	seen := map[string]int{}
-	for _, x := range a {
-		seen[x]++
-	}
-	for _, x := range b {
-		seen[x]--
-	}
-	for _, n := range seen {
-		if n != 0 {
-			return false
-		}
-	}
-	return true
-}
-
 // Every kind of the three registries appears in its menu with every parameter, and each
 // input states the registry's unit, explanation and domain: adding a law to the engine
 // needs no edit of the page.
 func TestEveryRegistryKindInMenus(t *testing.T) {
-	type regParam struct {
-		name, unit, help string
-		min, max         float64
-		minOpen, maxOpen bool
-	}
-	check := func(group, kind, help string, params []regParam) {
+	check := func(group, kind, help string, params []param.Param) {
 		g, _ := FindGroup(group)
 		k, ok := g.kind(kind)
 		if !ok {
@@ -197,52 +119,38 @@ func TestEveryRegistryKindInMenus(t *testing.T) {
 		if k.Help != help || k.Label == "" {
 			t.Errorf("%s %s: help %q label %q, registry help %q", group, kind, k.Help, k.Label, help)
 		}
-		if len(k.Params) != len(params) {
-			t.Errorf("%s %s: %d inputs, the registry has %d parameters", group, kind, len(k.Params), len(params))
-			return
-		}
 		m := NewModel()
 		if err := m.SetKind(group, kind); err != nil {
 			t.Fatal(err)
 		}
-		fields := map[string]Field{}
+		var fields []Field
 		for _, f := range m.Fields(group) {
-			fields[f.Name] = f
+			if f.Path != "design.alpha" {
+				fields = append(fields, f)
+			}
 		}
-		for _, p := range params {
-			f, ok := fields[p.name]
-			if !ok {
-				t.Errorf("%s %s: no input for %s", group, kind, p.name)
-				continue
+		if len(fields) != len(params) {
+			t.Errorf("%s %s: %d inputs, the registry has %d parameters", group, kind, len(fields), len(params))
+			return
+		}
+		for i, p := range params {
+			f := fields[i]
+			if f.Param.Param != p || f.Path != group+"."+p.Name {
+				t.Errorf("%s %s: input %d is %s %+v, the registry's %+v", group, kind, i, f.Path, f.Param.Param, p)
 			}
-			if f.Unit != p.unit || f.Help != p.help || f.Min != p.min || f.Max != p.max || f.MinOpen != p.minOpen || f.MaxOpen != p.maxOpen {
-				t.Errorf("%s %s %s: input %+v differs from the registry %+v", group, kind, p.name, f.Param, p)
-			}
-			if f.Label == "" || f.Range() == "" || f.Path != group+"."+p.name {
-				t.Errorf("%s %s %s: label %q range %q path %q", group, kind, p.name, f.Label, f.Range(), f.Path)
+			if f.Label == "" || f.Default == "" {
+				t.Errorf("%s %s %s: label %q, starting text %q", group, kind, p.Name, f.Label, f.Default)
 			}
 		}
 	}
 	for _, s := range design.Shapes() {
-		var ps []regParam
-		for _, p := range s.Params {
-			ps = append(ps, regParam{p.Name, p.Unit, p.Help, p.Min, p.Max, p.MinOpen, p.MaxOpen})
-		}
-		check("design", s.Name, s.Help, ps)
+		check("design", s.Name, s.Help, s.Params)
 	}
 	for _, l := range signal.Laws() {
-		var ps []regParam
-		for _, p := range l.Params {
-			ps = append(ps, regParam{p.Name, p.Unit, p.Help, p.Min, p.Max, p.MinOpen, p.MaxOpen})
-		}
-		check("signal", l.Name, l.Help, ps)
+		check("signal", l.Name, l.Help, l.Params)
 	}
 	for _, k := range penalty.Kinds() {
-		var ps []regParam
-		for _, p := range k.Params {
-			ps = append(ps, regParam{p.Name, p.Unit, p.Help, p.Min, p.Max, p.MinOpen, p.MaxOpen})
-		}
-		check("penalty", k.Name, k.Help, ps)
+		check("penalty", k.Name, k.Help, k.Params)
 	}
 	for _, g := range []string{"design", "signal", "penalty"} {
 		grp, _ := FindGroup(g)
@@ -256,37 +164,18 @@ func TestEveryRegistryKindInMenus(t *testing.T) {
 // A parameter the page has no words for still gets a label and a starting value inside its
 // domain.
 func TestFallbacksForUnknownParameters(t *testing.T) {
-	for _, p := range []Param{
+	for _, p := range []param.Param{
 		{Name: "a", Min: 0, Max: math.Inf(1), MaxOpen: true},
 		{Name: "b", Min: 2, MinOpen: true, Max: math.Inf(1), MaxOpen: true},
 		{Name: "c", Min: 1, MinOpen: true, Max: 2},
 		{Name: "d", Min: math.Inf(-1), Max: -5},
 		{Name: "e", Min: 0, Max: 1, MaxOpen: true},
-		{Name: "f", Min: 0, Max: 10, Optional: true, def: 3},
+		{Name: "f", Min: 0, Max: 10, Optional: true, Default: 3},
 	} {
 		q := newParam("penalty", "invented-kind", p)
 		v, err := strconv.ParseFloat(q.Default, 64)
-		if err != nil || !q.inDomain(v) || q.Label != p.Name {
-			t.Errorf("%s: default %q (in domain: %v), label %q", p.Name, q.Default, err == nil && q.inDomain(v), q.Label)
-		}
-	}
-}
-
-func TestRangeText(t *testing.T) {
-	cases := []struct {
-		p    Param
-		want string
-	}{
-		{Param{Min: 0, Max: 1, MinOpen: true}, "in (0, 1]"},
-		{Param{Min: 0, Max: math.Inf(1), MaxOpen: true}, "≥ 0"},
-		{Param{Min: 2, MinOpen: true, Max: math.Inf(1), MaxOpen: true}, "> 2"},
-		{Param{Min: math.Inf(-1), Max: math.Inf(1), MinOpen: true, MaxOpen: true}, "any number"},
-		{Param{Min: -100, Max: 200}, "in [-100, 200]"},
-		{Param{Min: 0, Max: 1, List: true, MaxLen: 1000}, "each in [0, 1], at most 1000 numbers"},
-	}
-	for _, c := range cases {
-		if got := c.p.Range(); got != c.want {
-			t.Errorf("Range(%+v) = %q, want %q", c.p, got, c.want)
+		if err != nil || !q.Contains(v) || q.Label != p.Name {
+			t.Errorf("%s: default %q (in domain: %v), label %q", p.Name, q.Default, err == nil && q.Contains(v), q.Label)
 		}
 	}
 }

@@ -235,7 +235,7 @@ func (c *Share) fingerprint() string {
 	b.WriteString(c.Model.Notes)
 	b.WriteByte(0)
 	b.WriteString(c.Model.Scale)
-	for _, g := range Groups {
+	for _, g := range Groups() {
 		b.WriteByte(0)
 		b.WriteString(c.Model.Kind(g.Name))
 		for _, f := range c.Model.Fields(g.Name) {

@@ -377,7 +377,7 @@ func TestShareHistory(t *testing.T) {
 
 func fieldID(t *testing.T, m *Model, path string) string {
 	t.Helper()
-	for _, g := range Groups {
+	for _, g := range Groups() {
 		for _, f := range m.Fields(g.Name) {
 			if f.Path == path {
 				return f.ID

@@ -19,6 +19,16 @@ func BenchmarkSingularValues1000x2000(b *testing.B) {
 	}
 }
 
+// The size the issue measured against numpy's svd(compute_uv=False): 1500 x 3000.
+func BenchmarkSingularValues1500x3000(b *testing.B) {
+	a := gaussian(rand.New(rand.NewPCG(1, 1)), 1500, 3000)
+	for b.Loop() {
+		if _, err := SingularValues(context.Background(), a, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
 func BenchmarkReadValues(b *testing.B) {
 	in := make([]byte, 0, 1<<20)
 	rng := rand.New(rand.NewPCG(2, 2))

@@ -14,7 +14,11 @@ import (
 type LineError struct {
 	Line   int
 	Reason string
+	err    error // a sentinel the error wraps (ErrBinary), or nil
 }
+
+// Unwrap returns the sentinel the error carries, if any.
+func (e *LineError) Unwrap() error { return e.err }
 
 func (e *LineError) Error() string {
 	if e.Line <= 0 {

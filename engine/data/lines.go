@@ -5,6 +5,7 @@ import (
 	"bytes"
 	"errors"
 	"io"
+	"os"
 	"strconv"
 )
 
@@ -41,6 +42,8 @@ type lineReader struct {
 	line    int
 	maxLine int
 	max     int64
+	size    int64 // bytes the input holds in all, when the reader knows it; -1 otherwise
+	read    int64 // bytes of lines returned so far
 }
 
 func newLineReader(r io.Reader, l Limits, maxLine int) *lineReader {
@@ -48,7 +51,35 @@ func newLineReader(r io.Reader, l Limits, maxLine int) *lineReader {
 		br:      bufio.NewReaderSize(&capReader{r: r, max: l.MaxBytes}, maxLine),
 		maxLine: maxLine,
 		max:     l.MaxBytes,
+		size:    sizeOf(r),
 	}
+}
+
+// sizeOf returns how many bytes r still holds when it can tell (a strings.Reader, a
+// bytes.Reader, a file, or a reader that says its Len or Size), or -1.
+func sizeOf(r io.Reader) int64 {
+	switch v := r.(type) {
+	case interface{ Len() int }:
+		return int64(v.Len())
+	case interface{ Stat() (os.FileInfo, error) }:
+		if fi, err := v.Stat(); err == nil && fi.Mode().IsRegular() {
+			if s, ok := r.(io.Seeker); ok {
+				if at, err := s.Seek(0, io.SeekCurrent); err == nil {
+					return fi.Size() - at
+				}
+			}
+		}
+	}
+	return -1
+}
+
+// left returns the bytes of the input after the lines returned so far, when known; -1
+// otherwise.
+func (lr *lineReader) left() int64 {
+	if lr.size < 0 {
+		return -1
+	}
+	return max(0, lr.size-lr.read)
 }
 
 // next returns the next line (valid until the following call) or io.EOF after the last.
@@ -58,6 +89,7 @@ func (lr *lineReader) next() ([]byte, error) {
 		return nil, io.EOF
 	}
 	lr.line++
+	lr.read += int64(len(b))
 	switch {
 	case err == bufio.ErrBufferFull:
 		return nil, lineErr(lr.line, "the line is longer than %d bytes", lr.maxLine)

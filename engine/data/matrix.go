@@ -23,7 +23,8 @@ import (
 // allocated, and at most limits.MaxBytes+1 bytes of r are read. Every problem with the
 // content is a *LineError naming the line and the reason; a bad limit is a *ParamError.
 //
-// Special cases are: an input without numbers, NaN and Inf entries, and numbers beyond
+// Special cases are: a binary input (see Sniff) is refused from its first bytes, wrapping
+// ErrBinary; an input without numbers, NaN and Inf entries, and numbers beyond
 // the range of float64 are refused; complex and pattern Matrix Market files are refused
 // with the type named.
 func ReadMatrix(r io.Reader, limits Limits) (*mat.Dense, error) {
@@ -32,6 +33,9 @@ func ReadMatrix(r io.Reader, limits Limits) (*mat.Dense, error) {
 		return nil, err
 	}
 	lr := newLineReader(r, l, maxLine(l))
+	if err := sniffReader(lr.br); err != nil {
+		return nil, err
+	}
 	for {
 		b, err := lr.next()
 		if err == io.EOF {
@@ -116,6 +120,11 @@ func readText(lr *lineReader, first []byte, l Limits) (*mat.Dense, error) {
 	var data []float64
 	if header(fields) {
 		first = nil
+	} else if left := lr.left(); left > 0 && len(first) > 0 {
+		// One allocation near the final size, from the input's length and the first row's,
+		// instead of a growing slice that holds up to twice the numbers while it grows.
+		rows := left/int64(len(first)+1) + 2
+		data = make([]float64, 0, min(int64(l.MaxEntries), int64(cols)*rows*21/20))
 	}
 	rows := 0
 	for {

@@ -139,6 +139,11 @@ func readMarket(lr *lineReader, banner []byte, l Limits) (*mat.Dense, error) {
 	case f.symmetry != "general" && m != n:
 		return nil, lineErr(lr.line, "a %s matrix must be square, this one is %d x %d", f.symmetry, m, n)
 	}
+	// The work is bounded by the data, not by the size line: past earlyCheck entries (below
+	// it allocating costs nothing and the entries' own message is more precise), an input too
+	// short to hold the stated entries (each takes at least "0\n" in an array, "1 1 0\n" in
+	// coordinates) is refused before the matrix is allocated.
+	const earlyCheck = 1 << 16
 	if f.coordinate {
 		nnz, err := parseSize(fields[2], "entry count", 0, lr.line)
 		if err != nil {
@@ -147,7 +152,20 @@ func readMarket(lr *lineReader, banner []byte, l Limits) (*mat.Dense, error) {
 		if nnz > l.MaxEntries {
 			return nil, lineErr(lr.line, "%d entries exceed the cap of %d", nnz, l.MaxEntries)
 		}
+		if left := lr.left(); left >= 0 && nnz > earlyCheck && int64(nnz)*6-1 > left {
+			return nil, lineErr(lr.line, "the size line states %d entries, but the rest of the input holds only %d bytes (each entry takes at least 6)", nnz, left)
+		}
 		return readCoordinate(lr, f, m, n, nnz)
+	}
+	stored := int64(m) * int64(n)
+	switch f.symmetry {
+	case "symmetric":
+		stored = int64(n) * int64(n+1) / 2
+	case "skew-symmetric":
+		stored = int64(n) * int64(n-1) / 2
+	}
+	if left := lr.left(); left >= 0 && stored > earlyCheck && stored*2-1 > left {
+		return nil, lineErr(lr.line, "the size line states %d x %d (%d stored entries), but the rest of the input holds only %d bytes (each entry takes at least 2)", m, n, stored, left)
 	}
 	return readArray(lr, f, m, n)
 }

@@ -177,23 +177,46 @@ func TestSingularValuesFromFactors(t *testing.T) {
 		f.Mul(&us, v.T())
 		want := append(slices.Clone(s), make([]float64, min(m, n)-k)...)
 		got := svOf(t, &f)
-		// Backward stable SVD: absolute error a small multiple of eps * sigma_max.
+		// The Gram route (see SingularValues): absolute error a small multiple of
+		// eps sigma_max^2 / sigma, and rounding level below GramTolerance.
+		tol := GramTolerance(m, n, s[0])
 		for i := range got {
-			if math.Abs(got[i]-want[i]) > 1e-12*s[0] {
-				t.Errorf("%v: sigma_%d = %.17g, want %g", shape, i, got[i], want[i])
+			bound := 50 * 0x1p-52 * s[0] * s[0] / want[i]
+			if want[i] <= tol {
+				bound = 4 * tol
+			}
+			if math.Abs(got[i]-want[i]) > bound {
+				t.Errorf("%v: sigma_%d = %.17g, want %g within %.2g", shape, i, got[i], want[i], bound)
 			}
 		}
 	}
 }
 
+// A matrix stated 4000 x 4000 with three nonzero entries costs the work of its nonzero rows
+// and columns: its singular values are those entries' magnitudes and zeros (definition).
+func TestSingularValuesZeroRowsAndColumns(t *testing.T) {
+	a := mat.NewDense(4000, 4000, nil)
+	a.Set(7, 3, -2)
+	a.Set(1200, 3999, 0.5)
+	a.Set(3999, 17, 5)
+	got := svOf(t, a)
+	if len(got) != 4000 || got[0] != 5 || got[1] != 2 || got[2] != 0.5 || slices.Max(got[3:]) != 0 {
+		t.Errorf("first values %v, length %d", got[:4], len(got))
+	}
+}
+
 func TestSingularValuesProgressAndCancel(t *testing.T) {
 	a := mat.NewDense(2, 3, []float64{1, 2, 3, 4, 5, 6})
-	var seen []float64
-	if _, err := SingularValues(context.Background(), a, func(f float64) { seen = append(seen, f) }); err != nil {
+	var seen []Step
+	if _, err := SingularValues(context.Background(), a, func(s Step, f float64) {
+		if len(seen) == 0 || seen[len(seen)-1] != s {
+			seen = append(seen, s)
+		}
+	}); err != nil {
 		t.Fatal(err)
 	}
-	if !slices.Equal(seen, []float64{0, 1}) {
-		t.Errorf("progress %v, want [0 1]", seen)
+	if !slices.Equal(seen, []Step{StepGram, StepTridiagonal, StepEigenvalues}) {
+		t.Errorf("progress steps %v, want Gram, tridiagonal, eigenvalues", seen)
 	}
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()

@@ -19,8 +19,9 @@ const maxToken = 512
 // At most limits.MaxEntries numbers are accepted and at most limits.MaxBytes+1 bytes are
 // read (zero fields take DefaultLimits). Problems with the content are *LineError values.
 //
-// Special cases are: an empty list, an empty field between two commas, NaN, Inf and
-// numbers beyond the range of float64 are refused.
+// Special cases are: a binary input (see Sniff) is refused from its first bytes; an empty
+// list, an empty field between two commas, NaN, Inf and numbers beyond the range of float64
+// are refused.
 func ReadValues(r io.Reader, limits Limits) ([]float64, error) {
 	v, _, err := readList(r, limits)
 	return v, err
@@ -68,6 +69,9 @@ func readList(r io.Reader, limits Limits) ([]float64, []int, error) {
 		return nil, nil, err
 	}
 	br := bufio.NewReader(&capReader{r: r, max: l.MaxBytes})
+	if err := sniffReader(br); err != nil {
+		return nil, nil, err
+	}
 	var (
 		vals     []float64
 		lines    []int

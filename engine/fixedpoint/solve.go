@@ -64,8 +64,9 @@ type Result struct {
 	TrainError     float64 // (1/m)||y - F xhat||^2
 	Iterations     int
 	Converged      bool
-	Residual       float64 // last relative change of (g1, t1)
-	EstimateZero   bool    // the estimate is zero except on an exponentially small set
+	Residual       float64         // last relative change of (g1, t1)
+	EstimateZero   bool            // the estimate is zero except on an exponentially small set
+	GLM            *GLMObservables // the generalized model's own observables (SolveGLM); nil from Solve
 }
 
 // State returns the fixed point as a warm start for a neighbouring problem.

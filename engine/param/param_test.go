@@ -89,3 +89,35 @@ func TestRoleString(t *testing.T) {
 		}
 	}
 }
+
+func TestGather(t *testing.T) {
+	ps := []Param{{Name: "a"}, {Name: "b", Optional: true, Default: 7}, {Name: "v", List: true}, {Name: "w", List: true, Optional: true}}
+	v, l, err := Gather("shape x", ps, map[string]float64{"a": 1}, map[string][]float64{"v": {2, 3}})
+	if err != nil || v["a"] != 1 || v["b"] != 7 || len(l["v"]) != 2 {
+		t.Errorf("Gather = %v, %v, %v", v, l, err)
+	}
+	if _, ok := l["w"]; ok {
+		t.Error("an optional list left out was filled in")
+	}
+	for _, c := range []struct {
+		nums         map[string]float64
+		lists        map[string][]float64
+		field, error string
+	}{
+		{nil, map[string][]float64{"v": {1}}, "a", "a: missing (shape x needs it)"},
+		{map[string]float64{"a": 1}, nil, "v", "v: missing (shape x needs it)"},
+		{map[string]float64{"a": 1, "v": 2}, nil, "v", "v: must be a list of numbers"},
+		{map[string]float64{}, map[string][]float64{"a": {1}, "v": {1}}, "a", "a: must be a single number"},
+		{map[string]float64{"a": 1, "zz": 1}, map[string][]float64{"v": {1}}, "zz", "zz: not a parameter of shape x (its parameters: a, b, v, w)"},
+		{map[string]float64{"a": 1}, map[string][]float64{"v": {1}, "q": {1}}, "q", "q: not a parameter of shape x (its parameters: a, b, v, w)"},
+	} {
+		_, _, err := Gather("shape x", ps, c.nums, c.lists)
+		var e *Error
+		if !errors.As(err, &e) || e.Field != c.field || err.Error() != c.error {
+			t.Errorf("Gather(%v, %v) = %v, want %q", c.nums, c.lists, err, c.error)
+		}
+	}
+	if Names(nil) != "none" {
+		t.Errorf("Names(nil) = %q", Names(nil))
+	}
+}

@@ -13,11 +13,16 @@ type Linear struct {
 }
 
 // Then appends the piece slope*r + intercept on [Lo, hi), where Lo is the end of the last
-// piece (-Inf for the first). The last piece must end at +Inf.
+// piece (-Inf for the first). The last piece must end at +Inf. A piece that would be empty
+// (hi <= Lo) is left out, so that a penalty may state pieces that vanish for some of its
+// parameters.
 func (l *Linear) Then(hi, slope, intercept float64) {
 	lo := math.Inf(-1)
 	if ps := l.Pieces(); len(ps) > 0 {
 		lo = ps[len(ps)-1].Hi
+	}
+	if !(hi > lo) {
+		return
 	}
 	p := Piece{Lo: lo, Hi: hi, Slope: slope, Intercept: intercept}
 	switch {

@@ -2,7 +2,6 @@ package penalty
 
 import (
 	"fmt"
-	"maps"
 	"math"
 	"slices"
 	"strings"
@@ -10,12 +9,8 @@ import (
 	"hdrisk/engine/param"
 )
 
-// Kind describes one penalty of the registry.
-type Kind struct {
-	Name   string // the scenario's penalty.kind
-	Help   string // one line, plain words
-	Params []param.Param
-}
+// Kind describes one penalty of the registry: Name is the scenario's penalty.kind.
+type Kind = param.Kind
 
 var (
 	l1Param = param.Param{Name: "l1", Unit: "loss per unit of |x|", Max: math.Inf(1), MaxOpen: true,
@@ -37,26 +32,26 @@ type entry struct {
 }
 
 var kinds = []entry{
-	{Kind{"l1", "LASSO: l1 |x|, sets small entries exactly to zero", []param.Param{l1Param}},
+	{Kind{Name: "l1", Help: "LASSO: l1 |x|, sets small entries exactly to zero", Params: []param.Param{l1Param}},
 		func(v map[string]float64) (Penalty, error) { return L1(v["l1"]) }},
-	{Kind{"ridge", "ridge: (l2/2) x^2, shrinks every entry, sets none to zero", []param.Param{l2Param}},
+	{Kind{Name: "ridge", Help: "ridge: (l2/2) x^2, shrinks every entry, sets none to zero", Params: []param.Param{l2Param}},
 		func(v map[string]float64) (Penalty, error) { return Ridge(v["l2"]) }},
-	{Kind{"elastic-net", "elastic net: l1 |x| + (l2/2) x^2, LASSO and ridge together", []param.Param{l1Param, l2Param}},
+	{Kind{Name: "elastic-net", Help: "elastic net: l1 |x| + (l2/2) x^2, LASSO and ridge together", Params: []param.Param{l1Param, l2Param}},
 		func(v map[string]float64) (Penalty, error) { return ElasticNet(v["l1"], v["l2"]) }},
-	{Kind{"nonneg-l1", "nonnegative LASSO: l1 x + (l2/2) x^2 with every entry kept >= 0", []param.Param{l1Param, optional(l2Param)}},
+	{Kind{Name: "nonneg-l1", Help: "nonnegative LASSO: l1 x + (l2/2) x^2 with every entry kept >= 0", Params: []param.Param{l1Param, optional(l2Param)}},
 		func(v map[string]float64) (Penalty, error) { return NonnegL1(v["l1"], v["l2"]) }},
-	{Kind{"box", "box: every entry kept within [-bound, bound], with an optional (l2/2) x^2", []param.Param{
+	{Kind{Name: "box", Help: "box: every entry kept within [-bound, bound], with an optional (l2/2) x^2", Params: []param.Param{
 		{Name: "bound", Unit: "units of x0", Max: math.Inf(1), MinOpen: true, MaxOpen: true, Log: true, Role: param.Scale,
 			Help: "largest allowed absolute value of an entry"},
 		optional(l2Param)}},
 		func(v map[string]float64) (Penalty, error) { return Box(v["bound"], v["l2"]) }},
-	{Kind{"huber", "Huber: quadratic for |x| <= width, l1 |x| beyond; shrinks large entries less than ridge", []param.Param{
+	{Kind{Name: "huber", Help: "Huber: quadratic for |x| <= width, l1 |x| beyond; shrinks large entries less than ridge", Params: []param.Param{
 		{Name: "l1", Unit: "loss per unit of |x|", Max: math.Inf(1), MaxOpen: true, Log: true, Role: param.Strength,
 			Help: "slope of the penalty beyond the width"},
 		{Name: "width", Unit: "units of x0", Max: math.Inf(1), MinOpen: true, MaxOpen: true, Log: true, Role: param.Scale,
 			Help: "where the penalty turns from quadratic to linear"}}},
 		func(v map[string]float64) (Penalty, error) { return Huber(v["l1"], v["width"]) }},
-	{Kind{"power", "power: weight |x|^q with 1 <= q <= 2, between the LASSO (q = 1) and ridge (q = 2)", []param.Param{
+	{Kind{Name: "power", Help: "power: weight |x|^q with 1 <= q <= 2, between the LASSO (q = 1) and ridge (q = 2)", Params: []param.Param{
 		{Name: "weight", Unit: "loss per unit of |x|^q", Max: math.Inf(1), MaxOpen: true, Log: true, Role: param.Strength,
 			Help: "strength of the penalty"},
 		{Name: "q", Unit: "dimensionless", Min: 1, Max: 2, Role: param.Shape,
@@ -98,8 +93,7 @@ func Register(k Kind, build func(v map[string]float64) (Penalty, error)) error {
 func Kinds() []Kind {
 	out := make([]Kind, len(kinds))
 	for i, k := range kinds {
-		out[i] = k.Kind
-		out[i].Params = slices.Clone(k.Params)
+		out[i] = k.Clone()
 	}
 	return out
 }
@@ -111,37 +105,15 @@ func New(kind string, params map[string]float64) (Penalty, error) {
 	names := make([]string, len(kinds))
 	for i, k := range kinds {
 		names[i] = k.Name
-		if k.Name != kind {
-			continue
-		}
-		v := make(map[string]float64, len(k.Params))
-		for _, p := range k.Params {
-			x, ok := params[p.Name]
-			switch {
-			case ok:
-				v[p.Name] = x
-			case p.Optional:
-				v[p.Name] = p.Default
-			default:
-				return nil, &param.Error{Field: p.Name, Reason: fmt.Sprintf("missing (penalty %s needs it)", kind)}
+		if k.Name == kind {
+			v, _, err := param.Gather("penalty "+kind, k.Params, params, nil)
+			if err != nil {
+				return nil, err
 			}
+			return k.build(v)
 		}
-		for _, name := range slices.Sorted(maps.Keys(params)) {
-			if _, ok := v[name]; !ok {
-				return nil, &param.Error{Field: name, Reason: fmt.Sprintf("not a parameter of penalty %s (its parameters: %s)", kind, paramNames(k.Params))}
-			}
-		}
-		return k.build(v)
 	}
 	return nil, &param.Error{Field: "kind", Reason: fmt.Sprintf("unknown penalty %q (known: %s)", kind, strings.Join(names, ", "))}
-}
-
-func paramNames(ps []param.Param) string {
-	n := make([]string, len(ps))
-	for i, p := range ps {
-		n[i] = p.Name
-	}
-	return strings.Join(n, ", ")
 }
 
 // Strengths of the power penalty: its weight, at every q.

@@ -187,6 +187,13 @@ func TestLinearHoldsAnyNumberOfPieces(t *testing.T) {
 	if q := l.at(3.5); q.Intercept != 4 {
 		t.Errorf("at(3.5) = %v, want the piece [3, 4)", q)
 	}
+	var e Linear
+	e.Then(0, 1, 0)
+	e.Then(0, 5, 5)
+	e.Then(math.Inf(1), 2, 0)
+	if ps := e.Pieces(); len(ps) != 2 || ps[1].Slope != 2 || ps[1].Lo != 0 {
+		t.Errorf("an empty piece was kept: %v", ps)
+	}
 }
 
 func TestRegisterRefusesBadKinds(t *testing.T) {

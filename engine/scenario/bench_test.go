@@ -1,7 +1,11 @@
 package scenario
 
 import (
+	"bytes"
+	"compress/flate"
+	"encoding/base64"
 	"os"
+	"strings"
 	"testing"
 )
 
@@ -61,4 +65,26 @@ func BenchmarkLink(b *testing.B) {
 			}
 		}
 	})
+}
+
+// BenchmarkDecodeLinkHostile is the cost of refusing the worst links a page may be opened
+// with: a deflate bomb (64 MB of spaces compressed) and a code over the length cap. The
+// refusal must stay well under a second; it is measured here rather than timed in a test.
+func BenchmarkDecodeLinkHostile(b *testing.B) {
+	var bomb bytes.Buffer
+	w, _ := flate.NewWriter(&bomb, flate.BestCompression)
+	w.Write(bytes.Repeat([]byte(" "), 64<<20))
+	w.Close()
+	for name, code := range map[string]string{
+		"deflate-bomb": LinkPrefix + base64.RawURLEncoding.EncodeToString(bomb.Bytes()),
+		"over-the-cap": strings.Repeat("A", 10<<20),
+	} {
+		b.Run(name, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := DecodeLink(code); err == nil {
+					b.Fatal("accepted")
+				}
+			}
+		})
+	}
 }

@@ -105,16 +105,16 @@ func (b Binding) At(v float64) (Checked, error) {
 	var err error
 	switch t.full {
 	case "design.alpha":
-		if err = alphaParam.Check(t.full, v); err != nil {
+		if err = AlphaParam.Check(t.full, v); err != nil {
 			return Checked{}, err
 		}
 		c.s.Design.Alpha = v
 		c.l.d, err = buildDesign(c.s.Design)
 	case "noise.variance":
-		c.s.Noise = Noise{Variance: v}
+		c.s.Noise = Noise{Variance: v, Law: c.s.Noise.Law}
 		err = c.s.validateNoise()
 	case "noise.snr_db":
-		c.s.Noise = Noise{SNRdB: v, SNR: true}
+		c.s.Noise = Noise{SNRdB: v, SNR: true, Law: c.s.Noise.Law}
 		err = c.s.validateNoise()
 	default:
 		if err = t.p.Check(t.full, v); err != nil {
@@ -127,6 +127,17 @@ func (b Binding) At(v float64) (Checked, error) {
 		case "signal":
 			c.s.Signal.Params = withValue(c.s.Signal.Params, t.p.Name, v)
 			c.l.x, err = buildSignal(c.s.Signal)
+		case "readout", "loss", "noise":
+			ch := c.s.choiceOf(t.object).clone()
+			ch.Params = withValue(ch.Params, t.p.Name, v)
+			switch t.object {
+			case "readout":
+				c.s.Readout = ch
+			case "loss":
+				c.s.Loss = ch
+			default:
+				c.s.Noise.Law = ch
+			}
 		default:
 			c.s.Penalty.Params = withValue(c.s.Penalty.Params, t.p.Name, v)
 			c.l.p, err = buildPenalty(c.s.Penalty)
@@ -139,6 +150,9 @@ func (b Binding) At(v float64) (Checked, error) {
 		return Checked{}, errNoPower()
 	}
 	c.noise = noiseVar(c.s.Noise, c.l)
+	if c.l.g, err = c.s.buildGLM(c.noise); err != nil {
+		return Checked{}, err
+	}
 	return c, nil
 }
 

@@ -3,6 +3,7 @@ package scenario
 import (
 	"bytes"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -124,5 +125,39 @@ func sameScenario(t *testing.T, what string, got, want Scenario) {
 	w, err2 := want.Encode()
 	if err1 != nil || err2 != nil || !bytes.Equal(g, w) {
 		t.Errorf("%s: scenario differs (%v, %v):\n%s\nwant\n%s", what, err1, err2, g, w)
+	}
+}
+
+// A checked scenario writes the same file and link as the scenario it came from, and
+// DecodeChecked reads what Decode reads, refusing what it refuses.
+func TestCheckedEncodesAsScenario(t *testing.T) {
+	for _, s := range bindCases(t) {
+		c, err := s.Check()
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, _ := s.Encode()
+		if got := c.Encode(); !bytes.Equal(got, want) {
+			t.Errorf("%s: Checked.Encode differs:\n%s\nwant\n%s", s.Title, got, want)
+		}
+		wl, werr := EncodeLinkFits(s, 0)
+		gl, gerr := c.EncodeLink(0)
+		if gl != wl || gerr != nil || werr != nil {
+			t.Errorf("%s: Checked.EncodeLink %q, %v; want %q, %v", s.Title, gl, gerr, wl, werr)
+		}
+		d, err := DecodeChecked(want)
+		if err != nil {
+			t.Fatal(err)
+		}
+		sameScenario(t, s.Title+" DecodeChecked", d.Scenario(), s)
+	}
+	bad := []byte(strings.Replace(base, `"l1": 0.05`, `"l1": -1`, 1))
+	_, werr := Decode(bad)
+	_, gerr := DecodeChecked(bad)
+	if werr == nil || gerr == nil || werr.Error() != gerr.Error() {
+		t.Errorf("invalid document: Decode %v, DecodeChecked %v", werr, gerr)
+	}
+	if _, err := DecodeChecked([]byte("{")); err == nil {
+		t.Error("DecodeChecked accepted a broken document")
 	}
 }

@@ -6,7 +6,7 @@ import (
 	"unicode/utf8"
 )
 
-var topKeys = []string{"kind", "version", "title", "notes", "design", "signal", "noise", "penalty", "study"}
+var topKeys = []string{"kind", "version", "title", "notes", "design", "signal", "noise", "penalty", "readout", "loss", "study"}
 
 // Decode reads a scenario document (contract 1) strictly: the document is at most
 // MaxBytes of UTF-8 JSON holding one object; every key is known at its level (a key
@@ -16,6 +16,29 @@ var topKeys = []string{"kind", "version", "title", "notes", "design", "signal", 
 // registries state), which Encode then writes out. Every refusal is a *FieldError
 // naming the JSON path ("penalty.l1") and the reason.
 func Decode(data []byte) (Scenario, error) {
+	s, err := read(data)
+	if err != nil {
+		return Scenario{}, err
+	}
+	if err := s.Validate(); err != nil {
+		return Scenario{}, err
+	}
+	return s, nil
+}
+
+// DecodeChecked is Decode returning the checked scenario, for a caller that goes on to
+// solve or study it.
+func DecodeChecked(data []byte) (Checked, error) {
+	s, err := read(data)
+	if err != nil {
+		return Checked{}, err
+	}
+	return s.Check()
+}
+
+// read parses a document into a scenario without the checks that need the registries'
+// constructors.
+func read(data []byte) (Scenario, error) {
 	if len(data) > MaxBytes {
 		return Scenario{}, fieldErr("", "the document is %d bytes; the limit is %d bytes (4 MB)", len(data), MaxBytes)
 	}
@@ -26,14 +49,7 @@ func Decode(data []byte) (Scenario, error) {
 	if err != nil {
 		return Scenario{}, err
 	}
-	s, err := fromTree(tree)
-	if err != nil {
-		return Scenario{}, err
-	}
-	if err := s.Validate(); err != nil {
-		return Scenario{}, err
-	}
-	return s, nil
+	return fromTree(tree)
 }
 
 // reader walks one JSON object, remembering which keys were read so that the rest can be
@@ -162,6 +178,12 @@ func fromTree(v *jval) (Scenario, error) {
 		return s, err
 	}
 	if s.Penalty, err = readPenalty(r); err != nil {
+		return s, err
+	}
+	if s.Readout, err = readChoice(r, readouts()); err != nil {
+		return s, err
+	}
+	if s.Loss, err = readChoice(r, losses()); err != nil {
 		return s, err
 	}
 	if sv, ok := r.get("study"); ok {
@@ -303,6 +325,9 @@ func readPenalty(top *reader) (Penalty, error) {
 }
 
 func readNoise(top *reader) (Noise, error) {
+	if _, ok := top.v.vals["noise"]; !ok && noiseMayLack(top) {
+		return Noise{}, nil
+	}
 	v, err := top.need("noise")
 	if err != nil {
 		return Noise{}, err
@@ -311,7 +336,11 @@ func readNoise(top *reader) (Noise, error) {
 	if err != nil {
 		return Noise{}, err
 	}
-	if err := r.restExcept([]string{"variance", "snr_db"}); err != nil {
+	law, lawKeys, err := readNoiseLaw(r)
+	if err != nil {
+		return Noise{}, err
+	}
+	if err := r.restExcept(append([]string{"variance", "snr_db"}, lawKeys...)); err != nil {
 		return Noise{}, err
 	}
 	_, hasVar := r.v.vals["variance"]
@@ -321,10 +350,10 @@ func readNoise(top *reader) (Noise, error) {
 		return Noise{}, fieldErr("noise", "give variance or snr_db, not both")
 	case hasSNR:
 		x, _, err := r.float("snr_db", true)
-		return Noise{SNRdB: x, SNR: true}, err
+		return Noise{SNRdB: x, SNR: true, Law: law}, err
 	case hasVar:
 		x, _, err := r.float("variance", true)
-		return Noise{Variance: x}, err
+		return Noise{Variance: x, Law: law}, err
 	}
 	return Noise{}, fieldErr("noise.variance", "missing: state the noise as variance (or as snr_db)")
 }

@@ -93,31 +93,31 @@ func (n node) write(b *bytes.Buffer, indent string, pretty bool) {
 // written as encoding/json writes them, so Decode reads back exactly the same scenario.
 // An invalid s gives its *FieldError and no output.
 func (s Scenario) Encode() ([]byte, error) {
-	n, err := s.tree()
-	if err != nil {
+	if err := s.Validate(); err != nil {
 		return nil, err
 	}
+	return s.pretty(), nil
+}
+
+// Encode is Scenario.Encode without checking the scenario again.
+func (c Checked) Encode() []byte { return c.s.pretty() }
+
+func (s Scenario) pretty() []byte {
 	var b bytes.Buffer
-	n.write(&b, "", true)
+	s.tree().write(&b, "", true)
 	b.WriteByte('\n')
-	return b.Bytes(), nil
+	return b.Bytes()
 }
 
 // compact is the canonical form without any space: the text inside a share link.
-func (s Scenario) compact() ([]byte, error) {
-	n, err := s.tree()
-	if err != nil {
-		return nil, err
-	}
+func (s Scenario) compact() []byte {
 	var b bytes.Buffer
-	n.write(&b, "", false)
-	return b.Bytes(), nil
+	s.tree().write(&b, "", false)
+	return b.Bytes()
 }
 
-func (s Scenario) tree() (node, error) {
-	if err := s.Validate(); err != nil {
-		return node{}, err
-	}
+// tree is the canonical form of a valid s.
+func (s Scenario) tree() node {
 	t := obj()
 	t.set("kind", str(s.Kind))
 	t.set("version", integer(int64(s.Version)))
@@ -141,15 +141,17 @@ func (s Scenario) tree() (node, error) {
 	} else {
 		z.set("variance", flt(s.Noise.Variance))
 	}
+	s.Noise.lawTree(&z)
 	t.set("noise", z)
 	p := obj()
 	p.set("kind", str(s.Penalty.Kind))
 	addParams(&p, penalties(), s.Penalty.Kind, s.Penalty.Params, nil)
 	t.set("penalty", p)
+	s.glmTree(&t)
 	if s.Study != nil {
 		t.set("study", s.Study.tree())
 	}
-	return t, nil
+	return t
 }
 
 func addParams(n *node, f *family, kind string, params map[string]float64, lists map[string][]float64) {
@@ -163,36 +165,30 @@ func addParams(n *node, f *family, kind string, params map[string]float64, lists
 	}
 }
 
+// axis writes one swept value: its path under the key over, then from, to, points and
+// (when set) log, each key led by prefix ("x_from" for a map's x axis).
+func (n *node) axis(over, prefix, path string, from, to float64, points int, log bool) {
+	n.set(over, str(path))
+	n.set(prefix+"from", flt(from))
+	n.set(prefix+"to", flt(to))
+	n.set(prefix+"points", integer(int64(points)))
+	if log {
+		n.set(prefix+"log", boolean(true))
+	}
+}
+
 func (st *Study) tree() node {
 	t := obj()
 	t.set("view", str(st.View))
 	if sw := st.Sweep; sw != nil {
 		n := obj()
-		n.set("over", str(sw.Over))
-		n.set("from", flt(sw.From))
-		n.set("to", flt(sw.To))
-		n.set("points", integer(int64(sw.Points)))
-		if sw.Log {
-			n.set("log", boolean(true))
-		}
+		n.axis("over", "", sw.Over, sw.From, sw.To, sw.Points, sw.Log)
 		t.set("sweep", n)
 	}
 	if m := st.Map; m != nil {
 		n := obj()
-		n.set("x", str(m.X))
-		n.set("x_from", flt(m.XFrom))
-		n.set("x_to", flt(m.XTo))
-		n.set("x_points", integer(int64(m.XPoints)))
-		if m.XLog {
-			n.set("x_log", boolean(true))
-		}
-		n.set("y", str(m.Y))
-		n.set("y_from", flt(m.YFrom))
-		n.set("y_to", flt(m.YTo))
-		n.set("y_points", integer(int64(m.YPoints)))
-		if m.YLog {
-			n.set("y_log", boolean(true))
-		}
+		n.axis("x", "x_", m.X, m.XFrom, m.XTo, m.XPoints, m.XLog)
+		n.axis("y", "y_", m.Y, m.YFrom, m.YTo, m.YPoints, m.YLog)
 		t.set("map", n)
 	}
 	if b := st.Best; b != nil {

@@ -35,10 +35,16 @@ func EncodeLink(s Scenario) (string, error) {
 // EncodeLinkFits is EncodeLink with the longest acceptable code chosen by the caller
 // (maxLen <= 0 means no limit).
 func EncodeLinkFits(s Scenario, maxLen int) (string, error) {
-	data, err := s.compact()
-	if err != nil {
+	if err := s.Validate(); err != nil {
 		return "", err
 	}
+	return linkCode(s.compact(), maxLen)
+}
+
+// EncodeLink is EncodeLinkFits without checking the scenario again.
+func (c Checked) EncodeLink(maxLen int) (string, error) { return linkCode(c.s.compact(), maxLen) }
+
+func linkCode(data []byte, maxLen int) (string, error) {
 	var z bytes.Buffer
 	w, err := flate.NewWriter(&z, flate.BestCompression)
 	if err != nil {

@@ -20,11 +20,6 @@ type PathInfo struct {
 	Role             param.Role // what the number does; the penalty's strengths are param.Strength
 }
 
-var (
-	noiseParam = param.Param{Name: "variance", Label: "noise variance Delta", Min: 0, Max: MaxNoiseVar, Log: true, Role: param.Scale}
-	snrParam   = param.Param{Name: "snr_db", Label: "signal-to-noise ratio", Unit: "dB", Min: MinSNRdB, Max: MaxSNRdB}
-)
-
 // target is a resolved path.
 type target struct {
 	full   string // "penalty.l1"
@@ -49,12 +44,13 @@ func (s Scenario) eachTarget(fn func(t target) bool) {
 		}
 		return true
 	}
-	_ = fn(target{full: "design.alpha", object: "design", p: alphaParam, scalar: true}) &&
+	_ = fn(target{full: "design.alpha", object: "design", p: AlphaParam, scalar: true}) &&
 		kind("design", designs(), s.Design.Shape) &&
 		kind("signal", signals(), s.Signal.Law) &&
-		fn(target{full: "noise.variance", object: "noise", p: noiseParam, scalar: true}) &&
-		fn(target{full: "noise.snr_db", object: "noise", p: snrParam, scalar: true}) &&
-		kind("penalty", penalties(), s.Penalty.Kind)
+		fn(target{full: "noise.variance", object: "noise", p: NoiseParam, scalar: true}) &&
+		fn(target{full: "noise.snr_db", object: "noise", p: SNRParam, scalar: true}) &&
+		kind("penalty", penalties(), s.Penalty.Kind) &&
+		s.glmTargets(fn, kind)
 }
 
 // targets lists every number of s, in the order of eachTarget.
@@ -173,6 +169,9 @@ func (s Scenario) Get(path string) (float64, error) {
 	case "signal":
 		return s.Signal.Params[t.p.Name], nil
 	}
+	if isGLMObject(t.object) {
+		return s.choiceOf(t.object).Params[t.p.Name], nil
+	}
 	return s.Penalty.Params[t.p.Name], nil
 }
 
@@ -195,15 +194,17 @@ func (s Scenario) With(path string, v float64) (Scenario, error) {
 	case "design.alpha":
 		c.Design.Alpha = v
 	case "noise.variance":
-		c.Noise = Noise{Variance: v}
+		c.Noise = Noise{Variance: v, Law: c.Noise.Law}
 	case "noise.snr_db":
-		c.Noise = Noise{SNRdB: v, SNR: true}
+		c.Noise = Noise{SNRdB: v, SNR: true, Law: c.Noise.Law}
 	default:
 		switch t.object {
 		case "design":
 			c.Design.Params[t.p.Name] = v
 		case "signal":
 			c.Signal.Params[t.p.Name] = v
+		case "readout", "loss", "noise":
+			c.choiceOf(t.object).Params[t.p.Name] = v
 		default:
 			c.Penalty.Params[t.p.Name] = v
 		}
@@ -222,6 +223,7 @@ func (s Scenario) clone() Scenario {
 	c.Signal.Params = maps.Clone(s.Signal.Params)
 	c.Signal.Lists = cloneLists(s.Signal.Lists)
 	c.Penalty.Params = maps.Clone(s.Penalty.Params)
+	c.Readout, c.Loss, c.Noise.Law = s.Readout.clone(), s.Loss.clone(), s.Noise.Law.clone()
 	if s.Study != nil {
 		st := *s.Study
 		st.Sweep = clonePtr(st.Sweep)

@@ -15,6 +15,7 @@ type laws struct {
 	d design.Law
 	x signal.Law
 	p penalty.Penalty
+	g glmLaws
 }
 
 func (s Scenario) laws() (laws, error) {
@@ -46,7 +47,11 @@ func (s Scenario) laws() (laws, error) {
 	if err != nil {
 		return l, err
 	}
-	return laws{d, x, p}, nil
+	l = laws{d: d, x: x, p: p}
+	if l.g, err = s.buildGLM(noiseVar(s.Noise, l)); err != nil {
+		return l, err
+	}
+	return l, nil
 }
 
 func errNoPower() error {

@@ -114,13 +114,13 @@ func randScenario(r *rand.Rand) Scenario {
 		s.Notes = randText(r, MaxNotes, true)
 	}
 	s.Design.Shape, s.Design.Params, s.Design.Lists = randKind(r, designs())
-	s.Design.Alpha = randIn(r, alphaParam)
+	s.Design.Alpha = randIn(r, AlphaParam)
 	s.Design.Scale = scales[r.IntN(len(scales))]
 	s.Signal.Law, s.Signal.Params, s.Signal.Lists = randKind(r, signals())
 	if r.IntN(2) == 0 {
-		s.Noise = Noise{Variance: randIn(r, noiseParam)}
+		s.Noise = Noise{Variance: randIn(r, NoiseParam)}
 	} else {
-		s.Noise = Noise{SNRdB: randIn(r, snrParam), SNR: true}
+		s.Noise = Noise{SNRdB: randIn(r, SNRParam), SNR: true}
 	}
 	s.Penalty.Kind, s.Penalty.Params, _ = randKind(r, penalties())
 	if r.IntN(3) == 0 {
@@ -143,7 +143,7 @@ func randScenario(r *rand.Rand) Scenario {
 		st.Best = &Best{Over: "l1"}
 	}
 	if r.IntN(2) == 0 {
-		st.Plan = &Plan{TargetDB: MinTargetDB + (MaxTargetDB-MinTargetDB)*r.Float64(), AlphaMax: randIn(r, alphaParam)}
+		st.Plan = &Plan{TargetDB: MinTargetDB + (MaxTargetDB-MinTargetDB)*r.Float64(), AlphaMax: randIn(r, AlphaParam)}
 	}
 	if r.IntN(2) == 0 {
 		st.Check = &Check{N: 2 + r.IntN(MaxCheckN-1), Trials: 1 + r.IntN(MaxTrials), Seed: r.Uint64N(MaxSeed + 1),

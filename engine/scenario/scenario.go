@@ -2,7 +2,6 @@ package scenario
 
 import (
 	"fmt"
-	"math"
 	"slices"
 	"strconv"
 	"strings"
@@ -48,7 +47,9 @@ type Scenario struct {
 	Signal  Signal
 	Noise   Noise
 	Penalty Penalty
-	Study   *Study // nil when absent
+	Readout *Choice // nil: the linear readout, y = F x0 + w (method.md section 10)
+	Loss    *Choice // nil: the square loss
+	Study   *Study  // nil when absent
 }
 
 // Design is the law of the singular values of the measurement matrix. Params holds the
@@ -82,6 +83,7 @@ type Noise struct {
 	Variance float64 // Delta >= 0; used when SNR is false, and 0 otherwise
 	SNRdB    float64 // 10 log10 SNR; used when SNR is true, and 0 otherwise
 	SNR      bool    // the noise is stated as SNRdB
+	Law      *Choice // nil: Gaussian; Variance is then the typical entry's (method.md section 10)
 }
 
 // Study records what the page or a command was last asked: the view and its settings.
@@ -207,14 +209,26 @@ func checkText(field, t string, max int, multiline bool) error {
 	return nil
 }
 
-var alphaParam = param.Param{Name: "alpha", Label: "sampling ratio m/n", Min: 0, Max: MaxAlpha, MinOpen: true, Log: true}
+// The numbers every scenario has besides the parameters of its kinds, described as the
+// registries describe theirs: the page's editor and the command line read them here.
+var (
+	AlphaParam = param.Param{Name: "alpha", Label: "sampling ratio m/n", Unit: "measurements per unknown",
+		Help: "how many measurements m there are for each of the n unknowns",
+		Min:  0, Max: MaxAlpha, MinOpen: true, Log: true}
+	NoiseParam = param.Param{Name: "variance", Label: "noise variance Delta", Unit: "units of y squared",
+		Help: "variance Δ of each entry of the noise w",
+		Min:  0, Max: MaxNoiseVar, Log: true, Role: param.Scale}
+	SNRParam = param.Param{Name: "snr_db", Label: "signal-to-noise ratio", Unit: "dB",
+		Help: "10 log10 of E‖F x0‖² / E‖w‖²; higher is cleaner",
+		Min:  MinSNRdB, Max: MaxSNRdB}
+)
 
 func (s Scenario) validateDesign() error {
 	d := s.Design
 	if err := validateParams(designs(), d.Shape, d.Params, d.Lists); err != nil {
 		return err
 	}
-	if err := alphaParam.Check("design.alpha", d.Alpha); err != nil {
+	if err := AlphaParam.Check("design.alpha", d.Alpha); err != nil {
 		return err
 	}
 	if !slices.Contains(scales, d.Scale) {
@@ -300,20 +314,14 @@ func sortedKeys[V any](m map[string]V) []string {
 
 func (s Scenario) validateNoise() error {
 	n := s.Noise
+	if n.SNR && n.Variance != 0 || !n.SNR && n.SNRdB != 0 {
+		return fieldErr("noise", "give variance or snr_db, not both")
+	}
 	if n.SNR {
-		if n.Variance != 0 {
-			return fieldErr("noise", "give variance or snr_db, not both")
-		}
-		if math.IsNaN(n.SNRdB) || n.SNRdB < MinSNRdB || n.SNRdB > MaxSNRdB {
-			return fieldErr("noise.snr_db", "must be in [%s, %s] dB, not %s", num(MinSNRdB), num(MaxSNRdB), num(n.SNRdB))
+		if !SNRParam.Contains(n.SNRdB) {
+			return fieldErr("noise.snr_db", "must be in %s dB, not %s", SNRParam.Interval(), num(n.SNRdB))
 		}
 		return nil
 	}
-	if n.SNRdB != 0 {
-		return fieldErr("noise", "give variance or snr_db, not both")
-	}
-	if math.IsNaN(n.Variance) || n.Variance < 0 || n.Variance > MaxNoiseVar {
-		return fieldErr("noise.variance", "must be in [0, %s], not %s", num(MaxNoiseVar), num(n.Variance))
-	}
-	return nil
+	return NoiseParam.Check("noise.variance", n.Variance)
 }

@@ -122,21 +122,7 @@ func readSweep(v *jval) (Sweep, error) {
 	if err := r.restExcept(sweepKeys); err != nil {
 		return sw, err
 	}
-	if sw.Over, err = r.text("over", true); err != nil {
-		return sw, err
-	}
-	if sw.From, _, err = r.float("from", true); err != nil {
-		return sw, err
-	}
-	if sw.To, _, err = r.float("to", true); err != nil {
-		return sw, err
-	}
-	n, err := r.integer("points", 2, MaxSweepPoints)
-	if err != nil {
-		return sw, err
-	}
-	sw.Points = int(n)
-	sw.Log, err = r.boolean("log")
+	err = r.axis("over", "", MaxSweepPoints, &sw.Over, &sw.From, &sw.To, &sw.Points, &sw.Log)
 	return sw, err
 }
 
@@ -149,30 +135,33 @@ func readMap(v *jval) (Map, error) {
 	if err := r.restExcept(mapKeys); err != nil {
 		return m, err
 	}
-	axis := func(p string, over *string, from, to *float64, points *int, log *bool) error {
-		var err error
-		if *over, err = r.text(p, true); err != nil {
-			return err
-		}
-		if *from, _, err = r.float(p+"_from", true); err != nil {
-			return err
-		}
-		if *to, _, err = r.float(p+"_to", true); err != nil {
-			return err
-		}
-		n, err := r.integer(p+"_points", 2, MaxMapPoints)
-		if err != nil {
-			return err
-		}
-		*points = int(n)
-		*log, err = r.boolean(p + "_log")
-		return err
-	}
-	if err := axis("x", &m.X, &m.XFrom, &m.XTo, &m.XPoints, &m.XLog); err != nil {
+	if err := r.axis("x", "x_", MaxMapPoints, &m.X, &m.XFrom, &m.XTo, &m.XPoints, &m.XLog); err != nil {
 		return m, err
 	}
-	err = axis("y", &m.Y, &m.YFrom, &m.YTo, &m.YPoints, &m.YLog)
+	err = r.axis("y", "y_", MaxMapPoints, &m.Y, &m.YFrom, &m.YTo, &m.YPoints, &m.YLog)
 	return m, err
+}
+
+// axis reads one swept value: its path under the key over, then from, to, points (2 to
+// maxPoints) and the optional log, each key led by prefix ("x_from" for a map's x axis).
+func (r *reader) axis(over, prefix string, maxPoints int64, path *string, from, to *float64, points *int, log *bool) error {
+	var err error
+	if *path, err = r.text(over, true); err != nil {
+		return err
+	}
+	if *from, _, err = r.float(prefix+"from", true); err != nil {
+		return err
+	}
+	if *to, _, err = r.float(prefix+"to", true); err != nil {
+		return err
+	}
+	n, err := r.integer(prefix+"points", 2, maxPoints)
+	if err != nil {
+		return err
+	}
+	*points = int(n)
+	*log, err = r.boolean(prefix + "log")
+	return err
 }
 
 func (s Scenario) validateStudy() error {
@@ -210,7 +199,7 @@ func (s Scenario) validateStudy() error {
 		if math.IsNaN(p.TargetDB) || p.TargetDB < MinTargetDB || p.TargetDB > MaxTargetDB {
 			return fieldErr("study.plan.target_db", "must be in [%s, %s] dB, not %s", num(MinTargetDB), num(MaxTargetDB), num(p.TargetDB))
 		}
-		if err := alphaParam.Check("study.plan.alpha_max", p.AlphaMax); err != nil {
+		if err := AlphaParam.Check("study.plan.alpha_max", p.AlphaMax); err != nil {
 			return err
 		}
 	}

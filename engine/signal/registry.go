@@ -2,7 +2,6 @@ package signal
 
 import (
 	"fmt"
-	"maps"
 	"math"
 	"slices"
 	"strings"
@@ -81,40 +80,13 @@ func New(law string, params map[string]float64, lists map[string][]float64) (Law
 	names := make([]string, len(laws))
 	for i, k := range laws {
 		names[i] = k.Name
-		if k.Name != law {
-			continue
-		}
-		known := map[string]bool{}
-		for _, p := range k.Params {
-			known[p.Name] = true
-			_, isNum := params[p.Name]
-			_, isList := lists[p.Name]
-			switch {
-			case p.List && isNum, !p.List && isList:
-				return nil, &param.Error{Field: p.Name, Reason: fmt.Sprintf("must be %s", map[bool]string{true: "a list of numbers", false: "a single number"}[p.List])}
-			case !isNum && !isList:
-				return nil, &param.Error{Field: p.Name, Reason: fmt.Sprintf("missing (law %s needs it)", law)}
+		if k.Name == law {
+			v, l, err := param.Gather("law "+law, k.Params, params, lists)
+			if err != nil {
+				return nil, err
 			}
+			return k.build(v, l)
 		}
-		for _, name := range slices.Sorted(maps.Keys(params)) {
-			if !known[name] {
-				return nil, &param.Error{Field: name, Reason: fmt.Sprintf("not a parameter of law %s (its parameters: %s)", law, paramNames(k.Params))}
-			}
-		}
-		for _, name := range slices.Sorted(maps.Keys(lists)) {
-			if !known[name] {
-				return nil, &param.Error{Field: name, Reason: fmt.Sprintf("not a parameter of law %s (its parameters: %s)", law, paramNames(k.Params))}
-			}
-		}
-		return k.build(params, lists)
 	}
 	return nil, &param.Error{Field: "law", Reason: fmt.Sprintf("unknown law %q (known: %s)", law, strings.Join(names, ", "))}
-}
-
-func paramNames(ps []param.Param) string {
-	n := make([]string, len(ps))
-	for i, p := range ps {
-		n[i] = p.Name
-	}
-	return strings.Join(n, ", ")
 }

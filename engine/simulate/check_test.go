@@ -156,7 +156,7 @@ func TestCheckRefusesPastCaps(t *testing.T) {
 		{"n", p, Options{N: MaxN + 1, Trials: 1, Solver: SolverVAMP}, "cap of 1000000 unknowns"},
 		{"trials", p, Options{N: 100, Trials: MaxTrials + 1}, "10000"},
 		{"zero trials", p, Options{N: 100, Trials: 0}, "trials"},
-		{"cd dense", p, Options{N: 20000, Trials: 1}, "cap of 25000000"},
+		{"cd dense", p, Options{N: 20000, Trials: 1, Factors: FactorsQR}, "cap of 25000000"},
 		{"gaussian entries", pg, Options{N: 10000, Trials: 1, Solver: SolverProx, Factors: FactorsQR}, "cap of 25000000"},
 		{"gaussian svd", pg, Options{N: 3000, Trials: 1, Solver: SolverVAMP}, "cap of 2000"},
 		{"haar", p, Options{N: 5000, Trials: 1, Solver: SolverProx, Factors: FactorsHouseholder}, "cap of 4000"},
@@ -260,5 +260,25 @@ func TestGaussianEntriesReported(t *testing.T) {
 	rep, err := Check(context.Background(), problem(t, g, nil, lasso, le, true), Options{N: 200, Trials: 1, Solver: SolverProx}, nil)
 	if err != nil || rep.Factors != "entries" {
 		t.Errorf("report factors %q, error %v", rep.Factors, err)
+	}
+}
+
+// cd asked with fast factors on a well-conditioned design runs prox on the factors (the same
+// problem, matrix-free) and says so; on an ill-conditioned one it forms F and runs cd.
+func TestCheckChoosesMatrixFree(t *testing.T) {
+	ol, oe := design.Orthogonal(0.5, design.Rows)
+	ul, ue := design.UniformSV(0.5, 1e-3, 1, design.Rows)
+	lasso, le := penalty.L1(0.05)
+	for _, c := range []struct {
+		name, want string
+		p          Problem
+	}{{"orthogonal", "prox", problem(t, ol, oe, lasso, le, false)}, {"ill-conditioned", "cd", problem(t, ul, ue, lasso, le, false)}} {
+		rep, err := Check(context.Background(), c.p, Options{N: 300, Trials: 2}, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if rep.Solver != c.want || (rep.SolverNote != "") != (c.want != "cd") || rep.NotConverged > 0 {
+			t.Errorf("%s: solver %s (note %q), %d not converged; want %s", c.name, rep.Solver, rep.SolverNote, rep.NotConverged, c.want)
+		}
 	}
 }

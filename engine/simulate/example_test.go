@@ -29,7 +29,7 @@ func ExampleCheck() {
 	fmt.Println("within 3 standard errors plus 5% of the prediction:",
 		math.Abs(r.MeanMSE-r.Predicted.MSE) <= 3*r.StdErr+0.05*r.Predicted.MSE)
 	// Output:
-	// 8 trials of 250 x 500, solver cd, stopped on duality gap / ||y||^2 <= 1e-08
+	// 8 trials of 250 x 500, solver prox, stopped on relative KKT residual <= 1e-08
 	// all converged: true
 	// within 3 standard errors plus 5% of the prediction: true
 }

@@ -52,6 +52,7 @@ func NewFast(rng *rand.Rand, n, rounds int) *Fast {
 		f.perms = append(f.perms, rng.Perm(n))
 	}
 	if f.k >= 3 {
+		f.mixAll()
 		f.dct = fourier.NewDCT(f.k)
 		f.w = make([]float64, f.k)
 		// FFTPACK's cost: y_j = x_0 + (-1)^j x_{k-1} + 2 sum_{i=1}^{k-2} x_i cos(pi i j/(k-1)).
@@ -63,6 +64,52 @@ func NewFast(rng *rand.Rand, n, rounds int) *Fast {
 		f.w[0], f.w[f.k-1] = math.Sqrt2/2, math.Sqrt2/2
 	}
 	return f
+}
+
+// mixAll makes every coordinate pass through the cosine block in at least one round. Left to
+// chance, a share (1 - k/n)^rounds of them never would (a few at n = 1e4): Q then holds a
+// signed column of the identity, the design a column along one singular vector, and VAMP
+// stalls on it. Such coordinates are swapped, in the last round's permutation, with ones
+// already mixed that the last round puts into the block; the rest of the draw is unchanged.
+// With one round there is nothing mixed to swap with, and the matrix is left as drawn.
+func (f *Fast) mixAll() {
+	at := make([]int, f.n) // at[i]: the original coordinate now at position i
+	for i := range at {
+		at[i] = i
+	}
+	mixed := make([]bool, f.n)
+	next := make([]int, f.n)
+	last := len(f.perms) - 1
+	for r, p := range f.perms {
+		for i, pi := range p {
+			next[i] = at[pi]
+		}
+		at, next = next, at
+		if r == last {
+			break
+		}
+		for _, c := range at[:f.k] {
+			mixed[c] = true
+		}
+	}
+	p := f.perms[last]
+	j := 0
+	for i := f.k; i < f.n; i++ {
+		if mixed[at[i]] {
+			continue
+		}
+		for j < f.k && !mixed[at[j]] {
+			j++
+		}
+		if j == f.k {
+			return // one round: nothing was mixed before the last
+		}
+		// Positions i and j exchange their sources; j's coordinate was mixed before, so it
+		// stays mixed outside the block.
+		p[i], p[j] = p[j], p[i]
+		at[i], at[j] = at[j], at[i]
+		j++
+	}
 }
 
 // smoothBlock returns the largest k <= n with k - 1 = 2^a q, q one of the odd 5-smooth numbers

@@ -85,6 +85,8 @@ type Instance struct {
 	// factorized for VAMP. At least one is set.
 	Dense *Matrix
 	SVD   *SVD
+	// Lipschitz is the largest eigenvalue of F^T F when known (0: estimated when needed).
+	Lipschitz float64
 }
 
 // DesignDraw says how to draw the design of an instance.

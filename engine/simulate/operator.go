@@ -3,6 +3,7 @@ package simulate
 import (
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/mat"
 )
 
 // Operator is an m x n matrix known through its products.
@@ -126,4 +127,17 @@ func (f *SVD) dense() *Matrix {
 		}
 	}
 	return a
+}
+
+// FromDense copies a gonum matrix into a column-major Matrix.
+func FromDense(a mat.Matrix) *Matrix {
+	m, n := a.Dims()
+	out := &Matrix{Rows: m, Cols: n, Data: make([]float64, m*n)}
+	for j := 0; j < n; j++ {
+		col := out.Data[j*m : (j+1)*m]
+		for i := range col {
+			col[i] = a.At(i, j)
+		}
+	}
+	return out
 }

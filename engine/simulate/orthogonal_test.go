@@ -146,3 +146,24 @@ func TestDenseOfSVD(t *testing.T) {
 		}
 	}
 }
+
+// Every coordinate of a Fast matrix is mixed: no column of Q is a signed column of the
+// identity, at sizes where a random draw of the permutations leaves some unmixed (n = 1e4,
+// block k = 9217: about (1 - k/n)^3 n = 5 coordinates).
+func TestFastMixesEveryCoordinate(t *testing.T) {
+	for _, n := range []int{10000} {
+		f := NewFast(rand.New(rand.NewPCG(1, 0)), n, DefaultRounds)
+		x := make([]float64, n)
+		col := make([]float64, n)
+		// A column of the identity is a vector with a single entry of magnitude 1; mixed
+		// columns have all entries far below 1 (about 1/sqrt(n) each).
+		for j := 0; j < n; j++ {
+			x[j] = 1
+			f.Mul(col, x)
+			x[j] = 0
+			if maxAbs(col) > 0.5 {
+				t.Fatalf("n = %d: column %d of Q has an entry %g: not mixed", n, j, maxAbs(col))
+			}
+		}
+	}
+}

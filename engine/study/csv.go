@@ -45,6 +45,9 @@ func WriteCSV(w io.Writer, fields []string, pts []Point) error {
 		return specErr("fields", "a CSV needs one or two coordinate names, not %d", len(fields))
 	}
 	obs := Observables()
+	if anyGLM(pts) {
+		obs = append(obs, GLMObservables()...)
+	}
 	cw := csv.NewWriter(w)
 	head := append([]string(nil), fields...)
 	for _, o := range obs {

@@ -100,6 +100,18 @@ func TestMapProgressAndCancel(t *testing.T) {
 	if !errors.Is(err, context.Canceled) || g.Cells != nil {
 		t.Fatalf("after cancel: err %v, %d cells", err, len(g.Cells))
 	}
+	// Cancelled after the second of nine rows, the map stops part-way: rows already handed
+	// out stop at their next cell instead of reporting progress.
+	if rows := n.Load(); rows >= 9 {
+		t.Errorf("all %d rows were computed after the cancel at row 2", rows)
+	}
+	// MapRows returns the rows finished before the cancel, whole.
+	ctx, cancel = context.WithCancel(context.Background())
+	cancel()
+	cells, err := MapRows(ctx, s, spec, 0, 9)
+	if !errors.Is(err, context.Canceled) || len(cells) != 0 {
+		t.Errorf("MapRows cancelled before it starts: %d cells, %v", len(cells), err)
+	}
 }
 
 func TestMapSpecErrors(t *testing.T) {

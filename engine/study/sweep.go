@@ -183,6 +183,9 @@ func (w *walker) solve(c scenario.Checked, err error) Point {
 	if err != nil {
 		return Point{Failed: err.Error()}
 	}
+	if g, ok := c.GLM(); ok {
+		return solveGLM(g, w.opt)
+	}
 	o := w.opt
 	o.Start = w.warm
 	r, err := fixedpoint.Solve(c.Problem(), o)

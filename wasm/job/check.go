@@ -5,7 +5,9 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"strings"
 
+	"hdrisk/engine/data"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/simulate"
 	"hdrisk/engine/study"
@@ -61,7 +63,14 @@ func Check(a protocol.CheckArgs, progress func(done, total int)) (protocol.Check
 	if err != nil {
 		return protocol.CheckResult{}, err
 	}
-	o := simulate.Options{N: a.N, Trials: a.Trials, Seed: a.Seed, Solver: solver, Factors: factors}
+	o := simulate.Options{N: a.N, Trials: a.Trials, Seed: a.Seed, Solver: solver, Factors: factors, First: a.First}
+	if a.Matrix != "" {
+		m, err := data.ReadMatrix(strings.NewReader(a.Matrix), data.Limits{MaxBytes: a.MaxBytes})
+		if err != nil {
+			return protocol.CheckResult{}, fmt.Errorf("matrix: %w", err)
+		}
+		o.Matrix = simulate.FromDense(m)
+	}
 	r, err := simulate.Check(context.Background(),
 		simulate.Problem{Problem: p, GaussianEntries: at.Design.Shape == "gaussian"}, o, progress)
 	if err != nil {
@@ -73,20 +82,32 @@ func Check(a protocol.CheckArgs, progress func(done, total int)) (protocol.Check
 		Nonzero: protocol.CheckStat{Mean: protocol.Num(r.NonZero.Mean), StdErr: protocol.Num(r.NonZero.StdErr), Predicted: protocol.Num(r.Predicted.NonZero)},
 		TPP:     protocol.CheckStat{Mean: protocol.Num(r.TPP.Mean), StdErr: protocol.Num(r.TPP.StdErr), Predicted: protocol.Num(r.Predicted.TPP)},
 		FDP:     protocol.CheckStat{Mean: protocol.Num(r.FDP.Mean), StdErr: protocol.Num(r.FDP.StdErr), Predicted: protocol.Num(r.Predicted.FDP)},
-		Seed:    r.Seed, Solver: r.Solver, Factors: r.Factors, Criterion: r.Criterion,
+		Seed:    r.Seed, Solver: r.Solver, SolverNote: r.SolverNote, Factors: r.Factors, Criterion: r.Criterion,
 		Tol: protocol.Num(r.Tol), MaxIter: r.MaxIter, Converged: r.NotConverged == 0,
 		NotConverged: r.NotConverged, Warnings: r.Warnings(), Seconds: protocol.Num(r.Seconds),
-		Over: a.Over, At: protocol.Num(a.At), Curve: curve,
+		Over: a.Over, At: protocol.Num(a.At), Curve: curve, First: r.First,
 	}
 	if out.Warnings == nil {
 		out.Warnings = []string{}
 	}
-	for _, t := range r.PerTrial {
-		out.PerTrial = append(out.PerTrial, protocol.CheckTrial{MSE: protocol.Num(t.MSE), Nonzero: protocol.Num(t.NonZero),
+	out.PerTrial = checkTrials(r.PerTrial)
+	if c := r.Comparison; c != nil {
+		out.Comparison = &protocol.CheckComparison{MatrixMeanMSE: protocol.Num(c.Matrix.Mean), MatrixStdErr: protocol.Num(c.Matrix.StdErr),
+			RotatedMeanMSE: protocol.Num(c.Rotated.Mean), RotatedStdErr: protocol.Num(c.Rotated.StdErr),
+			RotatedFactors: c.RotatedFactors, RotatedSolver: c.RotatedSolver, RotatedNotConverged: c.RotatedNotConverged,
+			Z: protocol.Num(c.Z), Agrees: c.Agrees, RotatedPerTrial: checkTrials(c.RotatedTrials)}
+	}
+	return out, nil
+}
+
+func checkTrials(ts []simulate.Trial) []protocol.CheckTrial {
+	out := make([]protocol.CheckTrial, 0, len(ts))
+	for _, t := range ts {
+		out = append(out, protocol.CheckTrial{MSE: protocol.Num(t.MSE), Nonzero: protocol.Num(t.NonZero),
 			TPP: protocol.Num(t.TPP), FDP: protocol.Num(t.FDP), Iterations: t.Iterations, Converged: t.Converged,
 			Residual: protocol.Num(t.Residual), Seconds: protocol.Num(t.Seconds)})
 	}
-	return out, nil
+	return out
 }
 
 func runCheck(raw json.RawMessage, progress func(done, total int)) (any, error) {

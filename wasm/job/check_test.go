@@ -3,6 +3,9 @@ package job
 import (
 	"context"
 	"encoding/json"
+	"fmt"
+	"math"
+	"math/rand/v2"
 	"strings"
 	"testing"
 
@@ -133,5 +136,65 @@ func TestCheckRefusals(t *testing.T) {
 		if last.Type != protocol.Failed || !strings.Contains(last.Error, c.want) {
 			t.Errorf("%+v: reply %+v, want an error naming %q", c.args, last, c.want)
 		}
+	}
+}
+
+// A check shared between workers by trials (protocol.SplitTrials) and merged
+// (protocol.MergeChecks) gives the numbers of one job: trials are seeded by their index. With
+// a matrix, the verdict is recomputed the same way.
+func TestCheckSplitMatchesWhole(t *testing.T) {
+	rng := rand.New(rand.NewPCG(4, 4))
+	var mtx strings.Builder
+	const m, n = 40, 80
+	for i := 0; i < m; i++ {
+		for j := 0; j < n; j++ {
+			if j > 0 {
+				mtx.WriteString(",")
+			}
+			fmt.Fprintf(&mtx, "%.6g", rng.NormFloat64()/math.Sqrt(m))
+		}
+		mtx.WriteString("\n")
+	}
+	for _, c := range []struct {
+		name, scen, matrix string
+	}{{"rotations", lassoScenario, ""}, {"matrix", lassoScenario, mtx.String()}} {
+		args := protocol.CheckArgs{Scenario: json.RawMessage(c.scen), N: 120, Trials: 11, Seed: 9, Matrix: c.matrix}
+		whole, err := Check(args, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, workers := range []int{2, 3, 11} {
+			var parts []protocol.CheckResult
+			for _, sp := range protocol.SplitTrials(0, args.Trials, workers) {
+				a := args
+				a.First, a.Trials = sp[0], sp[1]
+				r, err := Check(a, nil)
+				if err != nil {
+					t.Fatal(err)
+				}
+				parts = append(parts, r)
+			}
+			got, err := protocol.MergeChecks(parts)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got.MeanMSE != whole.MeanMSE || got.StdErr != whole.StdErr || got.Trials != whole.Trials || got.TPP != whole.TPP ||
+				got.Nonzero.StdErr != whole.Nonzero.StdErr {
+				t.Errorf("%s, %d workers: mean %v +- %v (%d trials), whole %v +- %v (%d)", c.name, workers, got.MeanMSE, got.StdErr, got.Trials, whole.MeanMSE, whole.StdErr, whole.Trials)
+			}
+			if (got.Comparison == nil) != (c.matrix == "") {
+				t.Fatalf("%s: comparison %v", c.name, got.Comparison)
+			}
+			if w := whole.Comparison; w != nil {
+				g := got.Comparison
+				if g.Z != w.Z || g.Agrees != w.Agrees || g.RotatedMeanMSE != w.RotatedMeanMSE || g.RotatedStdErr != w.RotatedStdErr || len(g.RotatedPerTrial) != len(w.RotatedPerTrial) {
+					t.Errorf("%d workers: verdict z %v rotated %v, whole z %v rotated %v", workers, g.Z, g.RotatedMeanMSE, w.Z, w.RotatedMeanMSE)
+				}
+			}
+		}
+	}
+	bad := []protocol.CheckResult{{First: 0, Trials: 2, PerTrial: make([]protocol.CheckTrial, 2)}, {First: 3, Trials: 2, PerTrial: make([]protocol.CheckTrial, 2)}}
+	if _, err := protocol.MergeChecks(bad); err == nil {
+		t.Error("parts with a gap between their trials were merged")
 	}
 }

@@ -93,3 +93,7 @@ func (j *jobs) Start(kind string, args any, progress func(done, total int), done
 		t.Cancel()
 	}
 }
+
+// Size is the number of workers, so that a view can share one job's work between them
+// (the finite-size check's trials).
+func (j *jobs) Size() int { return j.pool.Size() }

@@ -3,7 +3,9 @@
 // Package pool runs jobs (package job) on a set of Web Workers, one job per worker at a time,
 // each worker running the page's own wasm module. Jobs beyond the number of workers wait in
 // order. Cancelling a running job terminates its worker and starts a fresh one, which is the
-// only way to stop Go code running in a worker.
+// only way to stop Go code running in a worker. A worker that fails or stops while running a
+// job, or whose job passes its time limit (StallLimit without a reply, RunLimit in all), is
+// replaced the same way and its job reported failed with the reason; the other jobs go on.
 package pool
 
 import (
@@ -11,6 +13,7 @@ import (
 	"errors"
 	"fmt"
 	"sync"
+	"time"
 
 	"github.com/hack-pad/safejs"
 
@@ -54,6 +57,12 @@ func ReadBoot() (Boot, error) {
 	return b, nil
 }
 
+// Time limits of one job (protocol.JobStallLimit, protocol.JobRunLimit).
+const (
+	StallLimit = protocol.JobStallLimit
+	RunLimit   = protocol.JobRunLimit
+)
+
 // Pool is a set of workers. Its methods may be called from any goroutine.
 type Pool struct {
 	boot Boot
@@ -87,6 +96,8 @@ type Task struct {
 	done     func(result json.RawMessage, err error)
 	w        *worker
 	over     bool // finished or cancelled: no more callbacks
+	started  time.Time
+	timer    *time.Timer // the time limit of a running task
 }
 
 // New starts n workers from boot (n < 1 means boot.Threads).
@@ -249,18 +260,27 @@ func (p *Pool) receive(w *worker, text string, isErr bool) {
 		}
 		p.dispatch()
 	case protocol.Fatal:
-		p.broken = errors.New(r.Error)
-		if t := w.task; t != nil {
-			p.finish(t, nil, p.broken)
+		if !w.ready {
+			// The worker never started: the module or the browser cannot run one, and a
+			// fresh worker would fail the same way.
+			p.broken = errors.New(r.Error)
+			if t := w.task; t != nil {
+				p.finish(t, nil, p.broken)
+			}
+			for _, t := range p.queue {
+				p.finish(t, nil, p.broken)
+			}
+			p.queue = nil
+			return
 		}
-		for _, t := range p.queue {
-			p.finish(t, nil, p.broken)
-		}
-		p.queue = nil
+		p.fail(w, "the worker stopped ("+r.Error+")")
 	case protocol.Progress:
-		if t := w.task; t != nil && t.req.ID == r.ID && !t.over && t.progress != nil {
-			done, total, f := r.Done, r.Total, t.progress
-			p.post(func() { f(done, total) })
+		if t := w.task; t != nil && t.req.ID == r.ID && !t.over {
+			p.arm(t)
+			if t.progress != nil {
+				done, total, f := r.Done, r.Total, t.progress
+				p.post(func() { f(done, total) })
+			}
 		}
 	case protocol.Result, protocol.Failed:
 		t := w.task
@@ -294,6 +314,10 @@ func (p *Pool) finish(t *Task, result json.RawMessage, err error) {
 	}
 	t.over = true
 	t.w = nil
+	if t.timer != nil {
+		t.timer.Stop()
+		t.timer = nil
+	}
 	if f := t.done; f != nil {
 		p.post(func() { f(result, err) })
 	}
@@ -319,6 +343,75 @@ func (p *Pool) dispatch() {
 			continue
 		}
 		w.task, t.w = t, w
+		t.started = time.Now()
+		p.arm(t)
+	}
+}
+
+// arm (re)starts the time limit of running task t: StallLimit from now, or what is left of
+// RunLimit if less; p.mu is held.
+func (p *Pool) arm(t *Task) {
+	if t.timer != nil {
+		t.timer.Stop()
+	}
+	wait := min(StallLimit, RunLimit-time.Since(t.started))
+	t.timer = time.AfterFunc(max(0, wait), func() { p.expire(t) })
+}
+
+// expire stops task t at its time limit, if it still runs.
+func (p *Pool) expire(t *Task) {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	if t.over || t.w == nil {
+		return
+	}
+	why := fmt.Sprintf("it sent no progress for %v", StallLimit)
+	if time.Since(t.started) >= RunLimit {
+		why = fmt.Sprintf("it ran for %v, the longest a job may", RunLimit)
+	}
+	p.fail(t.w, "the job was stopped: "+why+" (the page's time limit)")
+}
+
+// fail reports the task of worker w failed with reason, and replaces w by a fresh worker;
+// p.mu is held.
+func (p *Pool) fail(w *worker, reason string) {
+	if t := w.task; t != nil {
+		w.task = nil
+		p.finish(t, nil, fmt.Errorf("%s: %s; a fresh worker took its place", t.req.Kind, reason))
+	}
+	p.replace(w)
+	p.dispatch()
+}
+
+// replace terminates worker w and puts a fresh one in its place; p.mu is held. Special cases
+// are: when no fresh worker can start, w's place is dropped, and the pool is broken once it
+// has no worker left.
+func (p *Pool) replace(old *worker) {
+	for i, w := range p.workers {
+		if w != old {
+			continue
+		}
+		// Unhook first: a message already queued for dispatch must not reach a released
+		// Go function, which would stop the whole program.
+		for _, ev := range []string{"message", "error"} {
+			_, _ = old.js.Call("removeEventListener", ev, old.handler)
+		}
+		_, _ = old.js.Call("terminate")
+		old.handler.Release()
+		fresh, err := p.spawn()
+		if err != nil {
+			p.workers = append(p.workers[:i], p.workers[i+1:]...)
+			if len(p.workers) == 0 {
+				p.broken = err
+				for _, t := range p.queue {
+					p.finish(t, nil, err)
+				}
+				p.queue = nil
+			}
+		} else {
+			p.workers[i] = fresh
+		}
+		return
 	}
 }
 
@@ -369,28 +462,12 @@ func (t *Task) Cancel() {
 	}
 	old := t.w
 	t.w = nil
-	for i, w := range p.workers {
-		if w != old {
-			continue
-		}
-		// Unhook first: a message already queued for dispatch must not reach a released
-		// Go function, which would stop the whole program.
-		for _, ev := range []string{"message", "error"} {
-			_, _ = old.js.Call("removeEventListener", ev, old.handler)
-		}
-		_, _ = old.js.Call("terminate")
-		old.handler.Release()
-		fresh, err := p.spawn()
-		if err != nil {
-			p.workers = append(p.workers[:i], p.workers[i+1:]...)
-			if len(p.workers) == 0 {
-				p.broken = err
-			}
-		} else {
-			p.workers[i] = fresh
-		}
-		break
+	if t.timer != nil {
+		t.timer.Stop()
+		t.timer = nil
 	}
+	old.task = nil
+	p.replace(old)
 	p.dispatch()
 }
 

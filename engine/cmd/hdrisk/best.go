@@ -40,15 +40,11 @@ type bayesOutput struct {
 // runBest finds the regularization weight with the lowest MSE and prints it as JSON.
 func runBest(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("best", flag.ContinueOnError)
-	over := fs.String("over", "", "the weight to vary: l1, l2, l1+l2 (both, at their ratio) or another positive field (default: l1 if the penalty has one, else l2)")
+	over := fs.String("over", "", "the weight to vary: a strength of the penalty (default: its first, l1 before l2; hdrisk kinds lists them), l1+l2 (every strength at their ratio) or another positive field")
 	lo := fs.Float64("lo", 0, "lower end of the search (0: 1e-8)")
 	hi := fs.Float64("hi", 0, "upper end of the search (0: 1e4)")
 	bayes := fs.Bool("bayes", false, "add the Bayes-optimal error (Gaussian-mixture signals)")
-	name, err := onePositional(fs, args, "scenario file")
-	if err != nil {
-		return err
-	}
-	s, err := readScenario(name, stdin)
+	s, err := scenarioArg(fs, args, stdin)
 	if err != nil {
 		return err
 	}

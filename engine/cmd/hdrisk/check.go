@@ -8,6 +8,8 @@ import (
 	"os"
 	"os/signal"
 
+	"hdrisk/engine/data"
+	"hdrisk/engine/scenario"
 	"hdrisk/engine/simulate"
 )
 
@@ -51,6 +53,7 @@ type checkResult struct {
 	FDP                 checkStat    `json:"fdp"`
 	Seed                uint64       `json:"seed"`
 	Solver              string       `json:"solver"`
+	SolverNote          string       `json:"solver_note,omitempty"`
 	Factors             string       `json:"factors"`
 	Spectrum            string       `json:"spectrum"`
 	Criterion           string       `json:"stop_criterion"`
@@ -62,6 +65,38 @@ type checkResult struct {
 	Seconds             number       `json:"seconds"`
 	PerTrial            []checkTrial `json:"per_trial"`
 	Trace               []checkTrace `json:"vamp_trace,omitempty"`
+	*matrixVerdict
+}
+
+// matrixVerdict is what check --matrix adds: the trials with the matrix itself (mean_mse and
+// per_trial are those too) beside trials with random rotations of its spectrum, and the
+// verdict z = (matrix - rotated) / sqrt(se_matrix^2 + se_rotated^2), agrees = |z| <= 3.
+type matrixVerdict struct {
+	Matrix              string       `json:"matrix"`
+	MatrixMeanMSE       number       `json:"matrix_mean_mse"`
+	MatrixStdErr        number       `json:"matrix_stderr"`
+	RotatedMeanMSE      number       `json:"rotated_mean_mse"`
+	RotatedStdErr       number       `json:"rotated_stderr"`
+	RotatedFactors      string       `json:"rotated_factors"`
+	RotatedNotConverged int          `json:"rotated_not_converged"`
+	RotatedSolver       string       `json:"rotated_solver,omitempty"`
+	RotatedSolverNote   string       `json:"rotated_solver_note,omitempty"`
+	Z                   number       `json:"z"`
+	Agrees              bool         `json:"agrees"`
+	Verdict             string       `json:"verdict"`
+	RotatedPerTrial     []checkTrial `json:"rotated_per_trial"`
+}
+
+// matrixTrials is the default trial count of check --matrix: enough for the verdict to have
+// power (a 5% difference of the means is about 3 standard errors at a few hundred unknowns).
+const matrixTrials = 200
+
+// VerdictText says in words what a comparison found.
+func verdictText(c *simulate.Comparison) string {
+	if c.Agrees {
+		return fmt.Sprintf("agrees: the matrix and random rotations of its spectrum give the same mean error within %d standard errors (z = %.2f); the prediction from its singular values applies to it", simulate.AgreeZ, c.Z)
+	}
+	return fmt.Sprintf("disagrees: z = %.2f, beyond %d standard errors; the matrix's singular vectors are not generic for this signal and penalty, and the prediction from its singular values should not be trusted for it", c.Z, simulate.AgreeZ)
 }
 
 // runCheck draws and solves finite instances of a scenario and prints their mean error beside
@@ -71,12 +106,13 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	n := fs.Int("n", 500, "unknowns per instance (m = round(alpha n))")
 	trials := fs.Int("trials", 10, "independent instances")
 	seed := fs.Uint64("seed", 1, "seed: trial t draws from PCG(seed, t), reproducible on every platform")
-	solverName := fs.String("solver", "cd", "cd (l1, ridge, elastic net), prox (any penalty) or vamp (any penalty)")
+	solverName := fs.String("solver", "cd", "cd (l1, ridge, elastic net; with fast factors on a well-conditioned design prox runs instead, matrix-free, and solver_note says so), prox (any penalty) or vamp (any penalty)")
 	factorsName := fs.String("factors", "fast", "orthogonal factors: fast (O(n log n) transforms), haar-qr or haar-householder")
 	draws := fs.Bool("draw-spectrum", false, "draw the singular values i.i.d. from the law instead of taking its quantiles")
 	tol := fs.Float64("tol", 0, "solver tolerance (0: the default, 1e-8)")
 	maxIter := fs.Int("max-iter", 0, "solver iteration cap (0: the default, 10000)")
 	progress := fs.Bool("progress", false, "report each finished trial on stderr")
+	matrixFile := fs.String("matrix", "", "a matrix file (Matrix Market, CSV, TSV, text) held fixed as the design: the check with the matrix itself, beside random rotations of its spectrum (n is its column count; trials default to 200)")
 	name, err := onePositional(fs, args, "scenario file")
 	if err != nil {
 		return err
@@ -96,12 +132,29 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
+	set := map[string]bool{}
+	fs.Visit(func(f *flag.Flag) { set[f.Name] = true })
+	var fixed *simulate.Matrix
+	if *matrixFile != "" {
+		if fixed, err = readDesignMatrix(*matrixFile, stdin, &s); err != nil {
+			return err
+		}
+		if set["n"] && *n != fixed.Cols {
+			return usagef("--n %d: with --matrix, n is the matrix's column count, %d", *n, fixed.Cols)
+		}
+		if !set["trials"] {
+			*trials = matrixTrials
+		}
+		if *trials < 2 {
+			return usagef("--trials %d: the verdict of --matrix needs at least 2 trials, for its standard errors", *trials)
+		}
+	}
 	p, err := s.Problem()
 	if err != nil {
 		return err
 	}
 	o := simulate.Options{N: *n, Trials: *trials, Seed: *seed, Solver: solver, Tol: *tol,
-		MaxIter: *maxIter, Factors: factors}
+		MaxIter: *maxIter, Factors: factors, Matrix: fixed}
 	if *draws {
 		o.Spectrum = simulate.Draws
 	}
@@ -124,7 +177,7 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		Nonzero: checkStat{number(r.NonZero.Mean), number(r.NonZero.StdErr), number(r.Predicted.NonZero)},
 		TPP:     checkStat{number(r.TPP.Mean), number(r.TPP.StdErr), number(r.Predicted.TPP)},
 		FDP:     checkStat{number(r.FDP.Mean), number(r.FDP.StdErr), number(r.Predicted.FDP)},
-		Seed:    r.Seed, Solver: r.Solver, Factors: r.Factors, Spectrum: r.Spectrum,
+		Seed:    r.Seed, Solver: r.Solver, SolverNote: r.SolverNote, Factors: r.Factors, Spectrum: r.Spectrum,
 		Criterion: r.Criterion, Tol: number(r.Tol), MaxIter: r.MaxIter,
 		Converged: r.NotConverged == 0, NotConverged: r.NotConverged, Warnings: r.Warnings(),
 		Seconds: number(r.Seconds),
@@ -139,5 +192,36 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	for _, t := range r.Trace {
 		out.Trace = append(out.Trace, checkTrace{t.Iteration, number(t.MeanError), number(t.StdErr), number(t.Predicted)})
 	}
+	if c := r.Comparison; c != nil {
+		v := &matrixVerdict{Matrix: displayName(*matrixFile), MatrixMeanMSE: number(c.Matrix.Mean), MatrixStdErr: number(c.Matrix.StdErr),
+			RotatedMeanMSE: number(c.Rotated.Mean), RotatedStdErr: number(c.Rotated.StdErr), RotatedFactors: c.RotatedFactors,
+			RotatedNotConverged: c.RotatedNotConverged, RotatedSolver: c.RotatedSolver, RotatedSolverNote: c.RotatedSolverNote, Z: number(c.Z), Agrees: c.Agrees, Verdict: verdictText(c)}
+		for _, t := range c.RotatedTrials {
+			v.RotatedPerTrial = append(v.RotatedPerTrial, checkTrial{number(t.MSE), number(t.NonZero), number(t.TPP),
+				number(t.FDP), t.Iterations, t.Converged, number(t.Residual), number(t.Seconds)})
+		}
+		out.matrixVerdict = v
+	}
 	return writeJSON(stdout, out)
+}
+
+// readDesignMatrix reads the matrix of check --matrix and makes the scenario's design its
+// spectrum: an empirical-sv law of its singular values with m/n its shape, at the scale the
+// scenario states (method.md section 5).
+func readDesignMatrix(name string, stdin io.Reader, s *scenario.Scenario) (*simulate.Matrix, error) {
+	a, err := readMatrixFile(name, stdin)
+	if err != nil {
+		return nil, err
+	}
+	sv, err := data.SingularValues(context.Background(), a, nil)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", displayName(name), err)
+	}
+	m, n := a.Dims()
+	s.Design = scenario.Design{Shape: "empirical-sv", Alpha: float64(m) / float64(n), Scale: s.Design.Scale,
+		Lists: map[string][]float64{"values": sv}}
+	if err := s.Validate(); err != nil {
+		return nil, fmt.Errorf("%s as the design: %w", displayName(name), err)
+	}
+	return simulate.FromDense(a), nil
 }

@@ -25,13 +25,15 @@ type evalResult struct {
 	Converged       bool   `json:"converged"`
 	Iterations      int    `json:"iterations"`
 	EstimateZero    bool   `json:"estimate_zero"`
+	Exists          bool   `json:"exists"`
+	glmFields
 }
 
 // runEval solves the fixed point of one scenario and prints its observables.
 func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("eval", flag.ContinueOnError)
 	solver := solverFlags(fs)
-	name, err := onePositional(fs, args, "scenario file")
+	s, err := scenarioArg(fs, args, stdin)
 	if err != nil {
 		return err
 	}
@@ -39,19 +41,23 @@ func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	if err != nil {
 		return err
 	}
-	s, err := readScenario(name, stdin)
+	c, err := s.Check()
 	if err != nil {
 		return err
 	}
-	p, err := s.Problem()
+	var r fixedpoint.Result
+	if g, ok := c.GLM(); ok {
+		r, err = fixedpoint.SolveGLM(g, opts)
+	} else {
+		r, err = fixedpoint.Solve(c.Problem(), opts)
+	}
 	if err != nil {
 		return err
 	}
-	r, err := fixedpoint.Solve(p, opts)
-	if err != nil {
-		return err
+	if r.GLM != nil && !r.GLM.Exists {
+		return writeJSON(stdout, absentResult{Exists: false, Reason: r.GLM.ExistsReason})
 	}
-	return writeJSON(stdout, evalResult{
+	return writeJSON(stdout, evalResult{Exists: true, glmFields: glmOutput(r),
 		MSE: number(r.MSE), NMSE: number(r.NMSE), NMSEdB: number(r.NMSEdB),
 		Susceptibility: number(r.Susceptibility), NonzeroFraction: number(r.NonZero),
 		TPP: number(r.TPP), FDP: number(r.FDP), TrainError: number(r.TrainError),

@@ -10,11 +10,7 @@ import (
 // runLink prints the share code of a scenario file.
 func runLink(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("link", flag.ContinueOnError)
-	name, err := onePositional(fs, args, "scenario file")
-	if err != nil {
-		return err
-	}
-	s, err := readScenario(name, stdin)
+	s, err := scenarioArg(fs, args, stdin)
 	if err != nil {
 		return err
 	}

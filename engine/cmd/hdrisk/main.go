@@ -36,12 +36,13 @@ var commands = []command{
 	{"eval", "FILE|-", "one fixed point of the scenario, as JSON", runEval},
 	{"sweep", "FILE --over P --from A --to B [--log]", "the observables along one field, as CSV", runSweep},
 	{"map", "FILE --x P --x-from A ... --y Q ...", "the observables over a grid of two fields, as CSV", runMap},
-	{"best", "FILE [--over l1|l2|l1+l2]", "the regularization with the lowest MSE, as JSON", runBest},
+	{"best", "FILE [--over STRENGTH|l1+l2]", "the regularization with the lowest MSE, as JSON", runBest},
 	{"plan", "FILE --target-db D", "the smallest alpha reaching D dB at its best regularization, as JSON", runPlan},
-	{"check", "FILE --n N --trials T --seed S [--solver cd|prox|vamp]", "finite-size trials beside the prediction, as JSON", runCheck},
+	{"check", "FILE --n N --trials T --seed S [--solver cd|prox|vamp] [--matrix M.mtx|M.csv]", "finite-size trials beside the prediction (with --matrix: the user's matrix held fixed, beside random rotations of its spectrum, and the verdict), as JSON", runCheck},
 	{"spectrum", "MATRIX|-", "singular values of a matrix file (Matrix Market, CSV, TSV, text), as JSON", runSpectrum},
 	{"link", "FILE|-", "the share code (s1.…) of the scenario", runLink},
 	{"open", "LINK|-", "the scenario held by a share link or code, as JSON", runOpen},
+	{"kinds", "", "the design shapes, signal laws and penalties a scenario may hold, with their parameters", runKinds},
 }
 
 func main() {

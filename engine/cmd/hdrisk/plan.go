@@ -41,11 +41,7 @@ func runPlan(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	alphaMax := fs.Float64("alpha-max", 10, "largest alpha to consider")
 	alphaMin := fs.Float64("alpha-min", 0, "smallest alpha to consider (0: 0.01, or alpha-max/10 if smaller)")
 	over := fs.String("over", "", "the weight tuned at each alpha (as in best)")
-	name, err := onePositional(fs, args, "scenario file")
-	if err != nil {
-		return err
-	}
-	s, err := readScenario(name, stdin)
+	s, err := scenarioArg(fs, args, stdin)
 	if err != nil {
 		return err
 	}

@@ -7,6 +7,8 @@ import (
 	"io"
 	"os"
 
+	"gonum.org/v1/gonum/mat"
+
 	"hdrisk/engine/data"
 )
 
@@ -21,6 +23,24 @@ type spectrumResult struct {
 	Rank           int       `json:"rank"`      // values above max(rows, cols) * largest * machine epsilon
 }
 
+// readMatrixFile reads a matrix file ("-": standard input) within the reader's default caps.
+func readMatrixFile(name string, stdin io.Reader) (*mat.Dense, error) {
+	r := stdin
+	if name != "-" {
+		f, err := os.Open(name)
+		if err != nil {
+			return nil, err
+		}
+		defer f.Close()
+		r = f
+	}
+	a, err := data.ReadMatrix(r, data.Limits{})
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", displayName(name), err)
+	}
+	return a, nil
+}
+
 // runSpectrum reads a matrix file (Matrix Market, CSV, TSV or space-separated text) and
 // prints its singular values.
 func runSpectrum(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
@@ -29,25 +49,16 @@ func runSpectrum(args []string, stdin io.Reader, stdout, stderr io.Writer) error
 	if err != nil {
 		return err
 	}
-	r := stdin
-	if name != "-" {
-		f, err := os.Open(name)
-		if err != nil {
-			return err
-		}
-		defer f.Close()
-		r = f
-	}
-	a, err := data.ReadMatrix(r, data.Limits{})
+	a, err := readMatrixFile(name, stdin)
 	if err != nil {
-		return fmt.Errorf("%s: %w", displayName(name), err)
+		return err
 	}
 	sv, err := data.SingularValues(context.Background(), a, nil)
 	if err != nil {
 		return err
 	}
 	m, n := a.Dims()
-	s, err := data.Summarize(sv, m, n, 0)
+	s, err := data.SummarizeComputed(sv, m, n, 0)
 	if err != nil {
 		return err
 	}

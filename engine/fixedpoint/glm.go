@@ -1,0 +1,360 @@
+package fixedpoint
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"hdrisk/engine/design"
+	"hdrisk/engine/loss"
+	"hdrisk/engine/noise"
+	"hdrisk/engine/penalty"
+	"hdrisk/engine/readout"
+	"hdrisk/engine/signal"
+)
+
+// GLM is a generalized linear model (method.md section 10): y_mu = readout((F x0)_mu, w_mu)
+// and the estimate minimizes sum_mu L(y_mu, (F x)_mu) + sum_i f(x_i). With the linear readout,
+// Gaussian noise and the square loss it is the Problem of Solve.
+type GLM struct {
+	Design  design.Law
+	Signal  signal.Law
+	Penalty penalty.Penalty
+	Noise   noise.Law // nil: no noise
+	Readout readout.Readout
+	Loss    loss.Loss
+}
+
+// GLMState is a point of the generalized iteration: the input side's (g1, t1) and the output
+// side's backward message p2 = MuZ z0 + N(0, SigZ) at precision G2Z.
+type GLMState struct{ G1, T1, G2Z, SigZ, MuZ float64 }
+
+// GLMObservables are the observables of a generalized linear model beyond Result's
+// (method.md section 10). When Exists is false there is no unique finite minimizer,
+// ExistsReason says why, and the Result carries no error figure.
+type GLMObservables struct {
+	Exists       bool
+	ExistsReason string
+	Cosine       float64 // lim <xhat, x0> / (|xhat| |x0|)
+	NormRatio    float64 // lim |xhat| / |x0|
+	Labels       bool    // the readout gives labels, so that TestError and TrainMisfit apply
+	TestError    float64 // P(sign of a fresh row's prediction != its fresh label)
+	TrainMisfit  float64 // fraction of training labels that sign(F xhat) gets wrong
+	TrainLoss    float64 // (1/m) sum_mu L(y_mu, (F xhat)_mu)
+	State        GLMState
+}
+
+// SolveGLM iterates the state evolution of VAMP for generalized linear models in its MAP form
+// (Schniter, Rangan & Fletcher 2016, "Vector approximate message passing for the generalized
+// linear model", Asilomar) to its fixed point, for every design, signal law and penalty.
+//
+// The input side is today's: the scalar channel r1 = muz x0 + sqrt(t1) z at precision g1, with
+// the cancellation-free update of Solve in which the output side's backward message
+// N(0, sigz) takes the place of the noise. The output side is the scalar channel of z
+// described by outSide. Special cases are: a label loss (logistic, hinge) with a readout
+// that does not give labels +-1, and the logistic readout with noise, are input errors; with
+// a label loss and a zero penalty, an iteration that runs off means separable labels, and
+// Exists is false; with a zero penalty and fewer measurements than unknowns (F^T F singular)
+// there is no unique minimizer and Exists is false.
+func SolveGLM(p GLM, o Options) (Result, error) {
+	if p.Design == nil || p.Signal == nil || p.Penalty == nil || p.Readout == nil || p.Loss == nil {
+		return Result{}, fmt.Errorf("%w: design, signal, penalty, readout and loss are all needed", ErrInput)
+	}
+	rho2 := p.Signal.Second()
+	if !(rho2 > 0) || math.IsInf(rho2, 0) {
+		return Result{}, fmt.Errorf("%w: the signal has no power (E[x0^2] = %v), so the normalized error is undefined", ErrInput, rho2)
+	}
+	if p.Loss.Labels() && p.Readout.Name() != "sign" && p.Readout.Name() != "logistic" {
+		return Result{}, fmt.Errorf("%w: loss %s needs labels +-1, which readout %s does not give (use sign or logistic)", ErrInput, p.Loss.Name(), p.Readout.Name())
+	}
+	nz := []noise.Component{{Weight: 1, Var: 0}}
+	w2 := 0.0
+	if p.Noise != nil {
+		nz = p.Noise.Components()
+		w2 = p.Noise.Second()
+	}
+	if p.Readout.Name() == "logistic" && w2 != 0 {
+		return Result{}, fmt.Errorf("%w: the logistic readout draws its own label noise; leave the noise out or give it variance 0", ErrInput)
+	}
+	if o.Tol <= 0 {
+		o.Tol = 1e-10
+	}
+	if o.MaxIter <= 0 {
+		o.MaxIter = 2000
+	}
+	out := &outSide{rd: p.Readout, ls: p.Loss, nz: nz, w2: w2, rhoz: p.Design.Mean() * rho2 / p.Design.Alpha()}
+	if c, ok := p.Readout.(readout.Cells); ok {
+		out.levels, out.cuts = c.Levels()
+	} else if p.Readout.Labels() {
+		out.levels = []float64{-1, 1}
+	}
+	s := glmSolver{p: p, o: o, rho2: rho2, out: out, zeroPen: zeroPenalty(p.Penalty)}
+	if s.zeroPen && p.Design.Atom0() > 0 {
+		return s.absent("no penalty and fewer independent measurements than unknowns (F^T F is singular): the minimizer is not unique"), nil
+	}
+	r, err := s.run(s.coldStart())
+	if err == nil && r.Converged {
+		return r, nil
+	}
+	if s.zeroPen && p.Loss.Labels() && errors.Is(err, errRunOff) {
+		return s.absent("the training labels are linearly separable (the iteration runs off to an estimate of unbounded norm): with the " + p.Loss.Name() + " loss and no penalty there is no finite minimizer"), nil
+	}
+	return r, err
+}
+
+// zeroPenalty reports whether the prox is the identity (no penalty at all), tested at
+// points of both signs and several sizes.
+func zeroPenalty(f penalty.Penalty) bool {
+	for _, r := range [...]float64{-7, -0.3, 0.02, 0.9, 40} {
+		if f.Prox(r, 1) != r {
+			return false
+		}
+	}
+	return true
+}
+
+type glmSolver struct {
+	p       GLM
+	o       Options
+	rho2    float64
+	out     *outSide
+	zeroPen bool
+}
+
+func (s *glmSolver) absent(reason string) Result {
+	return Result{Converged: true, GLM: &GLMObservables{Exists: false, ExistsReason: reason, Labels: s.p.Readout.Labels()}}
+}
+
+// coldStart starts from the scale of the problem: the input side as in Solve, the backward
+// message of a readout with labels at the labels' own scale (the noise inside a sign says
+// nothing about the scale of y).
+func (s *glmSolver) coldStart() GLMState {
+	t := s.rho2 + s.out.w2
+	sz := s.out.w2 + 0.5*s.out.rhoz
+	if len(s.out.levels) > 0 {
+		y2 := 0.0
+		for _, y := range s.out.levels {
+			y2 += y * y / float64(len(s.out.levels))
+		}
+		t, sz = s.rho2, y2
+	}
+	g := s.p.Penalty.StartG(t)
+	if !(g > 0) || math.IsInf(g, 0) {
+		g = 1
+	}
+	return GLMState{G1: g, T1: t, G2Z: 1, SigZ: sz, MuZ: 1}
+}
+
+// glmImage is one evaluation of the update map.
+type glmImage struct {
+	next            GLMState
+	m               signal.Moments
+	ov              float64 // E[(xhat - muz x0) x0], label readouts only
+	g               float64 // g2x / g2z
+	om              outMoments
+	mu1z, tau1, g1z float64
+	res             float64
+}
+
+// apply evaluates the update map at st (method.md section 10):
+//
+//	E, A  = moments of r1 = muz x0 + sqrt(t1) z at g1;       S1(g) = g2z A / g1
+//	g1   <- g2z T / S1;  t1 <- (W E + sigz S3) S1^2 / (S2 T^2)
+//	g1z   = g2z (alpha - T)/T
+//	Var(p1 - muz z0) = [alpha S3 (E - sigz S3)/S2 + sigz (alpha (T - g S3) - T^2)] / (alpha - T)^2
+//	Cov(p1 - muz z0, z0) = g1 O T / (A g2z (alpha - T)),  O = E[(xhat - muz x0) x0]
+//	Az, muz, sigz <- output side at (g1z, p1);  g2z <- g1z (1 - Az)/Az
+func (s *glmSolver) apply(st GLMState, near float64) (glmImage, error) {
+	p := s.p
+	lin := !p.Readout.Labels()
+	var law signal.Law = p.Signal
+	if !lin {
+		law = newScaledLaw(p.Signal, st.MuZ)
+	}
+	m := signal.Expect(law, p.Penalty, st.G1, st.T1)
+	a := math.Max(m.A, zeroA)
+	g, err := invertS1(p.Design, st.G2Z*a/st.G1, near)
+	if err != nil {
+		return glmImage{}, err
+	}
+	tr := p.Design.At(g)
+	alpha := p.Design.Alpha()
+	im := glmImage{m: m, g: g}
+	im.next.G1 = st.G2Z * tr.T / tr.S1
+	im.next.T1 = (tr.W*m.MSE + st.SigZ*tr.S3) * tr.S1 * tr.S1 / (tr.S2 * tr.T * tr.T)
+	amt := alpha - tr.T
+	if alpha >= 1 {
+		amt = (alpha - 1) + g*tr.S1
+	}
+	if !(amt > 0) {
+		return glmImage{}, errRunOff
+	}
+	im.g1z = st.G2Z * amt / tr.T
+	eq := alpha*(tr.T-g*tr.S3) - tr.T*tr.T
+	vz := (alpha*tr.S3*math.Max(m.MSE-st.SigZ*tr.S3, 0)/tr.S2 + st.SigZ*math.Max(eq, 0)) / (amt * amt)
+	if lin {
+		im.om = s.out.linear(im.g1z, vz)
+		im.mu1z, im.tau1 = 1, vz
+	} else {
+		im.ov = overlap(p.Signal, p.Penalty, st.MuZ, st.G1, st.T1)
+		cov := st.G1 * im.ov * tr.T / (a * st.G2Z * amt)
+		im.mu1z = st.MuZ + cov/s.out.rhoz
+		im.tau1 = math.Max(vz-cov*cov/s.out.rhoz, 0)
+		im.om = s.out.labels(im.g1z, im.mu1z, im.tau1)
+	}
+	om := im.om
+	if om.zeroDeriv || !(om.az > 0) {
+		return glmImage{}, errRunOff
+	}
+	im.next.G2Z = im.g1z * (1 - om.az) / om.az
+	im.next.SigZ = om.sigz
+	im.next.MuZ = om.muz
+	n := im.next
+	if !finitePos(n.G1) || !(n.T1 >= 0) || math.IsInf(n.T1, 0) || !finitePos(n.G2Z) || !finiteAll(n.SigZ, n.MuZ) {
+		return glmImage{}, errRunOff
+	}
+	im.res = math.Max(math.Max(relChange(n.G1, st.G1), relChange(n.T1, st.T1)),
+		math.Max(relChange(n.G2Z, st.G2Z), math.Max(relChange(n.SigZ, st.SigZ), relChange(n.MuZ, st.MuZ))))
+	return im, nil
+}
+
+func relChange(a, b float64) float64 {
+	return math.Abs(a-b) / math.Max(math.Abs(b), 1e-300)
+}
+
+func (s *glmSolver) run(st GLMState) (Result, error) {
+	damp := 0.5
+	prevRes := math.Inf(1)
+	scale := s.rho2 + s.out.w2 + s.out.rhoz + 1
+	var r Result
+	im, err := s.apply(st, math.NaN())
+	halfT1 := math.NaN()
+	for it := 1; it <= s.o.MaxIter; it++ {
+		if it == s.o.MaxIter/2 {
+			halfT1 = st.T1
+		}
+		if err != nil {
+			return r, err
+		}
+		if im.m.A < zeroA {
+			return s.zeroResult(it, st, im), nil
+		}
+		r = Result{Iterations: it, Residual: im.res}
+		if im.res < s.o.Tol {
+			r.Converged = true
+			break
+		}
+		if im.res < newtonFrom {
+			if nst, nim, ok := s.newton(st, im); ok {
+				st, im = nst, nim
+				continue
+			}
+		}
+		if im.res > prevRes {
+			damp = math.Max(0.05, damp*0.5)
+		} else if damp < 1 {
+			damp = math.Min(1, damp*1.2)
+		}
+		prevRes = im.res
+		n := im.next
+		st = GLMState{
+			G1:   (1-damp)*st.G1 + damp*n.G1,
+			T1:   (1-damp)*st.T1 + damp*n.T1,
+			G2Z:  (1-damp)*st.G2Z + damp*n.G2Z,
+			SigZ: (1-damp)*st.SigZ + damp*n.SigZ,
+			MuZ:  (1-damp)*st.MuZ + damp*n.MuZ,
+		}
+		if st.T1 > runOff*scale || st.SigZ > runOff*scale || st.G1 < 1e-300 {
+			return r, errRunOff
+		}
+		im, err = s.apply(st, im.g)
+	}
+	if err != nil {
+		return r, err
+	}
+	if !r.Converged && st.T1 > 1.2*halfT1 {
+		// Still growing by a fifth over the second half of the iterations: the estimate's norm
+		// has no finite limit.
+		return r, errRunOff
+	}
+	return s.observe(st, im, r)
+}
+
+// observe fills the observables at the last iterate st, evaluating the map there once more
+// with the training observables.
+func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) {
+	p := s.p
+	s.out.train = true
+	im, err := s.apply(st, im.g)
+	s.out.train = false
+	if err != nil {
+		return Result{}, err
+	}
+	m := im.m
+	r.GLM = &GLMObservables{Exists: true, Labels: p.Readout.Labels()}
+	r.GLM.State = st
+	r.G1, r.T1, r.G2 = st.G1, st.T1, im.g*st.G2Z
+	r.Susceptibility = m.A / st.G1
+	ov := im.ov
+	if !r.GLM.Labels {
+		ov = overlap(p.Signal, p.Penalty, st.MuZ, st.G1, st.T1)
+	}
+	mu := st.MuZ
+	// m.MSE is E[(xhat - mu x0)^2]; xhat - x0 = (xhat - mu x0) + (mu - 1) x0.
+	r.MSE = m.MSE + 2*(mu-1)*ov + (mu-1)*(mu-1)*s.rho2
+	if !r.GLM.Labels {
+		r.MSE = m.MSE
+	}
+	r.MSE = math.Max(r.MSE, 0)
+	q := math.Max(m.MSE+2*mu*ov+mu*mu*s.rho2, 0) // E[xhat^2]
+	c := ov + mu*s.rho2                          // E[xhat x0]
+	if q > 0 {
+		r.GLM.Cosine = c / math.Sqrt(q*s.rho2)
+	}
+	r.GLM.NormRatio = math.Sqrt(q / s.rho2)
+	fill(&r, m, s.rho2)
+	r.TrainError = im.om.trainErr
+	r.GLM.TrainLoss = im.om.trainLoss
+	if r.GLM.Labels {
+		r.GLM.TrainMisfit = im.om.misfit
+		k := p.Design.Mean() / p.Design.Alpha()
+		r.GLM.TestError = s.out.testError(k*q, k*c)
+	}
+	if !finiteAll(r.MSE, r.TrainError, r.GLM.TrainLoss, r.GLM.Cosine, r.GLM.NormRatio, r.GLM.TestError) {
+		return Result{}, errRunOff
+	}
+	return r, nil
+}
+
+func (s *glmSolver) zeroResult(it int, st GLMState, im glmImage) Result {
+	r := Result{G1: st.G1, T1: st.T1, Iterations: it, Converged: true, EstimateZero: true, MSE: s.rho2,
+		GLM: &GLMObservables{Exists: true, Labels: s.p.Readout.Labels(), State: st}}
+	fill(&r, signal.Moments{MSE: s.rho2, Active: im.m.Active}, s.rho2)
+	r.GLM.NormRatio = 0
+	if r.GLM.Labels {
+		r.GLM.TestError = 0.5
+		r.GLM.TrainMisfit = math.NaN()
+	}
+	om := s.out.trainAtZero()
+	r.TrainError, r.GLM.TrainLoss = om.trainErr, om.trainLoss
+	if r.GLM.Labels {
+		r.GLM.TrainMisfit = om.misfit
+	}
+	return r
+}
+
+// fill sets the normalized error and the support counts, as solver.fill does.
+func fill(r *Result, m signal.Moments, rho2 float64) {
+	r.NMSE = r.MSE / rho2
+	r.NMSEdB = dbFloor
+	if r.NMSE > 0 {
+		r.NMSEdB = math.Max(dbFloor, 10*math.Log10(r.NMSE))
+	}
+	r.NonZero = m.NonZero
+	if m.Active > 0 {
+		r.TPP = m.TruePos / m.Active
+	}
+	if m.NonZero > 0 {
+		r.FDP = math.Max(0, m.NonZero-m.TruePos) / m.NonZero
+	}
+}

@@ -1,0 +1,128 @@
+package fixedpoint
+
+import (
+	"math"
+	"slices"
+
+	"gonum.org/v1/gonum/integrate/quad"
+)
+
+// Gaussian helpers for the output side of the generalized linear model (method.md section
+// 10). Probabilities of intervals come from erfc on the side away from the mean, so that a
+// cell far in a tail keeps its relative accuracy.
+
+const invSqrt2Pi = 0.3989422804014327
+
+func normPDF(x float64) float64 { return invSqrt2Pi * math.Exp(-x*x/2) }
+
+// normCell returns P(a <= Z < b) for a standard normal Z (a <= b, either may be infinite).
+func normCell(a, b float64) float64 {
+	switch {
+	case a >= 0:
+		return (math.Erfc(a/math.Sqrt2) - math.Erfc(b/math.Sqrt2)) / 2
+	case b <= 0:
+		return (math.Erfc(-b/math.Sqrt2) - math.Erfc(-a/math.Sqrt2)) / 2
+	}
+	return 1 - (math.Erfc(-a/math.Sqrt2)+math.Erfc(b/math.Sqrt2))/2
+}
+
+// truncMoments returns E[V^k 1{lo <= V < hi}], k = 0, 1, 2, for V ~ N(0, s2), s2 > 0.
+func truncMoments(lo, hi, s2 float64) (m0, m1, m2 float64) {
+	s := math.Sqrt(s2)
+	a, b := lo/s, hi/s
+	m0 = normCell(a, b)
+	pa, pb := 0.0, 0.0
+	if !math.IsInf(a, 0) {
+		pa = normPDF(a)
+	}
+	if !math.IsInf(b, 0) {
+		pb = normPDF(b)
+	}
+	m1 = s * (pa - pb)
+	ta, tb := 0.0, 0.0
+	if pa > 0 {
+		ta = a * pa
+	}
+	if pb > 0 {
+		tb = b * pb
+	}
+	m2 = s2 * (m0 + ta - tb)
+	return m0, m1, m2
+}
+
+// glmNodes is the Gauss-Legendre rule of each sub-interval of the output-side quadrature
+// (gonum quad.Legendre), and hermite the Gauss-Hermite rule of the logistic readout's
+// conditional label probability (gonum quad.Hermite, weight exp(-x^2)).
+const glmNodes = 16
+
+var glmLegX, glmLegW = func() ([]float64, []float64) {
+	x := make([]float64, glmNodes)
+	w := make([]float64, glmNodes)
+	quad.Legendre{}.FixedLocations(x, w, -1, 1)
+	return x, w
+}()
+
+const hermiteNodes = 24
+
+var hermX, hermW = func() ([]float64, []float64) {
+	x := make([]float64, hermiteNodes)
+	w := make([]float64, hermiteNodes)
+	quad.Hermite{}.FixedLocations(x, w, math.Inf(-1), math.Inf(1))
+	for i := range w {
+		w[i] /= math.Sqrt(math.Pi)
+		x[i] *= math.Sqrt2
+	}
+	return x, w
+}()
+
+// gaussGrid returns the nodes and weights of E[f(P)], P ~ N(0, v), v > 0, over +-10
+// standard deviations (the mass beyond is 1.5e-23): split at cuts (kinks of the integrand), with sub-intervals of at most
+// width, and around each of the sharp points (centre, scale) graded intervals of the given
+// scale, so that a step smoothed on that scale is integrated to rounding error.
+func gaussGrid(v float64, cuts []float64, width float64, sharp [][2]float64) (nodes, weights []float64) {
+	sd := math.Sqrt(v)
+	lo, hi := -10*sd, 10*sd
+	pts := []float64{lo, hi}
+	for _, c := range cuts {
+		if c > lo && c < hi {
+			pts = append(pts, c)
+		}
+	}
+	for _, sp := range sharp {
+		c, s := sp[0], sp[1]
+		if s <= 0 {
+			if c > lo && c < hi {
+				pts = append(pts, c)
+			}
+			continue
+		}
+		if s >= sd {
+			continue
+		}
+		for _, k := range [...]float64{0, 0.25, 0.5, 1, 2, 3, 4, 6, 8, 12} {
+			for _, x := range [2]float64{c - k*s, c + k*s} {
+				if x > lo && x < hi {
+					pts = append(pts, x)
+				}
+			}
+		}
+	}
+	slices.Sort(pts)
+	for i := 1; i < len(pts); i++ {
+		a, b := pts[i-1], pts[i]
+		if !(b > a) {
+			continue
+		}
+		n := int(math.Ceil((b - a) / width))
+		h := (b - a) / float64(n)
+		for j := range n {
+			left := a + float64(j)*h
+			for k, x := range glmLegX {
+				p := left + (x+1)*h/2
+				nodes = append(nodes, p)
+				weights = append(weights, glmLegW[k]*h/2*normPDF(p/sd)/sd)
+			}
+		}
+	}
+	return nodes, weights
+}

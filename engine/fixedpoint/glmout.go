@@ -1,0 +1,349 @@
+package fixedpoint
+
+import (
+	"math"
+
+	"hdrisk/engine/loss"
+	"hdrisk/engine/noise"
+	"hdrisk/engine/readout"
+)
+
+// outSide evaluates the output side of the generalized linear model (method.md section 10):
+// the scalar channel of z, with z0 ~ N(0, rhoz), the message p1 = mu1 z0 + sqrt(tau) e
+// (e ~ N(0, 1) independent of z0 and w), y = readout(z0, w) and zhat = prox of the loss at
+// precision g.
+type outSide struct {
+	rd   readout.Readout
+	ls   loss.Loss
+	nz   []noise.Component
+	w2   float64 // E[w^2]
+	rhoz float64
+	// labels: the values of y, and for cell readouts the cuts between them
+	levels, cuts []float64
+	// train asks for the training observables too, which only the final evaluation needs
+	train bool
+}
+
+// outMoments are the output side's answers: the derivative Az = E[d zhat/dp], the truth
+// coefficient muz and error variance sigz of the backward message p2 = (zhat - Az p1)/(1 - Az)
+// = muz z0 + N(0, sigz), and the training observables at zhat.
+type outMoments struct {
+	az, muz, sigz           float64
+	trainErr, trainLoss     float64 // E[(y - zhat)^2], E[L(y, zhat)]
+	misfit                  float64 // P(sign(zhat) != y), labels only
+	linearSquare, zeroDeriv bool
+}
+
+// linear is the output side of the linear readout with a regression loss, where the channel
+// depends on (z0, p1) only through v = y - p1 = (z0 - p1) + w, and with tau = E[(p1 - z0)^2]
+// each noise component k gives v ~ N(0, tau + V_k). The backward message then has muz = 1
+// whatever the loss, and p2 - z0 = w + (Az v - R(v))/(1 - Az), whose moments on each linear
+// piece of the residual prox R are truncated normal moments (closed forms; the posterior
+// E[w | v] = V_k v/(tau + V_k) gives the cross terms).
+func (o *outSide) linear(g, tau float64) outMoments {
+	reg, ok := o.ls.(loss.Regression)
+	if !ok {
+		return outMoments{az: math.NaN()}
+	}
+	if o.ls.Name() == "square" {
+		// Least squares: p2 = y exactly, so the backward message is z0 + w.
+		a := g / (1 + g)
+		return outMoments{az: a, muz: 1, sigz: o.w2, trainErr: a * a * (tau + o.w2),
+			trainLoss: a * a * (tau + o.w2) / 2, linearSquare: true}
+	}
+	pieces := reg.Residual(g)
+	type comp struct{ w, vk, s2, a, r2 float64 }
+	cs := make([]comp, 0, len(o.nz))
+	az := 0.0
+	for _, k := range o.nz {
+		c := comp{w: k.Weight, vk: k.Var, s2: tau + k.Var}
+		for _, q := range pieces {
+			if c.s2 == 0 {
+				if 0 >= q.Lo && 0 < q.Hi {
+					c.a += q.Slope
+					c.r2 += q.Intercept * q.Intercept
+				}
+				continue
+			}
+			m0, m1, m2 := truncMoments(q.Lo, q.Hi, c.s2)
+			c.a += q.Slope * m0
+			c.r2 += q.Slope*q.Slope*m2 + 2*q.Slope*q.Intercept*m1 + q.Intercept*q.Intercept*m0
+		}
+		az += c.w * c.a
+		cs = append(cs, c)
+	}
+	out := outMoments{az: az, muz: 1}
+	if az >= 1 {
+		out.zeroDeriv = true
+		return out
+	}
+	for _, c := range cs {
+		d := 0.0
+		for _, q := range pieces {
+			e := az - q.Slope
+			if c.s2 == 0 {
+				if 0 >= q.Lo && 0 < q.Hi {
+					d += q.Intercept * q.Intercept
+				}
+				continue
+			}
+			m0, m1, m2 := truncMoments(q.Lo, q.Hi, c.s2)
+			d += e*e*m2 - 2*e*q.Intercept*m1 + q.Intercept*q.Intercept*m0
+		}
+		out.sigz += c.w * (c.vk + 2*c.vk*(az-c.a)/(1-az) + d/((1-az)*(1-az)))
+		out.trainErr += c.w * c.r2
+		if o.train {
+			out.trainLoss += c.w * o.residualLoss(pieces, c.s2)
+		}
+	}
+	out.sigz = math.Max(out.sigz, 0)
+	return out
+}
+
+// residualLoss returns E[l(R(v))] for v ~ N(0, s2) by Gauss-Legendre quadrature split at the
+// pieces' ends (the loss itself is piecewise smooth there).
+func (o *outSide) residualLoss(pieces []loss.Piece, s2 float64) float64 {
+	at := func(v float64) float64 {
+		q := pieces[len(pieces)-1]
+		for _, c := range pieces[:len(pieces)-1] {
+			if v < c.Hi {
+				q = c
+				break
+			}
+		}
+		return o.ls.Value(q.Slope*v+q.Intercept, 0)
+	}
+	if s2 == 0 {
+		return at(0)
+	}
+	cuts := make([]float64, 0, len(pieces))
+	for _, q := range pieces[1:] {
+		cuts = append(cuts, q.Lo)
+	}
+	x, w := gaussGrid(s2, cuts, math.Sqrt(s2), nil)
+	sum := 0.0
+	for i := range x {
+		sum += w[i] * at(x[i])
+	}
+	return sum
+}
+
+// labelProb returns P(y = levels[j] | z0) averaged over z0 ~ N(m, s) (s >= 0), and
+// E[z0 1{y = levels[j]}] over the same law, for every j, into py and zy.
+func (o *outSide) labelProb(m, s float64, py, zy []float64) {
+	if o.rd.Name() == "logistic" {
+		// Labels -1, +1 with P(+1 | z) = sigmoid(z): Gauss-Hermite in z0, and Stein's identity
+		// E[z0 h(z0)] = m E[h] + s E[h'] for the first moment.
+		p, d := 0.0, 0.0
+		rs := math.Sqrt(s)
+		for i, x := range hermX {
+			sg := readout.Sigmoid(m + rs*x)
+			p += hermW[i] * sg
+			d += hermW[i] * sg * (1 - sg)
+		}
+		py[0], py[1] = 1-p, p
+		zy[1] = m*p + s*d
+		zy[0] = m*(1-p) - s*d
+		return
+	}
+	// Cells of z0 + w: for the noise component N(0, V), z0 + w ~ N(m, s + V).
+	for j := range py {
+		py[j], zy[j] = 0, 0
+	}
+	for _, k := range o.nz {
+		sd := math.Sqrt(s + k.Var)
+		lo := math.Inf(-1)
+		for j := range o.levels {
+			hi := math.Inf(1)
+			if j < len(o.cuts) {
+				hi = o.cuts[j]
+			}
+			var cell, dens float64
+			if sd == 0 {
+				if m >= lo && m < hi {
+					cell = 1
+				}
+			} else {
+				a, b := (lo-m)/sd, (hi-m)/sd
+				cell = normCell(a, b)
+				if !math.IsInf(a, 0) {
+					dens += normPDF(a) / sd
+				}
+				if !math.IsInf(b, 0) {
+					dens -= normPDF(b) / sd
+				}
+			}
+			py[j] += k.Weight * cell
+			zy[j] += k.Weight * (m*cell + s*dens)
+			lo = hi
+		}
+	}
+}
+
+// labels is the output side of a readout with finitely many values: for each value y, the
+// conditional z0 | p1 ~ N(beta p1, s) gives P(y | p1) and E[z0 1{y} | p1] in closed form
+// (cells: normal cell probabilities; logistic: Gauss-Hermite), and the outer expectation over
+// p1 ~ N(0, vp) is a Gauss-Legendre quadrature split at the loss prox's kinks and graded
+// around the readout's thresholds (where P(y | p1) turns on the scale sqrt(s + V)/beta).
+// The backward message follows from delta = (zhat - p1)/(1 - Az):
+// muz = mu1 + E[delta z0]/rhoz and sigz = E[delta^2] - tau - (muz - mu1)^2 rhoz (Stein's
+// identity gives E[(p1 - mu1 z0) delta] = -tau).
+func (o *outSide) labels(g, mu1, tau float64) outMoments {
+	vp := mu1*mu1*o.rhoz + tau
+	if !(vp > 0) {
+		return outMoments{az: math.NaN()}
+	}
+	beta := mu1 * o.rhoz / vp
+	s := o.rhoz * tau / vp
+	var kinks []float64
+	for _, y := range o.levels {
+		kinks = append(kinks, o.ls.Kinks(y, g)...)
+		if !o.train {
+			continue
+		}
+		if r, ok := o.zeroCrossing(y, g, vp); ok {
+			kinks = append(kinks, r)
+		}
+	}
+	var sharp [][2]float64
+	if beta != 0 {
+		minV := math.Inf(1)
+		for _, k := range o.nz {
+			minV = math.Min(minV, k.Var)
+		}
+		if o.rd.Name() == "logistic" {
+			sharp = append(sharp, [2]float64{0, math.Sqrt(1+s) / math.Abs(beta)})
+		} else {
+			sc := math.Sqrt(s+minV) / math.Abs(beta)
+			for _, c := range o.cuts {
+				sharp = append(sharp, [2]float64{c / beta, sc})
+			}
+		}
+	}
+	x, w := gaussGrid(vp, kinks, math.Sqrt(vp), sharp)
+	py := make([]float64, len(o.levels))
+	zy := make([]float64, len(o.levels))
+	var az, dz, dd, dp, terr, tloss, mis float64
+	for i, p := range x {
+		o.labelProb(beta*p, s, py, zy)
+		for j, y := range o.levels {
+			if py[j] == 0 && zy[j] == 0 {
+				continue
+			}
+			zh, der := o.ls.Prox(y, p, g)
+			pw := w[i] * py[j]
+			az += pw * der
+			dz += w[i] * zy[j] * (zh - p)
+			dd += pw * (zh - p) * (zh - p)
+			dp += pw * (zh - p) * p
+			if !o.train {
+				continue
+			}
+			terr += pw * (y - zh) * (y - zh)
+			tloss += pw * o.ls.Value(y, zh)
+			if (zh >= 0) != (y >= 0) {
+				mis += pw
+			}
+		}
+	}
+	out := outMoments{az: az, trainErr: terr, trainLoss: tloss, misfit: mis}
+	if !(az < 1) {
+		out.zeroDeriv = true
+		return out
+	}
+	c := 1 - az
+	dmu := dz / (c * o.rhoz)
+	out.muz = mu1 + dmu
+	out.sigz = math.Max(dd/(c*c)-tau-dmu*dmu*o.rhoz, 0)
+	return out
+}
+
+// zeroCrossing returns the p1 where zhat(y, p1) changes sign (zhat is nondecreasing in p1),
+// found by bisection within +-12 standard deviations, for the misfit's indicator.
+func (o *outSide) zeroCrossing(y, g, vp float64) (float64, bool) {
+	lo, hi := -12*math.Sqrt(vp), 12*math.Sqrt(vp)
+	zl, _ := o.ls.Prox(y, lo, g)
+	zh, _ := o.ls.Prox(y, hi, g)
+	if zl >= 0 || zh < 0 {
+		return 0, false
+	}
+	for range 80 {
+		mid := (lo + hi) / 2
+		if z, _ := o.ls.Prox(y, mid, g); z >= 0 {
+			hi = mid
+		} else {
+			lo = mid
+		}
+	}
+	return hi, true
+}
+
+// testError is the probability that the sign of a fresh row's prediction zh differs from
+// that row's label, where (z, zh) is jointly Gaussian with Var z = rhoz, Var zh = q,
+// Cov = c. For cell readouts the label's sign is the sign of z + w, and each noise component
+// gives arccos(corr)/pi (Sheppard 1899); for the logistic readout it is
+// 2 E[sigmoid(-z) P(zh > 0 | z)] by quadrature over z.
+func (o *outSide) testError(q, c float64) float64 {
+	if !(q > 0) {
+		return 0.5
+	}
+	if o.rd.Name() == "logistic" {
+		b := c / o.rhoz
+		res := math.Max(q-c*b, 0)
+		var sharp [][2]float64
+		if res > 0 {
+			sharp = [][2]float64{{0, math.Sqrt(res) / math.Max(math.Abs(b), 1e-300)}}
+		}
+		x, w := gaussGrid(o.rhoz, []float64{0}, math.Sqrt(o.rhoz), sharp)
+		e := 0.0
+		for i, z := range x {
+			var pos float64
+			if res == 0 {
+				if b*z > 0 {
+					pos = 1
+				}
+			} else {
+				pos = normCell(-b*z/math.Sqrt(res), math.Inf(1))
+			}
+			e += w[i] * readout.Sigmoid(-z) * pos
+		}
+		return 2 * e
+	}
+	e := 0.0
+	for _, k := range o.nz {
+		r := c / math.Sqrt(q*(o.rhoz+k.Var))
+		e += k.Weight * math.Acos(math.Max(-1, math.Min(1, r))) / math.Pi
+	}
+	return e
+}
+
+// trainAtZero returns the training observables of the zero estimate, zhat = 0.
+func (o *outSide) trainAtZero() outMoments {
+	var om outMoments
+	if len(o.levels) == 0 {
+		for _, k := range o.nz {
+			v := o.rhoz + k.Var
+			om.trainErr += k.Weight * v
+			if v == 0 {
+				om.trainLoss += k.Weight * o.ls.Value(0, 0)
+				continue
+			}
+			x, w := gaussGrid(v, []float64{0}, math.Sqrt(v)/4, nil)
+			for i := range x {
+				om.trainLoss += k.Weight * w[i] * o.ls.Value(x[i], 0)
+			}
+		}
+		return om
+	}
+	py := make([]float64, len(o.levels))
+	zy := make([]float64, len(o.levels))
+	o.labelProb(0, o.rhoz, py, zy)
+	for j, y := range o.levels {
+		om.trainErr += py[j] * y * y
+		om.trainLoss += py[j] * o.ls.Value(y, 0)
+		if y < 0 {
+			om.misfit += py[j]
+		}
+	}
+	return om
+}

@@ -1,0 +1,82 @@
+package noise
+
+import (
+	"hdrisk/engine/param"
+	"maps"
+	"math"
+	"slices"
+	"strings"
+)
+
+// Param describes one parameter of a law beyond the shared "variance".
+type Param struct {
+	Name             string
+	Unit             string
+	Min, Max         float64
+	MinOpen, MaxOpen bool
+	Help             string
+}
+
+// Kind describes one law of the registry.
+type Kind struct {
+	Name   string // the scenario's noise.law
+	Help   string
+	Params []param.Param
+}
+
+var kinds = []struct {
+	Kind
+	build func(variance float64, v map[string]float64) (Law, error)
+}{
+	{Kind{"gauss", "Gaussian noise: today's model", nil},
+		func(d float64, _ map[string]float64) (Law, error) { return Gauss(d) }},
+	{Kind{"laplace", "Laplace (double exponential) noise: heavier tails than Gaussian", nil},
+		func(d float64, _ map[string]float64) (Law, error) { return Laplace(d) }},
+	{Kind{"student-t", "Student-t noise: heavy tails, more so with fewer degrees of freedom", []param.Param{
+		{Name: "dof", Label: "degrees of freedom of the noise", Role: param.Shape, Unit: "degrees of freedom", Min: 2, Max: math.Inf(1), MinOpen: true, MaxOpen: true,
+			Help: "degrees of freedom, above 2 so that the variance is finite"}}},
+		func(d float64, v map[string]float64) (Law, error) { return StudentT(d, v["dof"]) }},
+	{Kind{"outliers", "Gaussian noise where a fraction of the entries has a larger variance", []param.Param{
+		{Name: "fraction", Label: "outlier fraction", Unit: "fraction of entries", Min: 0, Max: 1, MaxOpen: true,
+			Help: "share of the entries that are outliers"},
+		{Name: "outlier_variance", Label: "outlier variance", Log: true, Role: param.Scale, Unit: "units of y squared", Max: math.Inf(1), MaxOpen: true,
+			Help: "variance of an outlier entry"}}},
+		func(d float64, v map[string]float64) (Law, error) {
+			return Outliers(d, v["fraction"], v["outlier_variance"])
+		}},
+}
+
+// Kinds lists every law of the registry, in a fixed order; a fresh copy.
+func Kinds() []Kind {
+	out := make([]Kind, len(kinds))
+	for i, k := range kinds {
+		out[i] = k.Kind
+		out[i].Params = slices.Clone(k.Params)
+	}
+	return out
+}
+
+// New builds the law of the given kind with the typical entry's variance and the kind's
+// own parameters. An unknown kind is reported with Field "law", a missing or unknown
+// parameter with its own name.
+func New(kind string, variance float64, params map[string]float64) (Law, error) {
+	names := make([]string, len(kinds))
+	for i, k := range kinds {
+		names[i] = k.Name
+		if k.Name != kind {
+			continue
+		}
+		for _, p := range k.Params {
+			if _, ok := params[p.Name]; !ok {
+				return nil, param.Errorf(p.Name, "missing (law %s needs it)", kind)
+			}
+		}
+		for _, name := range slices.Sorted(maps.Keys(params)) {
+			if !slices.ContainsFunc(k.Params, func(p param.Param) bool { return p.Name == name }) {
+				return nil, param.Errorf(name, "not a parameter of law %s", kind)
+			}
+		}
+		return k.build(variance, params)
+	}
+	return nil, param.Errorf("law", "unknown law %q (known: %s)", kind, strings.Join(names, ", "))
+}

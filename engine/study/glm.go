@@ -1,0 +1,52 @@
+package study
+
+import (
+	"math"
+
+	"hdrisk/engine/fixedpoint"
+)
+
+// solveGLM solves one point of a generalized linear model (method.md section 10). A point
+// without a unique finite minimizer fails with the reason, so that no study draws, minimizes
+// or writes an error figure for it.
+func solveGLM(g fixedpoint.GLM, o fixedpoint.Options) Point {
+	o.Start = nil
+	r, err := fixedpoint.SolveGLM(g, o)
+	if err != nil {
+		return Point{Failed: err.Error()}
+	}
+	if !r.GLM.Exists {
+		return Point{Result: r, Failed: "no finite minimizer: " + r.GLM.ExistsReason}
+	}
+	return Point{Result: r}
+}
+
+// GLMObservables lists the observables that only a generalized linear model reports, in the
+// order of the CSV columns that follow Observables when a study holds such points; for a
+// point without them (or without labels, for test_error and train_misfit) they are NaN.
+func GLMObservables() []Observable {
+	of := func(f func(*fixedpoint.GLMObservables) float64, labels bool) func(fixedpoint.Result) float64 {
+		return func(r fixedpoint.Result) float64 {
+			if r.GLM == nil || (labels && !r.GLM.Labels) {
+				return math.NaN()
+			}
+			return f(r.GLM)
+		}
+	}
+	return []Observable{
+		{"cosine", "cosine of xhat and x0", of(func(g *fixedpoint.GLMObservables) float64 { return g.Cosine }, false)},
+		{"norm_ratio", "|xhat| / |x0|", of(func(g *fixedpoint.GLMObservables) float64 { return g.NormRatio }, false)},
+		{"test_error", "test error (fresh labels)", of(func(g *fixedpoint.GLMObservables) float64 { return g.TestError }, true)},
+		{"train_misfit", "training labels misfit", of(func(g *fixedpoint.GLMObservables) float64 { return g.TrainMisfit }, true)},
+		{"train_loss", "training loss", of(func(g *fixedpoint.GLMObservables) float64 { return g.TrainLoss }, false)},
+	}
+}
+
+func anyGLM(pts []Point) bool {
+	for _, p := range pts {
+		if p.Result.GLM != nil {
+			return true
+		}
+	}
+	return false
+}
