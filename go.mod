@@ -30,3 +30,4 @@ require (
 	golang.org/x/sys v0.35.0 // indirect
 	golang.org/x/text v0.28.0 // indirect
 )
+replace codeberg.org/go-fonts/liberation => ./internal/liberation

@@ -29,6 +29,7 @@ type CurveView struct {
 
 	Quantity string // the observable on the y axis (study.Observables name)
 	YLog     bool
+	Tuned    string // the weight of the best-tuned curve ("l1", "l2", "l1+l2"); "" for none
 
 	inited                  bool
 	ax                      axisText
@@ -36,6 +37,8 @@ type CurveView struct {
 	run, problem, note      string
 	current                 *curveSeries
 	kept                    []*curveSeries
+	tuned                   *curveSeries // the best-tuned curve of the current scenario
+	tunedOver               string       // its weight
 	best                    *study.BestResult
 	bestErr                 string
 	bayes                   *study.BayesResult
@@ -373,6 +376,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgparent.AppendChild(vgn)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-ylog"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "checkbox"}}}
 						vgparent.AppendChild(vgn)
+						vgn.AddAttrInterface("title", c.logTitle())
 						{
 							b, err := vjson.Marshal(c.YLog)
 							if err != nil {
@@ -380,11 +384,72 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							}
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "checked", JSONVal: vjson.RawMessage(b)})
 						}
+						{
+							b, err := vjson.Marshal(!c.LogAllowed())
+							if err != nil {
+								panic(err)
+							}
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
+						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
 							Func:      func(event vugu.DOMEvent) { c.ticked(event, "ylog") },
 							// TODO: implement capture, etc. mostly need to decide syntax
 						})
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+					vgparent.AppendChild(vgn)
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field"}}}
+					vgparent.AppendChild(vgn)
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "label", Attr: []vugu.VGAttribute{{Namespace: "", Key: "for", Val: "curve-tuned"}}}
+						vgparent.AppendChild(vgn)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Best-tuned curve"}
+							vgparent.AppendChild(vgn)
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "select", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-tuned"}, vugu.VGAttribute{Namespace: "", Key: "title", Val: "Also draw the error with this weight re-tuned at every point of the sweep"}}}
+						vgparent.AppendChild(vgn)
+						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+							EventType: "change",
+							Func:      func(event vugu.DOMEvent) { c.typed(event, "tuned") },
+							// TODO: implement capture, etc. mostly need to decide syntax
+						})
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+							vgparent.AppendChild(vgn)
+							for vgiterkeyt, t := range c.TunedChoices() {
+								var vgiterkey interface{} = vgiterkeyt
+								_ = vgiterkey
+								t := t
+								_ = t
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "option", Attr: []vugu.VGAttribute(nil)}
+								vgparent.AppendChild(vgn)
+								vgn.AddAttrInterface("value", t[0])
+								{
+									b, err := vjson.Marshal(c.Tuned == t[0])
+									if err != nil {
+										panic(err)
+									}
+									vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "selected", JSONVal: vjson.RawMessage(b)})
+								}
+								vgn.SetInnerHTML(t[1])
+							}
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+						}
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)
 					}
@@ -572,15 +637,30 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn.AddAttrInterface("src", c.FigureURL())
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-v"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("class", "crosshair crosshair-v"+c.crossClass())
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-h"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("class", "crosshair crosshair-h"+c.crossClass())
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figure-overlay"}, vugu.VGAttribute{Namespace: "", Key: "aria-hidden", Val: "true"}}}
 							vgparent.AppendChild(vgn)
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "mousemove",
+								EventType: "pointermove",
 								Func:      func(event vugu.DOMEvent) { c.pointer(event) },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
-								EventType: "mouseleave",
+								EventType: "pointerdown",
+								Func:      func(event vugu.DOMEvent) { c.pointer(event) },
+								// TODO: implement capture, etc. mostly need to decide syntax
+							})
+							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+								EventType: "pointerleave",
 								Func:      func(event vugu.DOMEvent) { c.leave() },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
@@ -687,6 +767,21 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgparent := vgn
 							_ = vgparent
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Save figure (PNG)"}
+							vgparent.AppendChild(vgn)
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-pdf"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
+						vgparent.AppendChild(vgn)
+						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("pdf") },
+							// TODO: implement capture, etc. mostly need to decide syntax
+						})
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Save figure (PDF)"}
 							vgparent.AppendChild(vgn)
 						}
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}

@@ -92,8 +92,10 @@ func (c *CurveView) Paths() []scenario.PathInfo { return modelPaths(c.Model) }
 // Quantities are the numbers a curve can show on its y axis.
 func (c *CurveView) Quantities() []study.Observable { return study.Observables() }
 
-// Set stores one setting: "over", "from", "to", "points", "log", "ylog" or "quantity".
-// Choosing "over" proposes a range for it. Special cases are: an unknown name is an error.
+// Set stores one setting: "over", "from", "to", "points", "log", "ylog", "quantity" or
+// "tuned" (the weight of the best-tuned curve: "l1", "l2", "l1+l2", or "" for none).
+// Choosing "over" proposes a range for it; a logarithmic vertical axis is kept only for a
+// quantity that is never negative. Special cases are: an unknown name is an error.
 func (c *CurveView) Set(name, text string) error {
 	c.curveInit()
 	switch name {
@@ -114,11 +116,14 @@ func (c *CurveView) Set(name, text string) error {
 	case "log":
 		c.ax.Log = text == "true"
 	case "ylog":
-		c.YLog = text == "true"
+		c.YLog = text == "true" && plot.LogAllowed(c.Quantity)
 		c.redraw()
 	case "quantity":
 		c.Quantity = text
+		c.YLog = c.YLog && plot.LogAllowed(text)
 		c.redraw()
+	case "tuned":
+		c.Tuned = text
 	default:
 		return fmt.Errorf("no setting %q", name)
 	}
@@ -174,7 +179,7 @@ func (c *CurveView) Start() {
 	}
 	st := studyOf(c.Model, "curve")
 	st.Sweep = &scenario.Sweep{Over: ax.Over, From: ax.From, To: ax.To, Points: ax.Points, Log: ax.Log}
-	isWeight := (ax.Over == "l1" || ax.Over == "l2") && study.DefaultOver(s) != "" && c.hasPenaltyField(s, ax.Over)
+	isWeight := plot.WantsBest(s, ax.Over)
 	if isWeight {
 		st.Best = &scenario.Best{Over: ax.Over}
 	}
@@ -184,35 +189,38 @@ func (c *CurveView) Start() {
 	c.axis = ax
 	c.best, c.bestErr, c.bayes, c.bayesNote = nil, "", nil, ""
 	c.current = &curveSeries{Label: c.label(s, "this scenario"), Scen: s}
+	c.tuned, c.tunedOver = nil, ""
 	c.seconds, c.figSeconds, c.started = 0, 0, c.now()
 	c.startSweep(c.current, true)
 	if isWeight {
 		c.startBest(s, ax.Over)
 	}
-	if c.penaltyField(s, ax.Over) {
+	if plot.WantsBayes(s, ax.Over) {
 		c.startBayes(s)
 	} else {
 		c.bayesNote = "The Bayes-optimal error is drawn when the sweep varies a penalty setting only; " + pathLabel(s, ax.Over) + " changes the problem itself."
+	}
+	// The best-tuned curve, a search at every point, queues behind the quick references.
+	if c.Tuned != "" {
+		c.tuned, c.tunedOver = &curveSeries{Label: plot.TunedCurve(c.Tuned, nil).Label, Scen: s}, c.Tuned
+		c.startTuned(c.tuned, c.Tuned)
 	}
 	c.run = RunRunning
 	c.redraw()
 }
 
-// hasPenaltyField reports whether the penalty of s has the weight name.
-func (c *CurveView) hasPenaltyField(s scenario.Scenario, name string) bool {
-	_, ok := s.Penalty.Params[name]
-	return ok
-}
+// figuresWarm is set once the page has drawn its first figure.
+var figuresWarm bool
 
-// penaltyField reports whether name is a parameter of the penalty of s (so that the Bayes
-// error, which does not depend on the penalty, is the same all along the sweep).
-func (c *CurveView) penaltyField(s scenario.Scenario, name string) bool {
-	for _, p := range s.Paths() {
-		if p.Name == name || p.Path == name {
-			return len(p.Path) > 8 && p.Path[:8] == "penalty."
-		}
+// warmFigures draws a throw-away figure when the curve view first shows: the first figure
+// drawn in the page pays for loading the font and for the first run of the layout code (a
+// quarter of a second in WebAssembly), which would otherwise fall between a sweep's numbers
+// and their figure, or hold up the numbers themselves.
+func warmFigures() {
+	if !figuresWarm {
+		figuresWarm = true
+		plot.Warm()
 	}
-	return false
 }
 
 // label names a curve by what sets it apart.
@@ -330,6 +338,53 @@ func (c *CurveView) startSweep(cs *curveSeries, timed bool) {
 	}
 }
 
+// startTuned runs the best-tuned curve of cs's scenario as jobs, one block of points per
+// worker as startSweep does: each point is a search over the weight, so the blocks matter.
+func (c *CurveView) startTuned(cs *curveSeries, best string) {
+	data, err := bareJSON(cs.Scen)
+	if err != nil {
+		cs.err, cs.done = err.Error(), true
+		return
+	}
+	blocks := c.sweepBlocks(c.axis.Points)
+	cancels := make([]func(), len(blocks))
+	pending := len(blocks)
+	pts := make([]study.Point, c.axis.Points)
+	cs.cancel = func() {
+		for i, f := range cancels {
+			if f != nil {
+				f()
+				cancels[i] = nil
+			}
+		}
+	}
+	for i, b := range blocks {
+		args := protocol.TunedArgs{SweepArgs: protocol.SweepArgs{Scenario: data, Axis: c.axis}, Best: best}
+		if len(blocks) > 1 {
+			args.PointFrom, args.PointTo = b[0], b[1]
+		}
+		cancels[i] = start(c.Jobs, protocol.Tuned, args, nil, func(r protocol.TunedResult, err error) {
+			cancels[i] = nil
+			pending--
+			if err == nil && len(r.Points) != b[1]-b[0] {
+				err = fmt.Errorf("points %d to %d came back incomplete", b[0], b[1])
+			}
+			if err != nil {
+				cs.cancel()
+				cs.cancel, cs.done, cs.err = nil, true, "no best-tuned curve: "+err.Error()
+				c.settle()
+				return
+			}
+			copy(pts[b[0]:], r.Points)
+			if pending > 0 {
+				return
+			}
+			cs.cancel, cs.done, cs.Points = nil, true, pts
+			c.settle()
+		})
+	}
+}
+
 func (c *CurveView) startBest(s scenario.Scenario, over string) {
 	data, err := bareJSON(s)
 	if err != nil {
@@ -436,7 +491,7 @@ func (c *CurveView) Cancel() {
 }
 
 func (c *CurveView) stopAll() {
-	for _, cs := range c.all() {
+	for _, cs := range c.jobsOf() {
 		if cs.cancel != nil {
 			cs.cancel()
 			cs.cancel = nil
@@ -461,17 +516,25 @@ func (c *CurveView) all() []*curveSeries {
 	return out
 }
 
-// settle updates the run state after a job ends and redraws.
+// jobsOf lists every series with jobs: the curves and the best-tuned one.
+func (c *CurveView) jobsOf() []*curveSeries {
+	out := c.all()
+	if c.tuned != nil {
+		out = append(out, c.tuned)
+	}
+	return out
+}
+
+// settle updates the run state after a job ends and redraws: the figure is drawn as soon as
+// the sweep's numbers are in, and again as each reference line or curve arrives.
 func (c *CurveView) settle() {
 	busy := c.bestCancel != nil || c.bayesCancel != nil
-	for _, cs := range c.all() {
+	for _, cs := range c.jobsOf() {
 		busy = busy || !cs.done
 	}
 	switch {
 	case busy:
-		// The figure waits for the last job: each drawing costs a worker and a render.
 		c.run = RunRunning
-		return
 	case c.current != nil && c.current.err != "" && c.current.err != "cancelled":
 		c.run, c.problem = RunError, c.current.err
 	case c.run == RunCancelled:
@@ -491,42 +554,35 @@ func (c *CurveView) quantity() study.Observable {
 	return study.Observables()[2]
 }
 
-// figureSpec is the line figure of every finished curve.
+// figureSpec is the line figure of every finished curve, drawn as the command line draws
+// it (plot.SweepFigure): a curve alone needs no legend; beside its best-tuned curve it is
+// named by the weight the other re-tunes.
 func (c *CurveView) figureSpec() (plot.Line, bool) {
-	q := c.quantity()
-	var ss []plot.Series
+	sf := plot.SweepFigure{Scenario: c.current0(), Quantity: c.quantity().Name, YLog: c.YLog, Axis: c.axis}
+	tuned := c.tuned != nil && len(c.tuned.Points) > 0
 	for _, cs := range c.all() {
-		if len(cs.Points) == 0 {
-			continue
+		label := cs.Label
+		if len(c.kept) == 0 {
+			label = ""
+			if tuned {
+				label = plot.FixedLabel(cs.Scen, c.tunedOver)
+			}
 		}
-		x, y, miss := seriesOf(cs.Points, q)
-		ss = append(ss, plot.Series{Name: cs.Label, X: x, Y: y, Missing: miss})
+		sf.Curves = append(sf.Curves, plot.Curve{Label: label, Points: cs.Points})
 	}
-	if len(ss) == 0 {
-		return plot.Line{}, false
+	if tuned {
+		tc := plot.TunedCurve(c.tunedOver, nil)
+		tc.Points = c.tuned.Points
+		sf.Curves = append(sf.Curves, tc)
 	}
-	l := plot.Line{Title: q.Label + " against " + pathLabel(c.current0(), c.axis.Over), XLabel: pathLabel(c.current0(), c.axis.Over),
-		YLabel: q.Label, XLog: c.axis.Log, YLog: c.YLog, Series: ss}
 	if c.best != nil && c.best.AtBound == "" {
-		l.VLines = append(l.VLines, plot.Mark{At: c.best.Value, Label: "best " + c.best.Over + " = " + num4(c.best.Value)})
+		sf.Best = &plot.BestMark{Over: c.best.Over, Value: c.best.Value}
 	}
 	if c.bayes != nil {
-		var v float64
-		switch q.Name {
-		case "mse":
-			v = c.bayes.Uninformed.MSE
-		case "nmse":
-			v = c.bayes.Uninformed.NMSE
-		case "nmse_db":
-			v = c.bayes.Uninformed.NMSEdB
-		default:
-			v = math.NaN()
-		}
-		if !math.IsNaN(v) {
-			l.HLines = append(l.HLines, plot.Mark{At: v, Label: "Bayes-optimal"})
-		}
+		u := c.bayes.Uninformed
+		sf.Bayes = &u
 	}
-	return l, true
+	return sf.Line()
 }
 
 // current0 is the scenario of the latest sweep (or of the first kept one).
@@ -540,36 +596,36 @@ func (c *CurveView) current0() scenario.Scenario {
 	return scenario.Scenario{}
 }
 
-// seriesOf splits points into the values of q (NaN where the point is not OK) and the x of
-// points without a converged value.
-func seriesOf(pts []study.Point, q study.Observable) (x, y, missing []float64) {
-	for _, p := range pts {
-		x = append(x, p.X)
-		if p.OK() {
-			y = append(y, q.Of(p.Result))
-		} else {
-			y = append(y, math.NaN())
-			missing = append(missing, p.X)
-		}
-	}
-	return x, y, missing
-}
-
+// redraw draws the figure in the page, at once.
 func (c *CurveView) redraw() {
 	l, ok := c.figureSpec()
 	if !ok {
 		c.box.clear()
 		return
 	}
-	c.box.draw(c.Jobs, c.Browser, protocol.FigureArgs{Line: &l}, func() {
-		if c.run == RunDone && c.figSeconds == 0 {
-			c.figSeconds = c.now().Sub(c.started).Seconds()
-		}
-	})
+	c.box.drawLine(c.Browser, "panel-curve", l)
+	if c.current != nil && c.current.done && len(c.current.Points) > 0 && c.figSeconds == 0 && c.box.url != "" {
+		c.figSeconds = c.now().Sub(c.started).Seconds()
+	}
 }
 
 // FigureURL is the figure as a data: URL; "" when there is none.
-func (c *CurveView) FigureURL() string { return c.box.url }
+func (c *CurveView) FigureURL() string {
+	warmFigures()
+	c.fit()
+	return c.box.url
+}
+
+// fit draws the figure again when the panel's width asks for another size than the one
+// shown (the window was resized, or the figure was drawn while its tab was hidden).
+func (c *CurveView) fit() {
+	if c.box.line == nil {
+		return
+	}
+	if w, h := figureSize(c.Browser, "panel-curve"); w != c.box.line.Width || h != c.box.line.Height {
+		c.box.drawLine(c.Browser, "panel-curve", *c.box.line)
+	}
+}
 
 // FigureProblem says why there is no figure.
 func (c *CurveView) FigureProblem() string { return c.box.problem }
@@ -577,38 +633,40 @@ func (c *CurveView) FigureProblem() string { return c.box.problem }
 // Readout is the value under the pointer, in words.
 func (c *CurveView) Readout() string { return c.box.readout }
 
-func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
+func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say, c.Browser, "curve") }
 
 func (c *CurveView) leave() { c.box.leave() }
 
-// say describes a pointer position: its coordinates, and the computed point of the
-// current curve nearest to it in x.
-func (c *CurveView) say(x, y float64) string {
+// say names the computed point nearest the pointer on the figure, among all its curves:
+// the curve, and the exact values there.
+func (c *CurveView) say(x, y float64, where func(x, y float64) (float64, float64)) (string, float64, float64) {
 	q := c.quantity()
-	t := fmt.Sprintf("pointer: %s = %s, %s = %s", c.axis.Over, num4(x), q.Label, num4(y))
-	cs := c.current
-	if cs == nil && len(c.kept) > 0 {
-		cs = c.kept[0]
+	l, ok := c.figureSpec()
+	if !ok {
+		return "", math.NaN(), math.NaN()
 	}
-	if cs == nil || len(cs.Points) == 0 {
-		return t
-	}
-	best, bd := 0, math.Inf(1)
-	for i, p := range cs.Points {
-		d := math.Abs(p.X - x)
-		if c.axis.Log && p.X > 0 && x > 0 {
-			d = math.Abs(math.Log(p.X / x))
+	px, py := where(x, y)
+	bestD, bs, bi := math.Inf(1), -1, -1
+	for k, s := range l.Series {
+		for i := range s.X {
+			if math.IsNaN(s.Y[i]) || (l.YLog && !(s.Y[i] > 0)) {
+				continue
+			}
+			qx, qy := where(s.X[i], s.Y[i])
+			if d := math.Hypot(qx-px, qy-py); d < bestD {
+				bestD, bs, bi = d, k, i
+			}
 		}
-		if d < bd {
-			best, bd = i, d
-		}
 	}
-	p := cs.Points[best]
-	v := "no converged value (" + p.Status() + ")"
-	if p.OK() {
-		v = q.Label + " " + num4(q.Of(p.Result))
+	if bs < 0 {
+		return fmt.Sprintf("pointer: %s = %s, %s = %s", c.axis.Over, num4(x), q.Label, num4(y)), math.NaN(), math.NaN()
 	}
-	return t + "; nearest computed point: " + c.axis.Over + " = " + num4(p.X) + ", " + v
+	s := l.Series[bs]
+	name := s.Name
+	if name == "" {
+		name = "this scenario"
+	}
+	return fmt.Sprintf("%s: %s = %s, %s = %s", name, c.axis.Over, full(s.X[bi]), q.Label, full(s.Y[bi])), s.X[bi], s.Y[bi]
 }
 
 // Status says how far the sweep is, or how long it took.
@@ -744,9 +802,9 @@ func (c *CurveView) CSV() ([]byte, error) {
 	return b.Bytes(), nil
 }
 
-// Export saves the figure ("svg", "png") or the curves' data ("csv").
+// Export saves the figure ("svg", "png", "pdf") or the curves' data ("csv").
 func (c *CurveView) Export(what string) {
-	c.box.save(c.Browser, "hdrisk-curve", what, c.CSV, func(err error) { c.problem = err.Error() })
+	c.box.save(c.Jobs, c.Browser, "hdrisk-curve", what, c.CSV, func(err error) { c.problem = err.Error() })
 }
 
 // csvField quotes one CSV field as RFC 4180 asks (quotes doubled, the field in quotes).

@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
 	"hdrisk/protocol"
@@ -205,11 +206,12 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 		t.Errorf("a new view should start from study.sweep: %+v", c2.Axis())
 	}
 
-	// Readout: the middle of the data area reads inside, with the nearest computed point.
+	// Readout: the middle of the data area reads the nearest computed point, naming its
+	// curve, with the crosshair on it.
 	fr := c.box.frame
 	c.box.pointAt((fr.Left+fr.Right)/2*600, (fr.Top+fr.Bottom)/2*400, 600, 400, c.say)
-	if !strings.Contains(c.Readout(), "l1 = ") || !strings.Contains(c.Readout(), "nearest computed point") {
-		t.Errorf("readout %q", c.Readout())
+	if !strings.Contains(c.Readout(), "l1 = ") || !strings.HasPrefix(c.Readout(), "this scenario: ") || !c.crossOn() {
+		t.Errorf("readout %q, crosshair %v", c.Readout(), c.crossOn())
 	}
 	c.box.pointAt(1, 1, 600, 400, c.say)
 	if c.Readout() != "" {
@@ -295,7 +297,7 @@ func TestCurveMarksUnconvergedPoints(t *testing.T) {
 		{X: 3},
 		{X: 4, Result: resultOK(-9)},
 	}
-	x, y, miss := seriesOf(pts, study.Observables()[2])
+	x, y, miss := plot.Values(pts, study.Observables()[2])
 	if len(x) != 4 || !math.IsNaN(y[1]) || !math.IsNaN(y[2]) || y[3] != -9 || len(miss) != 2 || miss[0] != 2 || miss[1] != 3 {
 		t.Errorf("x %v y %v missing %v", x, y, miss)
 	}

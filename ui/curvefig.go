@@ -10,23 +10,52 @@ import (
 
 	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
+	"hdrisk/engine/study"
 	"hdrisk/protocol"
 )
 
-// figureBox is a figure drawn on a compute worker (job kind "figure") and shown as an
-// <img>, with the readout of the value under the pointer and the exports. Drawing runs on a
-// worker because rendering a heat map takes longer in the page than the page may stand
+// figureBox is a figure shown as an <img>, with the readout of the value under the pointer,
+// a crosshair on the point it reads, and the exports. A line figure is drawn in the page as
+// soon as its numbers are there (a few milliseconds); a heat map is drawn on a compute
+// worker (job kind "figure"), because rendering one takes longer than the page may stand
 // still. The curve and map views share it.
 type figureBox struct {
-	spec    protocol.FigureArgs // the figure shown (or on its way)
-	svg     []byte              // the figure shown, for saving
+	line    *plot.Line          // the line figure shown, drawn in the page; nil for a heat map
+	spec    protocol.FigureArgs // the heat figure shown (or on its way)
+	svg     []byte              // the figure shown
 	url     string              // its URL (see imageURL); "" when there is none
 	br      Browser             // the holder of url
 	frame   plot.Frame          // where its data area lies
 	problem string              // why there is no figure
 	readout string              // the values under the pointer, in words
-	cancel  func()              // the drawing on its way, if any
-	saving  int                 // exports on their way
+	cross   [2]float64          // the crosshair, as fractions of the image from its top-left corner
+	crossOn bool
+	cancel  func() // the drawing on its way, if any
+	saving  int    // exports on their way
+}
+
+// elementWidth is what a Browser offers when it can measure an element of the page.
+type elementWidth interface{ ElementWidth(id string) float64 }
+
+// fullWidth is the displayed width, in CSS pixels, at and above which a figure is drawn at
+// its default size (480 points are 640 CSS pixels): its text is then 10.7 pixels or more.
+const fullWidth = 640
+
+// figureSize returns the size to draw a figure at for the panel with the given id: the
+// default (0, 0) when the panel is wide enough or cannot be measured, else the panel's
+// width, so that the figure is shown at its natural size and its text stays at least 10
+// pixels tall on a narrow screen.
+func figureSize(br Browser, panel string) (w, h float64) {
+	ew, ok := br.(elementWidth)
+	if !ok {
+		return 0, 0
+	}
+	css := ew.ElementWidth(panel) - 4 // the image's border
+	if !(css > 0) || css >= fullWidth {
+		return 0, 0
+	}
+	w = math.Max(css, 180) * 0.75
+	return w, math.Max(150, w*0.72)
 }
 
 // setImage shows svg, releasing the image shown before.
@@ -44,6 +73,28 @@ func (b *figureBox) setImage(br Browser, svg []byte) {
 func (b *figureBox) release() {
 	dropImage(b.br, b.url)
 	b.svg, b.url, b.br = nil, "", nil
+}
+
+// drawLine draws l in the page at the size the panel needs (see figureSize) and shows it.
+func (b *figureBox) drawLine(br Browser, panel string, l plot.Line) {
+	if b.cancel != nil {
+		b.cancel()
+		b.cancel = nil
+	}
+	b.problem = ""
+	l.Width, l.Height = figureSize(br, panel)
+	f, err := l.Build()
+	if err != nil {
+		b.problem = "the figure could not be drawn: " + err.Error()
+		return
+	}
+	svg, err := f.SVG()
+	if err != nil {
+		b.problem = "the figure could not be drawn: " + err.Error()
+		return
+	}
+	b.setImage(br, svg)
+	b.line, b.frame, b.readout, b.crossOn = &l, f.Frame(), "", false
 }
 
 // draw renders spec on a worker; shown (may be nil) is called once the image is in place.
@@ -65,7 +116,7 @@ func (b *figureBox) draw(jobs Jobs, br Browser, spec protocol.FigureArgs, shown 
 			return
 		}
 		b.setImage(br, r.Data)
-		b.frame, b.readout = r.Frame, ""
+		b.line, b.frame, b.readout, b.crossOn = nil, r.Frame, "", false
 		if shown != nil {
 			shown()
 		}
@@ -84,61 +135,145 @@ func (b *figureBox) clear() {
 	*b = figureBox{}
 }
 
-// point updates the readout from a pointer event on the overlay that covers the image
-// exactly: offsetX/offsetY are the pointer position in it, clientWidth/clientHeight its
-// displayed size. say turns data coordinates into words.
-func (b *figureBox) point(e vugu.DOMEvent, say func(x, y float64) string) {
+// pick names what the pointer reads: given the data coordinates under the pointer and a
+// function placing data points on the displayed image (pixels), it returns the readout and
+// the data point the crosshair marks (NaN for the pointer itself).
+type pick func(x, y float64, where func(x, y float64) (px, py float64)) (text string, cx, cy float64)
+
+// styler is what a Browser offers when it can set a property of an element's style through
+// the CSS object model, which the page's content policy allows where it refuses a style
+// attribute.
+type styler interface {
+	SetStyle(id, property, value string)
+}
+
+// point updates the readout from a pointer event (mouse, pen or touch) on the overlay that
+// covers the image exactly: offsetX/offsetY are the pointer position in it,
+// clientWidth/clientHeight its displayed size. The crosshair's lines (ids view-cross-v and
+// view-cross-h) are moved onto the point read.
+func (b *figureBox) point(e vugu.DOMEvent, say pick, br Browser, view string) {
 	b.pointAt(e.PropFloat64("offsetX"), e.PropFloat64("offsetY"),
 		e.PropFloat64("target", "clientWidth"), e.PropFloat64("target", "clientHeight"), say)
+	if st, ok := br.(styler); ok && b.crossOn {
+		pct := func(f float64) string { return strconv.FormatFloat(100*f, 'f', 2, 64) + "%" }
+		st.SetStyle(view+"-cross-v", "left", pct(b.cross[0]))
+		st.SetStyle(view+"-cross-h", "top", pct(b.cross[1]))
+	}
 }
 
 // pointAt is point with the numbers taken out of the event.
-func (b *figureBox) pointAt(px, py, w, h float64, say func(x, y float64) string) {
+func (b *figureBox) pointAt(px, py, w, h float64, say pick) {
 	if b.url == "" {
-		b.readout = ""
+		b.readout, b.crossOn = "", false
 		return
 	}
 	x, y, inside := b.frame.At(px, py, w, h)
 	if !inside {
-		b.readout = ""
+		b.readout, b.crossOn = "", false
 		return
 	}
-	b.readout = say(x, y)
+	text, cx, cy := say(x, y, func(x, y float64) (float64, float64) { return b.frame.Where(x, y, w, h) })
+	b.readout = text
+	if math.IsNaN(cx) || math.IsNaN(cy) {
+		cx, cy = x, y
+	}
+	fx, fy := b.frame.Where(cx, cy, 1, 1)
+	b.cross, b.crossOn = [2]float64{fx, fy}, !math.IsNaN(fx) && !math.IsNaN(fy)
 }
 
 // leave clears the readout when the pointer leaves the figure.
-func (b *figureBox) leave() { b.readout = "" }
+func (b *figureBox) leave() { b.readout, b.crossOn = "", false }
 
-// save offers the figure (svg, or png drawn from it by the browser) or its data (csv) as a
-// download named base.what; problems are handed to report.
-func (b *figureBox) save(br Browser, base, what string, csv func() ([]byte, error), report func(error)) {
+// crossClass is the class that shows the crosshair's lines, or "".
+func (b *figureBox) crossClass() string {
+	if b.crossOn {
+		return " on"
+	}
+	return ""
+}
+
+// save offers the figure (svg, pdf, or png at 2x) or its data (csv) as a download named
+// base.what; problems are handed to report. Figures are saved at their default size (480
+// by 300 points, the command line's), whatever size the screen shows them at.
+func (b *figureBox) save(jobs Jobs, br Browser, base, what string, csv func() ([]byte, error), report func(error)) {
 	if br == nil {
 		report(errNoBrowser)
 		return
 	}
 	name := base + "." + what
-	var err error
-	switch what {
-	case "csv":
-		var data []byte
-		if data, err = csv(); err == nil {
+	if what == "csv" {
+		data, err := csv()
+		if err == nil {
 			err = br.Download(name, "text/csv", data)
 		}
-	case "svg", "png":
-		if b.svg == nil {
-			err = fmt.Errorf("there is no figure to save yet")
-		} else if what == "svg" {
-			err = br.Download(name, "image/svg+xml", b.svg)
-		} else {
-			b.saving++
-			savePNG(br, name, b.svg, report, func() { b.saving-- })
+		if err != nil {
+			report(err)
 		}
-	default:
-		err = fmt.Errorf("cannot save as %q", what)
+		return
 	}
-	if err != nil {
-		report(err)
+	if what != "svg" && what != "png" && what != "pdf" {
+		report(fmt.Errorf("cannot save as %q", what))
+		return
 	}
+	if b.svg == nil {
+		report(fmt.Errorf("there is no figure to save yet"))
+		return
+	}
+	offer := func(svg, pdf []byte) {
+		var err error
+		switch what {
+		case "svg":
+			err = br.Download(name, "image/svg+xml", svg)
+		case "pdf":
+			err = br.Download(name, "application/pdf", pdf)
+		case "png":
+			b.saving++
+			savePNG(br, name, svg, report, func() { b.saving-- })
+		}
+		if err != nil {
+			report(err)
+		}
+	}
+	if b.line != nil {
+		l := *b.line
+		l.Width, l.Height = 0, 0
+		f, err := l.Build()
+		if err != nil {
+			report(err)
+			return
+		}
+		svg, err := f.SVG()
+		var pdf []byte
+		if err == nil && what == "pdf" {
+			pdf, err = f.PDF()
+		}
+		if err != nil {
+			report(err)
+			return
+		}
+		offer(svg, pdf)
+		return
+	}
+	if jobs == nil {
+		report(fmt.Errorf("saving the map waits for the compute workers"))
+		return
+	}
+	spec := b.spec
+	if spec.Heat != nil {
+		h := *spec.Heat
+		h.Width, h.Height = 0, 0
+		spec.Heat = &h
+	}
+	spec.PDF = what == "pdf"
+	b.saving++
+	start(jobs, protocol.Figure, spec, nil, func(r protocol.FigureResult, err error) {
+		b.saving--
+		if err != nil {
+			report(err)
+			return
+		}
+		offer(r.Data, r.PDF)
+	})
 }
 
 // num formats a number for the page, to 4 significant digits.
@@ -236,23 +371,8 @@ func round3(v float64) float64 {
 	return s
 }
 
-// pathLabel returns the short name of a path of s for an axis: its name, "m/n" for alpha,
-// with its unit when it has one.
-func pathLabel(s scenario.Scenario, name string) string {
-	for _, p := range s.Paths() {
-		if p.Name == name || p.Path == name {
-			n := p.Name
-			if n == "alpha" {
-				n = "m/n"
-			}
-			if p.Unit != "" {
-				n += " (" + p.Unit + ")"
-			}
-			return n
-		}
-	}
-	return name
-}
+// pathLabel returns the short name of a path of s for an axis (see plot.FieldLabel).
+func pathLabel(s scenario.Scenario, name string) string { return plot.FieldLabel(s, name) }
 
 // pathOption is the text of a path in a menu: its name, then what it is.
 func pathOption(p scenario.PathInfo) string {
@@ -369,4 +489,46 @@ func modelPaths(m *Model) []scenario.PathInfo {
 	}
 	pathCache.key, pathCache.paths = key, ch.Scenario.Paths()
 	return pathCache.paths
+}
+
+// The views' crosshair hooks.
+
+func (c *CurveView) crossOn() bool      { return c.box.crossOn }
+func (c *CurveView) crossClass() string { return c.box.crossClass() }
+func (c *Mapview) crossClass() string   { return c.box.crossClass() }
+
+// LogAllowed reports whether the quantity shown can go on a logarithmic axis.
+func (c *CurveView) LogAllowed() bool { return plot.LogAllowed(c.quantity().Name) }
+
+func (c *CurveView) logTitle() string {
+	if c.LogAllowed() {
+		return "Draw the vertical axis on a logarithmic scale"
+	}
+	return c.quantity().Label + " can be zero or negative: a logarithmic axis needs a positive quantity"
+}
+
+// TunedChoices are the weights the penalty of the scenario can re-tune along the sweep,
+// as value and text, "" (none) first.
+func (c *CurveView) TunedChoices() [][2]string {
+	out := [][2]string{{"", "none"}}
+	if c.Model == nil {
+		return out
+	}
+	ch := c.Model.Check()
+	if ch.Err != nil {
+		return out
+	}
+	p := ch.Scenario.Penalty.Params
+	_, l1 := p["l1"]
+	_, l2 := p["l2"]
+	if l1 {
+		out = append(out, [2]string{"l1", "l1 re-tuned at every point"})
+	}
+	if l2 {
+		out = append(out, [2]string{"l2", "l2 re-tuned at every point"})
+	}
+	if l1 && l2 {
+		out = append(out, [2]string{study.Ratio, "l1 and l2 together (fixed ratio)"})
+	}
+	return out
 }

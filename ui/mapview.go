@@ -271,103 +271,48 @@ func (c *Mapview) quantity() study.Observable {
 	return study.Observables()[2]
 }
 
-// grid returns the axes' values and the quantity at every cell (NaN where there is none).
-func (c *Mapview) grid() (xs, ys, z []float64) {
-	nx, ny := c.axes[0].Points, c.axes[1].Points
-	q := c.quantity()
-	xs, ys, z = make([]float64, nx), make([]float64, ny), make([]float64, nx*ny)
-	for k, p := range c.cells {
-		i, j := k%nx, k/nx
-		xs[i], ys[j] = p.X, p.Y
-		z[k] = math.NaN()
-		if p.OK() {
-			z[k] = q.Of(p.Result)
-		}
-	}
-	return xs, ys, z
+// figure is the map as plot.MapFigure draws it, for the page and the command line alike.
+func (c *Mapview) figure() plot.MapFigure {
+	return plot.MapFigure{Scenario: c.scen, X: c.axes[0], Y: c.axes[1], Quantity: c.quantity().Name, Cells: c.cells}
 }
 
-// weightAxis returns 0 or 1 for the axis that varies the penalty's l1 or l2, -1 if none.
-func (c *Mapview) weightAxis() int {
-	for k, a := range c.axes {
-		if a.Over == "l1" || a.Over == "l2" {
-			if _, ok := c.scen.Penalty.Params[a.Over]; ok {
-				return k
-			}
-		}
-	}
-	return -1
-}
-
-// Ridge returns the best regularization along the weight axis: for every value of the
-// other axis, the weight with the lowest MSE among the converged cells (no point where
-// none converged). Special cases are: no weight axis gives nil.
-func (c *Mapview) Ridge() (x, y []float64) {
-	k := c.weightAxis()
-	if k < 0 || len(c.cells) == 0 {
-		return nil, nil
-	}
-	nx, ny := c.axes[0].Points, c.axes[1].Points
-	at := func(i, j int) study.Point { return c.cells[j*nx+i] }
-	outer, inner := ny, nx
-	if k == 1 {
-		outer, inner = nx, ny
-	}
-	for o := 0; o < outer; o++ {
-		best, bm := -1, math.Inf(1)
-		for n := 0; n < inner; n++ {
-			i, j := n, o
-			if k == 1 {
-				i, j = o, n
-			}
-			if p := at(i, j); p.OK() && p.Result.MSE < bm {
-				best, bm = n, p.Result.MSE
-			}
-		}
-		if best < 0 {
-			continue
-		}
-		i, j := best, o
-		if k == 1 {
-			i, j = o, best
-		}
-		p := at(i, j)
-		x, y = append(x, p.X), append(y, p.Y)
-	}
-	return x, y
-}
+// Ridge returns the best regularization along the weight axis (plot.MapFigure.Ridge).
+func (c *Mapview) Ridge() (x, y []float64) { return c.figure().Ridge() }
 
 func (c *Mapview) redraw() {
 	if c.run != RunDone || len(c.cells) == 0 {
 		return
 	}
-	xs, ys, z := c.grid()
-	q := c.quantity()
-	title := q.Label
-	h := plot.Heat{Title: title, XLabel: pathLabel(c.scen, c.axes[0].Over), YLabel: pathLabel(c.scen, c.axes[1].Over),
-		ZLabel: q.Label, X: xs, Y: ys, Z: z, XLog: c.axes[0].Log, YLog: c.axes[1].Log}
-	lo, hi := math.Inf(1), math.Inf(-1)
-	for _, v := range z {
-		if !math.IsNaN(v) {
-			lo, hi = math.Min(lo, v), math.Max(hi, v)
-		}
-	}
-	h.Levels = plot.Levels(lo, hi)
+	h := c.figure().Heat()
 	c.levels = h.Levels
-	if rx, ry := c.Ridge(); len(rx) > 0 {
-		h.Lines = []plot.Series{{X: rx, Y: ry}}
-		h.Title += "; orange: lowest error along " + c.axes[c.weightAxis()].Over
-	}
+	h.Width, h.Height = figureSize(c.Browser, "panel-map")
 	c.box.draw(c.Jobs, c.Browser, protocol.FigureArgs{Heat: &h}, func() { c.figSeconds = c.now().Sub(c.started).Seconds() })
 }
 
 // FigureURL is the map as a data: URL; "" when there is none.
-func (c *Mapview) FigureURL() string { return c.box.url }
+func (c *Mapview) FigureURL() string {
+	c.fit()
+	return c.box.url
+}
+
+// fit draws the map again, on a worker, when the panel's width asks for another size than
+// the one shown.
+func (c *Mapview) fit() {
+	h := c.box.spec.Heat
+	if h == nil || c.box.drawing() {
+		return
+	}
+	if w, ht := figureSize(c.Browser, "panel-map"); w != h.Width || ht != h.Height {
+		nh := *h
+		nh.Width, nh.Height = w, ht
+		c.box.draw(c.Jobs, c.Browser, protocol.FigureArgs{Heat: &nh}, nil)
+	}
+}
 
 // FigureProblem says why there is no figure.
 func (c *Mapview) FigureProblem() string { return c.box.problem }
 
-func (c *Mapview) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
+func (c *Mapview) pointer(e vugu.DOMEvent) { c.box.point(e, c.say, c.Browser, "map") }
 
 func (c *Mapview) leave() { c.box.leave() }
 
@@ -379,8 +324,8 @@ func (c *Mapview) readoutText() string {
 	return c.box.readout
 }
 
-// say names the cell under the pointer and its value.
-func (c *Mapview) say(x, y float64) string {
+// say names the cell under the pointer and its exact value; the crosshair marks the cell.
+func (c *Mapview) say(x, y float64, _ func(x, y float64) (float64, float64)) (string, float64, float64) {
 	nx := c.axes[0].Points
 	near := func(v float64, k int, log bool) int {
 		best, bd := 0, math.Inf(1)
@@ -407,7 +352,10 @@ func (c *Mapview) say(x, y float64) string {
 	if p.OK() {
 		v = q.Label + " " + num4(q.Of(p.Result))
 	}
-	return fmt.Sprintf("%s = %s, %s = %s: %s", c.axes[0].Over, num4(p.X), c.axes[1].Over, num4(p.Y), v)
+	if p.OK() {
+		v = q.Label + " " + full(q.Of(p.Result))
+	}
+	return fmt.Sprintf("cell %s = %s, %s = %s: %s", c.axes[0].Over, full(p.X), c.axes[1].Over, full(p.Y), v), p.X, p.Y
 }
 
 // Status says how far the map is, or how long it took.
@@ -476,9 +424,9 @@ func (c *Mapview) CSV() ([]byte, error) {
 	return b.Bytes(), nil
 }
 
-// Export saves the map ("svg", "png") or its data ("csv").
+// Export saves the map ("svg", "png", "pdf") or its data ("csv").
 func (c *Mapview) Export(what string) {
-	c.box.save(c.Browser, "hdrisk-map", what, c.CSV, func(err error) { c.problem = err.Error() })
+	c.box.save(c.Jobs, c.Browser, "hdrisk-map", what, c.CSV, func(err error) { c.problem = err.Error() })
 }
 
 // mapAxisInputs is one axis's group of inputs.

@@ -27,6 +27,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 
 	"hdrisk/engine/design"
 	"hdrisk/engine/penalty"
@@ -47,11 +48,12 @@ type State struct{ G1, T1 float64 }
 // Options tune the solver. The zero value selects the defaults.
 type Options struct {
 	Tol     float64 // relative change of (g1, t1) that counts as converged; default 1e-10
-	MaxIter int     // default 2000
+	MaxIter int     // per start of the damped iteration; default 2000 (see Solve)
 	Start   *State  // warm start, for instance the State of a neighbouring Result
 }
 
-// Result is the fixed point and the observables of method.md section 4.
+// Result is the fixed point and the observables of method.md section 4. Every number is
+// finite; the fractions lie in [0, 1] and the susceptibility is positive.
 type Result struct {
 	MSE            float64 // lim (1/n)||xhat - x0||^2
 	NMSE           float64 // MSE / E[x0^2]
@@ -63,10 +65,19 @@ type Result struct {
 	FDP            float64 // P(x0 = 0 | xhat != 0); 0 when the estimate has no nonzero entries
 	TrainError     float64 // (1/m)||y - F xhat||^2
 	Iterations     int
-	Converged      bool
-	Residual       float64         // last relative change of (g1, t1)
-	EstimateZero   bool            // the estimate is zero except on an exponentially small set
-	GLM            *GLMObservables // the generalized model's own observables (SolveGLM); nil from Solve
+	// Converged reports a fixed point reached to the tolerance (or the zero estimate, or
+	// the error floor below). A result with Converged false is the last iterate: a study
+	// must not use it as a best point, a planner answer or a contour without a mark.
+	Converged    bool
+	Residual     float64 // last relative change of (g1, t1)
+	EstimateZero bool    // the estimate is zero except on an exponentially small set
+	// Floor reports an error below FloorNMSE times E[x0^2], the solver's floor: the error
+	// is at most that (with noise 0 it falls to 0, exact recovery), not the printed digits.
+	Floor bool
+	// Note says in plain words which limit or special case applies, if any.
+	Note string
+	// GLM holds the generalized model's own observables (SolveGLM); nil from Solve.
+	GLM *GLMObservables
 }
 
 // State returns the fixed point as a warm start for a neighbouring problem.
@@ -75,6 +86,20 @@ func (r Result) State() State { return State{G1: r.G1, T1: r.T1} }
 // ErrInput reports a problem that cannot be solved as stated.
 var ErrInput = errors.New("fixedpoint: invalid problem")
 
+// Error is a problem that has no finite, unique fixed point, or that cannot be solved as
+// stated: Field names the scenario field to change ("penalty", "design.alpha", "noise") and
+// Reason says why and what to do. It wraps ErrInput.
+type Error struct {
+	Field, Reason string
+}
+
+func (e *Error) Error() string { return e.Field + ": " + e.Reason }
+func (e *Error) Unwrap() error { return ErrInput }
+
+func fieldErr(field, format string, args ...any) error {
+	return &Error{Field: field, Reason: fmt.Sprintf(format, args...)}
+}
+
 const (
 	// zeroA is the derivative below which the estimate is zero but for an exponentially
 	// small set (method.md section 3).
@@ -82,70 +107,233 @@ const (
 	// mseFloor, relative to E[x0^2], stops noiseless recovery, which converges only
 	// linearly towards zero error.
 	mseFloor = 1e-13
+	// FloorNMSE is the normalized error below which a result is marked Floor (-120 dB):
+	// the digits below are the solver's, not the problem's.
+	FloorNMSE = 1e-12
 	// runOff is how far t1 may grow past the scale of the problem before the iterate is
-	// treated as having run off (and restarted from a sparser point).
+	// treated as having run off (and the bracketing strategy takes over).
 	runOff  = 1e12
 	dbFloor = -300.0
+	// tFar and tNear bound the search for t1 of the bracketing strategy, in units of
+	// E[x0^2]: an error beyond tFar is reported as unbounded, one below tNear as the floor.
+	tFar  = 1e40
+	tNear = 1e-30
+	// suspectT is the t1, in units of E[x0^2] + Delta, above which a converged iteration is
+	// checked for a crawl towards an infinite error.
+	suspectT = 1e6
+
+	defaultMaxIter = 2000
+
+	// MinAlpha is the smallest sampling ratio solved: below, the atom 1 - alpha of the
+	// design at zero is 1 to within 1e-8 and the observables differ from those of no
+	// measurement at all by about alpha.
+	MinAlpha = 1e-8
+	// MinPower is the smallest E[x0^2] solved: below, the weights and variances of the
+	// signal's components approach the subnormal numbers.
+	MinPower = 1e-280
 )
 
-// Solve iterates the state evolution to its fixed point.
+// Solve finds the fixed point of the state evolution and its observables.
 //
-// Special cases are:
+// It works in units where E[x0^2] = 1 and the mean eigenvalue of the design is 1 (method.md
+// section 10), so that problems of any size meet the same numbers and equivalent scenarios
+// (a design scale and its translation, a signal and noise rescaled together with the
+// penalty) give the same result to rounding. Then:
 //
+//	the zero-estimate end is tested first: if the estimate is zero at the fixed point of a
+//	  zero estimate (A < 1e-12 there), MSE = E[x0^2] and EstimateZero is set;
+//	the damped iteration with Newton steps runs from the warm start and two cold starts;
+//	if none converges, a bracketing strategy solves the one-dimensional reduction (method.md
+//	  section 10): for each t1 the root in g2 of A(g1(g2), t1) = T(g2), then the root in
+//	  t1 of t1 = Phi(t1), each by the Illinois method on a bracket in log scale;
 //	Delta = 0 below the recovery threshold: the error goes to 0 linearly; the solver stops
-//	  when MSE < 1e-13 E[x0^2] and reports it as converged;
-//	E[prox'] < 1e-12 (a penalty so strong that the estimate is zero): MSE = E[x0^2] and
-//	  EstimateZero is set;
-//	no convergence within MaxIter: the last iterate, Converged = false, and the residual.
+//	  when MSE < 1e-13 E[x0^2] and reports it as converged, with Floor set;
+//	no convergence within MaxIter and no bracket: the last iterate, Converged = false, and
+//	  the residual; with MaxIter below the default the bracketing strategy is not tried.
 //
-// An error is returned for a nil part, a negative or non-finite Delta, a signal of zero power,
-// or when the iteration leaves the finite numbers even after a restart. No result ever holds
-// NaN or Inf.
+// An *Error (wrapping ErrInput) is returned for a nil part, a negative or non-finite Delta,
+// a NaN, infinite or >= 1 tolerance, a signal of zero power, a problem whose minimizer is not
+// unique (no penalty below m/n = 1) and one whose error is infinite (least squares on a
+// design whose eigenvalues reach 0, or no finite fixed point). No result holds NaN or Inf.
 func Solve(p Problem, o Options) (Result, error) {
 	if p.Design == nil || p.Signal == nil || p.Penalty == nil {
-		return Result{}, fmt.Errorf("%w: design, signal and penalty are all needed", ErrInput)
+		return Result{}, fieldErr("scenario", "design, signal and penalty are all needed")
 	}
 	if !(p.Noise >= 0) || math.IsInf(p.Noise, 0) {
-		return Result{}, fmt.Errorf("%w: noise variance must be a finite number >= 0, got %v", ErrInput, p.Noise)
+		return Result{}, fieldErr("noise", "the noise variance must be a finite number >= 0, not %v (an snr_db at the end of its range with a signal or design at the end of theirs can give this: state noise.variance instead)", p.Noise)
+	}
+	if math.IsNaN(o.Tol) || o.Tol >= 1 {
+		return Result{}, fieldErr("tol", "the tolerance must be a number below 1 (the default is 1e-10), not %v", o.Tol)
 	}
 	rho2 := p.Signal.Second()
-	if !(rho2 > 0) || math.IsInf(rho2, 0) {
-		return Result{}, fmt.Errorf("%w: the signal has no power (E[x0^2] = %v), so the normalized error is undefined", ErrInput, rho2)
+	if !(rho2 > 0) {
+		return Result{}, fieldErr("signal", "the signal has no power (E[x0^2] = %v), so the normalized error is undefined: give it a positive variance, amplitude or scale", rho2)
+	}
+	if rho2 < MinPower {
+		return Result{}, fieldErr("signal", "E[x0^2] = %v is below %v, where double precision loses the digits of the signal's law: rescale the signal (and the noise and the penalty with it)", rho2, MinPower)
+	}
+	if math.IsInf(rho2, 0) {
+		return Result{}, fieldErr("signal", "E[x0^2] exceeds the range of double-precision numbers (1.8e308): give the signal smaller values")
+	}
+	if a := p.Design.Alpha(); a < MinAlpha {
+		return Result{}, fieldErr("design.alpha", "m/n = %v is below the solver's limit %v (fewer than one measurement per 100 million unknowns, where 1 - m/n rounds to 1): the error there is E[x0^2] to within m/n", a, MinAlpha)
+	}
+	mean := p.Design.Mean()
+	if !(mean > 0) || math.IsInf(mean, 0) {
+		return Result{}, fieldErr("design", "the mean eigenvalue of F^T F is %v: the design needs a nonzero singular value, and squares of its singular values below 1.8e308", mean)
 	}
 	if o.Tol <= 0 {
 		o.Tol = 1e-10
 	}
 	if o.MaxIter <= 0 {
-		o.MaxIter = 2000
+		o.MaxIter = defaultMaxIter
 	}
-	s := solver{p: p, o: o, rho2: rho2}
+	sc := math.Sqrt(rho2)
+	q := Problem{
+		Design:  design.Rescaled(p.Design, mean),
+		Signal:  signal.Scaled(p.Signal, sc),
+		Penalty: scalePenalty(p.Penalty, sc, mean),
+		Noise:   p.Noise / mean / sc / sc,
+	}
+	if err := refuse(q); err != nil {
+		return Result{}, err
+	}
+	s := solver{p: q, o: o, rho2: q.Signal.Second()}
+	r, err := s.solve(o.Start, sc, mean)
+	if err != nil {
+		return Result{}, err
+	}
+	return s.unscale(r, rho2, sc, mean)
+}
+
+// unscale returns the result in the units of the problem: x by sc, eigenvalues by mean.
+func (s *solver) unscale(r Result, rho2, sc, mean float64) (Result, error) {
+	r.NMSE = r.MSE / s.rho2
+	r.MSE = r.NMSE * rho2
+	r.G1 *= mean
+	r.G2 *= mean
+	r.T1 *= rho2
+	r.Susceptibility /= mean
+	r.TrainError *= mean * rho2
+	if !finiteAll(r.MSE, r.T1, r.G1, r.G2, r.TrainError) || !(r.Susceptibility > 0) {
+		return Result{}, fieldErr("signal", "the error, %v, lies outside the range of double-precision numbers: rescale the signal, the noise and the penalty together", r.MSE)
+	}
+	return r, nil
+}
+
+// refuse returns the account of a problem without a finite, unique fixed point that can be
+// told before iterating (method.md section 10).
+func refuse(q Problem) error {
+	if !isIdentity(q.Penalty) {
+		return nil
+	}
+	if q.Design.Atom0() > 0 {
+		return fieldErr("penalty", "with no penalty (every strength 0) and a share %.3g of the design's eigenvalues at 0 (m/n = %v) the minimizer is not unique: give the penalty a positive strength (as l1 goes to 0 the LASSO tends to the minimum-l1 interpolant), or raise design.alpha to 1 or more", q.Design.Atom0(), q.Design.Alpha())
+	}
+	if q.Noise > 0 && design.ReachesZero(q.Design) {
+		return fieldErr("penalty", "least squares (every strength 0) on a design whose eigenvalues come down to 0 has an infinite error whenever there is noise: give the penalty a positive l2, or keep the eigenvalues away from 0 (design.min above 0, or design.alpha away from 1)")
+	}
+	return nil
+}
+
+// diagnose returns the account of a problem that the bracketing strategy could not solve when
+// the penalty barely acts at the scale of the signal (it moves an entry of half the signal's
+// root mean square by less than 1e-9 of it at unit precision) while the design has an atom at 0:
+// the minimizer is then not unique, or it is the vanishing-penalty limit (the minimum-penalty
+// interpolant), which lies beyond double precision.
+func (s *solver) diagnose() error {
+	pull := math.Abs(0.5-s.p.Penalty.Prox(0.5, 1)) / 0.5
+	if pull < 1e-9 && s.p.Design.Atom0() > 0 {
+		return fieldErr("penalty", "the penalty barely acts on entries of the size of the signal (it moves them by %.2g of their size) and %.3g of the design's eigenvalues are 0 (m/n = %v): the minimizer is not unique, or is the limit of a vanishing penalty, beyond the solver's reach; strengthen the penalty (a box penalty needs an l2 term here), or raise design.alpha", pull, s.p.Design.Atom0(), s.p.Design.Alpha())
+	}
+	return nil
+}
+
+// isIdentity reports a penalty that is zero: its prox is the identity.
+func isIdentity(p penalty.Penalty) bool {
+	pc, ok := p.Pieces(1)
+	return ok && len(pc) == 1 && pc[0].Slope == 1 && pc[0].Intercept == 0
+}
+
+// solve runs the strategies of Solve in the solver's units; start is in the problem's units.
+func (s *solver) solve(start *State, sc, mean float64) (Result, error) {
+	if r, ok := s.zeroEnd(); ok {
+		return r, nil
+	}
 	starts := []State{s.coldStart(2), s.coldStart(4)}
-	if o.Start != nil && o.Start.G1 > 0 && o.Start.T1 > 0 && !math.IsInf(o.Start.G1+o.Start.T1, 0) {
-		starts = append([]State{*o.Start}, starts...)
+	if st := start; st != nil && st.G1 > 0 && st.T1 > 0 && !math.IsInf(st.G1+st.T1, 0) {
+		w := State{G1: st.G1 / mean, T1: st.T1 / sc / sc}
+		if w.G1 > 0 && w.T1 > 0 && !math.IsInf(w.G1+w.T1, 0) {
+			starts = append([]State{w}, starts...)
+		}
 	}
 	var last Result
-	var lastErr error
 	for _, st := range starts {
 		r, err := s.run(st)
 		if err == nil && r.Converged {
+			if r.T1 > suspectT*(s.rho2+s.p.Noise) && !r.EstimateZero {
+				// A crawl towards an infinite error also has small relative changes:
+				// the bracketing strategy tells the two apart.
+				if s.crawls(r) {
+					return Result{}, errUnbounded(s)
+				}
+			}
 			return r, nil
 		}
-		if err == nil {
-			last, lastErr = r, nil
-		} else if lastErr == nil && last.Iterations == 0 {
-			lastErr = err
+		if err == nil && r.Iterations > 0 && (last.Iterations == 0 || r.Residual < last.Residual) {
+			last = r
 		}
 	}
-	if last.Iterations > 0 {
+	if last.Iterations > 0 && s.o.MaxIter < defaultMaxIter {
+		// A caller that caps the iterations below the default gets the capped iterate.
 		return last, nil
 	}
-	return Result{}, lastErr
+	r, err := s.bracket()
+	if err != nil {
+		if d := s.diagnose(); d != nil {
+			return Result{}, d
+		}
+		return Result{}, err
+	}
+	if r.Converged {
+		return r, nil
+	}
+	if last.Iterations > 0 && last.Residual < r.Residual {
+		return last, nil
+	}
+	return r, nil
+}
+
+// zeroEnd tests the fixed point of a zero estimate: A = 0 gives V = 0, g2 = Inf and, in the
+// limit, g1 = E[lambda] = 1 and t1 = Delta + Var[lambda] (in the solver's units). If the
+// prox there is zero but on a set of derivative mass below zeroA, that is the fixed point.
+func (s *solver) zeroEnd() (Result, bool) {
+	// g2 far above the spectrum, so that T(g2) g2 = E[lambda] = 1 to 1e-9: the limit.
+	far := 1e12
+	tr := s.p.Design.At(far)
+	for math.Abs(tr.T*far-1) > 1e-9 && far < 1e290 {
+		far *= 1e6
+		tr = s.p.Design.At(far)
+	}
+	g1 := tr.T / tr.S1
+	t1 := (s.p.Noise*tr.S3 + tr.W*s.rho2) / (g1 * g1 * tr.S2)
+	if !finitePos(g1) || !finitePos(t1) {
+		return Result{}, false
+	}
+	m := signal.Expect(s.p.Signal, s.p.Penalty, g1, t1)
+	if !(m.A < zeroA) {
+		return Result{}, false
+	}
+	r := s.zeroResult(0, g1, t1, m)
+	r.G2 = far
+	return r, true
 }
 
 type solver struct {
-	p    Problem
-	o    Options
-	rho2 float64
+	p         Problem // in the solver's units
+	o         Options
+	rho2      float64 // E[x0^2] in the solver's units: 1 to rounding
+	unbounded bool    // set by bracket when t1 = Phi(t1) has no root below tFar
 }
 
 // coldStart starts sparse (method.md section 3): t1 = rho2 and g1 such that a threshold
@@ -159,7 +347,9 @@ func (s *solver) coldStart(k float64) State {
 	return State{G1: g, T1: t}
 }
 
-var errRunOff = errors.New("fixedpoint: the iteration ran off")
+// errRunOff ends one run of the damped iteration; it never leaves Solve, which then tries
+// the next start and the bracketing strategy.
+var errRunOff = errors.New("the damped iteration left the range of the problem")
 
 // image is one evaluation of the update map at (g1, t1).
 type image struct {
@@ -309,8 +499,11 @@ func (s *solver) observe(r Result) (Result, error) {
 	g2t2 := math.Max(m.MSE-m.A*m.A*r.T1, 0) / (v * v)
 	r.TrainError = (p.Noise*g2*g2*tr.S2Pos+g2t2*tr.S3)/alpha +
 		p.Noise*math.Max(0, 1-(1-p.Design.Atom0())/alpha)
-	if !finiteAll(r.MSE, r.TrainError, r.G1, r.T1, r.G2, r.Susceptibility) {
+	if !finiteAll(r.MSE, r.TrainError, r.G1, r.T1, r.G2) || !finitePos(r.Susceptibility) {
 		return Result{}, errRunOff
+	}
+	if !r.Converged && r.Note == "" {
+		r.Note = fmt.Sprintf("not converged: the last relative change of the iterate is %.2g, above the tolerance %.2g", r.Residual, s.o.Tol)
 	}
 	return r, nil
 }
@@ -318,7 +511,10 @@ func (s *solver) observe(r Result) (Result, error) {
 func (s *solver) zeroResult(it int, g1, t1 float64, m signal.Moments) Result {
 	r := Result{G1: g1, T1: t1, Iterations: it, Converged: true, EstimateZero: true}
 	r.MSE = s.rho2
-	r.Susceptibility = m.A / g1
+	// V is exponentially small but positive; it is floored at the smallest normal number
+	// so that it stays a positive number through the change of units.
+	r.Susceptibility = math.Max(m.A, 0x1p-1022) / g1
+	r.Note = "the penalty is strong enough that the estimate is zero: MSE = E[x0^2]"
 	s.fill(&r, signal.Moments{MSE: s.rho2, Active: m.Active})
 	// With a zero estimate every residual is the measurement itself: (1/m)||y||^2 =
 	// (E_nu[lambda] rho2)/alpha + Delta.
@@ -326,20 +522,29 @@ func (s *solver) zeroResult(it int, g1, t1 float64, m signal.Moments) Result {
 	return r
 }
 
+// fill sets the normalized error and the support fractions. Quadrature sums may exceed 1 by
+// a rounding error; the fractions are clamped to [0, 1].
 func (s *solver) fill(r *Result, m signal.Moments) {
+	r.MSE = math.Max(r.MSE, 0)
 	r.NMSE = r.MSE / s.rho2
 	r.NMSEdB = dbFloor
 	if r.NMSE > 0 {
 		r.NMSEdB = math.Max(dbFloor, 10*math.Log10(r.NMSE))
 	}
-	r.NonZero = m.NonZero
+	if r.NMSE < FloorNMSE && !r.EstimateZero {
+		r.Floor = true
+		r.Note = "the error is below the solver's floor of 1e-12 E[x0^2] (-120 dB): read it as at most that; with noise 0 it falls to 0 (exact recovery)"
+	}
+	r.NonZero = clamp01(m.NonZero)
 	if m.Active > 0 {
-		r.TPP = m.TruePos / m.Active
+		r.TPP = clamp01(m.TruePos / m.Active)
 	}
 	if m.NonZero > 0 {
-		r.FDP = math.Max(0, m.NonZero-m.TruePos) / m.NonZero
+		r.FDP = clamp01(math.Max(0, m.NonZero-m.TruePos) / m.NonZero)
 	}
 }
+
+func clamp01(x float64) float64 { return math.Min(1, math.Max(0, x)) }
 
 // invertS1 solves S1(g) = v for g >= 0, starting from near (the previous solution). When the
 // law has no atom at zero and v >= S1(0), the iterate lies past the design's reach and the
@@ -362,4 +567,81 @@ func finiteAll(xs ...float64) bool {
 		}
 	}
 	return true
+}
+
+// scaled is a penalty in the solver's units: x = sc x' and g = c g', so that
+// prox'(r'; g') = prox(sc r'; c g')/sc (method.md section 10).
+type scaled struct {
+	penalty.Penalty
+	sc, c float64
+}
+
+func scalePenalty(p penalty.Penalty, sc, c float64) penalty.Penalty {
+	if sc == 1 && c == 1 {
+		return p
+	}
+	if b, ok := p.(brancher); ok {
+		return scaledBranch{scaled{p, sc, c}, b}
+	}
+	return scaled{p, sc, c}
+}
+
+// brancher is the explicit inverse of the power prox that package signal integrates along
+// (see penalty's power Branch); scaledBranch keeps it visible through the change of units.
+type brancher interface {
+	Branch(u, g float64) (x, dxdu, r, drdu float64)
+	BranchAt(r, g float64) float64
+	Exponent() float64
+}
+
+type scaledBranch struct {
+	scaled
+	b brancher
+}
+
+func (p scaledBranch) Branch(u, g float64) (x, dxdu, r, drdu float64) {
+	x, dxdu, r, drdu = p.b.Branch(u, p.c*g)
+	return x / p.sc, dxdu / p.sc, r / p.sc, drdu / p.sc
+}
+
+func (p scaledBranch) BranchAt(r, g float64) float64 { return p.b.BranchAt(p.sc*r, p.c*g) }
+func (p scaledBranch) Exponent() float64             { return p.b.Exponent() }
+
+func (p scaled) Prox(r, g float64) float64  { return p.Penalty.Prox(p.sc*r, p.c*g) / p.sc }
+func (p scaled) Deriv(r, g float64) float64 { return p.Penalty.Deriv(p.sc*r, p.c*g) }
+func (p scaled) StartG(t float64) float64   { return p.Penalty.StartG(p.sc*p.sc*t) / p.c }
+
+func (p scaled) Kinks(g float64) []float64 {
+	k := slices.Clone(p.Penalty.Kinks(p.c * g))
+	for i := range k {
+		k[i] /= p.sc
+	}
+	return k
+}
+
+func (p scaled) Pieces(g float64) ([]penalty.Piece, bool) {
+	pc, ok := p.Penalty.Pieces(p.c * g)
+	pc = slices.Clone(pc)
+	for i := range pc {
+		pc[i] = p.piece(pc[i])
+	}
+	return pc, ok
+}
+
+func (p scaled) Linear(g float64) (penalty.Linear, bool) {
+	lf, ok := p.Penalty.(penalty.LinearForm)
+	if !ok {
+		return penalty.Linear{}, false
+	}
+	l, ok := lf.Linear(p.c * g)
+	var out penalty.Linear
+	for _, q := range l.Pieces() {
+		q = p.piece(q)
+		out.Then(q.Hi, q.Slope, q.Intercept)
+	}
+	return out, ok
+}
+
+func (p scaled) piece(q penalty.Piece) penalty.Piece {
+	return penalty.Piece{Lo: q.Lo / p.sc, Hi: q.Hi / p.sc, Slope: q.Slope, Intercept: q.Intercept / p.sc}
 }

@@ -343,11 +343,11 @@ func TestReportsNonConvergence(t *testing.T) {
 		Signal:  must(signal.BernoulliGauss(0.1, 1)),
 		Penalty: must(penalty.L1(0.01)),
 		Noise:   0.01,
-	}, Options{MaxIter: 2})
+	}, Options{MaxIter: 2, Tol: 1e-300})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if r.Converged || r.Iterations != 2 || r.Residual <= 0 {
+	if r.Converged || r.Residual <= 1e-300 || r.Note == "" {
 		t.Errorf("want an honest non-converged report, got %+v", r)
 	}
 }

@@ -339,7 +339,7 @@ func TestBadParameters(t *testing.T) {
 		{"huber width", func() (Penalty, error) { return Huber(1, 0) }, "width", false},
 		{"huber width NaN", func() (Penalty, error) { return Huber(1, nan) }, "width", false},
 		{"power q < 1", func() (Penalty, error) { return Power(1, 0.5) }, "q", true},
-		{"power q > 2", func() (Penalty, error) { return Power(1, 2.5) }, "q", false},
+		{"power q > MaxPowerQ", func() (Penalty, error) { return Power(1, 2*MaxPowerQ) }, "q", false},
 		{"power q NaN", func() (Penalty, error) { return Power(1, nan) }, "q", false},
 		{"power weight", func() (Penalty, error) { return Power(-1, 1.5) }, "weight", true},
 	}

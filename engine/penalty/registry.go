@@ -51,10 +51,10 @@ var kinds = []entry{
 		{Name: "width", Unit: "units of x0", Max: math.Inf(1), MinOpen: true, MaxOpen: true, Log: true, Role: param.Scale,
 			Help: "where the penalty turns from quadratic to linear"}}},
 		func(v map[string]float64) (Penalty, error) { return Huber(v["l1"], v["width"]) }},
-	{Kind{Name: "power", Help: "power: weight |x|^q with 1 <= q <= 2, between the LASSO (q = 1) and ridge (q = 2)", Params: []param.Param{
+	{Kind{Name: "power", Help: "power: weight |x|^q with q >= 1: the LASSO at q = 1, ridge at q = 2, towards a box beyond", Params: []param.Param{
 		{Name: "weight", Unit: "loss per unit of |x|^q", Max: math.Inf(1), MaxOpen: true, Log: true, Role: param.Strength,
 			Help: "strength of the penalty"},
-		{Name: "q", Unit: "dimensionless", Min: 1, Max: 2, Role: param.Shape,
+		{Name: "q", Unit: "dimensionless", Min: 1, Max: MaxPowerQ, Role: param.Shape,
 			Help: "exponent; q below 1 would make the penalty non-convex and is refused"}}},
 		func(v map[string]float64) (Penalty, error) { return Power(v["weight"], v["q"]) }},
 }

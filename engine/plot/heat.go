@@ -2,11 +2,13 @@ package plot
 
 import (
 	"fmt"
+	"image"
 	"image/color"
 	"math"
 	"strconv"
 
 	gplot "gonum.org/v1/plot"
+	"gonum.org/v1/plot/palette"
 	"gonum.org/v1/plot/palette/moreland"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
@@ -28,8 +30,13 @@ type Heat struct {
 	// Lines are drawn over the map (for example the best regularization along one axis),
 	// coloured in Palette order; their Name, Missing and Err are ignored (a legend cannot be
 	// read over every colour of the map: say what the lines are in the title).
-	Lines         []Series
-	Width, Height float64 // points; 0 takes DefaultWidth / DefaultHeight
+	Lines []Series
+	// MarkLowest marks the cell with the lowest value (the best setting on a map of errors)
+	// and writes the value beside it.
+	MarkLowest bool
+	// XTicks and YTicks are values the axes label whenever they lie in range (m/n = 1).
+	XTicks, YTicks []float64
+	Width, Height  float64 // points; 0 takes DefaultWidth / DefaultHeight
 }
 
 // barWidth is the strip on the right that holds the colour bar, in points.
@@ -77,20 +84,19 @@ func (hm Heat) Build() (*Figure, error) {
 	p := gplot.New()
 	sans(p)
 	p.Title.Text, p.X.Label.Text, p.Y.Label.Text = hm.Title, hm.XLabel, hm.YLabel
-	heat := plotter.NewHeatMap(upsampled(g), cmap.Palette(256))
-	heat.Min, heat.Max = lo, hi
-	heat.NaN = color.Gray{0xB0}
-	heat.Rasterized = true
-	p.Add(quietHeat{heat})
+	p.Add(&raster{g: g, cmap: cmap, lo: lo, hi: hi})
 	levels := hm.Levels
 	if levels == nil {
 		levels = Levels(g.min, g.max)
 	}
+	var labels *contourLabels
 	if len(levels) > 0 {
-		ct := plotter.NewContour(filled(g), append([]float64(nil), levels...), nil)
+		fg := filled(g)
+		ct := plotter.NewContour(fg, append([]float64(nil), levels...), nil)
 		ct.Min, ct.Max = lo, hi
 		ct.LineStyles = []draw.LineStyle{{Color: color.White, Width: vg.Points(0.8)}}
-		p.Add(ct)
+		p.Add(quietContour{ct})
+		labels = &contourLabels{g: fg, levels: levels}
 	}
 	for i, s := range hm.Lines {
 		var run plotter.XYs
@@ -108,14 +114,32 @@ func (hm Heat) Build() (*Figure, error) {
 		sc.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(1.5), Shape: draw.CircleGlyph{}}
 		p.Add(ln, sc)
 	}
+	var low *lowest
+	if hm.MarkLowest {
+		k := 0
+		for i, v := range hm.Z {
+			if !math.IsNaN(v) && !math.IsInf(v, 0) && (math.IsNaN(hm.Z[k]) || math.IsInf(hm.Z[k], 0) || v < hm.Z[k]) {
+				k = i
+			}
+		}
+		low = &lowest{x: xs[k%len(xs)], y: ys[k/len(xs)], text: "lowest " + strconv.FormatFloat(hm.Z[k], 'g', 3, 64)}
+		p.Add(low)
+	}
+	if labels != nil {
+		labels.avoid = low
+		p.Add(labels)
+	}
 	// Cells are drawn to the edges of the grid, half a step beyond the first and last points.
 	p.X.Min, p.X.Max = edges(xs)
 	p.Y.Min, p.Y.Max = edges(ys)
+	xt := &ticker{must: hm.XTicks, style: p.X.Tick.Label}
+	yt := &ticker{must: hm.YTicks, vertical: true, style: p.Y.Tick.Label}
+	p.X.Tick.Marker, p.Y.Tick.Marker = xt, yt
 	if hm.XLog {
-		p.X.Tick.Marker = powerTicks{}
+		p.X.Tick.Marker = powerTicks{must: hm.XTicks}
 	}
 	if hm.YLog {
-		p.Y.Tick.Marker = powerTicks{}
+		p.Y.Tick.Marker = powerTicks{must: hm.YTicks}
 	}
 
 	bar := gplot.New()
@@ -126,8 +150,14 @@ func (hm Heat) Build() (*Figure, error) {
 	bar.HideX()
 	bar.Y.Padding = 0
 	bar.X.Padding = 0
+	bt := &ticker{must: levels, vertical: true, style: bar.Y.Tick.Label}
+	bar.Y.Tick.Marker = bt
 
-	main := func(c draw.Canvas) draw.Canvas { return draw.Crop(c, 0, -barWidth, 0, 0) }
+	main := func(c draw.Canvas) draw.Canvas { return draw.Crop(c, 2, -barWidth, 2, -2) }
+	for range 2 {
+		dc := p.DataCanvas(main(measure(w, h)))
+		xt.length, yt.length, bt.length = dc.Max.X-dc.Min.X, dc.Max.Y-dc.Min.Y, dc.Max.Y-dc.Min.Y
+	}
 	fr := frameOf(p, main(measure(w, h)), w, h)
 	// The colour bar spans the height of the data area, so that its ends line up with it.
 	side := func(c draw.Canvas) draw.Canvas {
@@ -139,12 +169,200 @@ func (hm Heat) Build() (*Figure, error) {
 	if hm.YLog {
 		fr.YMin, fr.YMax, fr.YLog = math.Pow(10, fr.YMin), math.Pow(10, fr.YMax), true
 	}
-	return &Figure{w: w, h: h, frame: fr, draw: func(c draw.Canvas) {
+	dataBox := Box{MinX: fr.Left * float64(w), MaxX: fr.Right * float64(w), MinY: (1 - fr.Bottom) * float64(h), MaxY: (1 - fr.Top) * float64(h)}
+	return &Figure{w: w, h: h, frame: fr, layout: Layout{Width: float64(w), Height: float64(h), Data: dataBox}, draw: func(c draw.Canvas) {
 		c.SetColor(color.White)
 		c.Fill(c.Rectangle.Path())
 		p.Draw(main(c))
 		bar.Draw(side(c))
 	}}, nil
+}
+
+// quietContour is a contour plot without glyph boxes: the library's Contour traces every
+// contour again each time the layout asks for them (several times a figure), only to pad
+// the axes for glyphs it does not draw.
+type quietContour struct{ *plotter.Contour }
+
+func (quietContour) GlyphBoxes(*gplot.Plot) []gplot.GlyphBox { return nil }
+
+// raster draws the cells of a heat map as one 8-bit paletted image (a PNG of a quarter the
+// size of gonum's 16-bit RGBA one, encoded several times faster), each cell split into
+// k x k pixels so that the map is at least 600 pixels wide and tall: the renderer that
+// scales the image up then blurs only a sliver at each cell edge instead of the whole map.
+type raster struct {
+	g      *grid
+	cmap   palette.ColorMap
+	lo, hi float64
+}
+
+// nanIndex is the palette entry of a cell without a value.
+const nanIndex = 255
+
+func (r *raster) image() *image.Paletted {
+	nx, ny := len(r.g.x), len(r.g.y)
+	k := max(1, (600+min(nx, ny)-1)/min(nx, ny))
+	pal := make(color.Palette, 256)
+	for i := range nanIndex {
+		c, err := r.cmap.At(r.lo + (r.hi-r.lo)*float64(i)/float64(nanIndex-1))
+		if err != nil {
+			c = color.Black
+		}
+		pal[i] = c
+	}
+	pal[nanIndex] = color.Gray{0xB0}
+	img := image.NewPaletted(image.Rect(0, 0, nx*k, ny*k), pal)
+	row := make([]uint8, nx*k)
+	for j := range ny {
+		for i := range nx {
+			v := r.g.Z(i, j)
+			idx := uint8(nanIndex)
+			if !math.IsNaN(v) && !math.IsInf(v, 0) {
+				u := (v - r.lo) / (r.hi - r.lo)
+				idx = uint8(math.Round(math.Min(1, math.Max(0, u)) * (nanIndex - 1)))
+			}
+			for s := range k {
+				row[i*k+s] = idx
+			}
+		}
+		for s := range k {
+			y := (ny-1-j)*k + s // image rows run top down
+			copy(img.Pix[y*img.Stride:], row)
+		}
+	}
+	return img
+}
+
+func (r *raster) Plot(c draw.Canvas, p *gplot.Plot) {
+	trX, trY := p.Transforms(&c)
+	x0, x1 := edges(r.g.x)
+	y0, y1 := edges(r.g.y)
+	c.DrawImage(vg.Rectangle{Min: vg.Point{X: trX(x0), Y: trY(y0)}, Max: vg.Point{X: trX(x1), Y: trY(y1)}}, r.image())
+}
+
+func (r *raster) DataRange() (xmin, xmax, ymin, ymax float64) {
+	x0, x1 := edges(r.g.x)
+	y0, y1 := edges(r.g.y)
+	return x0, x1, y0, y1
+}
+
+// lowest marks the cell with the lowest value, labelled with it.
+type lowest struct {
+	x, y float64
+	text string
+	box  vg.Rectangle // where its label went, for the contour labels to avoid
+}
+
+func (l *lowest) Plot(c draw.Canvas, p *gplot.Plot) {
+	trX, trY := p.Transforms(&c)
+	pt := vg.Point{X: trX(l.x), Y: trY(l.y)}
+	c.DrawGlyph(draw.GlyphStyle{Color: color.White, Radius: 5, Shape: draw.CrossGlyph{}}, pt)
+	c.DrawGlyph(draw.GlyphStyle{Color: color.Black, Radius: 3.5, Shape: draw.CrossGlyph{}}, pt)
+	sty := markStyle()
+	ext := sty.FontExtents()
+	wd, ht := sty.Width(l.text)+4, ext.Ascent+ext.Descent+2
+	// The label goes beside the marker, on whichever side keeps it in the data area.
+	x := pt.X + 7
+	if x+wd > c.Max.X {
+		x = pt.X - 7 - wd
+	}
+	y := pt.Y - ht/2
+	y = min(max(y, c.Min.Y+1), c.Max.Y-1-ht)
+	l.box = vg.Rectangle{Min: vg.Point{X: x, Y: y}, Max: vg.Point{X: x + wd, Y: y + ht}}
+	c.SetColor(color.NRGBA{0xFF, 0xFF, 0xFF, 0xD8})
+	c.Fill(l.box.Path())
+	c.FillText(sty, vg.Point{X: x + 2, Y: y + 1 + ext.Descent}, l.text)
+}
+
+func (l *lowest) DataRange() (xmin, xmax, ymin, ymax float64) {
+	return math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
+}
+
+// contourLabels writes each contour's level on it, where the line crosses the grid farthest
+// from the edges of the map and from the labels already placed.
+type contourLabels struct {
+	g      *grid
+	levels []float64
+	avoid  *lowest
+}
+
+func (cl *contourLabels) DataRange() (xmin, xmax, ymin, ymax float64) {
+	return math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
+}
+
+func (cl *contourLabels) Plot(c draw.Canvas, p *gplot.Plot) {
+	trX, trY := p.Transforms(&c)
+	sty := markStyle()
+	ext := sty.FontExtents()
+	var placed []vg.Rectangle
+	if cl.avoid != nil {
+		placed = append(placed, cl.avoid.box)
+	}
+	nx, ny := len(cl.g.x), len(cl.g.y)
+	// Every level is written once, and then again on any stretch of its contours at least a
+	// third of the map away from where it is written already (another line of the level),
+	// as long as there is room: the first round gives each level its place.
+	apart := vg.Length(math.Min(float64(c.Max.X-c.Min.X), float64(c.Max.Y-c.Min.Y))) / 3
+	mine := make([][]vg.Point, len(cl.levels))
+	for round := 0; ; round++ {
+		any := false
+		for k, lv := range cl.levels {
+			if round > 0 && len(mine[k]) == 0 {
+				continue
+			}
+			text := strconv.FormatFloat(lv, 'g', 4, 64)
+			wd, ht := sty.Width(text)+4, ext.Ascent+ext.Descent+2
+			var best vg.Rectangle
+			bestScore := vg.Length(-1)
+			try := func(x, y float64) {
+				pt := vg.Point{X: trX(x), Y: trY(y)}
+				r := vg.Rectangle{Min: vg.Point{X: pt.X - wd/2, Y: pt.Y - ht/2}, Max: vg.Point{X: pt.X + wd/2, Y: pt.Y + ht/2}}
+				if r.Min.X < c.Min.X+2 || r.Max.X > c.Max.X-2 || r.Min.Y < c.Min.Y+2 || r.Max.Y > c.Max.Y-2 || overlapsAny(r, placed) {
+					return
+				}
+				for _, q := range mine[k] {
+					if vg.Length(math.Hypot(float64(q.X-pt.X), float64(q.Y-pt.Y))) < apart {
+						return
+					}
+				}
+				score := min(r.Min.X-c.Min.X, c.Max.X-r.Max.X, r.Min.Y-c.Min.Y, c.Max.Y-r.Max.Y)
+				for _, o := range placed {
+					d := vg.Length(math.Hypot(float64((o.Min.X+o.Max.X)/2-pt.X), float64((o.Min.Y+o.Max.Y)/2-pt.Y)))
+					score = min(score, d/2)
+				}
+				if score > bestScore {
+					best, bestScore = r, score
+				}
+			}
+			// Crossings of the level along the grid's edges, interpolated linearly.
+			for j := range ny {
+				for i := range nx {
+					z := cl.g.Z(i, j)
+					if i+1 < nx {
+						if z2 := cl.g.Z(i+1, j); (z-lv)*(z2-lv) < 0 {
+							try(cl.g.x[i]+(lv-z)/(z2-z)*(cl.g.x[i+1]-cl.g.x[i]), cl.g.y[j])
+						}
+					}
+					if j+1 < ny {
+						if z2 := cl.g.Z(i, j+1); (z-lv)*(z2-lv) < 0 {
+							try(cl.g.x[i], cl.g.y[j]+(lv-z)/(z2-z)*(cl.g.y[j+1]-cl.g.y[j]))
+						}
+					}
+				}
+			}
+			if bestScore < 0 {
+				continue
+			}
+			any = true
+			placed = append(placed, best)
+			mine[k] = append(mine[k], vg.Point{X: (best.Min.X + best.Max.X) / 2, Y: (best.Min.Y + best.Max.Y) / 2})
+			c.SetColor(color.NRGBA{0xFF, 0xFF, 0xFF, 0xC8})
+			c.Fill(best.Path())
+			c.FillText(sty, vg.Point{X: best.Min.X + 2, Y: best.Min.Y + 1 + ext.Descent}, text)
+		}
+		if !any {
+			break
+		}
+	}
 }
 
 // coords checks a grid axis and returns it in the plot's own coordinates (log10 on a log
@@ -207,55 +425,6 @@ func (g *grid) Y(r int) float64    { return g.y[r] }
 func (g *grid) Min() float64       { return g.min }
 func (g *grid) Max() float64       { return g.max }
 
-// upsampled returns g with every cell split into k x k equal cells of the same value, k
-// chosen so that the map is at least 600 cells wide and tall. The rasterized heat map is
-// then scaled up by less than the display scales it, so the smoothing of the image by
-// the renderer blurs only a sliver at each cell edge instead of the whole map.
-func upsampled(g *grid) plotter.GridXYZ {
-	nx, ny := len(g.x), len(g.y)
-	k := (600 + min(nx, ny) - 1) / min(nx, ny)
-	if k <= 1 {
-		return g
-	}
-	sub := func(v []float64, n int) []float64 {
-		out := make([]float64, 0, len(v)*n)
-		for i := range v {
-			var lo, hi float64
-			switch {
-			case i == 0:
-				lo, hi = v[0]-(v[1]-v[0])/2, (v[0]+v[1])/2
-			case i == len(v)-1:
-				lo, hi = (v[i-1]+v[i])/2, v[i]+(v[i]-v[i-1])/2
-			default:
-				lo, hi = (v[i-1]+v[i])/2, (v[i]+v[i+1])/2
-			}
-			for s := 0; s < n; s++ {
-				out = append(out, lo+(float64(s)+0.5)*(hi-lo)/float64(n))
-			}
-		}
-		return out
-	}
-	return &fine{g: g, k: k, x: sub(g.x, k), y: sub(g.y, k)}
-}
-
-type fine struct {
-	g    *grid
-	k    int
-	x, y []float64
-}
-
-func (f *fine) Dims() (c, r int)   { return len(f.x), len(f.y) }
-func (f *fine) Z(c, r int) float64 { return f.g.Z(c/f.k, r/f.k) }
-func (f *fine) X(c int) float64    { return f.x[c] }
-func (f *fine) Y(r int) float64    { return f.y[r] }
-
-// quietHeat is a heat map without glyph boxes: the library's HeatMap returns one per cell,
-// which only serve to pad the axes for glyphs it does not draw and cost more than the
-// drawing itself on a fine grid.
-type quietHeat struct{ *plotter.HeatMap }
-
-func (quietHeat) GlyphBoxes(*gplot.Plot) []gplot.GlyphBox { return nil }
-
 // filled returns a copy of g whose missing cells take the mean of their neighbours with a
 // value, repeated until every cell has one. The contour tracer needs a number at every
 // corner (a NaN corner reads as lying on every level); a filled cell stays grey in the heat
@@ -302,10 +471,10 @@ func filled(g *grid) *grid {
 }
 
 // powerTicks labels an axis held in log10 coordinates with the values themselves.
-type powerTicks struct{}
+type powerTicks struct{ must []float64 }
 
-func (powerTicks) Ticks(min, max float64) []gplot.Tick {
-	ts := logTicks{}.Ticks(math.Pow(10, min), math.Pow(10, max))
+func (pt powerTicks) Ticks(min, max float64) []gplot.Tick {
+	ts := (&ticker{log: true, must: pt.must, style: textStyle(tickSize)}).Ticks(math.Pow(10, min), math.Pow(10, max))
 	out := make([]gplot.Tick, 0, len(ts))
 	for _, t := range ts {
 		if t.Value > 0 {

@@ -1,6 +1,7 @@
 package plot
 
 import (
+	"errors"
 	"fmt"
 	"image/color"
 	"math"
@@ -26,10 +27,11 @@ type Series struct {
 	Dashed  bool
 }
 
-// Mark is a vertical (at X) or horizontal (at Y) reference line across the data area.
+// Mark is a vertical (at X) or horizontal (at Y) reference line across the data area,
+// labelled in place: a vertical one above the data area, a horizontal one along itself.
 type Mark struct {
 	At    float64
-	Label string // legend text; "" for none
+	Label string // "" for none
 }
 
 // Line is a figure of curves over one x axis.
@@ -38,14 +40,20 @@ type Line struct {
 	XLog, YLog            bool
 	Series                []Series // coloured in Palette order
 	VLines, HLines        []Mark   // drawn in black (vertical, dashed) and grey (horizontal, dotted)
-	Width, Height         float64  // points; 0 takes DefaultWidth / DefaultHeight
+	// XTicks and YTicks are values the axes label whenever they lie in range: the thresholds
+	// and targets the study names (m/n = 1, a planned error). 0 is always labelled on a
+	// linear axis that holds it.
+	XTicks, YTicks []float64
+	Width, Height  float64 // points; 0 takes DefaultWidth / DefaultHeight
 }
 
 // Build lays out the figure.
 //
 // Special cases are: points that cannot be shown (non-finite, or <= 0 on a log axis) are
-// gaps; a figure without a single point to show is an error; series of unequal lengths are
-// an error naming the series; reference lines outside the data range widen it.
+// gaps; a figure without a single point to show is an error (naming the log axis when it is
+// the reason); series of unequal lengths are an error naming the series; reference lines
+// outside the data range widen it; a legend too wide for the side goes under the data
+// area, and the figure grows by its height.
 func (l Line) Build() (*Figure, error) {
 	w, h, err := size(l.Width, l.Height)
 	if err != nil {
@@ -53,47 +61,83 @@ func (l Line) Build() (*Figure, error) {
 	}
 	p := gplot.New()
 	sans(p)
-	p.Title.Text, p.X.Label.Text, p.Y.Label.Text = l.Title, l.XLabel, l.YLabel
+	p.X.Label.Text, p.Y.Label.Text = l.XLabel, l.YLabel
 	p.Add(plotter.NewGrid())
-	if l.XLog {
-		p.X.Scale, p.X.Tick.Marker = gplot.LogScale{}, logTicks{}
-	}
-	if l.YLog {
-		p.Y.Scale, p.Y.Tick.Marker = gplot.LogScale{}, logTicks{}
-	}
+	var lg legend
 	shown := 0
 	for i, s := range l.Series {
-		n, err := l.addSeries(p, s, Palette[i%len(Palette)])
+		n, err := l.addSeries(p, s, Palette[i%len(Palette)], &lg)
 		if err != nil {
 			return nil, fmt.Errorf("series %d (%s): %w", i+1, s.Name, err)
 		}
 		shown += n
 	}
 	if shown == 0 {
+		if l.YLog || l.XLog {
+			return nil, errors.New("no data to draw: a logarithmic axis shows positive values only")
+		}
 		return nil, errNoData
 	}
+	var vrules, hrules []*rule
 	for _, m := range l.VLines {
 		if ok(m.At, l.XLog) {
-			r := &rule{at: m.At, vertical: true, style: draw.LineStyle{Color: color.Black, Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(5), vg.Points(3)}}}
+			r := &rule{at: m.At, vertical: true, label: m.Label, style: draw.LineStyle{Color: color.Black, Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(5), vg.Points(3)}}}
 			p.Add(r)
-			if m.Label != "" {
-				p.Legend.Add(m.Label, r)
-			}
+			vrules = append(vrules, r)
 		}
 	}
 	for _, m := range l.HLines {
 		if ok(m.At, l.YLog) {
-			r := &rule{at: m.At, style: draw.LineStyle{Color: color.Gray{0x55}, Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(1.5), vg.Points(2)}}}
+			r := &rule{at: m.At, label: m.Label, style: draw.LineStyle{Color: color.Gray{0x55}, Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(1.5), vg.Points(2)}}}
 			p.Add(r)
-			if m.Label != "" {
-				p.Legend.Add(m.Label, r)
-			}
+			hrules = append(hrules, r)
 		}
 	}
-	p.Legend.TextStyle.Font.Size = vg.Points(9)
-	placeLegend(p, l, measure(w, h))
-	fr := frameOf(p, measure(w, h), w, h)
-	return &Figure{w: w, h: h, frame: fr, draw: func(c draw.Canvas) { p.Draw(c) }}, nil
+	p.X.Min, p.X.Max = niceRange(p.X.Min, p.X.Max, l.XLog)
+	p.Y.Min, p.Y.Max = niceRange(p.Y.Min, p.Y.Max, l.YLog)
+	if l.XLog {
+		p.X.Scale = gplot.LogScale{}
+	}
+	if l.YLog {
+		p.Y.Scale = gplot.LogScale{}
+	}
+	xt := &ticker{log: l.XLog, must: l.XTicks, style: p.X.Tick.Label}
+	yt := &ticker{log: l.YLog, must: l.YTicks, vertical: true, style: p.Y.Tick.Label}
+	p.X.Tick.Marker, p.Y.Tick.Marker = xt, yt
+
+	lay := &lineLayout{w: w, h: h, title: l.Title, legend: &lg}
+	lay.setTop(vrules)
+	// The data area depends on the tick labels, which depend on the length of the axes:
+	// two passes settle it.
+	area := func(c draw.Canvas) draw.Canvas {
+		dc := p.DataCanvas(c)
+		xt.length, yt.length = dc.Max.X-dc.Min.X, dc.Max.Y-dc.Min.Y
+		return p.DataCanvas(c)
+	}
+	full := lay.plotCanvas(measure(w, h), legendNone)
+	dc := area(full)
+	obstacles := l.segments(p, dc, vrules, hrules)
+	lay.place(dc, obstacles)
+	if lay.where == legendBelow {
+		// A legend under the figure makes it taller rather than squeeze the data area.
+		_, lh := lg.size()
+		h += lh + 6
+		lay.h = h
+	}
+	if lay.where != legendInside {
+		dc = area(lay.plotCanvas(measure(w, h), lay.where))
+		lay.place(dc, nil)
+	}
+	fr := frameOf(p, lay.plotCanvas(measure(w, h), lay.where), w, h)
+	dataBox := Box{MinX: float64(dc.Min.X), MinY: float64(dc.Min.Y), MaxX: float64(dc.Max.X), MaxY: float64(dc.Max.Y)}
+	f := &Figure{w: w, h: h, frame: fr, layout: Layout{Width: float64(w), Height: float64(h), Data: dataBox, Legend: lay.legendBox()}}
+	f.draw = func(c draw.Canvas) {
+		c.SetColor(color.White)
+		c.Fill(c.Rectangle.Path())
+		p.Draw(lay.plotCanvas(c, lay.where))
+		lay.drawTexts(c, p, draw.Canvas{Canvas: c.Canvas, Rectangle: dc.Rectangle}, vrules, hrules)
+	}
+	return f, nil
 }
 
 // ok reports whether v can be placed on an axis (log when log is set).
@@ -102,7 +146,7 @@ func ok(v float64, log bool) bool {
 }
 
 // addSeries adds the runs of showable points of s to p and returns how many points it drew.
-func (l Line) addSeries(p *gplot.Plot, s Series, col color.RGBA) (int, error) {
+func (l Line) addSeries(p *gplot.Plot, s Series, col color.RGBA, lg *legend) (int, error) {
 	if len(s.X) != len(s.Y) {
 		return 0, fmt.Errorf("%d x values but %d y values", len(s.X), len(s.Y))
 	}
@@ -168,7 +212,7 @@ func (l Line) addSeries(p *gplot.Plot, s Series, col color.RGBA) (int, error) {
 		p.Add(eb)
 	}
 	if s.Name != "" && len(legend) > 0 {
-		p.Legend.Add(s.Name, legend...)
+		lg.add(s.Name, legend...)
 	}
 	var miss []float64
 	for _, x := range s.Missing {
@@ -183,7 +227,7 @@ func (l Line) addSeries(p *gplot.Plot, s Series, col color.RGBA) (int, error) {
 		if s.Name != "" {
 			label += " (" + s.Name + ")"
 		}
-		p.Legend.Add(label, m)
+		lg.add(label, m)
 	}
 	return shown, nil
 }
@@ -198,6 +242,7 @@ type errPoints struct {
 type rule struct {
 	at       float64
 	vertical bool
+	label    string
 	style    draw.LineStyle
 }
 
@@ -218,11 +263,6 @@ func (r *rule) DataRange() (xmin, xmax, ymin, ymax float64) {
 		return r.at, r.at, math.Inf(1), math.Inf(-1)
 	}
 	return math.Inf(1), math.Inf(-1), r.at, r.at
-}
-
-func (r *rule) Thumbnail(c *draw.Canvas) {
-	y := c.Center().Y
-	c.StrokeLine2(r.style, c.Min.X, y, c.Max.X, y)
 }
 
 // missing marks x positions without a value on the bottom edge of the data area.
@@ -247,48 +287,3 @@ func (m *missing) DataRange() (xmin, xmax, ymin, ymax float64) {
 }
 
 func (m *missing) Thumbnail(c *draw.Canvas) { c.DrawGlyph(m.style, c.Center()) }
-
-// logTicks labels a log axis by powers of ten when it spans a decade or more, and like a
-// linear axis otherwise (a narrow log range holds no power of ten to label).
-type logTicks struct{}
-
-func (logTicks) Ticks(min, max float64) []gplot.Tick {
-	if max >= 10*min {
-		return gplot.LogTicks{Prec: -1}.Ticks(min, max)
-	}
-	return gplot.DefaultTicks{}.Ticks(min, max)
-}
-
-// placeLegend puts the legend in the corner of the data area that covers the fewest points
-// of the curves.
-func placeLegend(p *gplot.Plot, l Line, c draw.Canvas) {
-	dc := p.DataCanvas(c)
-	trX, trY := p.Transforms(&dc)
-	size := p.Legend.Rectangle(dc).Size()
-	best, bestN := 0, -1
-	for corner := 0; corner < 4; corner++ {
-		left, top := corner&1 == 1, corner&2 == 0
-		x0, y0 := dc.Max.X-size.X, dc.Min.Y
-		if left {
-			x0 = dc.Min.X
-		}
-		if top {
-			y0 = dc.Max.Y - size.Y
-		}
-		n := 0
-		for _, s := range l.Series {
-			for i := range s.X {
-				if i < len(s.Y) && ok(s.X[i], l.XLog) && ok(s.Y[i], l.YLog) {
-					x, y := trX(s.X[i]), trY(s.Y[i])
-					if x >= x0 && x <= x0+size.X && y >= y0 && y <= y0+size.Y {
-						n++
-					}
-				}
-			}
-		}
-		if bestN < 0 || n < bestN {
-			best, bestN = corner, n
-		}
-	}
-	p.Legend.Left, p.Legend.Top = best&1 == 1, best&2 == 0
-}

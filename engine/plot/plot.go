@@ -5,9 +5,12 @@
 // converts to data coordinates (Frame.At). It also writes the data of curves and grids as
 // CSV.
 //
+// Figures also render to PDF and (on the command line; the page has the browser draw its
+// PNGs from the SVG) to PNG, and the figures of the studies are built here from their
+// numbers (SweepFigure, MapFigure), so that the page and the command line draw the same.
+//
 // The package holds no browser code and no mathematics of the method: it draws numbers it
-// is given. It uses gonum/plot's SVG canvas only, so that a build with the tag minimal
-// links none of the raster, PDF, EPS or TeX backends.
+// is given.
 package plot
 
 import (
@@ -17,9 +20,11 @@ import (
 	"fmt"
 	"image/color"
 	"math"
+	"strings"
 
 	gplot "gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
+	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgsvg"
@@ -96,9 +101,10 @@ func fraction(lo, hi, x float64, log bool) float64 {
 
 // Figure is a built figure, ready to render.
 type Figure struct {
-	w, h  vg.Length
-	draw  func(c draw.Canvas) // draws the whole figure on a canvas the size of the image
-	frame Frame
+	w, h   vg.Length
+	draw   func(c draw.Canvas) // draws the whole figure on a canvas the size of the image
+	frame  Frame
+	layout Layout
 }
 
 // Frame returns where the data area lies in the image.
@@ -117,10 +123,23 @@ func (f *Figure) SVG() ([]byte, error) {
 	if _, err := c.WriteTo(&b); err != nil {
 		return nil, err
 	}
-	// An SVG <image> keeps its own aspect ratio unless told otherwise, which would shrink a
-	// heat map's raster inside its axes; the axes need it stretched.
-	return bytes.ReplaceAll(b.Bytes(), []byte("<image "), []byte(`<image preserveAspectRatio="none" `)), nil
+	return []byte(svgFixes.Replace(b.String())), nil
 }
+
+// svgFixes corrects what gonum's SVG canvas writes for the page and for export:
+//   - an SVG <image> keeps its own aspect ratio unless told otherwise, which would shrink a
+//     heat map's raster inside its axes; the axes need it stretched;
+//   - the raster is a PNG, which the canvas labels image/jpg;
+//   - the text is laid out with Liberation Sans metrics: where that face is not installed,
+//     the metric-compatible Arial or Helvetica keeps the legend's and labels' widths. The
+//     one face every text uses is named once, on the root, rather than on every text with
+//     the default variant, weight and style beside it.
+var svgFixes = strings.NewReplacer(
+	"<image ", `<image preserveAspectRatio="none" `,
+	"data:image/jpg;base64,", "data:image/png;base64,",
+	`xmlns:xlink="http://www.w3.org/1999/xlink">`, `xmlns:xlink="http://www.w3.org/1999/xlink" font-family="'Liberation Sans',Arial,Helvetica,sans-serif">`,
+	"font-family:Liberation Sans;font-variant:normal;font-weight:normal;font-style:normal;", "",
+)
 
 // render draws the figure, turning a panic of the plotting library (it panics on some
 // degenerate inputs) into an error.
@@ -156,13 +175,22 @@ func measure(w, h vg.Length) draw.Canvas {
 	return draw.New(vgsvg.New(w, h))
 }
 
-// sans sets every text of p in Liberation Sans, which reads better on a screen than the
-// library's serif default.
+// sans sets every text of p in Liberation Sans (which reads better on a screen than the
+// library's serif default, and is the only face figures use) at the figure's sizes.
 func sans(p *gplot.Plot) {
-	for _, f := range []*font.Font{&p.Title.TextStyle.Font, &p.X.Label.TextStyle.Font, &p.Y.Label.TextStyle.Font,
-		&p.X.Tick.Label.Font, &p.Y.Tick.Label.Font, &p.Legend.TextStyle.Font} {
-		f.Typeface, f.Variant = "Liberation", "Sans"
+	for _, f := range []struct {
+		f    *font.Font
+		size vg.Length
+	}{{&p.Title.TextStyle.Font, titleSize}, {&p.X.Label.TextStyle.Font, labelSize}, {&p.Y.Label.TextStyle.Font, labelSize},
+		{&p.X.Tick.Label.Font, tickSize}, {&p.Y.Tick.Label.Font, tickSize}, {&p.Legend.TextStyle.Font, noteSize}} {
+		f.f.Typeface, f.f.Variant, f.f.Size = "Liberation", "Sans", f.size
 	}
+	for _, h := range []*text.Handler{&p.Title.TextStyle.Handler, &p.X.Label.TextStyle.Handler, &p.Y.Label.TextStyle.Handler,
+		&p.X.Tick.Label.Handler, &p.Y.Tick.Label.Handler, &p.Legend.TextStyle.Handler} {
+		*h = measured
+	}
+	p.X.Tick.Length, p.Y.Tick.Length = 5, 5
+	p.X.Label.Padding, p.Y.Label.Padding = 3, 3
 }
 
 // size returns the figure size in points, defaults applied.

@@ -8,8 +8,8 @@
 // Every law is a finite Gaussian mixture, a list of components N(Mean, Var) with weights
 // (Var = 0 is a point mass). The mixture is the law itself for the Gaussian, Bernoulli-Gaussian,
 // Bernoulli-Rademacher, Gaussian-mixture and empirical laws; for the Laplace and Student-t laws
-// (Gaussian scale mixtures) it is a Gauss-Laguerre quadrature of the mixing variance, and for the
-// uniform law a Gauss-Legendre quadrature of x0 itself. Exact reports which.
+// (Gaussian scale mixtures) it is a trapezoidal rule in the logarithm of the mixing variance, and
+// for the uniform law a Gauss-Legendre quadrature of x0 itself. Exact reports which.
 //
 // With a piecewise-linear prox, Expect uses closed forms: for each component the posterior of x0
 // given r is Gaussian, and on each linear piece the error reduces to truncated normal moments.

@@ -44,6 +44,9 @@ func Expect(l Law, p penalty.Penalty, g, t float64) Moments {
 		pieces, ok = p.Pieces(g)
 	}
 	if !ok {
+		if b, isB := p.(brancher); isB && b.Exponent() > 0 {
+			return expectBranch(l, p, b, g, t)
+		}
 		return ExpectQuad(l, p, g, t)
 	}
 	var m Moments
@@ -152,7 +155,10 @@ func addComponent(m *Moments, c Component, pieces []penalty.Piece, t float64) {
 		case !loInf && lo.y >= 0:
 			// Right of the mean: expand in s = y - ylo >= 0.
 			m0, m1, m2 = lo.j0, lo.j1, lo.j2
-			if !hiInf {
+			// A tail end beyond the reach of the normal law (j0 = 0, for instance a box
+			// bound of 1e300) carries no mass: its terms are skipped rather than formed
+			// as Inf * 0.
+			if !hiInf && hi.j0 > 0 {
 				dd := hi.y - lo.y
 				m0 -= hi.j0
 				m1 -= hi.j1 + dd*hi.j0
@@ -162,7 +168,7 @@ func addComponent(m *Moments, c Component, pieces []penalty.Piece, t float64) {
 		case !hiInf && hi.y <= 0:
 			// Left of the mean: expand in s = yhi - y >= 0.
 			m0, m1, m2 = hi.j0, hi.j1, hi.j2
-			if !loInf {
+			if !loInf && lo.j0 > 0 {
 				dd := hi.y - lo.y
 				m0 -= lo.j0
 				m1 -= lo.j1 + dd*lo.j0
@@ -190,6 +196,11 @@ func addComponent(m *Moments, c Component, pieces []penalty.Piece, t float64) {
 				m2 -= hi.y * hi.phi
 			}
 			m2 += m0
+		}
+		if m0 == 0 && m1 == 0 && m2 == 0 {
+			// The piece lies beyond the reach of the component: k0 may then be huge.
+			lo, loInf = hi, hiInf
+			continue
 		}
 		mse += k0*k0*m0 + 2*k0*k1*m1 + k1*k1*m2
 		a += q.Slope * m0

@@ -86,3 +86,39 @@ func checkDensity(v float64) error {
 	}
 	return nil
 }
+
+// scaled is the law of x0/s for a law of x0, in the solver's units (method.md section 3).
+type scaled struct {
+	mixture
+	base   Law
+	s, sec float64
+}
+
+// Scaled returns the law of x0/s (s > 0 finite) for the law l of x0: its mixture has the
+// means divided by s and the variances by s^2; Name and Exact are those of l. The solver
+// works in units where E[x0^2] = 1 so that laws of any size (variances from 1e-300 to 1e300)
+// meet the same numbers.
+//
+// Special cases are: s = 1 returns l itself.
+func Scaled(l Law, s float64) Law {
+	if s == 1 {
+		return l
+	}
+	src := componentsOf(l)
+	comps := make([]Component, len(src))
+	for i, c := range src {
+		comps[i] = Component{c.Weight, c.Mean / s, c.Var / s / s}
+	}
+	return scaled{mixture{comps}, l, s, l.Second() / s / s}
+}
+
+func (l scaled) Name() string    { return l.base.Name() }
+func (l scaled) Exact() bool     { return l.base.Exact() }
+func (l scaled) Second() float64 { return l.sec }
+func (l scaled) Sample(rng *rand.Rand, n int) []float64 {
+	x := l.base.Sample(rng, n)
+	for i := range x {
+		x[i] /= l.s
+	}
+	return x
+}

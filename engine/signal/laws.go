@@ -240,6 +240,8 @@ type studentT struct {
 // step shrinks like 1/sqrt(a), the width of the law of u. The mass 1e-14 below the first node
 // (the heaviest tail) is one component carrying its exact share of E[x0^2]; the node variances
 // are rescaled so that the mixture's E[x0^2] is exact.
+//
+// Special cases are: dof above StudentTGaussFrom is the Gaussian law N(0, scale^2 dof/(dof-2)).
 func StudentT(dof, scale float64) (Law, error) {
 	if err := finite("dof", dof); err != nil {
 		return nil, err
@@ -256,6 +258,11 @@ func StudentT(dof, scale float64) (Law, error) {
 const (
 	studentStep = 0.4   // trapezoidal step in log(y), times 1/sqrt(max(a, 1))
 	studentLow  = 1e-14 // about the mass of the lumped heavy tail
+	// StudentTGaussFrom is the number of degrees of freedom above which the Student-t law
+	// is replaced by the Gaussian law of the same variance: their excess kurtosis differ by
+	// 6/(dof - 4) < 1e-9, below the accuracy of the discretization, and the mixture would
+	// otherwise need nodes finer than the rounding of log(dof).
+	StudentTGaussFrom = 1e10
 )
 
 // studentTMixture returns the trapezoidal mixture of StudentT(dof, scale) with the given step
@@ -270,21 +277,41 @@ const (
 // whole mixture).
 func studentTMixture(dof, scale, step, low float64) []Component {
 	a := dof / 2
-	c := scale * scale * a
+	if dof > StudentTGaussFrom {
+		return []Component{{1, 0, scale * scale * dof / (dof - 2)}}
+	}
+	// The nodes are written in d = u - log(a), in which the law of u concentrates about 0
+	// with width 1/sqrt(a): the log-weights a u - e^u then read -a (expm1(d) - d) up to a
+	// constant that the normalization removes, without the cancellation of two numbers of
+	// size a log(a), and the component variances are scale^2 e^(-d).
 	lgA1, _ := math.Lgamma(a + 1)
-	ulo := (math.Log(low) + lgA1) / a
-	uhi := math.Log(a + 10*math.Sqrt(a) + 40)
+	dlo := (math.Log(low) + lgA1 - a*math.Log(a)) / a
+	sa := math.Sqrt(a)
+	if sa > 10 {
+		// Ten standard deviations below the mean of the gamma law, whose lower tail is
+		// lighter than the normal one (mass below 1e-23): the crude bound above is far too
+		// low for large a and would cost about sqrt(a) nodes.
+		dlo = math.Max(dlo, math.Log1p(-10/sa))
+	}
+	dhi := math.Log1p(10/sa + 40/a)
 	h := step / math.Sqrt(math.Max(a, 1))
-	n := int(math.Ceil((uhi-ulo)/h)) + 1
-	lg, _ := math.Lgamma(a)
+	n := int(math.Ceil((dhi-dlo)/h)) + 1
 	comps := make([]Component, n, n+1)
+	logw := make([]float64, n)
+	top := math.Inf(-1)
+	for k := range comps {
+		d := dlo + float64(k)*h
+		logw[k] = -a * (math.Expm1(d) - d)
+		top = math.Max(top, logw[k])
+		comps[k].Var = scale * scale * math.Exp(-d)
+	}
 	sum, second := 0.0, 0.0
 	for k := range comps {
-		u := ulo + float64(k)*h
-		comps[k] = Component{h * math.Exp(a*u-math.Exp(u)-lg), 0, c / math.Exp(u)}
+		comps[k].Weight = math.Exp(logw[k] - top)
 		sum += comps[k].Weight
 	}
-	lumpMass := mathext.GammaIncReg(a, math.Exp(ulo-h/2))
+	lumpMass := mathext.GammaIncReg(a, a*math.Exp(dlo-h/2))
+	c := scale * scale * a
 	for k := range comps {
 		comps[k].Weight *= (1 - lumpMass) / sum
 		second += comps[k].Weight * comps[k].Var
@@ -292,8 +319,8 @@ func studentTMixture(dof, scale, step, low float64) []Component {
 	if rest := c/(a-1) - second; lumpMass > 0 && rest > 0 {
 		return append(comps, Component{lumpMass, 0, rest / lumpMass})
 	}
-	// Not reached for dof > 2 (the nodes miss part of E[x0^2]); kept so that the weights still
-	// sum to 1 and E[x0^2] stays exact if rounding ever says otherwise.
+	// The lumped tail is too light to carry the E[x0^2] that the nodes miss (large dof, or
+	// rounding): the node variances are rescaled so that E[x0^2] stays exact.
 	for k := range comps {
 		comps[k].Weight /= 1 - lumpMass
 		comps[k].Var *= c / (a - 1) / (second / (1 - lumpMass))

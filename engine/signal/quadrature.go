@@ -59,6 +59,10 @@ func ExpectQuad(l Law, p penalty.Penalty, g, t float64) Moments {
 	splits := append(slices.Clone(p.Kinks(g)), 0)
 	_, linear := p.Pieces(g)
 	graded := !linear
+	// A prox without a zero region is nonzero but at isolated points, so the fraction is
+	// exactly 1 even where the computed prox underflows to 0 (|x|^q with q near 1 inside
+	// the threshold).
+	zeroRegion := p.HasZeroRegion()
 	var m Moments
 	for _, c := range componentsOf(l) {
 		active := c.active()
@@ -116,7 +120,7 @@ func ExpectQuad(l Law, p penalty.Penalty, g, t float64) Moments {
 					d := xhat - (c.Mean + beta*(r-c.Mean))
 					mse += w * d * d
 					a += w * p.Deriv(r, g)
-					if xhat != 0 {
+					if xhat != 0 || !zeroRegion {
 						nz += w
 					}
 				}

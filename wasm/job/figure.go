@@ -23,7 +23,7 @@ func finiteMarks(ms []plot.Mark) []plot.Mark {
 	return out
 }
 
-// Figure builds a figure and renders it as SVG. Special cases are: neither or both of Line
+// Figure builds a figure and renders it as SVG, and as PDF when asked. Special cases are: neither or both of Line
 // and Heat is an error; marks at a NaN or infinite place are left out; the errors of plot's
 // Build and render are returned as they are.
 func Figure(a protocol.FigureArgs) (protocol.FigureResult, error) {
@@ -48,5 +48,11 @@ func Figure(a protocol.FigureArgs) (protocol.FigureResult, error) {
 	if err != nil {
 		return protocol.FigureResult{}, err
 	}
-	return protocol.FigureResult{Data: data, Frame: f.Frame()}, nil
+	r := protocol.FigureResult{Data: data, Frame: f.Frame()}
+	if a.PDF {
+		if r.PDF, err = f.PDF(); err != nil {
+			return protocol.FigureResult{}, err
+		}
+	}
+	return r, nil
 }

@@ -10,6 +10,7 @@ import (
 
 	"github.com/hack-pad/safejs"
 
+	"hdrisk/engine/plot"
 	"hdrisk/protocol"
 	"hdrisk/wasm/job"
 )
@@ -47,6 +48,10 @@ func Serve() error {
 		return fmt.Errorf("worker: onmessage: %w", err)
 	}
 	post(protocol.Reply{Type: protocol.Ready})
+	// The first figure a worker draws loads the font and warms the code that lays figures
+	// out (a quarter of a second in WebAssembly); doing it now, while the page starts,
+	// keeps that out of the first map's time to its figure.
+	plot.Warm()
 	for text := range requests {
 		job.Handle(text, post)
 	}

@@ -3,16 +3,19 @@ package main
 import (
 	"context"
 	"flag"
+	"fmt"
 	"io"
 	"os"
 	"os/signal"
 
+	"hdrisk/engine/plot"
 	"hdrisk/engine/study"
 )
 
 // runMap solves the scenario over a grid of two fields and prints a CSV with one line per
 // cell (X varying fastest): both fields, every observable, and the convergence columns.
 // Settings not given on the command line come from the scenario's study.map, when it has one.
+// With --figure the heat figure of the page's map view is drawn as well.
 func runMap(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("map", flag.ContinueOnError)
 	x := fs.String("x", "", "the field along each row (alpha, l1, noise, ...)")
@@ -28,8 +31,12 @@ func runMap(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	workers := fs.Int("workers", 0, "goroutines (0: one per CPU); the output does not depend on it")
 	solver := solverFlags(fs)
 	progress := fs.Bool("progress", false, "report progress on stderr")
+	fig := addFigureFlags(fs)
 	name, err := onePositional(fs, args, "scenario file")
 	if err != nil {
+		return err
+	}
+	if err := fig.check(); err != nil {
 		return err
 	}
 	opts, err := solver()
@@ -73,6 +80,16 @@ func runMap(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	g, err := study.Map(ctx, s, spec, *workers, progressTo(stderr, *progress))
 	if err != nil {
 		return err
+	}
+	if *fig.path != "" {
+		mf := plot.MapFigure{Scenario: s, X: spec.X, Y: spec.Y, Quantity: *fig.quantity, Cells: g.Cells, Width: *fig.width, Height: *fig.height}
+		f, err := mf.Heat().Build()
+		if err != nil {
+			return fmt.Errorf("--figure: %w", err)
+		}
+		if err := fig.write(f); err != nil {
+			return err
+		}
 	}
 	if err := study.WriteCSV(stdout, []string{*x, *y}, g.Cells); err != nil {
 		return err

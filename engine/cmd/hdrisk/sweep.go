@@ -1,19 +1,28 @@
 package main
 
 import (
+	"bytes"
 	"context"
+	"encoding/csv"
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"os/signal"
+	"strconv"
 
+	"hdrisk/engine/plot"
+	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
 )
 
 // runSweep solves the scenario along one field and prints a CSV: the field, every
 // observable, and the convergence columns of each point. Settings not given on the command
-// line come from the scenario's study.sweep, when it has one.
+// line come from the scenario's study.sweep, when it has one. With --best the CSV is the
+// best-tuned curve instead (the weight re-tuned at every point, its value in a last
+// column); with --figure the curve figure of the page's curve view is drawn as well, with
+// the best value of a swept weight and the Bayes-optimal error when the page draws them.
 func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("sweep", flag.ContinueOnError)
 	over := fs.String("over", "", "the field to vary (alpha, l1, l2, noise, density, ...)")
@@ -23,9 +32,18 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	logAxis := fs.Bool("log", false, "space the values geometrically")
 	solver := solverFlags(fs)
 	progress := fs.Bool("progress", false, "report progress on stderr")
+	best := fs.String("best", "", "re-tune this weight at every point: l1, l2 or l1+l2")
+	logY := fs.Bool("log-y", false, "draw the figure's vertical axis on a log scale (positive quantities only)")
+	fig := addFigureFlags(fs)
 	name, err := onePositional(fs, args, "scenario file")
 	if err != nil {
 		return err
+	}
+	if err := fig.check(); err != nil {
+		return err
+	}
+	if *logY && !plot.LogAllowed(*fig.quantity) {
+		return usagef("--log-y: %s can be zero or negative; a log axis needs a positive quantity", *fig.quantity)
 	}
 	opts, err := solver()
 	if err != nil {
@@ -52,15 +70,103 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
-	pts, err := study.Sweep(ctx, s, spec, progressTo(stderr, *progress))
-	if err != nil {
-		return err
+	var tuned []study.TunedPoint
+	if *best != "" {
+		if tuned, err = study.Tuned(ctx, s, spec, study.BestSpec{Over: *best}, progressTo(stderr, *progress)); err != nil {
+			return err
+		}
+	}
+	var pts []study.Point
+	if *best == "" || *fig.path != "" {
+		if pts, err = study.Sweep(ctx, s, spec, progressTo(stderr, *progress && *best == "")); err != nil {
+			return err
+		}
+	}
+	if *fig.path != "" {
+		if err := drawSweep(ctx, s, spec.Axis, pts, *best, tuned, *logY, fig); err != nil {
+			return err
+		}
+	}
+	if *best != "" {
+		if err := writeTunedCSV(stdout, *over, *best, tuned); err != nil {
+			return err
+		}
+		ps := make([]study.Point, len(tuned))
+		for i, p := range tuned {
+			ps[i] = p.Point
+		}
+		warnUnconverged(stderr, ps)
+		return nil
 	}
 	if err := study.WriteCSV(stdout, []string{*over}, pts); err != nil {
 		return err
 	}
 	warnUnconverged(stderr, pts)
 	return nil
+}
+
+// drawSweep draws the curve figure of the page's curve view for the sweep: the scenario's
+// curve, the best-tuned one when there is one, the best value of a swept weight and the
+// Bayes-optimal error where the curve view draws them (a reference that cannot be computed
+// is left out, as the page leaves it out).
+func drawSweep(ctx context.Context, s scenario.Scenario, ax study.Axis, pts []study.Point, best string, tuned []study.TunedPoint, logY bool, fig figureFlags) error {
+	sf := plot.SweepFigure{Scenario: s, Axis: ax, Quantity: *fig.quantity, YLog: logY, Width: *fig.width, Height: *fig.height,
+		Curves: []plot.Curve{{Points: pts}}}
+	if best != "" {
+		sf.Curves[0].Label = plot.FixedLabel(s, best)
+		sf.Curves = append(sf.Curves, plot.TunedCurve(best, tuned))
+	}
+	if plot.WantsBest(s, ax.Over) {
+		if b, err := study.Best(ctx, s, study.BestSpec{Over: ax.Over}); err == nil && b.AtBound == "" {
+			sf.Best = &plot.BestMark{Over: b.Over, Value: b.Value}
+		}
+	}
+	if plot.WantsBayes(s, ax.Over) {
+		if p, err := s.Problem(); err == nil {
+			if b, err := study.Bayes(p); err == nil {
+				sf.Bayes = &b.Uninformed
+			}
+		}
+	}
+	l, ok := sf.Line()
+	if !ok {
+		return fmt.Errorf("--figure: the sweep has no point to draw")
+	}
+	f, err := l.Build()
+	if err != nil {
+		return fmt.Errorf("--figure: %w", err)
+	}
+	return fig.write(f)
+}
+
+// writeTunedCSV writes a best-tuned curve as study.WriteCSV writes a sweep, with the best
+// weight at each point in a last column, best_WEIGHT (empty where the search failed).
+func writeTunedCSV(w io.Writer, over, best string, pts []study.TunedPoint) error {
+	ps := make([]study.Point, len(pts))
+	for i, p := range pts {
+		ps[i] = p.Point
+	}
+	var b bytes.Buffer
+	if err := study.WriteCSV(&b, []string{over}, ps); err != nil {
+		return err
+	}
+	rows, err := csv.NewReader(&b).ReadAll()
+	if err != nil {
+		return err
+	}
+	rows[0] = append(rows[0], "best_"+best)
+	for i, p := range pts {
+		v := ""
+		if !math.IsNaN(p.Weight) {
+			v = strconv.FormatFloat(p.Weight, 'g', -1, 64)
+		}
+		rows[i+1] = append(rows[i+1], v)
+	}
+	cw := csv.NewWriter(w)
+	if err := cw.WriteAll(rows); err != nil {
+		return err
+	}
+	return cw.Error()
 }
 
 // flagsSet reports which flags were given on the command line.

@@ -1,0 +1,61 @@
+package design
+
+import "math"
+
+// rescaled is the law of lambda/c for a law of lambda: the solver's units, in which the mean
+// eigenvalue is 1 (method.md section 3).
+type rescaled struct {
+	base Law
+	c    float64
+}
+
+// Rescaled returns the law of lambda/c (c > 0 finite) for the law l of lambda: its transforms
+// are those of l at c g, S1 and S3 times c and S2 times c^2. SingularValues are divided by
+// sqrt(c).
+//
+// Special cases are: c = 1 returns l itself.
+func Rescaled(l Law, c float64) Law {
+	if c == 1 {
+		return l
+	}
+	return rescaled{l, c}
+}
+
+func (l rescaled) At(g float64) Transforms {
+	t := l.base.At(l.c * g)
+	c := l.c
+	return Transforms{S1: c * t.S1, S2: c * c * t.S2, S3: c * t.S3, T: t.T, W: t.W, S2Pos: c * c * t.S2Pos}
+}
+
+func (l rescaled) Stieltjes(g float64) (s1, s2 float64) {
+	a, b := l.base.Stieltjes(l.c * g)
+	return l.c * a, l.c * l.c * b
+}
+
+func (l rescaled) Atom0() float64    { return l.base.Atom0() }
+func (l rescaled) Mean() float64     { return l.base.Mean() / l.c }
+func (l rescaled) Alpha() float64    { return l.base.Alpha() }
+func (l rescaled) ReachesZero() bool { return ReachesZero(l.base) }
+
+func (l rescaled) SingularValues(m, n int) []float64 {
+	sv := l.base.SingularValues(m, n)
+	for i := range sv {
+		sv[i] /= math.Sqrt(l.c)
+	}
+	return sv
+}
+
+// ReachesZero reports whether the nonzero eigenvalues of l come arbitrarily close to 0 with a
+// density there, so that E[1/lambda] over them is infinite although a discretized law has a
+// finite S1(0): the uniform shapes with min = 0 and the Gaussian shape at alpha = 1.
+// Least squares on such a design has an infinite error whenever there is noise.
+func ReachesZero(l Law) bool {
+	if z, ok := l.(interface{ ReachesZero() bool }); ok {
+		return z.ReachesZero()
+	}
+	return false
+}
+
+func (l *uniformSV) ReachesZero() bool { return l.lo == 0 }
+func (l *uniformEV) ReachesZero() bool { return l.lo == 0 }
+func (l *gaussian) ReachesZero() bool  { return l.a == 0 }

@@ -1,0 +1,209 @@
+package fixedpoint
+
+import (
+	"math"
+
+	"hdrisk/engine/signal"
+)
+
+// bracket solves the one-dimensional reduction of the fixed point (method.md section 10) when
+// the damped iteration fails. At a fixed point, S1(g2) = V and g1 = 1/V - g2, so g1 =
+// T(g2)/S1(g2) is a function of g2 alone, increasing; the first equation A(g1, t1) = g1 V
+// then reads A(g1(g2), t1) = T(g2), whose left side increases with g2 and right side
+// decreases: one root in g2 for each t1. The second equation is t1 = Phi(t1) with Phi the
+// update of t1 at that root. Both roots are found by the Illinois method on brackets in log
+// scale (Dowell & Jarratt 1971, BIT 11:168-174), which cannot leave their bracket.
+func (s *solver) bracket() (Result, error) {
+	b := bracketer{s: s, g2: 1}
+	f := func(y float64) float64 {
+		phi, ok := b.phi(math.Exp(y))
+		if !ok {
+			return math.NaN()
+		}
+		return math.Log(phi) - y
+	}
+	y0 := math.Log(s.rho2 + s.p.Noise)
+	f0 := f(y0)
+	if math.IsNaN(f0) {
+		return Result{}, errNoBracket()
+	}
+	lo, hi, flo, fhi := y0, y0, f0, f0
+	switch {
+	case f0 > 0:
+		for fhi > 0 {
+			lo, flo = hi, fhi
+			hi += 3
+			if hi > math.Log(tFar) {
+				s.unbounded = true
+				return Result{}, errUnbounded(s)
+			}
+			if fhi = f(hi); math.IsNaN(fhi) {
+				return Result{}, errNoBracket()
+			}
+		}
+	case f0 < 0:
+		for flo < 0 {
+			hi, fhi = lo, flo
+			lo -= 3
+			if lo < math.Log(tNear) {
+				return s.floorAt(math.Exp(hi), b)
+			}
+			if flo = f(lo); math.IsNaN(flo) {
+				return Result{}, errNoBracket()
+			}
+		}
+	}
+	y, ok := illinois(f, lo, hi, flo, fhi, 1e-13)
+	if !ok {
+		return Result{}, errNoBracket()
+	}
+	t1 := math.Exp(y)
+	if _, ok := b.phi(t1); !ok {
+		return Result{}, errNoBracket()
+	}
+	r, err := s.run(State{G1: b.g1, T1: t1})
+	if err == nil && r.Iterations > 0 {
+		return r, nil
+	}
+	return s.observe(Result{G1: b.g1, T1: t1, G2: b.g2, Iterations: 1, Residual: math.Abs(f(y))})
+}
+
+// crawls reports whether t1 = Phi(t1) fails to cross at r: Phi - t1 keeps its sign a factor
+// e above and below r.T1, so the iteration only slowed down on its way to an infinite error.
+func (s *solver) crawls(r Result) bool {
+	b := bracketer{s: s, g2: r.G2}
+	up, ok1 := b.phi(r.T1 * math.E)
+	down, ok2 := b.phi(r.T1 / math.E)
+	if !ok1 || !ok2 {
+		return false
+	}
+	return (up > r.T1*math.E) == (down > r.T1/math.E)
+}
+
+// floorAt reports the floor of a noiseless recovery: the error falls below tNear.
+func (s *solver) floorAt(t1 float64, b bracketer) (Result, error) {
+	if _, ok := b.phi(t1); !ok {
+		return Result{}, errNoBracket()
+	}
+	r, err := s.observe(Result{G1: b.g1, T1: t1, G2: b.g2, Iterations: 1, Converged: true})
+	if err != nil {
+		return Result{}, errNoBracket()
+	}
+	return r, nil
+}
+
+type bracketer struct {
+	s      *solver
+	g1, g2 float64 // the last inner root
+}
+
+// phi returns the update of t1 at the root in g2 of A(g1(g2), t1) = T(g2).
+func (b *bracketer) phi(t1 float64) (float64, bool) {
+	p := b.s.p
+	psi := func(x float64) float64 {
+		tr := p.Design.At(math.Exp(x))
+		g1 := tr.T / tr.S1
+		if !finitePos(g1) {
+			return math.NaN()
+		}
+		m := signal.Expect(p.Signal, p.Penalty, g1, t1)
+		return math.Log(math.Max(m.A, 1e-300)) - math.Log(tr.T)
+	}
+	x0 := math.Log(b.g2)
+	f0 := psi(x0)
+	if math.IsNaN(f0) {
+		x0 = 0
+		if f0 = psi(x0); math.IsNaN(f0) {
+			return 0, false
+		}
+	}
+	const reach = 690 // about log(1e300)
+	lo, hi, flo, fhi := x0, x0, f0, f0
+	x := x0
+	switch {
+	case f0 < 0:
+		for step := 1.0; fhi < 0 && hi < reach; step *= 2 {
+			lo, flo = hi, fhi
+			hi = math.Min(hi+step, reach)
+			if fhi = psi(hi); math.IsNaN(fhi) {
+				return 0, false
+			}
+		}
+		x = hi
+	case f0 > 0:
+		for step := 1.0; flo > 0 && lo > -reach; step *= 2 {
+			hi, fhi = lo, flo
+			lo = math.Max(lo-step, -reach)
+			if flo = psi(lo); math.IsNaN(flo) {
+				return 0, false
+			}
+		}
+		x = lo
+	}
+	if flo <= 0 && fhi >= 0 && lo < hi {
+		var ok bool
+		if x, ok = illinois(psi, lo, hi, flo, fhi, 1e-14); !ok {
+			return 0, false
+		}
+	}
+	g2 := math.Exp(x)
+	tr := p.Design.At(g2)
+	g1 := tr.T / tr.S1
+	m := signal.Expect(p.Signal, p.Penalty, g1, t1)
+	phi := (p.Noise*tr.S3 + tr.W*m.MSE) / (g1 * g1 * tr.S2)
+	if !finitePos(g1) || !finitePos(phi) {
+		return 0, false
+	}
+	b.g1, b.g2 = g1, g2
+	return phi, true
+}
+
+// illinois returns a root of f in [lo, hi] where f(lo) and f(hi) have opposite signs (or one
+// is 0), to an absolute width tol in its argument.
+func illinois(f func(float64) float64, lo, hi, flo, fhi, tol float64) (float64, bool) {
+	if flo == 0 {
+		return lo, true
+	}
+	if fhi == 0 {
+		return hi, true
+	}
+	side := 0
+	for range 100 {
+		x := hi - fhi*(hi-lo)/(fhi-flo)
+		if !(x > lo && x < hi) {
+			x = lo + (hi-lo)/2
+		}
+		fx := f(x)
+		switch {
+		case math.IsNaN(fx):
+			return 0, false
+		case math.Abs(fx) < 1e-15:
+			// Both functions are differences of logarithms: below 1e-15 they are rounding.
+			return x, true
+		case (fx > 0) == (fhi > 0):
+			hi, fhi = x, fx
+			if side == 1 {
+				flo /= 2
+			}
+			side = 1
+		default:
+			lo, flo = x, fx
+			if side == -1 {
+				fhi /= 2
+			}
+			side = -1
+		}
+		if hi-lo <= tol*math.Max(1, math.Abs(x)) {
+			return x, true
+		}
+	}
+	return lo + (hi-lo)/2, true
+}
+
+func errNoBracket() error {
+	return fieldErr("scenario", "the fixed point could not be bracketed: the scenario lies beyond the numerical reach of the solver (report it, with its share link)")
+}
+
+func errUnbounded(s *solver) error {
+	return fieldErr("penalty", "there is no finite fixed point: the error grows without bound at m/n = %v with this penalty (for instance nonnegative least squares beyond its phase transition): strengthen the penalty, or raise design.alpha", s.p.Design.Alpha())
+}

@@ -1,0 +1,7 @@
+module codeberg.org/go-fonts/liberation
+
+go 1.23.0
+
+require golang.org/x/image v0.25.0
+
+require golang.org/x/text v0.23.0 // indirect
