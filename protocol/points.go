@@ -6,8 +6,6 @@ import (
 	"fmt"
 	"math"
 	"reflect"
-	"slices"
-	"strings"
 
 	"hdrisk/engine/fixedpoint"
 	"hdrisk/engine/study"
@@ -32,70 +30,27 @@ type packed struct {
 
 var resultType = reflect.TypeFor[fixedpoint.Result]()
 
-// column is one leaf of fixedpoint.Result as it travels: a number, a count, a flag or a text,
-// reached from the Result through the field indexes in path. A pointer to a struct (the
-// generalized model's observables) travels as a flag column named after the field, true
-// where the pointer is set, and one column per leaf of the struct, named "Field.Leaf".
+// column is one field of fixedpoint.Result as it travels: a number, a count, a flag or a
+// text. Any other type of field is a programming error found when the package starts.
 type column struct {
-	name string
-	path []int
-	kind reflect.Kind // Float64, Int, Bool, String, or Pointer for a presence flag
+	name  string
+	index int
+	kind  reflect.Kind // Float64, Int, Bool or String
 }
 
 var resultColumns = func() []column {
-	var out []column
-	var walk func(t reflect.Type, prefix string, path []int)
-	walk = func(t reflect.Type, prefix string, path []int) {
-		for k := range t.NumField() {
-			f := t.Field(k)
-			p := append(slices.Clone(path), k)
-			name := prefix + f.Name
-			switch {
-			case f.Type.Kind() == reflect.Pointer && f.Type.Elem().Kind() == reflect.Struct:
-				out = append(out, column{name: name, path: p, kind: reflect.Pointer})
-				walk(f.Type.Elem(), name+".", p)
-			case f.Type.Kind() == reflect.Struct:
-				walk(f.Type, name+".", p)
-			case f.Type.Kind() == reflect.Float64, f.Type.Kind() == reflect.Int,
-				f.Type.Kind() == reflect.Bool, f.Type.Kind() == reflect.String:
-				out = append(out, column{name: name, path: p, kind: f.Type.Kind()})
-			default:
-				panic(fmt.Sprintf("points: fixedpoint.Result.%s has a type (%s) the packing does not carry", name, f.Type))
-			}
+	out := make([]column, resultType.NumField())
+	for k := range out {
+		f := resultType.Field(k)
+		switch f.Type.Kind() {
+		case reflect.Float64, reflect.Int, reflect.Bool, reflect.String:
+		default:
+			panic(fmt.Sprintf("points: fixedpoint.Result.%s has a type (%s) the packing does not carry", f.Name, f.Type))
 		}
+		out[k] = column{name: f.Name, index: k, kind: f.Type.Kind()}
 	}
-	walk(resultType, "", nil)
 	return out
 }()
-
-// skipLeaf reports whether name lies under one of the pointer columns in absent.
-func skipLeaf(name string, absent map[string]bool) bool {
-	for prefix := range absent {
-		if strings.HasPrefix(name, prefix+".") {
-			return true
-		}
-	}
-	return false
-}
-
-// at returns the leaf of c in r (a settable Result). A nil pointer on the way gives the
-// invalid Value when alloc is false, and is allocated when alloc is true.
-func (c column) at(r reflect.Value, alloc bool) reflect.Value {
-	v := r
-	for depth, k := range c.path {
-		v = v.Field(k)
-		if v.Kind() == reflect.Pointer && !(c.kind == reflect.Pointer && depth == len(c.path)-1) {
-			if v.IsNil() {
-				if !alloc {
-					return reflect.Value{}
-				}
-				v.Set(reflect.New(v.Type().Elem()))
-			}
-			v = v.Elem()
-		}
-	}
-	return v
-}
 
 func packFloats(n int, at func(i int) float64) []byte {
 	b := make([]byte, 8*n)
@@ -131,49 +86,32 @@ func (p Points) MarshalJSON() ([]byte, error) {
 			break
 		}
 	}
-	absent := map[string]bool{} // pointer columns nil at every point: their leaves stay home
 	for _, c := range resultColumns {
-		if skipLeaf(c.name, absent) {
-			continue
-		}
-		col := func(i int) reflect.Value { return c.at(reflect.ValueOf(&p[i].Result).Elem(), false) }
+		col := func(i int) reflect.Value { return reflect.ValueOf(&p[i].Result).Elem().Field(c.index) }
 		var raw []byte
 		var err error
 		switch c.kind {
 		case reflect.Float64:
-			raw, err = json.Marshal(packFloats(n, func(i int) float64 {
-				if v := col(i); v.IsValid() {
-					return v.Float()
-				}
-				return 0
-			}))
+			raw, err = json.Marshal(packFloats(n, func(i int) float64 { return col(i).Float() }))
 		case reflect.Int:
 			v := make([]int64, n)
 			for i := range v {
-				if x := col(i); x.IsValid() {
-					v[i] = x.Int()
-				}
+				v[i] = col(i).Int()
 			}
 			raw, err = json.Marshal(v)
-		case reflect.Bool, reflect.Pointer:
+		case reflect.Bool:
 			v := make([]byte, n)
 			for i := range v {
 				v[i] = '0'
-				x := col(i)
-				if x.IsValid() && ((c.kind == reflect.Bool && x.Bool()) || (c.kind == reflect.Pointer && !x.IsNil())) {
+				if col(i).Bool() {
 					v[i] = '1'
 				}
-			}
-			if c.kind == reflect.Pointer && !strings.Contains(string(v), "1") {
-				absent[c.name] = true
 			}
 			raw, err = json.Marshal(string(v))
 		case reflect.String:
 			v := make([]string, n)
 			for i := range v {
-				if x := col(i); x.IsValid() {
-					v[i] = x.String()
-				}
+				v[i] = col(i).String()
 			}
 			raw, err = json.Marshal(v)
 		}
@@ -214,22 +152,12 @@ func (p *Points) UnmarshalJSON(b []byte) error {
 			out[i].Failed = in.Failed[i]
 		}
 	}
-	present := map[string]string{} // presence flags of pointer columns, by name
 	for _, c := range resultColumns {
 		raw, ok := in.Result[c.name]
 		if !ok {
 			continue
 		}
-		// A leaf under a pointer is set only where the pointer's flag says it is present.
-		skip := func(i int) bool {
-			for prefix, flags := range present {
-				if strings.HasPrefix(c.name, prefix+".") && flags[i] != '1' {
-					return true
-				}
-			}
-			return false
-		}
-		col := func(i int) reflect.Value { return c.at(reflect.ValueOf(&out[i].Result).Elem(), true) }
+		col := func(i int) reflect.Value { return reflect.ValueOf(&out[i].Result).Elem().Field(c.index) }
 		switch c.kind {
 		case reflect.Float64:
 			var bs []byte
@@ -241,9 +169,7 @@ func (p *Points) UnmarshalJSON(b []byte) error {
 				return err
 			}
 			for i := range out {
-				if !skip(i) {
-					col(i).SetFloat(v[i])
-				}
+				col(i).SetFloat(v[i])
 			}
 		case reflect.Int:
 			var v []int64
@@ -251,23 +177,15 @@ func (p *Points) UnmarshalJSON(b []byte) error {
 				return fmt.Errorf("points: column %s: want %d integers", c.name, in.N)
 			}
 			for i := range out {
-				if !skip(i) {
-					col(i).SetInt(v[i])
-				}
+				col(i).SetInt(v[i])
 			}
-		case reflect.Bool, reflect.Pointer:
+		case reflect.Bool:
 			var v string
 			if err := json.Unmarshal(raw, &v); err != nil || len(v) != in.N {
 				return fmt.Errorf("points: column %s: want %d flags", c.name, in.N)
 			}
-			if c.kind == reflect.Pointer {
-				present[c.name] = v
-				continue
-			}
 			for i := range out {
-				if !skip(i) {
-					col(i).SetBool(v[i] == '1')
-				}
+				col(i).SetBool(v[i] == '1')
 			}
 		case reflect.String:
 			var v []string
@@ -275,9 +193,7 @@ func (p *Points) UnmarshalJSON(b []byte) error {
 				return fmt.Errorf("points: column %s: want %d texts", c.name, in.N)
 			}
 			for i := range out {
-				if !skip(i) {
-					col(i).SetString(v[i])
-				}
+				col(i).SetString(v[i])
 			}
 		}
 	}

@@ -98,8 +98,7 @@ func TestPointsPackedRoundTrip(t *testing.T) {
 	in := Points{
 		{X: 0.1, Y: 2, Result: fixedpoint.Result{MSE: 0.3, NMSEdB: math.Inf(-1), NonZero: math.NaN(), Iterations: 12, Converged: true}},
 		{X: 0.2, Y: 2, Failed: "penalty.l1: no fixed point", Result: fixedpoint.Result{MSE: math.NaN(), Residual: 1e-3}},
-		{X: 0.3, Y: 2, Result: fixedpoint.Result{MSE: 0.2, GLM: &fixedpoint.GLMObservables{Exists: true, Cosine: 0.9,
-			TestError: math.NaN(), ExistsReason: "x", State: fixedpoint.GLMState{SigZ: 2}}}},
+		{X: 0.3, Y: 2, Result: fixedpoint.Result{MSE: 0.2, GLM: true, Labels: true, Cosine: 0.9, TestError: math.NaN(), Note: "a note"}},
 	}
 	b, err := json.Marshal(in)
 	if err != nil {
@@ -117,9 +116,6 @@ func TestPointsPackedRoundTrip(t *testing.T) {
 		for k := range a.NumField() {
 			fa, fc := a.Field(k), c.Field(k)
 			ok := fa.Interface() == fc.Interface()
-			if fa.Kind() == reflect.Pointer {
-				ok = sprint(fa.Interface()) == sprint(fc.Interface())
-			}
 			if fa.Kind() == reflect.Float64 {
 				ok = same(fa.Float(), fc.Float())
 			}
@@ -131,10 +127,11 @@ func TestPointsPackedRoundTrip(t *testing.T) {
 			t.Errorf("point %d: %+v read back as %+v", i, in[i], out[i])
 		}
 	}
-	// A cell costs a fixed number of bytes, not a JSON object of named numbers.
+	// A cell costs a fixed number of bytes, not a JSON object of named numbers (about 11
+	// bytes per number of fixedpoint.Result, which now includes the generalized model's).
 	big := make(Points, 10000)
 	bb, _ := json.Marshal(big)
-	if per := len(bb) / len(big); per > 160 {
+	if per := len(bb) / len(big); per > 240 {
 		t.Errorf("%d bytes a cell packed", per)
 	}
 	bad := strings.Replace(string(b), `"n":3`, `"n":4`, 1)

@@ -79,6 +79,16 @@ func (c *Assumptions) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 			{
 				vgparent := vgn
 				_ = vgparent
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "The noise is Gaussian and the fit is least squares, unless the Noise law, Readout and Loss groups say otherwise. A sign, quantized or logistic readout loses the scale of x0: then the cosine and the test error are the figures to read. A classification loss (logistic, hinge) needs labels, and with no penalty separable labels have no finite estimate, so no error is shown."}
+				vgparent.AppendChild(vgn)
+			}
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "li", Attr: []vugu.VGAttribute(nil)}
+			vgparent.AppendChild(vgn)
+			{
+				vgparent := vgn
+				_ = vgparent
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "The figures are large-size limits: the number of unknowns and of measurements grow together at the stated ratio. Small problems scatter around them."}
 				vgparent.AppendChild(vgn)
 			}

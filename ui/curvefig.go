@@ -479,7 +479,10 @@ func modelPaths(m *Model) []scenario.PathInfo {
 	if m == nil {
 		return nil
 	}
-	key := m.Kind("design") + "|" + m.Kind("signal") + "|" + m.Kind("penalty") + "|" + m.Scale
+	key := m.Scale
+	for _, g := range Groups() {
+		key += "|" + m.Kind(g.Name)
+	}
 	if key == pathCache.key && pathCache.paths != nil {
 		return pathCache.paths
 	}

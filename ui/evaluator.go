@@ -15,13 +15,18 @@ type Figures struct {
 	Converged       bool    `json:"converged"`
 	Iterations      int     `json:"iterations"`
 	EstimateZero    bool    `json:"estimate_zero"` // the penalty sets the whole estimate to zero
+	// The generalized model's figures (method.md section 10), when GLM is set.
+	GLM       bool    `json:"glm,omitempty"`
+	Labels    bool    `json:"labels,omitempty"` // the readout gives labels: TestError applies
+	Cosine    float64 `json:"cosine,omitempty"`
+	TestError float64 `json:"test_error,omitempty"`
 }
 
 // FiguresOf names the engine's figures as `hdrisk eval` prints them.
 func FiguresOf(r fixedpoint.Result) Figures {
 	return Figures{MSE: r.MSE, NMSEdB: r.NMSEdB, Susceptibility: r.Susceptibility, NonzeroFraction: r.NonZero,
 		TPP: r.TPP, FDP: r.FDP, TrainError: r.TrainError, Converged: r.Converged, Iterations: r.Iterations,
-		EstimateZero: r.EstimateZero}
+		EstimateZero: r.EstimateZero, GLM: r.GLM, Labels: r.Labels, Cosine: r.Cosine, TestError: r.TestError}
 }
 
 // Evaluator computes the figures of a scenario (contract 1 JSON) away from the page's render

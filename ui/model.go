@@ -40,6 +40,7 @@ type Kind struct {
 type Group struct {
 	Name    string  // JSON object name
 	Title   string  // heading on the page
+	Object  string  // JSON object of the group's numbers when it is not Name ("noise" for the noise law)
 	KindKey string  // JSON key naming the kind ("shape", "law", "kind"); empty if none is written
 	Menu    string  // label of the group's menu; empty if the group has none
 	Kinds   []Kind  // menu; empty if the group has no kinds
@@ -210,7 +211,7 @@ func buildGroups() []Group {
 	for _, k := range penalty.Kinds() {
 		pen.Kinds = append(pen.Kinds, newKind("penalty", k.Name, k.Help, k.Params))
 	}
-	return []Group{d, x, n, pen}
+	return append([]Group{d, x, n, noiseLawGroup(), pen}, glmGroups()...)
 }
 
 func newKind(group, name, help string, ps []param.Param) Kind {
@@ -302,6 +303,7 @@ func (m *Model) SetKind(g, kind string) error {
 		return fmt.Errorf("%s.%s: unknown choice %q", g, key, kind)
 	}
 	m.kinds[g] = kind
+	pairLabels(m.kinds, g)
 	return nil
 }
 
@@ -327,6 +329,9 @@ type Field struct {
 
 // Fields returns the inputs of group g for its chosen kind: the common ones first.
 func (m *Model) Fields(g string) []Field {
+	if noiseless(m.kinds, g) {
+		return nil
+	}
 	grp, _ := FindGroup(g)
 	var out []Field
 	add := func(kind string, p Param) {
@@ -339,7 +344,11 @@ func (m *Model) Fields(g string) []Field {
 		if kind != "" && grp.KindKey != "" {
 			id = "in-" + g + "-" + kind + "-" + p.Name
 		}
-		out = append(out, Field{ID: id, Path: g + "." + p.Name, Text: text, Param: p, key: key})
+		obj := g
+		if grp.Object != "" {
+			obj = grp.Object
+		}
+		out = append(out, Field{ID: id, Path: obj + "." + p.Name, Text: text, Param: p, key: key})
 	}
 	for _, p := range grp.Common {
 		add("", p)
@@ -373,7 +382,10 @@ func (m *Model) Load(s scenario.Scenario) error {
 	if s.Noise.SNR {
 		noise = "snr_db"
 	}
-	kinds := map[string]string{"design": s.Design.Shape, "signal": s.Signal.Law, "noise": noise, "penalty": s.Penalty.Kind}
+	kinds := glmKinds(s)
+	for g, k := range map[string]string{"design": s.Design.Shape, "signal": s.Signal.Law, "noise": noise, "penalty": s.Penalty.Kind} {
+		kinds[g] = k
+	}
 	for g, k := range kinds {
 		grp, _ := FindGroup(g)
 		if _, ok := grp.kind(k); !ok {
@@ -395,6 +407,9 @@ func (m *Model) Load(s scenario.Scenario) error {
 	}
 	params := map[string]map[string]float64{"design": s.Design.Params, "signal": s.Signal.Params, "penalty": s.Penalty.Params,
 		"noise": {"variance": s.Noise.Variance, "snr_db": s.Noise.SNRdB}}
+	for g, p := range glmParams(s) {
+		params[g] = p
+	}
 	lists := map[string]map[string][]float64{"design": s.Design.Lists, "signal": s.Signal.Lists}
 	params["design"] = mergeAlpha(s.Design.Params, s.Design.Alpha)
 	for _, g := range Groups() {
@@ -447,6 +462,7 @@ func (m *Model) Check() Checked {
 		Design:  scenario.Design{Shape: m.kinds["design"], Scale: m.Scale},
 		Signal:  scenario.Signal{Law: m.kinds["signal"]},
 		Penalty: scenario.Penalty{Kind: m.kinds["penalty"]}}
+	setGLMChoices(&s, m.kinds)
 	var first error
 	for _, g := range Groups() {
 		for _, f := range m.Fields(g.Name) {
@@ -529,15 +545,17 @@ func setValue(s *scenario.Scenario, group, name string, num float64, list []floa
 		s.Signal.Params[name] = num
 	case "noise":
 		if name == "snr_db" {
-			s.Noise = scenario.Noise{SNRdB: num, SNR: true}
+			s.Noise = scenario.Noise{SNRdB: num, SNR: true, Law: s.Noise.Law}
 		} else {
-			s.Noise = scenario.Noise{Variance: num}
+			s.Noise = scenario.Noise{Variance: num, Law: s.Noise.Law}
 		}
 	case "penalty":
 		if s.Penalty.Params == nil {
 			s.Penalty.Params = map[string]float64{}
 		}
 		s.Penalty.Params[name] = num
+	default:
+		setGLMValue(s, group, name, num)
 	}
 }
 

@@ -27,7 +27,10 @@ func (k *pathChoices) of(m *Model) []pathChoice {
 	if paths == nil {
 		return k.list
 	}
-	key := m.Kind("design") + "|" + m.Kind("signal") + "|" + m.Kind("noise") + "|" + m.Kind("penalty") + "|" + m.Scale
+	key := m.Scale
+	for _, g := range Groups() {
+		key += "|" + m.Kind(g.Name)
+	}
 	if key == k.key && k.list != nil {
 		return k.list
 	}

@@ -72,9 +72,19 @@ func (c *Results) rows() []row {
 	if !f.Converged {
 		conv.Kind = "warning"
 	}
-	return []row{
+	head := []row{
 		num("mse", "Mean squared error", f.MSE, "per entry, in x0²", "(1/n)‖x̂ − x0‖² in the large-size limit"),
 		nmse,
+	}
+	if f.GLM {
+		head = append(head, num("cosine", "Cosine with x0", f.Cosine, "⟨x̂, x0⟩ / (‖x̂‖ ‖x0‖)",
+			"the alignment of the estimate with the signal, the figure to read when the readout loses the scale"))
+	}
+	if f.Labels {
+		head = append(head, num("test_error", "Test error", f.TestError, "share of fresh labels",
+			"the probability that the sign of a fresh row's prediction differs from its fresh label"))
+	}
+	return append(head, []row{
 		nz,
 		support(num("tpp", "True positives", f.TPP, "of nonzero x0 found", "P(x̂ ≠ 0 | x0 ≠ 0): the share of nonzero entries of x0 that the estimate keeps")),
 		support(num("fdp", "False discoveries", f.FDP, "of nonzero estimates", "P(x0 = 0 | x̂ ≠ 0): the share of nonzero estimates that are wrong")),
@@ -84,5 +94,5 @@ func (c *Results) rows() []row {
 		{Name: "iterations", Label: "Iterations", Value: strconv.Itoa(f.Iterations), Shown: strconv.Itoa(f.Iterations),
 			Unit: "of the fixed point", Help: "iterations the solver took", Applies: "true", Kind: "number"},
 		flag("estimate_zero", "Estimate is zero", f.EstimateZero, "yes", "no", "the penalty sets every entry to zero"),
-	}
+	}...)
 }

@@ -9,7 +9,7 @@ import "hdrisk/engine/design"
 //
 // Special cases are: m or n below 1 and a length other than min(m, n) are a *ParamError
 // of this package; values that design.EmpiricalSV refuses (negative, NaN, Inf, all zero,
-// more than design.MaxValues) give its *design.ParamError.
+// more than design.MaxValues) give its *param.Error.
 func EmpiricalDesign(sv []float64, m, n int, s design.Scale) (design.Law, error) {
 	switch {
 	case m < 1:

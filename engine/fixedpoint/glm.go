@@ -29,20 +29,11 @@ type GLM struct {
 // side's backward message p2 = MuZ z0 + N(0, SigZ) at precision G2Z.
 type GLMState struct{ G1, T1, G2Z, SigZ, MuZ float64 }
 
-// GLMObservables are the observables of a generalized linear model beyond Result's
-// (method.md section 10). When Exists is false there is no unique finite minimizer,
-// ExistsReason says why, and the Result carries no error figure.
-type GLMObservables struct {
-	Exists       bool
-	ExistsReason string
-	Cosine       float64 // lim <xhat, x0> / (|xhat| |x0|)
-	NormRatio    float64 // lim |xhat| / |x0|
-	Labels       bool    // the readout gives labels, so that TestError and TrainMisfit apply
-	TestError    float64 // P(sign of a fresh row's prediction != its fresh label)
-	TrainMisfit  float64 // fraction of training labels that sign(F xhat) gets wrong
-	TrainLoss    float64 // (1/m) sum_mu L(y_mu, (F xhat)_mu)
-	State        GLMState
-}
+// NoMinimizerError reports a generalized model whose estimate has no unique finite
+// minimizer (method.md section 10), so that no error figure exists.
+type NoMinimizerError struct{ Reason string }
+
+func (e *NoMinimizerError) Error() string { return "no finite minimizer: " + e.Reason }
 
 // SolveGLM iterates the state evolution of VAMP for generalized linear models in its MAP form
 // (Schniter, Rangan & Fletcher 2016, "Vector approximate message passing for the generalized
@@ -54,8 +45,8 @@ type GLMObservables struct {
 // described by outSide. Special cases are: a label loss (logistic, hinge) with a readout
 // that does not give labels +-1, and the logistic readout with noise, are input errors; with
 // a label loss and a zero penalty, an iteration that runs off means separable labels, and
-// Exists is false; with a zero penalty and fewer measurements than unknowns (F^T F singular)
-// there is no unique minimizer and Exists is false.
+// with a zero penalty and fewer measurements than unknowns (F^T F singular) the minimizer
+// is not unique: both give a *NoMinimizerError with the reason.
 func SolveGLM(p GLM, o Options) (Result, error) {
 	if p.Design == nil || p.Signal == nil || p.Penalty == nil || p.Readout == nil || p.Loss == nil {
 		return Result{}, fmt.Errorf("%w: design, signal, penalty, readout and loss are all needed", ErrInput)
@@ -90,14 +81,25 @@ func SolveGLM(p GLM, o Options) (Result, error) {
 	}
 	s := glmSolver{p: p, o: o, rho2: rho2, out: out, zeroPen: zeroPenalty(p.Penalty)}
 	if s.zeroPen && p.Design.Atom0() > 0 {
-		return s.absent("no penalty and fewer independent measurements than unknowns (F^T F is singular): the minimizer is not unique"), nil
+		return Result{}, s.absent("no penalty and fewer independent measurements than unknowns (F^T F is singular): the minimizer is not unique")
 	}
-	r, err := s.run(s.coldStart())
-	if err == nil && r.Converged {
-		return r, nil
+	// Solve's two cold starts, and one more with a larger g1: a start whose g1 is too small
+	// for the design's reach (S1(g) = g2z A/g1 beyond S1(0)) puts g on the boundary 0.
+	var r Result
+	var err error
+	for _, f := range [...]float64{1, 4, 100} {
+		st := s.coldStart()
+		st.G1 *= f
+		r, err = s.run(st)
+		if err == nil && r.Converged {
+			return r, nil
+		}
+		if err == nil || !errors.Is(err, errRunOff) || r.Iterations > 1 {
+			break
+		}
 	}
 	if s.zeroPen && p.Loss.Labels() && errors.Is(err, errRunOff) {
-		return s.absent("the training labels are linearly separable (the iteration runs off to an estimate of unbounded norm): with the " + p.Loss.Name() + " loss and no penalty there is no finite minimizer"), nil
+		return Result{}, s.absent("the training labels are linearly separable (the iteration runs off to an estimate of unbounded norm): with the " + p.Loss.Name() + " loss and no penalty there is no finite minimizer")
 	}
 	return r, err
 }
@@ -121,9 +123,7 @@ type glmSolver struct {
 	zeroPen bool
 }
 
-func (s *glmSolver) absent(reason string) Result {
-	return Result{Converged: true, GLM: &GLMObservables{Exists: false, ExistsReason: reason, Labels: s.p.Readout.Labels()}}
-}
+func (s *glmSolver) absent(reason string) error { return &NoMinimizerError{Reason: reason} }
 
 // coldStart starts from the scale of the problem: the input side as in Solve, the backward
 // message of a readout with labels at the labels' own scale (the noise inside a sign says
@@ -172,7 +172,11 @@ func (s *glmSolver) apply(st GLMState, near float64) (glmImage, error) {
 		law = newScaledLaw(p.Signal, st.MuZ)
 	}
 	m := signal.Expect(law, p.Penalty, st.G1, st.T1)
-	a := math.Max(m.A, zeroA)
+	if m.A < zeroA {
+		// The estimate is zero: the output side has nothing to fit, and run reports it.
+		return glmImage{m: m, next: st}, nil
+	}
+	a := m.A
 	g, err := invertS1(p.Design, st.G2Z*a/st.G1, near)
 	if err != nil {
 		return glmImage{}, err
@@ -291,36 +295,35 @@ func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) 
 		return Result{}, err
 	}
 	m := im.m
-	r.GLM = &GLMObservables{Exists: true, Labels: p.Readout.Labels()}
-	r.GLM.State = st
+	r.GLM, r.Labels = true, p.Readout.Labels()
 	r.G1, r.T1, r.G2 = st.G1, st.T1, im.g*st.G2Z
 	r.Susceptibility = m.A / st.G1
 	ov := im.ov
-	if !r.GLM.Labels {
+	if !r.Labels {
 		ov = overlap(p.Signal, p.Penalty, st.MuZ, st.G1, st.T1)
 	}
 	mu := st.MuZ
 	// m.MSE is E[(xhat - mu x0)^2]; xhat - x0 = (xhat - mu x0) + (mu - 1) x0.
 	r.MSE = m.MSE + 2*(mu-1)*ov + (mu-1)*(mu-1)*s.rho2
-	if !r.GLM.Labels {
+	if !r.Labels {
 		r.MSE = m.MSE
 	}
 	r.MSE = math.Max(r.MSE, 0)
 	q := math.Max(m.MSE+2*mu*ov+mu*mu*s.rho2, 0) // E[xhat^2]
 	c := ov + mu*s.rho2                          // E[xhat x0]
 	if q > 0 {
-		r.GLM.Cosine = c / math.Sqrt(q*s.rho2)
+		r.Cosine = c / math.Sqrt(q*s.rho2)
 	}
-	r.GLM.NormRatio = math.Sqrt(q / s.rho2)
+	r.NormRatio = math.Sqrt(q / s.rho2)
 	fill(&r, m, s.rho2)
 	r.TrainError = im.om.trainErr
-	r.GLM.TrainLoss = im.om.trainLoss
-	if r.GLM.Labels {
-		r.GLM.TrainMisfit = im.om.misfit
+	r.TrainLoss = im.om.trainLoss
+	if r.Labels {
+		r.TrainMisfit = im.om.misfit
 		k := p.Design.Mean() / p.Design.Alpha()
-		r.GLM.TestError = s.out.testError(k*q, k*c)
+		r.TestError = s.out.testError(k*q, k*c)
 	}
-	if !finiteAll(r.MSE, r.TrainError, r.GLM.TrainLoss, r.GLM.Cosine, r.GLM.NormRatio, r.GLM.TestError) {
+	if !finiteAll(r.MSE, r.TrainError, r.TrainLoss, r.Cosine, r.NormRatio, r.TestError) {
 		return Result{}, errRunOff
 	}
 	return r, nil
@@ -328,17 +331,17 @@ func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) 
 
 func (s *glmSolver) zeroResult(it int, st GLMState, im glmImage) Result {
 	r := Result{G1: st.G1, T1: st.T1, Iterations: it, Converged: true, EstimateZero: true, MSE: s.rho2,
-		GLM: &GLMObservables{Exists: true, Labels: s.p.Readout.Labels(), State: st}}
+		GLM: true, Labels: s.p.Readout.Labels()}
 	fill(&r, signal.Moments{MSE: s.rho2, Active: im.m.Active}, s.rho2)
-	r.GLM.NormRatio = 0
-	if r.GLM.Labels {
-		r.GLM.TestError = 0.5
-		r.GLM.TrainMisfit = math.NaN()
+	r.NormRatio = 0
+	if r.Labels {
+		r.TestError = 0.5
+		r.TrainMisfit = math.NaN()
 	}
 	om := s.out.trainAtZero()
-	r.TrainError, r.GLM.TrainLoss = om.trainErr, om.trainLoss
-	if r.GLM.Labels {
-		r.GLM.TrainMisfit = om.misfit
+	r.TrainError, r.TrainLoss = om.trainErr, om.trainLoss
+	if r.Labels {
+		r.TrainMisfit = om.misfit
 	}
 	return r
 }

@@ -146,36 +146,52 @@ func (o *outSide) labelProb(m, s float64, py, zy []float64) {
 		zy[0] = m*(1-p) - s*d
 		return
 	}
-	// Cells of z0 + w: for the noise component N(0, V), z0 + w ~ N(m, s + V).
+	// Cells of z0 + w: for the noise component N(0, V), z0 + w ~ N(m, s + V). Each cut's
+	// standard normal tail comes from one erfc on its own side, shared by the two cells it
+	// bounds, and a cell is a difference of tails on one side only, so that a cell far out
+	// keeps its relative accuracy.
 	for j := range py {
 		py[j], zy[j] = 0, 0
 	}
 	for _, k := range o.nz {
 		sd := math.Sqrt(s + k.Var)
-		lo := math.Inf(-1)
+		// lower, upper: P(Z < a), P(Z >= a) at the cell's lower end a; dens: phi(a)/sd.
+		loA, loLow, loUp, loDens := math.Inf(-1), 0.0, 1.0, 0.0
 		for j := range o.levels {
-			hi := math.Inf(1)
+			var hiA, hiLow, hiUp, hiDens float64
 			if j < len(o.cuts) {
-				hi = o.cuts[j]
-			}
-			var cell, dens float64
-			if sd == 0 {
-				if m >= lo && m < hi {
-					cell = 1
+				if sd == 0 {
+					hiA = math.Copysign(math.Inf(1), o.cuts[j]-m)
+					if o.cuts[j] == m {
+						hiA = 0
+					}
+				} else {
+					hiA = (o.cuts[j] - m) / sd
+				}
+				q := math.Erfc(math.Abs(hiA)/math.Sqrt2) / 2
+				if hiA < 0 {
+					hiLow, hiUp = q, 1-q
+				} else {
+					hiLow, hiUp = 1-q, q
+				}
+				if sd > 0 {
+					hiDens = normPDF(hiA) / sd
 				}
 			} else {
-				a, b := (lo-m)/sd, (hi-m)/sd
-				cell = normCell(a, b)
-				if !math.IsInf(a, 0) {
-					dens += normPDF(a) / sd
-				}
-				if !math.IsInf(b, 0) {
-					dens -= normPDF(b) / sd
-				}
+				hiA, hiLow, hiUp = math.Inf(1), 1, 0
+			}
+			var cell float64
+			switch {
+			case hiA <= 0:
+				cell = hiLow - loLow
+			case loA >= 0:
+				cell = loUp - hiUp
+			default:
+				cell = 1 - loLow - hiUp
 			}
 			py[j] += k.Weight * cell
-			zy[j] += k.Weight * (m*cell + s*dens)
-			lo = hi
+			zy[j] += k.Weight * (m*cell + s*(loDens-hiDens))
+			loA, loLow, loUp, loDens = hiA, hiLow, hiUp, hiDens
 		}
 	}
 }

@@ -76,8 +76,15 @@ type Result struct {
 	Floor bool
 	// Note says in plain words which limit or special case applies, if any.
 	Note string
-	// GLM holds the generalized model's own observables (SolveGLM); nil from Solve.
-	GLM *GLMObservables
+
+	// Set by SolveGLM only (method.md section 10); zero from Solve.
+	GLM         bool    // solved as a generalized linear model
+	Labels      bool    // the readout gives labels: TestError and TrainMisfit apply
+	Cosine      float64 // lim <xhat, x0> / (|xhat| |x0|)
+	NormRatio   float64 // lim |xhat| / |x0|
+	TestError   float64 // P(sign of a fresh row's prediction != its fresh label)
+	TrainMisfit float64 // fraction of training labels that sign(F xhat) gets wrong
+	TrainLoss   float64 // (1/m) sum_mu L(y_mu, (F xhat)_mu)
 }
 
 // State returns the fixed point as a warm start for a neighbouring problem.

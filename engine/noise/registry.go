@@ -1,21 +1,12 @@
 package noise
 
 import (
-	"hdrisk/engine/param"
-	"maps"
 	"math"
 	"slices"
 	"strings"
-)
 
-// Param describes one parameter of a law beyond the shared "variance".
-type Param struct {
-	Name             string
-	Unit             string
-	Min, Max         float64
-	MinOpen, MaxOpen bool
-	Help             string
-}
+	"hdrisk/engine/param"
+)
 
 // Kind describes one law of the registry.
 type Kind struct {
@@ -63,20 +54,13 @@ func New(kind string, variance float64, params map[string]float64) (Law, error) 
 	names := make([]string, len(kinds))
 	for i, k := range kinds {
 		names[i] = k.Name
-		if k.Name != kind {
-			continue
-		}
-		for _, p := range k.Params {
-			if _, ok := params[p.Name]; !ok {
-				return nil, param.Errorf(p.Name, "missing (law %s needs it)", kind)
+		if k.Name == kind {
+			v, _, err := param.Gather("law "+kind, k.Params, params, nil)
+			if err != nil {
+				return nil, err
 			}
+			return k.build(variance, v)
 		}
-		for _, name := range slices.Sorted(maps.Keys(params)) {
-			if !slices.ContainsFunc(k.Params, func(p param.Param) bool { return p.Name == name }) {
-				return nil, param.Errorf(name, "not a parameter of law %s", kind)
-			}
-		}
-		return k.build(variance, params)
 	}
 	return nil, param.Errorf("law", "unknown law %q (known: %s)", kind, strings.Join(names, ", "))
 }

@@ -1,11 +1,11 @@
 package readout
 
 import (
-	"hdrisk/engine/param"
-	"maps"
 	"math"
 	"slices"
 	"strings"
+
+	"hdrisk/engine/param"
 )
 
 // Kind describes one readout of the registry.
@@ -55,20 +55,13 @@ func New(kind string, params map[string]float64) (Readout, error) {
 	names := make([]string, len(kinds))
 	for i, k := range kinds {
 		names[i] = k.Name
-		if k.Name != kind {
-			continue
-		}
-		for _, p := range k.Params {
-			if _, ok := params[p.Name]; !ok {
-				return nil, param.Errorf(p.Name, "missing (readout %s needs it)", kind)
+		if k.Name == kind {
+			v, _, err := param.Gather("readout "+kind, k.Params, params, nil)
+			if err != nil {
+				return nil, err
 			}
+			return k.build(v)
 		}
-		for _, name := range slices.Sorted(maps.Keys(params)) {
-			if !slices.ContainsFunc(k.Params, func(p param.Param) bool { return p.Name == name }) {
-				return nil, param.Errorf(name, "not a parameter of readout %s", kind)
-			}
-		}
-		return k.build(params)
 	}
 	return nil, param.Errorf("kind", "unknown readout %q (known: %s)", kind, strings.Join(names, ", "))
 }

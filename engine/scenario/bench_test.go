@@ -88,3 +88,46 @@ func BenchmarkDecodeLinkHostile(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkOwnSpectrumCheck is what the page pays per edit of a scenario on a 100000-value
+// own spectrum: "check" is Scenario.Check, "encode" Scenario.Encode (which checks again),
+// "checked-encode" writing the file from the Checked, "checked-link" finding that it is too
+// long for a link.
+func BenchmarkOwnSpectrumCheck(b *testing.B) {
+	s := baseScenario(b)
+	vals := make([]float64, 100000)
+	for i := range vals {
+		vals[i] = 0.2 + 1.8*float64(i)/float64(len(vals)-1)
+	}
+	s.Design = Design{Shape: "empirical-sv", Alpha: 0.6, Scale: ScaleRows, Lists: map[string][]float64{"values": vals}}
+	c, err := s.Check()
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.Run("check", func(b *testing.B) {
+		for b.Loop() {
+			if _, err := s.Check(); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("encode", func(b *testing.B) {
+		for b.Loop() {
+			if _, err := s.Encode(); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("checked-encode", func(b *testing.B) {
+		for b.Loop() {
+			c.Encode()
+		}
+	})
+	b.Run("checked-link", func(b *testing.B) {
+		for b.Loop() {
+			if _, err := c.EncodeLink(MaxLinkLen); err == nil {
+				b.Fatal("a link of 100000 numbers was accepted")
+			}
+		}
+	})
+}

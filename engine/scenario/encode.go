@@ -3,15 +3,16 @@ package scenario
 import (
 	"bytes"
 	"encoding/json"
+	"math"
 	"strconv"
 )
 
-// node is a JSON value in canonical order: an object (keys in order), a list, or a
-// literal already rendered.
+// node is a JSON value in canonical order: an object (keys in order), a list of numbers,
+// or a literal already rendered.
 type node struct {
 	keys []string
 	vals []node
-	list []node
+	nums []float64 // a list of numbers, written as flt writes each
 	lit  string
 	kind jkind
 }
@@ -29,22 +30,29 @@ func str(s string) node {
 }
 
 // flt renders a float as encoding/json does (shortest form that reads back exactly).
-func flt(x float64) node {
-	b, _ := json.Marshal(x)
-	return node{kind: jNumber, lit: string(b)}
+func flt(x float64) node { return node{kind: jNumber, lit: string(appendFloat(nil, x))} }
+
+// appendFloat appends x as encoding/json writes a finite float64: the shortest decimal
+// that reads back exactly, in exponent form below 1e-6 and from 1e21 on, with a one-digit
+// negative exponent written without its leading zero ("1e-7", not "1e-07").
+func appendFloat(b []byte, x float64) []byte {
+	format := byte('f')
+	if a := math.Abs(x); a != 0 && (a < 1e-6 || a >= 1e21) {
+		format = 'e'
+	}
+	b = strconv.AppendFloat(b, x, format, -1, 64)
+	if n := len(b); format == 'e' && n >= 4 && b[n-4] == 'e' && b[n-3] == '-' && b[n-2] == '0' {
+		b[n-2] = b[n-1]
+		b = b[:n-1]
+	}
+	return b
 }
 
 func integer(x int64) node { return node{kind: jNumber, lit: strconv.FormatInt(x, 10)} }
 
 func boolean(b bool) node { return node{kind: jBool, lit: strconv.FormatBool(b)} }
 
-func floats(l []float64) node {
-	n := node{kind: jArray}
-	for _, x := range l {
-		n.list = append(n.list, flt(x))
-	}
-	return n
-}
+func floats(l []float64) node { return node{kind: jArray, nums: l} }
 
 func (n node) write(b *bytes.Buffer, indent string, pretty bool) {
 	switch n.kind {
@@ -71,14 +79,16 @@ func (n node) write(b *bytes.Buffer, indent string, pretty bool) {
 		b.WriteByte('}')
 	case jArray:
 		b.WriteByte('[')
-		for i, e := range n.list {
+		var d []byte
+		for i, x := range n.nums {
 			if i > 0 {
 				b.WriteByte(',')
 				if pretty {
 					b.WriteByte(' ')
 				}
 			}
-			e.write(b, indent, pretty)
+			d = appendFloat(d[:0], x)
+			b.Write(d)
 		}
 		b.WriteByte(']')
 	default:

@@ -45,22 +45,48 @@ func EncodeLinkFits(s Scenario, maxLen int) (string, error) {
 func (c Checked) EncodeLink(maxLen int) (string, error) { return linkCode(c.s.compact(), maxLen) }
 
 func linkCode(data []byte, maxLen int) (string, error) {
-	var z bytes.Buffer
+	tooLong := func(length string) error {
+		return &LinkError{Reason: sprintf("the link would be longer than the %d characters that travel safely%s; save the scenario as a file and share the file instead", maxLen, length)}
+	}
+	// Compression stops as soon as its output cannot fit: a large own spectrum would
+	// otherwise be compressed in full (seconds) only to be refused.
+	z := cappedBuffer{max: -1}
+	if maxLen > 0 {
+		z.max = (maxLen - len(LinkPrefix)) * 3 / 4
+	}
 	w, err := flate.NewWriter(&z, flate.BestCompression)
 	if err != nil {
 		return "", &LinkError{Reason: err.Error()}
 	}
-	if _, err := w.Write(data); err != nil {
-		return "", &LinkError{Reason: err.Error()}
+	if _, err = w.Write(data); err == nil {
+		err = w.Close()
 	}
-	if err := w.Close(); err != nil {
+	switch {
+	case err == errCapped:
+		return "", tooLong("")
+	case err != nil:
 		return "", &LinkError{Reason: err.Error()}
 	}
 	code := LinkPrefix + base64.RawURLEncoding.EncodeToString(z.Bytes())
 	if maxLen > 0 && len(code) > maxLen {
-		return "", &LinkError{Reason: sprintf("the link would be %d characters long, more than the %d that travel safely; save the scenario as a file and share the file instead", len(code), maxLen)}
+		return "", tooLong(sprintf(" (%d characters)", len(code)))
 	}
 	return code, nil
+}
+
+var errCapped = errors.New("scenario: link output over its cap")
+
+// cappedBuffer refuses writes beyond max bytes (max < 0: no cap).
+type cappedBuffer struct {
+	bytes.Buffer
+	max int
+}
+
+func (c *cappedBuffer) Write(p []byte) (int, error) {
+	if c.max >= 0 && c.Len()+len(p) > c.max {
+		return 0, errCapped
+	}
+	return c.Buffer.Write(p)
 }
 
 // DecodeLink reads a scenario from a share link: a whole address (everything up to and

@@ -11,7 +11,7 @@ import (
 	"testing"
 )
 
-func baseScenario(t *testing.T) Scenario {
+func baseScenario(t testing.TB) Scenario {
 	t.Helper()
 	s, err := Decode([]byte(base))
 	if err != nil {

@@ -2,6 +2,7 @@ package scenario
 
 import (
 	"bytes"
+	"encoding/json"
 	"math"
 	"math/rand/v2"
 	"reflect"
@@ -202,5 +203,21 @@ func TestRoundTrip(t *testing.T) {
 	want := len(designs().Kinds) + len(signals().Kinds) + len(penalties().Kinds)
 	if len(seen) != want {
 		t.Errorf("covered %d of %d kinds: %v", len(seen), want, seen)
+	}
+}
+
+// Numbers are written as encoding/json writes a float64 (the reference), across the
+// ranges where it switches between plain and exponent form.
+func TestFloatsWrittenAsEncodingJSON(t *testing.T) {
+	r := rand.New(rand.NewPCG(11, 12))
+	xs := []float64{0, 1, -1, 1e-6, 9.999999999999999e-7, 1e21, 1e20, 123456789012345678901, 1e-7, -2.5e-9, 5e-324, math.MaxFloat64, 0.1, 1.0 / 3}
+	for range 2000 {
+		xs = append(xs, math.Copysign(math.Exp(r.NormFloat64()*20), r.Float64()-0.5))
+	}
+	for _, x := range xs {
+		want, _ := json.Marshal(x)
+		if got := appendFloat(nil, x); string(got) != string(want) {
+			t.Errorf("%v written %s, encoding/json writes %s", x, got, want)
+		}
 	}
 }

@@ -15,9 +15,6 @@ func solveGLM(g fixedpoint.GLM, o fixedpoint.Options) Point {
 	if err != nil {
 		return Point{Failed: err.Error()}
 	}
-	if !r.GLM.Exists {
-		return Point{Result: r, Failed: "no finite minimizer: " + r.GLM.ExistsReason}
-	}
 	return Point{Result: r}
 }
 
@@ -25,26 +22,26 @@ func solveGLM(g fixedpoint.GLM, o fixedpoint.Options) Point {
 // order of the CSV columns that follow Observables when a study holds such points; for a
 // point without them (or without labels, for test_error and train_misfit) they are NaN.
 func GLMObservables() []Observable {
-	of := func(f func(*fixedpoint.GLMObservables) float64, labels bool) func(fixedpoint.Result) float64 {
+	of := func(f func(fixedpoint.Result) float64, labels bool) func(fixedpoint.Result) float64 {
 		return func(r fixedpoint.Result) float64 {
-			if r.GLM == nil || (labels && !r.GLM.Labels) {
+			if !r.GLM || (labels && !r.Labels) {
 				return math.NaN()
 			}
-			return f(r.GLM)
+			return f(r)
 		}
 	}
 	return []Observable{
-		{"cosine", "cosine of xhat and x0", of(func(g *fixedpoint.GLMObservables) float64 { return g.Cosine }, false)},
-		{"norm_ratio", "|xhat| / |x0|", of(func(g *fixedpoint.GLMObservables) float64 { return g.NormRatio }, false)},
-		{"test_error", "test error (fresh labels)", of(func(g *fixedpoint.GLMObservables) float64 { return g.TestError }, true)},
-		{"train_misfit", "training labels misfit", of(func(g *fixedpoint.GLMObservables) float64 { return g.TrainMisfit }, true)},
-		{"train_loss", "training loss", of(func(g *fixedpoint.GLMObservables) float64 { return g.TrainLoss }, false)},
+		{"cosine", "cosine of xhat and x0", of(func(g fixedpoint.Result) float64 { return g.Cosine }, false)},
+		{"norm_ratio", "|xhat| / |x0|", of(func(g fixedpoint.Result) float64 { return g.NormRatio }, false)},
+		{"test_error", "test error (fresh labels)", of(func(g fixedpoint.Result) float64 { return g.TestError }, true)},
+		{"train_misfit", "training labels misfit", of(func(g fixedpoint.Result) float64 { return g.TrainMisfit }, true)},
+		{"train_loss", "training loss", of(func(g fixedpoint.Result) float64 { return g.TrainLoss }, false)},
 	}
 }
 
 func anyGLM(pts []Point) bool {
 	for _, p := range pts {
-		if p.Result.GLM != nil {
+		if p.Result.GLM {
 			return true
 		}
 	}

@@ -95,7 +95,7 @@ func (m MapSpec) row(ctx context.Context, by scenario.Binding, xs []float64, y f
 	if yerr == nil {
 		bx, yerr = cy.Bind(m.X.Over)
 	}
-	w := walker{opt: m.Solver}
+	w := walker{opt: m.Solver, extrapolate: true}
 	for i, x := range xs {
 		if err := ctx.Err(); err != nil {
 			return err

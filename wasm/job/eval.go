@@ -22,9 +22,12 @@ func Eval(args protocol.EvalArgs) (fixedpoint.Result, error) {
 	if err != nil {
 		return fixedpoint.Result{}, err
 	}
-	p, err := s.Problem()
+	c, err := s.Check()
 	if err != nil {
 		return fixedpoint.Result{}, err
 	}
-	return fixedpoint.Solve(p, fixedpoint.Options{})
+	if g, ok := c.GLM(); ok {
+		return fixedpoint.SolveGLM(g, fixedpoint.Options{})
+	}
+	return fixedpoint.Solve(c.Problem(), fixedpoint.Options{})
 }

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"io"
 
@@ -51,11 +52,12 @@ func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	} else {
 		r, err = fixedpoint.Solve(c.Problem(), opts)
 	}
+	var nm *fixedpoint.NoMinimizerError
+	if errors.As(err, &nm) {
+		return writeJSON(stdout, absentResult{Exists: false, Reason: nm.Reason})
+	}
 	if err != nil {
 		return err
-	}
-	if r.GLM != nil && !r.GLM.Exists {
-		return writeJSON(stdout, absentResult{Exists: false, Reason: r.GLM.ExistsReason})
 	}
 	return writeJSON(stdout, evalResult{Exists: true, glmFields: glmOutput(r),
 		MSE: number(r.MSE), NMSE: number(r.NMSE), NMSEdB: number(r.NMSEdB),

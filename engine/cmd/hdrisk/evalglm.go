@@ -20,10 +20,10 @@ type absentResult struct {
 }
 
 func glmOutput(r fixedpoint.Result) glmFields {
-	g := r.GLM
-	if g == nil {
+	if !r.GLM {
 		return glmFields{}
 	}
+	g := r
 	p := func(x float64) *number { n := number(x); return &n }
 	f := glmFields{Cosine: p(g.Cosine), NormRatio: p(g.NormRatio), TrainLoss: p(g.TrainLoss)}
 	if g.Labels {

@@ -7,15 +7,19 @@ import (
 	"strings"
 
 	"hdrisk/engine/design"
+	"hdrisk/engine/loss"
+	"hdrisk/engine/noise"
 	"hdrisk/engine/param"
 	"hdrisk/engine/penalty"
+	"hdrisk/engine/readout"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/signal"
 )
 
 // runKinds prints what a scenario file may hold, read from the engine's registries: every
-// design shape, signal law and penalty kind with each parameter's unit, range, role and
-// explanation, so that a kind added to a registry is listed here without an edit.
+// design shape, signal law and penalty kind, and the noise laws, readouts and losses of a
+// generalized linear model, with each parameter's unit, range, role and explanation, so
+// that a kind added to a registry is listed here without an edit.
 func runKinds(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("kinds", flag.ContinueOnError)
 	if pos, err := parseArgs(fs, args); err != nil {
@@ -36,6 +40,19 @@ func runKinds(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	section(&b, "noise", "", nil, []param.Param{scenario.NoiseParam, scenario.SNRParam})
 	section(&b, "penalty", "kind", nil, nil)
 	for _, k := range penalty.Kinds() {
+		kind(&b, k.Name, k.Help, k.Params)
+	}
+	b.WriteString("\nA generalized linear model adds any of these groups (left out: the linear model above):\n")
+	section(&b, "noise", "law", nil, nil)
+	for _, k := range noise.Kinds() {
+		kind(&b, k.Name, k.Help, k.Params)
+	}
+	section(&b, "readout", "kind", nil, nil)
+	for _, k := range readout.Kinds() {
+		kind(&b, k.Name, k.Help, k.Params)
+	}
+	section(&b, "loss", "kind", nil, nil)
+	for _, k := range loss.Kinds() {
 		kind(&b, k.Name, k.Help, k.Params)
 	}
 	b.WriteString("\nA number is set from the command line with --set OBJECT.NAME=VALUE (eval, best, plan, link);\n")

@@ -82,7 +82,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		err := c.run(args[1:], stdin, &out, stderr)
 		switch {
 		case errors.Is(err, flag.ErrHelp):
-			fmt.Fprintf(stdout, "usage: hdrisk %s %s\n%s\n", c.name, c.args, c.summary)
+			fmt.Fprintf(stdout, "usage: hdrisk %s\n%s\n", strings.TrimSpace(c.name+" "+c.args), c.summary)
 			var he *helpError
 			if errors.As(err, &he) && he.flags != "" {
 				fmt.Fprintf(stdout, "\nflags:\n%s", he.flags)
@@ -112,7 +112,7 @@ func usage(w io.Writer) {
 	var b strings.Builder
 	b.WriteString("usage: hdrisk COMMAND [ARGUMENTS]\n\ncommands:\n")
 	for _, c := range commands {
-		fmt.Fprintf(&b, "  %s %s\n      %s\n", c.name, c.args, c.summary)
+		fmt.Fprintf(&b, "  %s\n      %s\n", strings.TrimSpace(c.name+" "+c.args), c.summary)
 	}
 	b.WriteString("\nFILE is a scenario file (JSON); - reads it from standard input.\n")
 	b.WriteString("hdrisk COMMAND --help lists the flags of one command.\n")

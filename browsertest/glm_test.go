@@ -1,0 +1,137 @@
+package browsertest
+
+import (
+	"context"
+	"math"
+	"reflect"
+	"strconv"
+	"testing"
+	"time"
+
+	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/scenario"
+	"hdrisk/engine/study"
+	"hdrisk/ui"
+)
+
+// TestOneBitInPage builds a 1-bit scenario in the editor (a quantizer of one bit), checks its
+// headline figures (cosine and test error among them) against the engine, draws the error
+// over m/n for 1, 2, 3 and 4 bits (one row of the map per bit depth, each a curve over m/n)
+// and compares every cell with the engine's map, then opens the page's link in a fresh
+// browser and finds the same scenario and figures.
+func TestOneBitInPage(t *testing.T) {
+	b, _ := open(t)
+	if state := b.settle(t); state != "ready" {
+		t.Fatalf("data-state=%s: %s", state, b.text(t, ".problem"))
+	}
+	b.cdWorkers(t)
+
+	b.cdChoose(t, "#pick-readout", "quantize")
+	b.typeInto(t, `[data-path="readout.bits"]`, "1")
+	b.typeInto(t, `[data-path="readout.range"]`, "1")
+	if state := b.settle(t); state != "ready" {
+		t.Fatalf("after the edit: data-state=%s: %s", state, b.text(t, ".problem"))
+	}
+	m := ui.NewModel()
+	if err := m.SetKind("readout", "quantize"); err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range m.Fields("readout") {
+		if err := m.SetText(f.ID, "1"); err != nil {
+			t.Fatal(err)
+		}
+	}
+	c := m.Check()
+	if c.Err != nil {
+		t.Fatal(c.Err)
+	}
+	ch, err := c.Scenario.Check()
+	if err != nil {
+		t.Fatal(err)
+	}
+	g, ok := ch.GLM()
+	if !ok {
+		t.Fatal("the 1-bit scenario is not a generalized model")
+	}
+	want, err := fixedpoint.SolveGLM(g, fixedpoint.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	figs := b.figures(t)
+	for name, v := range map[string]float64{"mse": want.MSE, "cosine": want.Cosine, "test_error": want.TestError} {
+		got, err := strconv.ParseFloat(figs[name], 64)
+		if err != nil || math.Abs(got-v) > 1e-12*math.Abs(v) {
+			t.Errorf("%s = %q in the page, %v natively", name, figs[name], v)
+		}
+	}
+
+	// The map: m/n from 0.5 to 4 (8 points) against 1 to 4 bits.
+	b.studyClick(t, "#tab-map")
+	b.studyWait(t, "[data-view=map]", "data-run", 5*time.Second, "idle")
+	b.cdChoose(t, "#map-x-over", "alpha")
+	b.typeInto(t, "#map-x-from", "0.5")
+	b.typeInto(t, "#map-x-to", "4")
+	b.typeInto(t, "#map-x-points", "8")
+	b.cdChoose(t, "#map-y-over", "bits")
+	b.typeInto(t, "#map-y-from", "1")
+	b.typeInto(t, "#map-y-to", "4")
+	b.typeInto(t, "#map-y-points", "4")
+	b.studyClick(t, "#map-run")
+	if got := b.studyWait(t, "[data-view=map]", "data-run", 60*time.Second, "done", "error"); got != "done" {
+		t.Fatalf("the map ended in %s: %s", got, b.text(t, "[data-view=map] .problem"))
+	}
+	b.studyWait(t, "[data-view=map]", "data-figure-seconds", 10*time.Second)
+	if p := b.text(t, "[data-view=map] .problem"); p != "" {
+		t.Fatalf("the map drew with a problem: %s", p)
+	}
+	b.imageShown(t, "#map-figure")
+	grid, err := study.Map(context.Background(), c.Scenario, study.MapSpec{
+		X: study.Axis{Over: "alpha", From: 0.5, To: 4, Points: 8}, Y: study.Axis{Over: "bits", From: 1, To: 4, Points: 4}}, 1, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cells := grid.Cells
+	perBits := map[float64]int{}
+	for _, p := range cells {
+		if p.OK() && p.Result.GLM {
+			perBits[p.Y]++
+		}
+	}
+	for bits := 1.0; bits <= 4; bits++ {
+		if perBits[bits] != 8 {
+			t.Errorf("%g bits: %d of 8 points of its curve solved", bits, perBits[bits])
+		}
+	}
+	lowest := math.Inf(1)
+	for _, p := range cells {
+		if p.OK() {
+			lowest = math.Min(lowest, p.Result.MSE)
+		}
+	}
+	if got, err := strconv.ParseFloat(b.figures(t)["map_lowest_mse"], 64); err != nil || math.Abs(got-lowest) > 1e-9*lowest {
+		t.Errorf("map_lowest_mse %q in the page, %v natively", b.figures(t)["map_lowest_mse"], lowest)
+	}
+
+	// The link, opened again in a fresh browser.
+	b.studyClick(t, "#tab-share")
+	b.shareWait(t, "the share tab", `!document.getElementById("panel-share").hidden`)
+	b.shareWait(t, "the link", `document.getElementById("share-link").value.length > 0`)
+	link := b.shareLink(t)
+	s, err := scenario.DecodeLink(link)
+	if err != nil || s.Readout == nil || s.Readout.Kind != "quantize" || s.Readout.Params["bits"] != 1 {
+		t.Fatalf("the link does not hold the 1-bit readout: %v %+v", err, s.Readout)
+	}
+	fresh, _ := open(t)
+	if state := fresh.shareGoTo(t, link); state != "ready" {
+		t.Fatalf("fresh page: data-state=%s: %s", state, fresh.text(t, ".problem"))
+	}
+	again := fresh.figures(t)
+	for _, name := range []string{"mse", "cosine", "test_error"} {
+		if again[name] != figs[name] {
+			t.Errorf("the reopened link shows %s = %q, the first page %q", name, again[name], figs[name])
+		}
+	}
+	if !reflect.DeepEqual(fresh.studyValue(t, "#pick-readout"), "quantize") {
+		t.Errorf("the reopened page's readout menu shows %q", fresh.studyValue(t, "#pick-readout"))
+	}
+}
