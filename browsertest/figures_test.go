@@ -212,7 +212,7 @@ func TestLongListFromFile(t *testing.T) {
 // TestLargeFiguresInPage runs the long spectrum's 400-point sweep and a map, whose figures
 // are far over the renderer's 16 KB as data: URLs: the page stays alive, every figure shows
 // through a blob: URL, and the PNG the browser draws from the SVG is the figure at 192 dpi
-// with its colours.
+// (two pixels per CSS pixel) with its colours.
 func TestLargeFiguresInPage(t *testing.T) {
 	b, _ := open(t)
 	b.shareSettle(t)
@@ -266,9 +266,10 @@ func TestLargeFiguresInPage(t *testing.T) {
 	}
 	name, data := b.studyDownload(t, dir, "#curve-png")
 	keep(t, "exported-curve.png", data)
+	// A legend too wide to stand beside the data goes under it and makes the figure taller.
 	w, h, orange := pngOf(t, name, data, plot.Palette[0])
-	if name != "hdrisk-curve.png" || w != 1280 || h != 800 || orange < 500 {
-		t.Errorf("%s: %d x %d pixels, %d of the first series' orange; want 1280 x 800 and the curve drawn", name, w, h, orange)
+	if name != "hdrisk-curve.png" || w != 1280 || h < 800 || orange < 500 {
+		t.Errorf("%s: %d x %d pixels, %d of the first series' orange; want 1280 wide, 800 or more high, and the curve drawn", name, w, h, orange)
 	}
 
 	// A map: its SVG holds the heat map as an embedded raster, which the canvas must draw.

@@ -29,13 +29,15 @@ func (b *browser) viewport(t *testing.T, w, h int64) {
 		`new Promise(r=>requestAnimationFrame(()=>requestAnimationFrame(()=>r(innerWidth===%d))))`, w))
 }
 
-// overflow returns "" when the page fits its window's width, else the widest elements.
+// overflow returns "" when the page fits its window's width (scrollWidth <= innerWidth) and
+// nothing lies under a vertical scroll bar (scrollWidth <= clientWidth), else the widest
+// elements.
 func (b *browser) overflow(t *testing.T) string {
 	t.Helper()
-	return b.cdJS(t, `(()=>{const d=document.documentElement;if(d.scrollWidth<=innerWidth)return "";
-		const wide=[...document.querySelectorAll("body *")].filter(e=>e.getBoundingClientRect().right>innerWidth+0.5&&e.offsetParent!==null)
+	return b.cdJS(t, `(()=>{const d=document.documentElement;if(d.scrollWidth<=innerWidth&&d.scrollWidth<=d.clientWidth)return "";
+		const wide=[...document.querySelectorAll("body *")].filter(e=>e.getBoundingClientRect().right>d.clientWidth+0.5&&e.offsetParent!==null)
 			.map(e=>e.tagName.toLowerCase()+(e.id?"#"+e.id:"")+(e.className&&typeof e.className==="string"?"."+e.className.split(" ").join("."):"")+" right "+Math.round(e.getBoundingClientRect().right));
-		return "scrollWidth "+d.scrollWidth+" > innerWidth "+innerWidth+": "+wide.slice(0,8).join("; ")})()`)
+		return "scrollWidth "+d.scrollWidth+", innerWidth "+innerWidth+", clientWidth "+d.clientWidth+": "+wide.slice(0,8).join("; ")})()`)
 }
 
 // covered returns the controls of the shown panel and the tabs that lie in the window but
@@ -60,7 +62,8 @@ func (b *browser) seconds(t *testing.T, view, attr string) float64 {
 	return v
 }
 
-// TestFigureLayoutAndViewports draws a 200-point curve, a 100 x 100 map and a plan, logs
+// TestFigureLayoutAndViewports draws a 200-point curve, a 100 x 100 map and a plan (with its
+// figure of the target), logs
 // the views' own timings, and checks the layout at three window sizes: no tab scrolls
 // sideways, the tabs and controls are clickable wherever the page is scrolled, the figures'
 // text is at least 10 pixels tall, the pointer readout names what it reads (by touch too),
@@ -129,8 +132,9 @@ func TestFigureLayoutAndViewports(t *testing.T) {
 	b.studyClick(t, "#tab-plan")
 	b.studyClick(t, "#plan-run")
 	if got := b.studyWait(t, "[data-view=plan]", "data-run", 60*time.Second, "done", "error"); got != "done" {
-		t.Logf("the plan ended in %s: %s", got, b.text(t, "[data-view=plan] .problem"))
+		t.Fatalf("the plan ended in %s: %s", got, b.text(t, "[data-view=plan] .problem"))
 	}
+	b.imageShown(t, "#plan-figure")
 
 	for _, vp := range [][2]int64{{1366, 768}, {1366, 900}, {820, 1180}, {390, 844}} {
 		b.viewport(t, vp[0], vp[1])
@@ -173,11 +177,17 @@ func TestFigureLayoutAndViewports(t *testing.T) {
 	b.cdJS(t, `(()=>{const o=document.querySelector("[data-view=curve] .figure-overlay");o.scrollIntoView({block:"center"});
 		const r=o.getBoundingClientRect();
 		o.dispatchEvent(new PointerEvent("pointerdown",{bubbles:true,pointerType:"touch",clientX:r.left+r.width*0.55,clientY:r.top+r.height*0.5}));return ""})()`)
-	if err := chromedp.Run(b.ctx, chromedp.Poll(`document.getElementById("curve-readout").textContent.startsWith("this scenario: ")`, nil,
+	if err := chromedp.Run(b.ctx, chromedp.Poll(`document.getElementById("curve-readout").textContent.startsWith("this scenario: nearest computed point l1 = ")`, nil,
 		chromedp.WithPollingTimeout(5*time.Second))); err != nil {
 		t.Fatalf("a touch on the figure gave the readout %q: %v", b.text(t, "#curve-readout"), err)
 	}
-	b.shareWait(t, "the crosshair", `document.querySelectorAll("[data-view=curve] .crosshair").length===2`)
+	b.shareWait(t, "the crosshair", `document.querySelectorAll("[data-view=curve] .crosshair.on").length===2`)
+	cross := b.cdJS(t, `(()=>{const v=document.getElementById("curve-cross-v"),h=document.getElementById("curve-cross-h");
+		return getComputedStyle(v).display+" "+v.style.left+" "+getComputedStyle(h).display+" "+h.style.top})()`)
+	if f := strings.Fields(cross); len(f) != 4 || f[0] != "block" || f[2] != "block" || !strings.HasSuffix(f[1], "%") || !strings.HasSuffix(f[3], "%") {
+		t.Errorf("the crosshair is not placed: %q", cross)
+	}
+	t.Logf("crosshair: %s", cross)
 	t.Logf("touch readout: %s", b.text(t, "#curve-readout"))
 	b.screenshot(t, "view-curve-touch-390x844.png")
 	b.alive(t, "after the layout checks")

@@ -39,11 +39,15 @@ func (b *browser) keyWatch(t *testing.T) {
 	}
 }
 
-// keyRead waits until the page has been quiet for a moment after the watched key and
-// returns what it measured.
+// keyRead waits until the page has shown the result of the watched key (a render painted,
+// the page no longer busy) and returns what it measured.
 func (b *browser) keyRead(t *testing.T) keyTime {
 	t.Helper()
-	time.Sleep(300 * time.Millisecond)
+	var shown bool
+	if err := chromedp.Run(b.ctx, chromedp.Poll(`(k=>k&&k.painted>0&&document.getElementById("hdrisk").getAttribute("data-state")!=="busy"?true:null)(window.hdriskKey)`,
+		&shown, chromedp.WithPollingInterval(5*time.Millisecond), chromedp.WithPollingTimeout(20*time.Second))); err != nil {
+		t.Fatalf("the watched key was never shown: %v", err)
+	}
 	var k keyTime
 	if err := chromedp.Run(b.ctx, chromedp.Evaluate(`(k=>{k.stop();return {dom:k.dom,painted:k.painted,renders:k.renders}})(window.hdriskKey)`, &k)); err != nil {
 		t.Fatalf("reading the key's timing: %v", err)

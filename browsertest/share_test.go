@@ -9,6 +9,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
 	"github.com/chromedp/chromedp/kb"
 
@@ -135,7 +136,12 @@ func TestShareHostileTitle(t *testing.T) {
 		t.Fatalf("data-state=%s: %s", state, b.text(t, ".problem"))
 	}
 	b.shareShow(t)
-	time.Sleep(300 * time.Millisecond) // time for an onerror handler, had an image been made
+	// Had an image been made, its load fails and its onerror runs before the frames after
+	// the one that made it: wait for two of them, not for a time.
+	if err := chromedp.Run(b.ctx, chromedp.Evaluate(`new Promise(r=>requestAnimationFrame(()=>requestAnimationFrame(()=>setTimeout(()=>r(true)))))`, nil,
+		func(p *runtime.EvaluateParams) *runtime.EvaluateParams { return p.WithAwaitPromise(true) })); err != nil {
+		t.Fatal(err)
+	}
 	var res struct {
 		Pwned             any
 		Imgs, Scripts, Bs int

@@ -167,18 +167,18 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-n"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "text"}, vugu.VGAttribute{Namespace: "", Key: "inputmode", Val: "numeric"}, vugu.VGAttribute{Namespace: "", Key: "autocomplete", Val: "off"}}}
 						vgparent.AppendChild(vgn)
 						{
+							b, err := vjson.Marshal(c.NText())
+							if err != nil {
+								panic(err)
+							}
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
+						}
+						{
 							b, err := vjson.Marshal(c.Matrix() != nil)
 							if err != nil {
 								panic(err)
 							}
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "readOnly", JSONVal: vjson.RawMessage(b)})
-						}
-						{
-							b, err := vjson.Marshal(c.NText())
-							if err != nil {
-								panic(err)
-							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -214,7 +214,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -250,7 +250,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -466,7 +466,7 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								if err != nil {
 									panic(err)
 								}
-								vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+								vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 							}
 							vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 								EventType: "change",

@@ -32,7 +32,6 @@ type CurveView struct {
 	Tuned    string // the weight of the best-tuned curve ("l1", "l2", "l1+l2"); "" for none
 
 	inited                  bool
-	ax                      axisText
 	axis                    study.Axis // the axis of the drawn curves
 	run, problem, note      string
 	current                 *curveSeries
@@ -183,7 +182,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -219,7 +218,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -255,7 +254,7 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							if err != nil {
 								panic(err)
 							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "change",
@@ -578,6 +577,31 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 				}
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 				vgparent.AppendChild(vgn)
+				if c.Stale() {
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-stale"}, vugu.VGAttribute{Namespace: "", Key: "class", Val: "stale"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}}}
+					vgparent.AppendChild(vgn)
+					{
+						vgparent := vgn
+						_ = vgparent
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "The curve below was drawn for another scenario or other settings than those above.\n\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-recompute"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
+						vgparent.AppendChild(vgn)
+						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Start() },
+							// TODO: implement capture, etc. mostly need to decide syntax
+						})
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Draw it again"}
+							vgparent.AppendChild(vgn)
+						}
+					}
+				}
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+				vgparent.AppendChild(vgn)
 				if c.Status() != "" {
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}}}
 					vgparent.AppendChild(vgn)
@@ -634,17 +658,8 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgparent.AppendChild(vgn)
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "img", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-figure"}, vugu.VGAttribute{Namespace: "", Key: "alt", Val: "Predicted error against the varied setting, one line per curve"}}}
 							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("data-stale", c.staleText())
 							vgn.AddAttrInterface("src", c.FigureURL())
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
-							vgparent.AppendChild(vgn)
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-v"}}}
-							vgparent.AppendChild(vgn)
-							vgn.AddAttrInterface("class", "crosshair crosshair-v"+c.crossClass())
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
-							vgparent.AppendChild(vgn)
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-h"}}}
-							vgparent.AppendChild(vgn)
-							vgn.AddAttrInterface("class", "crosshair crosshair-h"+c.crossClass())
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 							vgparent.AppendChild(vgn)
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figure-overlay"}, vugu.VGAttribute{Namespace: "", Key: "aria-hidden", Val: "true"}}}
@@ -664,6 +679,16 @@ func (c *CurveView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								Func:      func(event vugu.DOMEvent) { c.leave() },
 								// TODO: implement capture, etc. mostly need to decide syntax
 							})
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-v"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("class", "crosshair crosshair-v"+c.crossClass())
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "curve-cross-h"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("class", "crosshair crosshair-h"+c.crossClass())
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 							vgparent.AppendChild(vgn)
 						}

@@ -27,46 +27,21 @@ const maxCurveSeries = 8
 type curveSeries struct {
 	Label  string
 	Scen   scenario.Scenario
+	Axis   study.Axis
+	keptID int    // the page state's KeptCurve this is, for a kept curve
+	key    string // the problem it was computed for (Model.problemKey)
 	Points []study.Point
 	cancel func()
 	err    string
 	done   bool
 }
 
-// curveInit reads the sweep settings from the scenario's study.sweep, or proposes a sweep
-// of the first penalty weight.
+// curveInit sets the view's own display settings the first time it is used.
 func (c *CurveView) curveInit() {
 	if c.inited || c.Model == nil {
 		return
 	}
-	ch := c.Model.Check()
-	if ch.Err != nil {
-		return
-	}
 	c.inited, c.Quantity, c.run = true, "nmse_db", RunIdle
-	s := ch.Scenario
-	if st := s.Study; st != nil && st.Sweep != nil {
-		w := st.Sweep
-		c.ax = axisText{Over: w.Over, From: full(w.From), To: full(w.To), Points: strconv.Itoa(w.Points), Log: w.Log}
-		return
-	}
-	over := study.DefaultOver(s)
-	if over == "" {
-		over = "alpha"
-	}
-	c.setOver(s, over)
-}
-
-// setOver chooses the swept number and proposes a range around its current value.
-func (c *CurveView) setOver(s scenario.Scenario, over string) {
-	for _, p := range s.Paths() {
-		if p.Name == over {
-			v, _ := s.Get(over)
-			c.ax = defaultAxis(p, v, sweepPoints)
-			return
-		}
-	}
-	c.ax.Over = over
 }
 
 // Init implements vugu's initializer.
@@ -83,8 +58,14 @@ func (c *CurveView) Run() string {
 // Running reports whether any job of the view is on its way.
 func (c *CurveView) Running() bool { return c.run == RunRunning }
 
-// Axis returns the texts of the sweep's inputs.
-func (c *CurveView) Axis() axisText { c.curveInit(); return c.ax }
+// Axis returns the texts of the sweep's inputs, from the page state.
+func (c *CurveView) Axis() axisText {
+	if c.Model == nil {
+		return axisText{}
+	}
+	c.Model.Check() // proposes an axis, or replaces one that stopped fitting
+	return c.Model.Views().Curve
+}
 
 // Paths are the numbers of the current scenario that can be swept.
 func (c *CurveView) Paths() []scenario.PathInfo { return modelPaths(c.Model) }
@@ -99,22 +80,11 @@ func (c *CurveView) Quantities() []study.Observable { return study.Observables()
 func (c *CurveView) Set(name, text string) error {
 	c.curveInit()
 	switch name {
-	case "over":
-		if c.Model != nil {
-			if ch := c.Model.Check(); ch.Err == nil {
-				c.setOver(ch.Scenario, text)
-				break
-			}
+	case "over", "from", "to", "points", "log":
+		if c.Model == nil {
+			return fmt.Errorf("no scenario")
 		}
-		c.ax.Over = text
-	case "from":
-		c.ax.From = text
-	case "to":
-		c.ax.To = text
-	case "points":
-		c.ax.Points = text
-	case "log":
-		c.ax.Log = text == "true"
+		return c.Model.SetCurve(name, text)
 	case "ylog":
 		c.YLog = text == "true" && plot.LogAllowed(c.Quantity)
 		c.redraw()
@@ -154,11 +124,12 @@ func (c *CurveView) spec() (scenario.Scenario, study.Axis, error) {
 	if ch.Err != nil {
 		return scenario.Scenario{}, study.Axis{}, fmt.Errorf("the scenario in the editor has a problem: %v", ch.Err)
 	}
-	over, from, to, n, err := c.ax.parse("sweep", scenario.MaxSweepPoints)
+	ax := c.Model.Views().Curve
+	over, from, to, n, err := ax.parse("sweep", scenario.MaxSweepPoints)
 	if err != nil {
 		return scenario.Scenario{}, study.Axis{}, err
 	}
-	return ch.Scenario, study.Axis{Over: over, From: from, To: to, Points: n, Log: c.ax.Log}, nil
+	return ch.Scenario, study.Axis{Over: over, From: from, To: to, Points: n, Log: ax.Log}, nil
 }
 
 // Start sweeps the scenario in the editor (replacing the curve of the current scenario and
@@ -177,18 +148,21 @@ func (c *CurveView) Start() {
 		c.problem = "the compute workers are still starting; try again in a moment"
 		return
 	}
-	st := studyOf(c.Model, "curve")
-	st.Sweep = &scenario.Sweep{Over: ax.Over, From: ax.From, To: ax.To, Points: ax.Points, Log: ax.Log}
+	if k := c.Model.Views().Kept; len(k) > 0 && k[0].Axis.Over != ax.Over {
+		c.problem = fmt.Sprintf("the kept curves vary %s, not %s: clear them first, so that no curve is drawn on another's axis",
+			pathLabel(s, k[0].Axis.Over), pathLabel(s, ax.Over))
+		return
+	}
 	isWeight := plot.WantsBest(s, ax.Over)
 	if isWeight {
-		st.Best = &scenario.Best{Over: ax.Over}
+		_ = c.Model.SetPlan("over", ax.Over) // the one "best over" setting of the study
 	}
-	c.Model.Study = st
+	c.Model.ranStudy("curve", partSweep)
 
 	c.stopAll()
 	c.axis = ax
 	c.best, c.bestErr, c.bayes, c.bayesNote = nil, "", nil, ""
-	c.current = &curveSeries{Label: c.label(s, "this scenario"), Scen: s}
+	c.current = &curveSeries{Label: c.label(s, "this scenario"), Scen: s, Axis: ax, key: c.Model.problemKey()}
 	c.tuned, c.tunedOver = nil, ""
 	c.seconds, c.figSeconds, c.started = 0, 0, c.now()
 	c.startSweep(c.current, true)
@@ -294,10 +268,10 @@ func (c *CurveView) startSweep(cs *curveSeries, timed bool) {
 		return
 	}
 	t0 := c.now()
-	blocks := c.sweepBlocks(c.axis.Points)
+	blocks := c.sweepBlocks(cs.Axis.Points)
 	cancels := make([]func(), len(blocks))
 	pending := len(blocks)
-	pts := make([]study.Point, c.axis.Points)
+	pts := make([]study.Point, cs.Axis.Points)
 	cs.cancel = func() {
 		for i, f := range cancels {
 			if f != nil {
@@ -309,7 +283,7 @@ func (c *CurveView) startSweep(cs *curveSeries, timed bool) {
 	for i, b := range blocks {
 		// No progress callback: a sweep takes a fraction of a second, and every progress
 		// message would cost the page a render while it runs.
-		args := protocol.SweepArgs{Scenario: data, Axis: c.axis}
+		args := protocol.SweepArgs{Scenario: data, Axis: cs.Axis}
 		if len(blocks) > 1 {
 			args.PointFrom, args.PointTo = b[0], b[1]
 		}
@@ -427,10 +401,74 @@ func (c *CurveView) Keep() {
 		c.problem = fmt.Sprintf("at most %d curves at once: clear some first", maxCurveSeries)
 		return
 	}
-	c.kept = append(c.kept, c.current)
+	cur := c.current
+	c.Model.SetKept(append(slices.Clone(c.Model.Views().Kept), KeptCurve{Label: cur.Label, Scenario: cur.Scen, Axis: cur.Axis}))
+	k := c.Model.Views().Kept
+	cur.keptID = k[len(k)-1].ID
+	c.kept = append(c.kept, cur)
 	c.current = nil
 	c.redraw()
 }
+
+// syncKept makes the view's kept curves those of the page state: a curve the state holds
+// and the view has not computed (an autosave restored) is swept again from its settings;
+// one the state no longer holds (a link opened) is dropped.
+func (c *CurveView) syncKept() {
+	if c.Model == nil || c.Jobs == nil {
+		return
+	}
+	want := c.Model.Views().Kept
+	same := len(want) == len(c.kept)
+	for i := 0; same && i < len(want); i++ {
+		same = c.kept[i].keptID == want[i].ID
+	}
+	if same {
+		return
+	}
+	have := map[int]*curveSeries{}
+	for _, cs := range c.kept {
+		have[cs.keptID] = cs
+	}
+	next := make([]*curveSeries, 0, len(want))
+	started := false
+	for _, k := range want {
+		if cs, ok := have[k.ID]; ok {
+			next = append(next, cs)
+			delete(have, k.ID)
+			continue
+		}
+		cs := &curveSeries{Label: k.Label, Scen: k.Scenario, Axis: k.Axis, keptID: k.ID}
+		next = append(next, cs)
+		c.startSweep(cs, false)
+		started = true
+	}
+	for _, cs := range have {
+		if cs.cancel != nil {
+			cs.cancel()
+		}
+	}
+	c.kept = next
+	if c.axis.Over == "" && len(want) > 0 {
+		c.axis = want[0].Axis
+	}
+	if started {
+		c.run = RunRunning
+	}
+	c.settle()
+}
+
+// Stale tells whether the current curve was computed for another scenario or axis than
+// the page's: it is then marked, with a button to compute it again.
+func (c *CurveView) Stale() bool {
+	if c.Model == nil || c.current == nil || !c.current.done {
+		return false
+	}
+	_, ax, err := c.spec()
+	return err != nil || ax != c.current.Axis || c.current.key != c.Model.problemKey()
+}
+
+// Compute implements vugu's computer: the kept curves follow the page state.
+func (c *CurveView) Compute(vugu.ComputeCtx) { c.syncKept() }
 
 // Compare sweeps the same axis for every other design shape with the same m/n and scale
 // (shapes at the editor's default settings; listed singular values are left out).
@@ -461,7 +499,9 @@ func (c *CurveView) Compare() {
 		if !ok {
 			continue
 		}
-		cs := &curveSeries{Label: c.label(o, k.Label), Scen: o}
+		kept := append(slices.Clone(c.Model.Views().Kept), KeptCurve{Label: c.label(o, k.Label), Scenario: o, Axis: ax})
+		c.Model.SetKept(kept)
+		cs := &curveSeries{Label: kept[len(kept)-1].Label, Scen: o, Axis: ax, keptID: c.Model.Views().Kept[len(kept)-1].ID}
 		c.kept = append(c.kept, cs)
 		c.startSweep(cs, false)
 	}
@@ -477,6 +517,7 @@ func (c *CurveView) Clear() {
 		}
 	}
 	c.kept = nil
+	c.Model.SetKept(nil)
 	c.settle()
 }
 
@@ -633,7 +674,7 @@ func (c *CurveView) FigureProblem() string { return c.box.problem }
 // Readout is the value under the pointer, in words.
 func (c *CurveView) Readout() string { return c.box.readout }
 
-func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say, c.Browser, "curve") }
+func (c *CurveView) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
 
 func (c *CurveView) leave() { c.box.leave() }
 
@@ -666,7 +707,7 @@ func (c *CurveView) say(x, y float64, where func(x, y float64) (float64, float64
 	if name == "" {
 		name = "this scenario"
 	}
-	return fmt.Sprintf("%s: %s = %s, %s = %s", name, c.axis.Over, full(s.X[bi]), q.Label, full(s.Y[bi])), s.X[bi], s.Y[bi]
+	return fmt.Sprintf("%s: nearest computed point %s = %s, %s = %s", name, c.axis.Over, full(s.X[bi]), q.Label, full(s.Y[bi])), s.X[bi], s.Y[bi]
 }
 
 // Status says how far the sweep is, or how long it took.
@@ -829,3 +870,5 @@ func (c *CurveView) readoutText() string {
 func (c *CurveView) FigureSeconds() string { return full(c.figSeconds) }
 
 func (c *CurveView) axisPoints() string { return strconv.Itoa(c.axis.Points) }
+
+func (c *CurveView) staleText() string { return strconv.FormatBool(c.Stale()) }

@@ -190,7 +190,7 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	}
 	br.shown(t, "curve", c.FigureURL())
 	// The settings travel with the scenario.
-	st := m.Study
+	st := m.Check().Scenario.Study
 	if st == nil || st.View != "curve" || st.Sweep == nil || *st.Sweep != (scenario.Sweep{Over: "l1", From: 1e-3, To: 1, Points: 60, Log: true}) ||
 		st.Best == nil || st.Best.Over != "l1" {
 		t.Fatalf("study not saved: %+v", st)
@@ -210,7 +210,7 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	// curve, with the crosshair on it.
 	fr := c.box.frame
 	c.box.pointAt((fr.Left+fr.Right)/2*600, (fr.Top+fr.Bottom)/2*400, 600, 400, c.say)
-	if !strings.Contains(c.Readout(), "l1 = ") || !strings.HasPrefix(c.Readout(), "this scenario: ") || !c.crossOn() {
+	if !strings.Contains(c.Readout(), "l1 = ") || !strings.HasPrefix(c.Readout(), "this scenario: nearest computed point ") || !c.crossOn() {
 		t.Errorf("readout %q, crosshair %v", c.Readout(), c.crossOn())
 	}
 	c.box.pointAt(1, 1, 600, 400, c.say)
@@ -362,8 +362,8 @@ func TestCurveCancelAndCompare(t *testing.T) {
 }
 
 // A curve over l1 drawn earlier must not make the scenario invalid once the penalty has no
-// l1: the study part that no longer fits is left out of the scenario, the rest stays.
-func TestStudyThatNoLongerFitsIsDropped(t *testing.T) {
+// l1: the setting that no longer fits is replaced, with a note, and the rest stays.
+func TestStudyThatNoLongerFitsIsReplaced(t *testing.T) {
 	m := modelOf(t, lassoScenario)
 	jobs := &queueJobs{}
 	c := &CurveView{Model: m, Jobs: jobs}
@@ -379,14 +379,17 @@ func TestStudyThatNoLongerFitsIsDropped(t *testing.T) {
 		t.Fatalf("the scenario became invalid: %v", ch.Err)
 	}
 	st := ch.Scenario.Study
-	if st == nil || st.Sweep != nil || st.Best != nil || st.Plan == nil {
-		t.Errorf("the sweep over l1 should be dropped and the plan kept: %+v", st)
+	if st == nil || st.Sweep == nil || st.Sweep.Over != "l2" || st.Best == nil || st.Best.Over != "l2" || st.Plan == nil {
+		t.Errorf("the sweep and the tuned weight over l1 should be replaced by l2, the plan kept: %+v", st)
+	}
+	if n := m.Views().Notes; len(n) != 3 || !strings.Contains(n[0], "curve varied l1") || !strings.Contains(n[1], "x axis varied l1") || !strings.Contains(n[2], "tuned l1") {
+		t.Errorf("the replacements should be noted: %q", n)
 	}
 	if err := m.SetKind("penalty", "l1"); err != nil {
 		t.Fatal(err)
 	}
-	if st := m.Check().Scenario.Study; st == nil || st.Sweep == nil {
-		t.Errorf("back on l1 the sweep fits again and should be there: %+v", st)
+	if st := m.Check().Scenario.Study; st == nil || st.Sweep == nil || st.Sweep.Over != "l1" {
+		t.Errorf("back on l1 the sweep over l2 is replaced by one over l1: %+v", st)
 	}
 }
 

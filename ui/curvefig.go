@@ -109,7 +109,7 @@ func (b *figureBox) draw(jobs Jobs, br Browser, spec protocol.FigureArgs, shown 
 		b.problem = "the figure waits for the compute workers"
 		return
 	}
-	b.cancel = start(jobs, protocol.Figure, spec, nil, func(r protocol.FigureResult, err error) {
+	b.cancel = start(jobs, protocol.Figure, spec.Packed(), nil, func(r protocol.FigureResult, err error) {
 		b.cancel = nil
 		if err != nil {
 			b.problem = "the figure could not be drawn: " + err.Error()
@@ -149,17 +149,28 @@ type styler interface {
 
 // point updates the readout from a pointer event (mouse, pen or touch) on the overlay that
 // covers the image exactly: offsetX/offsetY are the pointer position in it,
-// clientWidth/clientHeight its displayed size. The crosshair's lines (ids view-cross-v and
-// view-cross-h) are moved onto the point read.
-func (b *figureBox) point(e vugu.DOMEvent, say pick, br Browser, view string) {
+// clientWidth/clientHeight its displayed size.
+func (b *figureBox) point(e vugu.DOMEvent, say pick) {
 	b.pointAt(e.PropFloat64("offsetX"), e.PropFloat64("offsetY"),
 		e.PropFloat64("target", "clientWidth"), e.PropFloat64("target", "clientHeight"), say)
+}
+
+// placeCross moves the crosshair's lines (ids view-cross-v and view-cross-h) onto the point
+// read. It runs after each render: the renderer sets an element's attributes anew, the
+// style the object model gave it among them.
+func (b *figureBox) placeCross(br Browser, view string) {
 	if st, ok := br.(styler); ok && b.crossOn {
 		pct := func(f float64) string { return strconv.FormatFloat(100*f, 'f', 2, 64) + "%" }
 		st.SetStyle(view+"-cross-v", "left", pct(b.cross[0]))
 		st.SetStyle(view+"-cross-h", "top", pct(b.cross[1]))
 	}
 }
+
+// Rendered implements vugu's rendered handler: it places the crosshair.
+func (c *CurveView) Rendered(vugu.RenderedCtx) { c.box.placeCross(c.Browser, "curve") }
+
+// Rendered implements vugu's rendered handler: it places the crosshair.
+func (c *Mapview) Rendered(vugu.RenderedCtx) { c.box.placeCross(c.Browser, "map") }
 
 // pointAt is point with the numbers taken out of the event.
 func (b *figureBox) pointAt(px, py, w, h float64, say pick) {
@@ -266,7 +277,7 @@ func (b *figureBox) save(jobs Jobs, br Browser, base, what string, csv func() ([
 	}
 	spec.PDF = what == "pdf"
 	b.saving++
-	start(jobs, protocol.Figure, spec, nil, func(r protocol.FigureResult, err error) {
+	start(jobs, protocol.Figure, spec.Packed(), nil, func(r protocol.FigureResult, err error) {
 		b.saving--
 		if err != nil {
 			report(err)
@@ -423,44 +434,6 @@ func studyOf(m *Model, view string) *scenario.Study {
 		st = *m.Study
 	}
 	st.View = view
-	return &st
-}
-
-// fitStudy returns the study of s without the settings that no longer fit its problem (a
-// sweep over l1 after the penalty became ridge, a plan for a weight the penalty lost), so
-// that a change in the editor never makes the scenario invalid because of a study run
-// earlier. Special cases are: nil gives nil; a study with nothing left that fits gives nil.
-func fitStudy(s scenario.Scenario) *scenario.Study {
-	if s.Study == nil {
-		return nil
-	}
-	valid := func(st scenario.Study) bool {
-		t := s
-		t.Study = &st
-		return t.Validate() == nil
-	}
-	if valid(*s.Study) {
-		return s.Study
-	}
-	st := *s.Study
-	if st.Sweep != nil && !valid(scenario.Study{View: st.View, Sweep: st.Sweep}) {
-		st.Sweep = nil
-	}
-	if st.Map != nil && !valid(scenario.Study{View: st.View, Map: st.Map}) {
-		st.Map = nil
-	}
-	if st.Best != nil && !valid(scenario.Study{View: st.View, Best: st.Best}) {
-		st.Best = nil
-	}
-	if st.Plan != nil && !valid(scenario.Study{View: st.View, Plan: st.Plan}) {
-		st.Plan = nil
-	}
-	if st.Check != nil && !valid(scenario.Study{View: st.View, Check: st.Check}) {
-		st.Check = nil
-	}
-	if !valid(st) {
-		return nil
-	}
 	return &st
 }
 

@@ -9,6 +9,8 @@ import (
 	"unicode/utf8"
 
 	"github.com/vugu/vugu"
+
+	"hdrisk/engine/scenario"
 )
 
 func (c *Editor) inputMode(f Field) string {
@@ -197,4 +199,28 @@ func (c *Editor) fieldDescribedBy(f Field) string {
 		return "sum-" + f.ID + " " + c.describedBy(f.ID)
 	}
 	return c.describedBy(f.ID)
+}
+
+// The ids of the title and notes boxes.
+const (
+	TitleInputID = "scenario-title"
+	NotesInputID = "scenario-notes"
+)
+
+func (c *Editor) retitle(e vugu.DOMEvent) {
+	c.Model.Title = e.PropString("target", "value")
+	c.Changed()
+}
+
+func (c *Editor) renote(e vugu.DOMEvent) {
+	c.Model.Notes = e.PropString("target", "value")
+	c.Changed()
+}
+
+func (c *Editor) titleHelp() string {
+	return fmt.Sprintf("One line, at most %d characters; it travels with the link and names saved files.", scenario.MaxTitle)
+}
+
+func (c *Editor) notesHelp() string {
+	return fmt.Sprintf("Free text, at most %d characters; it travels with the link.", scenario.MaxNotes)
 }

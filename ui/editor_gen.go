@@ -45,6 +45,98 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		vgn.SetInnerHTML(vugu.HTML("Scenario"))
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 		vgparent.AppendChild(vgn)
+		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field"}}}
+		vgparent.AppendChild(vgn)
+		vgn.AddAttrInterface("data-invalid", c.invalidText(TitleInputID))
+		{
+			vgparent := vgn
+			_ = vgparent
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "label", Attr: []vugu.VGAttribute{{Namespace: "", Key: "for", Val: "scenario-title"}}}
+			vgparent.AppendChild(vgn)
+			vgn.SetInnerHTML(vugu.HTML("Title"))
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "input", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "scenario-title"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "text"}, vugu.VGAttribute{Namespace: "", Key: "autocomplete", Val: "off"}}}
+			vgparent.AppendChild(vgn)
+			vgn.AddAttrInterface("aria-describedby", c.describedBy(TitleInputID))
+			vgn.AddAttrInterface("aria-invalid", c.invalidText(TitleInputID))
+			{
+				b, err := vjson.Marshal(c.Model.Title)
+				if err != nil {
+					panic(err)
+				}
+				vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
+			}
+			vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+				EventType: "input",
+				Func:      func(event vugu.DOMEvent) { c.retitle(event) },
+				// TODO: implement capture, etc. mostly need to decide syntax
+			})
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "help"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "help-scenario-title"}}}
+			vgparent.AppendChild(vgn)
+			vgn.SetInnerHTML(c.titleHelp())
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			if c.Invalid[TitleInputID] != "" {
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field-error"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "err-scenario-title"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "alert"}}}
+				vgparent.AppendChild(vgn)
+				vgn.SetInnerHTML(c.Invalid[TitleInputID])
+			}
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+			vgparent.AppendChild(vgn)
+		}
+		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+		vgparent.AppendChild(vgn)
+		vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field"}}}
+		vgparent.AppendChild(vgn)
+		vgn.AddAttrInterface("data-invalid", c.invalidText(NotesInputID))
+		{
+			vgparent := vgn
+			_ = vgparent
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "label", Attr: []vugu.VGAttribute{{Namespace: "", Key: "for", Val: "scenario-notes"}}}
+			vgparent.AppendChild(vgn)
+			vgn.SetInnerHTML(vugu.HTML("Notes"))
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "textarea", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "scenario-notes"}, vugu.VGAttribute{Namespace: "", Key: "rows", Val: "3"}}}
+			vgparent.AppendChild(vgn)
+			vgn.AddAttrInterface("aria-describedby", c.describedBy(NotesInputID))
+			vgn.AddAttrInterface("aria-invalid", c.invalidText(NotesInputID))
+			{
+				b, err := vjson.Marshal(c.Model.Notes)
+				if err != nil {
+					panic(err)
+				}
+				vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
+			}
+			vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+				EventType: "input",
+				Func:      func(event vugu.DOMEvent) { c.renote(event) },
+				// TODO: implement capture, etc. mostly need to decide syntax
+			})
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "help"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "help-scenario-notes"}}}
+			vgparent.AppendChild(vgn)
+			vgn.SetInnerHTML(c.notesHelp())
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+			vgparent.AppendChild(vgn)
+			if c.Invalid[NotesInputID] != "" {
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "field-error"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "err-scenario-notes"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "alert"}}}
+				vgparent.AppendChild(vgn)
+				vgn.SetInnerHTML(c.Invalid[NotesInputID])
+			}
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+			vgparent.AppendChild(vgn)
+		}
+		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+		vgparent.AppendChild(vgn)
 		for vgiterkeyt, g := range Groups() {
 			var vgiterkey interface{} = vgiterkeyt
 			_ = vgiterkey
@@ -207,18 +299,18 @@ func (c *Editor) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						vgn.AddAttrInterface("inputmode", c.inputMode(f))
 						vgn.AddAttrInterface("placeholder", c.placeholder(f))
 						{
+							b, err := vjson.Marshal(c.boxText(f))
+							if err != nil {
+								panic(err)
+							}
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "hdriskText", JSONVal: vjson.RawMessage(b)})
+						}
+						{
 							b, err := vjson.Marshal(c.locked(f))
 							if err != nil {
 								panic(err)
 							}
 							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "readOnly", JSONVal: vjson.RawMessage(b)})
-						}
-						{
-							b, err := vjson.Marshal(c.boxText(f))
-							if err != nil {
-								panic(err)
-							}
-							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "value", JSONVal: vjson.RawMessage(b)})
 						}
 						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
 							EventType: "input",

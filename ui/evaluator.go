@@ -29,10 +29,10 @@ func FiguresOf(r fixedpoint.Result) Figures {
 		EstimateZero: r.EstimateZero, GLM: r.GLM, Labels: r.Labels, Cosine: r.Cosine, TestError: r.TestError}
 }
 
-// Evaluator computes the figures of a scenario (contract 1 JSON) away from the page's render
-// loop. done is called exactly once unless cancel is called first, and always with the page's
+// Evaluator computes the figures of a checked scenario in the page, from the laws the check
+// built. done is called exactly once unless cancel is called first, and always with the page's
 // render lock held, so it may change component state directly. After cancel, done is never
 // called. A scenario the engine refuses comes back as an error naming the field.
 type Evaluator interface {
-	Evaluate(scenario []byte, done func(Figures, error)) (cancel func())
+	Evaluate(chk Checked, done func(Figures, error)) (cancel func())
 }

@@ -40,41 +40,12 @@ func (c *Mapview) blockCount(rows int) int {
 	return max(1, min(rows, n))
 }
 
-// mapInit reads the map settings from the scenario's study.map, or proposes the first
-// penalty weight against m/n.
+// mapInit sets the view's own display settings the first time it is used.
 func (c *Mapview) mapInit() {
 	if c.inited || c.Model == nil {
 		return
 	}
-	ch := c.Model.Check()
-	if ch.Err != nil {
-		return
-	}
 	c.inited, c.Quantity, c.run = true, "nmse_db", RunIdle
-	s := ch.Scenario
-	if st := s.Study; st != nil && st.Map != nil {
-		m := st.Map
-		c.ax[0] = axisText{Over: m.X, From: full(m.XFrom), To: full(m.XTo), Points: strconv.Itoa(m.XPoints), Log: m.XLog}
-		c.ax[1] = axisText{Over: m.Y, From: full(m.YFrom), To: full(m.YTo), Points: strconv.Itoa(m.YPoints), Log: m.YLog}
-		return
-	}
-	x := study.DefaultOver(s)
-	if x == "" {
-		x = "noise"
-	}
-	c.setOver(s, 0, x)
-	c.setOver(s, 1, "alpha")
-}
-
-func (c *Mapview) setOver(s scenario.Scenario, k int, over string) {
-	for _, p := range s.Paths() {
-		if p.Name == over {
-			v, _ := s.Get(over)
-			c.ax[k] = defaultAxis(p, v, mapPoints)
-			return
-		}
-	}
-	c.ax[k].Over = over
 }
 
 // Init implements vugu's initializer.
@@ -92,8 +63,17 @@ func (c *Mapview) Run() string {
 func (c *Mapview) Running() bool { return c.run == RunRunning }
 
 // X and Y return the texts of the two axes' inputs.
-func (c *Mapview) X() axisText { c.mapInit(); return c.ax[0] }
-func (c *Mapview) Y() axisText { c.mapInit(); return c.ax[1] }
+func (c *Mapview) X() axisText { return c.axisTexts()[0] }
+func (c *Mapview) Y() axisText { return c.axisTexts()[1] }
+
+// axisTexts are the page state's map axes, proposed or fitted to the scenario first.
+func (c *Mapview) axisTexts() [2]axisText {
+	if c.Model == nil {
+		return [2]axisText{}
+	}
+	c.Model.Check()
+	return c.Model.Views().Map
+}
 
 // Paths are the numbers of the current scenario a map can vary.
 func (c *Mapview) Paths() []scenario.PathInfo { return modelPaths(c.Model) }
@@ -117,28 +97,10 @@ func (c *Mapview) Set(name, text string) error {
 	if name[0] == 'y' {
 		k = 1
 	}
-	a := &c.ax[k]
-	switch name[2:] {
-	case "over":
-		if c.Model != nil {
-			if ch := c.Model.Check(); ch.Err == nil {
-				c.setOver(ch.Scenario, k, text)
-				break
-			}
-		}
-		a.Over = text
-	case "from":
-		a.From = text
-	case "to":
-		a.To = text
-	case "points":
-		a.Points = text
-	case "log":
-		a.Log = text == "true"
-	default:
-		return fmt.Errorf("no setting %q", name)
+	if c.Model == nil {
+		return fmt.Errorf("no scenario")
 	}
-	return nil
+	return c.Model.SetMapAxis(k, name[2:], text)
 }
 
 func (c *Mapview) typed(e vugu.DOMEvent, name string) {
@@ -156,6 +118,32 @@ func (c *Mapview) now() time.Time {
 	return time.Now()
 }
 
+// mapAxes reads the two axes of a map from their texts.
+func mapAxes(t [2]axisText) ([2]study.Axis, error) {
+	var ax [2]study.Axis
+	for k, p := range []string{"map x", "map y"} {
+		over, from, to, n, err := t[k].parse(p, scenario.MaxMapPoints)
+		if err != nil {
+			return ax, err
+		}
+		ax[k] = study.Axis{Over: over, From: from, To: to, Points: n, Log: t[k].Log}
+	}
+	if ax[0].Over == ax[1].Over {
+		return ax, fmt.Errorf("map: choose two different numbers for the two axes")
+	}
+	return ax, nil
+}
+
+// Stale tells whether the map on screen was computed for another scenario or other axes
+// than the page's: it is then marked, with a button to compute it again.
+func (c *Mapview) Stale() bool {
+	if c.Model == nil || len(c.cells) == 0 || c.run == RunRunning {
+		return false
+	}
+	ax, err := mapAxes(c.Model.Views().Map)
+	return err != nil || ax != c.axes || c.key != c.Model.problemKey()
+}
+
 // Start computes the map of the scenario in the editor, split into blocks of rows that
 // run on all the compute workers. The settings go into the scenario's study.map.
 func (c *Mapview) Start() {
@@ -169,17 +157,9 @@ func (c *Mapview) Start() {
 		c.problem = "the scenario in the editor has a problem: " + ch.Err.Error()
 		return
 	}
-	var ax [2]study.Axis
-	for k, p := range []string{"map x", "map y"} {
-		over, from, to, n, err := c.ax[k].parse(p, scenario.MaxMapPoints)
-		if err != nil {
-			c.problem = err.Error()
-			return
-		}
-		ax[k] = study.Axis{Over: over, From: from, To: to, Points: n, Log: c.ax[k].Log}
-	}
-	if ax[0].Over == ax[1].Over {
-		c.problem = "map: choose two different numbers for the two axes"
+	ax, err := mapAxes(c.Model.Views().Map)
+	if err != nil {
+		c.problem = err.Error()
 		return
 	}
 	if c.Jobs == nil {
@@ -192,10 +172,8 @@ func (c *Mapview) Start() {
 		c.problem = err.Error()
 		return
 	}
-	st := studyOf(c.Model, "map")
-	st.Map = &scenario.Map{X: ax[0].Over, XFrom: ax[0].From, XTo: ax[0].To, XPoints: ax[0].Points, XLog: ax[0].Log,
-		Y: ax[1].Over, YFrom: ax[1].From, YTo: ax[1].To, YPoints: ax[1].Points, YLog: ax[1].Log}
-	c.Model.Study = st
+	c.Model.ranStudy("map", partMap)
+	c.key = c.Model.problemKey()
 
 	c.stop()
 	c.scen, c.axes = s, ax
@@ -312,7 +290,7 @@ func (c *Mapview) fit() {
 // FigureProblem says why there is no figure.
 func (c *Mapview) FigureProblem() string { return c.box.problem }
 
-func (c *Mapview) pointer(e vugu.DOMEvent) { c.box.point(e, c.say, c.Browser, "map") }
+func (c *Mapview) pointer(e vugu.DOMEvent) { c.box.point(e, c.say) }
 
 func (c *Mapview) leave() { c.box.leave() }
 
@@ -393,10 +371,12 @@ func (c *Mapview) Answers() [][3]string {
 		return nil
 	}
 	q := c.quantity()
+	// The lowest of the quantity the colours show, not of the MSE: the two differ in place
+	// wherever E[x0^2] or the quantity's own scale varies over the map.
 	lo, at := math.Inf(1), -1
 	for k, p := range c.cells {
-		if p.OK() && p.Result.MSE < lo {
-			lo, at = p.Result.MSE, k
+		if v := q.Of(p.Result); p.OK() && v < lo {
+			lo, at = v, k
 		}
 	}
 	t := fmt.Sprintf("Time in the page: %.2f s to the numbers", c.seconds)
@@ -406,7 +386,7 @@ func (c *Mapview) Answers() [][3]string {
 	out := [][3]string{{"map_seconds", full(c.seconds), t}}
 	if at >= 0 {
 		p := c.cells[at]
-		out = append(out, [3]string{"map_lowest_mse", full(p.Result.MSE), fmt.Sprintf("Lowest error on the map: %s %s at %s = %s, %s = %s",
+		out = append(out, [3]string{"map_lowest", full(lo), fmt.Sprintf("Lowest on the map: %s %s at %s = %s, %s = %s",
 			q.Label, num4(q.Of(p.Result)), c.axes[0].Over, num4(p.X), c.axes[1].Over, num4(p.Y))})
 	}
 	return out
@@ -437,9 +417,10 @@ type mapAxisInputs struct {
 
 func (c *Mapview) axesForInputs() []mapAxisInputs {
 	c.mapInit()
+	ax := c.axisTexts()
 	return []mapAxisInputs{
-		{Key: "map-x", Set: "x.", Legend: "Across (x)", Axis: c.ax[0]},
-		{Key: "map-y", Set: "y.", Legend: "Up (y)", Axis: c.ax[1]},
+		{Key: "map-x", Set: "x.", Legend: "Across (x)", Axis: ax[0]},
+		{Key: "map-y", Set: "y.", Legend: "Up (y)", Axis: ax[1]},
 	}
 }
 
@@ -458,3 +439,9 @@ func (c *Mapview) Caption() string {
 	}
 	return "White lines: " + c.quantity().Label + " = " + strings.Join(ls, ", ") + "."
 }
+
+func (c *Mapview) staleText() string { return strconv.FormatBool(c.Stale()) }
+
+// doneText and totalText are the rows finished and the rows of the map (data hooks).
+func (c *Mapview) doneText() string  { return strconv.Itoa(c.done) }
+func (c *Mapview) totalText() string { return strconv.Itoa(c.total) }

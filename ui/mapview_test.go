@@ -80,7 +80,7 @@ func TestMapMatchesEngineWithRidge(t *testing.T) {
 	if !strings.HasPrefix(c.Caption(), "White lines: NMSE (dB) = ") {
 		t.Errorf("caption %q", c.Caption())
 	}
-	if st := m.Study; st == nil || st.View != "map" || st.Map == nil || st.Map.XPoints != 12 || st.Map.Y != "alpha" || !st.Map.XLog {
+	if st := m.Check().Scenario.Study; st == nil || st.View != "map" || st.Map == nil || st.Map.XPoints != 12 || st.Map.Y != "alpha" || !st.Map.XLog {
 		t.Fatalf("study.map not saved: %+v", st)
 	}
 	fr := c.box.frame
@@ -94,7 +94,7 @@ func TestMapMatchesEngineWithRidge(t *testing.T) {
 		t.Fatalf("CSV: %v, %d rows", err, len(rows))
 	}
 	ans := c.Answers()
-	if len(ans) != 2 || ans[0][0] != "map_seconds" || ans[1][0] != "map_lowest_mse" {
+	if len(ans) != 2 || ans[0][0] != "map_seconds" || ans[1][0] != "map_lowest" {
 		t.Errorf("answers %v", ans)
 	}
 }

@@ -229,9 +229,11 @@ var Scales = []Kind{
 	{Name: scenario.ScaleAsGiven, Label: "As given", Help: "the singular values are used exactly as stated"},
 }
 
-// Model is the scenario being edited: the chosen kind of each group and the text of every
-// input. Texts are kept per kind and parameter, so switching a menu back and forth keeps
-// what was typed. Title, Notes and Study travel with the scenario unchanged.
+// Model is the page's state: the scenario being edited (the chosen kind of each group and
+// the text of every input) and the settings of every view (Views). Texts are kept per kind
+// and parameter, so switching a menu back and forth keeps what was typed. Study holds the
+// finite-size check's settings, which its view writes there; the rest of the study is made
+// from Views. Check checks it all once per change and hands every caller the same result.
 type Model struct {
 	Title string
 	Notes string
@@ -241,13 +243,34 @@ type Model struct {
 	Matrix *UserMatrix
 	kinds  map[string]string // group -> kind name
 	texts  map[string]string // "group/kind/param" -> text
+	views  Views
+
+	rev     int // counts changes of the scenario made through the methods
+	vrev    int // counts changes of the views' settings
+	keptSeq int // the last KeptCurve ID given
+	probKey struct {
+		checked *Checked // the check the text belongs to
+		text    string
+	}
+	checked *Checked
+	key     checkKey // what checked was made from
+	base    *Checked // the scenario checked without its study
+	baseKey checkKey // what base was made from (vrev 0)
+}
+
+// checkKey is what a Check depends on: the count of changes made through the methods, and
+// the fields callers may set directly.
+type checkKey struct {
+	rev, vrev           int
+	title, notes, scale string
+	study               *scenario.Study
 }
 
 // NewModel returns the starting scenario. It is an invented example, not data from any
 // study.
 func NewModel() *Model {
 	m := &Model{Title: "Invented example: sparse signal, orthogonal design", Scale: scenario.ScaleRows,
-		kinds: map[string]string{}, texts: map[string]string{}}
+		kinds: map[string]string{}, texts: map[string]string{}, views: newViews()}
 	for _, g := range Groups() {
 		if len(g.Kinds) > 0 {
 			m.kinds[g.Name] = g.Kinds[0].Name
@@ -304,6 +327,7 @@ func (m *Model) SetKind(g, kind string) error {
 	}
 	m.kinds[g] = kind
 	pairLabels(m.kinds, g)
+	m.rev++
 	return nil
 }
 
@@ -368,6 +392,7 @@ func (m *Model) SetText(id, text string) error {
 		for _, f := range m.Fields(g.Name) {
 			if f.ID == id {
 				m.texts[f.key] = text
+				m.rev++
 				return nil
 			}
 		}
@@ -397,6 +422,13 @@ func (m *Model) Load(s scenario.Scenario) error {
 	}
 	m.kinds = kinds
 	m.Title, m.Notes, m.Study = s.Title, s.Notes, s.Study
+	tab := m.views.Tab
+	m.views = viewsOf(s.Study)
+	if s.Study == nil || s.Study.View == "" {
+		m.views.Tab = tab // a scenario that names no view leaves the page on the one it shows
+	}
+	m.vrev++
+	m.rev++
 	num := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 	list := func(vs []float64) string {
 		w := make([]string, len(vs))
@@ -453,10 +485,57 @@ type Checked struct {
 }
 
 // Check reads every input, checks each against its domain, then lets the engine check the
-// scenario as a whole (rules across fields, such as min <= max or weights summing to 1).
+// scenario as a whole (rules across fields, such as min <= max or weights summing to 1),
+// once: until the model changes, every call returns the same result. The views' settings
+// are fitted to the scenario (see fitViews) and written into its study.
 // Special cases are: several inputs may be invalid at once and each is reported; a problem
 // the engine cannot pin on one input is reported in Err only.
 func (m *Model) Check() Checked {
+	k := checkKey{rev: m.rev, vrev: m.vrev, title: m.Title, notes: m.Notes, scale: m.Scale, study: m.Study}
+	if m.checked != nil && m.key == k {
+		return *m.checked
+	}
+	bk := k
+	bk.vrev, bk.study = 0, nil
+	if m.base == nil || m.baseKey != bk {
+		b := m.check()
+		m.base, m.baseKey = &b, bk
+	}
+	c := m.withStudy(*m.base)
+	m.checked, m.key = &c, k
+	return c
+}
+
+// withStudy adds the study the views make to a checked scenario: an edit of a view's
+// setting checks the study alone, not the laws again.
+func (m *Model) withStudy(c Checked) Checked {
+	if c.Err != nil {
+		return c
+	}
+	s := c.Scenario
+	m.fitViews(s)
+	s.Study = m.studyOfViews()
+	// A part that does not fit (a range outside the domain of its number) is left out
+	// rather than making the edited scenario invalid.
+	for tries := 0; s.Study != nil && tries < 6; tries++ {
+		err := s.ValidateStudy()
+		if err == nil || !dropStudyPart(s.Study, err) {
+			break
+		}
+		if *s.Study == (scenario.Study{}) {
+			s.Study = nil
+		}
+	}
+	eng, err := c.Engine.WithStudy(s.Study)
+	if err != nil {
+		s.Study = nil
+		eng, _ = c.Engine.WithStudy(nil)
+	}
+	c.Scenario, c.Engine, c.JSON = s, eng, eng.Encode()
+	return c
+}
+
+func (m *Model) check() Checked {
 	c := Checked{Invalid: map[string]string{}}
 	s := scenario.Scenario{Kind: scenario.Kind, Version: scenario.Version, Title: m.Title, Notes: m.Notes, Study: m.Study,
 		Design:  scenario.Design{Shape: m.kinds["design"], Scale: m.Scale},
@@ -481,7 +560,6 @@ func (m *Model) Check() Checked {
 		c.Err = first
 		return c
 	}
-	s.Study = fitStudy(s) // a study run earlier must not invalidate an edited scenario
 	sc, err := s.Check()
 	if err != nil {
 		var fe *scenario.FieldError
@@ -493,13 +571,19 @@ func (m *Model) Check() Checked {
 		c.Err = err
 		return c
 	}
-	c.Scenario, c.JSON, c.Problem, c.Engine = s, sc.Encode(), sc.Problem(), sc
+	c.Scenario, c.Problem, c.Engine = s, sc.Problem(), sc
 	return c
 }
 
 // inputFor returns the id of the input that holds the JSON path field ("signal.values[3]"
 // is the input of "signal.values").
 func (m *Model) inputFor(field string) (string, bool) {
+	switch field {
+	case "title":
+		return TitleInputID, true
+	case "notes":
+		return NotesInputID, true
+	}
 	if i := strings.IndexByte(field, '['); i >= 0 {
 		field = field[:i]
 	}

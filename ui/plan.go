@@ -31,24 +31,12 @@ type planRow struct {
 	cancel       func()
 }
 
-// planInit reads the planner settings from the scenario's study.plan and study.best.
+// planInit sets the view's run state the first time it is used.
 func (c *PlanView) planInit() {
 	if c.inited || c.Model == nil {
 		return
 	}
-	c.inited, c.run, c.Unit = true, RunIdle, "db"
-	c.targetText, c.alphaMaxText = full(planTargetDB), full(planAlphaMax)
-	if st := c.Model.Study; st != nil {
-		if st.Plan != nil {
-			c.targetText = full(st.Plan.TargetDB)
-			if st.Plan.AlphaMax > 0 {
-				c.alphaMaxText = full(st.Plan.AlphaMax)
-			}
-		}
-		if st.Best != nil {
-			c.Over = st.Best.Over
-		}
-	}
+	c.inited, c.run = true, RunIdle
 }
 
 // Init implements vugu's initializer.
@@ -65,52 +53,57 @@ func (c *PlanView) Run() string {
 // Running reports whether plans are being computed.
 func (c *PlanView) Running() bool { return c.run == RunRunning }
 
-// TargetText and AlphaMaxText are the inputs' texts.
-func (c *PlanView) TargetText() string   { c.planInit(); return c.targetText }
-func (c *PlanView) AlphaMaxText() string { c.planInit(); return c.alphaMaxText }
+// TargetText, AlphaMaxText, Unit and Over are the planner's settings, from the page state.
+func (c *PlanView) TargetText() string   { return c.views().Target }
+func (c *PlanView) AlphaMaxText() string { return c.views().AlphaMax }
+func (c *PlanView) Unit() string         { return c.views().Unit }
+func (c *PlanView) Over() string         { return c.views().Over }
+
+func (c *PlanView) views() *Views {
+	if c.Model == nil {
+		return &Views{}
+	}
+	c.Model.Check() // fits the tuned weight to the penalty
+	return c.Model.Views()
+}
 
 // Weights are the regularizations the planner can tune for the current penalty: name and
-// label ("" lets the engine choose).
+// label. Special cases are: while the scenario is invalid, the weight in force alone.
 func (c *PlanView) Weights() [][2]string {
-	out := [][2]string{{"", "the penalty's main weight"}}
-	var l1, l2 bool
-	for _, p := range modelPaths(c.Model) {
-		l1 = l1 || p.Path == "penalty.l1"
-		l2 = l2 || p.Path == "penalty.l2"
+	if c.Model == nil {
+		return nil
 	}
-	if l1 {
-		out = append(out, [2]string{"l1", "L1 weight"})
+	if ch := c.Model.Check(); ch.Err == nil {
+		return Weights(ch.Scenario)
 	}
-	if l2 {
-		out = append(out, [2]string{"l2", "L2 weight"})
-	}
-	if l1 && l2 {
-		out = append(out, [2]string{study.Ratio, "L1 and L2 together, keeping their ratio"})
-	}
-	return out
+	return [][2]string{{c.Over(), c.Over()}}
 }
 
 // Set stores one setting: "target", "unit" (db or mse), "alpha_max" or "over".
 // Special cases are: an unknown name is an error.
 func (c *PlanView) Set(name, text string) error {
 	c.planInit()
-	switch name {
-	case "target":
-		c.targetText = text
-	case "unit":
-		c.Unit = text
-	case "alpha_max":
-		c.alphaMaxText = text
-	case "over":
-		c.Over = text
-	default:
-		return fmt.Errorf("no setting %q", name)
+	if c.Model == nil {
+		return fmt.Errorf("no scenario")
 	}
-	return nil
+	return c.Model.SetPlan(name, text)
 }
 
 func (c *PlanView) typed(e vugu.DOMEvent, name string) {
 	_ = c.Set(name, e.PropString("target", "value"))
+}
+
+// Stale tells whether the plans on screen were computed for another scenario or other
+// settings than the page's: they are then marked, with a button to compute them again.
+func (c *PlanView) Stale() bool {
+	if c.Model == nil || len(c.rows) == 0 || c.run == RunRunning {
+		return false
+	}
+	v := c.views()
+	t, err1 := strconv.ParseFloat(strings.TrimSpace(v.Target), 64)
+	a, err2 := strconv.ParseFloat(strings.TrimSpace(v.AlphaMax), 64)
+	return err1 != nil || err2 != nil || t != c.target || a != c.alphaMax || (v.Unit == "mse") != c.mse ||
+		v.Over != c.over || c.key != c.Model.problemKey()
 }
 
 // Start asks, for the current design and for each other shape at the same m/n scale, the
@@ -127,17 +120,22 @@ func (c *PlanView) Start() {
 		c.problem = "the scenario in the editor has a problem: " + ch.Err.Error()
 		return
 	}
-	target, err := strconv.ParseFloat(strings.TrimSpace(c.targetText), 64)
+	v := c.Model.Views()
+	target, err := strconv.ParseFloat(strings.TrimSpace(v.Target), 64)
 	if err != nil || math.IsNaN(target) || math.IsInf(target, 0) {
-		c.problem = fmt.Sprintf("target: %q is not a number", strings.TrimSpace(c.targetText))
+		c.problem = fmt.Sprintf("target: %q is not a number", strings.TrimSpace(v.Target))
 		return
 	}
-	amax, err := strconv.ParseFloat(strings.TrimSpace(c.alphaMaxText), 64)
+	amax, err := strconv.ParseFloat(strings.TrimSpace(v.AlphaMax), 64)
 	if err != nil || !(amax > 0 && amax <= scenario.MaxAlpha) {
-		c.problem = fmt.Sprintf("largest m/n: a number in (0, %g], not %q", float64(scenario.MaxAlpha), strings.TrimSpace(c.alphaMaxText))
+		c.problem = fmt.Sprintf("largest m/n: a number in (0, %g], not %q", float64(scenario.MaxAlpha), strings.TrimSpace(v.AlphaMax))
 		return
 	}
-	isMSE := c.Unit == "mse"
+	if v.Over == "" {
+		c.problem = "tune: the " + ch.Scenario.Penalty.Kind + " penalty has no weight to tune"
+		return
+	}
+	isMSE := v.Unit == "mse"
 	if isMSE && !(target > 0) {
 		c.problem = "target: an MSE target must be > 0"
 		return
@@ -151,17 +149,13 @@ func (c *PlanView) Start() {
 		c.problem = "the compute workers are still starting; try again in a moment"
 		return
 	}
-	st := studyOf(c.Model, "plan")
-	st.Plan = &scenario.Plan{TargetDB: db, AlphaMax: amax}
-	if c.Over == "l1" || c.Over == "l2" {
-		st.Best = &scenario.Best{Over: c.Over}
-	}
 	if err := (scenario.Scenario{Kind: s.Kind, Version: s.Version, Title: s.Title, Design: s.Design, Signal: s.Signal,
-		Noise: s.Noise, Penalty: s.Penalty, Study: st}).Validate(); err != nil {
+		Noise: s.Noise, Penalty: s.Penalty, Study: &scenario.Study{View: "plan", Plan: &scenario.Plan{TargetDB: db, AlphaMax: amax}}}).Validate(); err != nil {
 		c.problem = err.Error()
 		return
 	}
-	c.Model.Study = st
+	c.Model.ranStudy("plan", partPlan, partBest)
+	c.over, c.key = v.Over, c.Model.problemKey()
 
 	c.stop()
 	c.target, c.mse, c.alphaMax = target, isMSE, amax
@@ -185,7 +179,7 @@ func (c *PlanView) Start() {
 			r.Err = err.Error()
 			continue
 		}
-		r.cancel = start(c.Jobs, protocol.Plan, protocol.PlanArgs{Scenario: data, Target: target, MSE: isMSE, AlphaMax: amax, Over: c.Over}, nil,
+		r.cancel = start(c.Jobs, protocol.Plan, protocol.PlanArgs{Scenario: data, Target: target, MSE: isMSE, AlphaMax: amax, Over: v.Over}, nil,
 			func(out study.PlanResult, err error) {
 				r.cancel = nil
 				if err != nil {
@@ -210,6 +204,7 @@ func (c *PlanView) settle() {
 		if len(c.rows) > 0 && c.rows[0].Err != "" {
 			c.run, c.problem = RunError, c.rows[0].Err
 		}
+		c.startFigure()
 	}
 }
 
@@ -223,6 +218,10 @@ func (c *PlanView) Cancel() {
 }
 
 func (c *PlanView) stop() {
+	if c.fig.cancel != nil {
+		c.fig.cancel()
+		c.fig.cancel = nil
+	}
 	for _, r := range c.rows {
 		if r.cancel != nil {
 			r.cancel()
@@ -357,3 +356,5 @@ func (c *PlanView) Export() {
 func (c *PlanView) hasHeadline() bool { _, ok := c.Headline(); return ok }
 
 func (c *PlanView) headline() [3]string { h, _ := c.Headline(); return h }
+
+func (c *PlanView) staleText() string { return strconv.FormatBool(c.Stale()) }

@@ -61,7 +61,7 @@ func TestPlanMatchesEngineForEveryShape(t *testing.T) {
 	if !(want.Alpha < wg.Alpha) {
 		t.Errorf("orthogonal %g should need fewer measurements than gaussian %g", want.Alpha, wg.Alpha)
 	}
-	if st := m.Study; st == nil || st.View != "plan" || st.Plan == nil || st.Plan.TargetDB != -15 || st.Plan.AlphaMax != 3 {
+	if st := m.Check().Scenario.Study; st == nil || st.View != "plan" || st.Plan == nil || st.Plan.TargetDB != -15 || st.Plan.AlphaMax != 3 {
 		t.Fatalf("study.plan not saved: %+v", st)
 	}
 	c.Export()

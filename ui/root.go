@@ -4,10 +4,13 @@ import (
 	"fmt"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/vugu/vugu"
 
+	"hdrisk/engine/fixedpoint"
 	"hdrisk/engine/scenario"
+	"hdrisk/protocol"
 )
 
 // viewTab is one tab of the views area.
@@ -24,9 +27,6 @@ var viewTabs = []viewTab{
 func (c *Root) Init(vugu.InitCtx) {
 	if c.Model == nil {
 		c.Model = NewModel()
-	}
-	if c.tab == "" {
-		c.tab = viewTabs[0].Name
 	}
 	c.changed()
 }
@@ -45,19 +45,13 @@ func (c *Root) State() string {
 	}
 }
 
-// Tab returns the name of the selected view.
-func (c *Root) Tab() string { return c.tab }
+// Tab returns the name of the selected view, from the page state.
+func (c *Root) Tab() string { return c.Model.Views().Tab }
 
 // showTab selects the view named name. Special cases are: an unknown name changes nothing.
-func (c *Root) showTab(name string) {
-	for _, v := range viewTabs {
-		if v.Name == name {
-			c.tab = name
-		}
-	}
-}
+func (c *Root) showTab(name string) { c.Model.SetTab(name) }
 
-func (c *Root) selectedText(name string) string { return strconv.FormatBool(c.tab == name) }
+func (c *Root) selectedText(name string) string { return strconv.FormatBool(c.Tab() == name) }
 
 // fieldless is the problem of the scenario that no single input can be blamed for, shown
 // at the foot of the editor; "" when there is none.
@@ -99,8 +93,9 @@ func (c *Root) changed() {
 	}
 	c.busy, c.problem = true, ""
 	chk := c.checked
-	c.cancel = c.Eval.Evaluate(chk.JSON, func(f Figures, err error) {
-		c.cancel = nil
+	c.evalStart = c.now()
+	finish := func(f Figures, err error) {
+		c.cancel, c.onWorker = nil, false
 		c.busy = false
 		if err != nil {
 			c.problem, c.stale = err.Error(), c.have
@@ -110,7 +105,66 @@ func (c *Root) changed() {
 		c.summary = Summary(chk.Scenario)
 		c.support = hasZeroAtom(chk) && chk.Problem.Penalty.HasZeroRegion()
 		c.zeroes = chk.Problem.Penalty.HasZeroRegion()
+	}
+	// An evaluation that took longer than slowEval in the page stalls the editor while it
+	// runs; the next evaluations of scenarios of the same kinds go to a compute worker, where
+	// a new edit cancels them at once (the worker is replaced).
+	key := c.Model.Kind("design") + "|" + c.Model.Kind("signal") + "|" + c.Model.Kind("penalty")
+	if c.slowKinds == key && c.Jobs != nil {
+		data, err := bareJSON(chk.Scenario)
+		if err == nil {
+			c.onWorker = true
+			c.cancel = start(c.Jobs, protocol.Eval, protocol.EvalArgs{Scenario: data}, nil, func(r fixedpoint.Result, err error) {
+				finish(FiguresOf(r), err)
+			})
+			c.tick()
+			return
+		}
+	}
+	c.cancel = c.Eval.Evaluate(chk, func(f Figures, err error) {
+		if d := c.now().Sub(c.evalStart); d > slowEval {
+			c.slowKinds = key
+		} else if c.slowKinds == key {
+			c.slowKinds = ""
+		}
+		finish(f, err)
 	})
+}
+
+// slowEval is the longest evaluation the page runs itself (issue: the editor must stay
+// responsive): a longer one blocks the page's only thread while it runs.
+const slowEval = 200 * time.Millisecond
+
+func (c *Root) now() time.Time {
+	if c.Clock != nil {
+		return c.Clock()
+	}
+	return time.Now()
+}
+
+// tick renders the page every quarter second while an evaluation runs on a worker, so that
+// its progress line counts the time.
+func (c *Root) tick() {
+	tm, ok := c.Browser.(Timer)
+	if !ok || !c.onWorker {
+		return
+	}
+	tm.After(250*time.Millisecond, func() bool {
+		if !c.onWorker {
+			return false
+		}
+		c.tick()
+		return true
+	})
+}
+
+// WorkerNote says that the figures are being computed on a worker, and for how long.
+func (c *Root) WorkerNote() string {
+	if !c.onWorker {
+		return ""
+	}
+	return fmt.Sprintf("This scenario takes a while to solve, so it is solved on a compute worker and the editor stays free: %.1f s so far.",
+		c.now().Sub(c.evalStart).Seconds())
 }
 
 // hasZeroAtom tells whether the signal law puts mass exactly at zero: TPP and FDP are then

@@ -10,6 +10,8 @@ import "github.com/vugu/vugu"
 import js "github.com/vugu/vugu/js"
 import "log"
 
+import "time"
+
 // Root is the whole page: the scenario editor beside the headline figures, and below the
 // figures the views in tabs (curve, map, plan, check, data, share, assumptions).
 // Eval must be set before the first render.
@@ -30,9 +32,13 @@ type Root struct {
 	checked Checked // the editor's inputs, checked
 	cancel  func()
 
+	Clock     func() time.Time // nil: the real clock (tests set a fake)
+	evalStart time.Time        // when the running evaluation started
+	slowKinds string           // design|signal|penalty kinds whose last evaluation in the page was slow
+	onWorker  bool             // the running evaluation is on a compute worker
+
 	designPlot, signalPlot lawPlot
 	designKey, signalKey   string // the laws the two plots show
-	tab                    string // the view whose tab is selected
 }
 
 func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
@@ -135,6 +141,13 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 				_ = vgparent
 				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
 				vgparent.AppendChild(vgn)
+				if c.WorkerNote() != "" {
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "eval-worker"}, vugu.VGAttribute{Namespace: "", Key: "class", Val: "note"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}}}
+					vgparent.AppendChild(vgn)
+					vgn.SetInnerHTML(c.WorkerNote())
+				}
+				vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+				vgparent.AppendChild(vgn)
 				{
 					vgcompKey := vugu.MakeCompKey(0x95FB2BA47CA30CD2^vgin.CurrentPositionHash(), vgiterkey)
 					// ask BuildEnv for prior instance of this specific component
@@ -196,13 +209,36 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					}
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 					vgparent.AppendChild(vgn)
+					if len(c.Model.Views().Notes) > 0 {
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "ul", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "setting-notes"}, vugu.VGAttribute{Namespace: "", Key: "class", Val: "notes"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "status"}}}
+						vgparent.AppendChild(vgn)
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t\t"}
+							vgparent.AppendChild(vgn)
+							for vgiterkeyt, n := range c.Model.Views().Notes {
+								var vgiterkey interface{} = vgiterkeyt
+								_ = vgiterkey
+								n := n
+								_ = n
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "li", Attr: []vugu.VGAttribute(nil)}
+								vgparent.AppendChild(vgn)
+								vgn.SetInnerHTML(n)
+							}
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+							vgparent.AppendChild(vgn)
+						}
+					}
+					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
+					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(4), Data: " One panel per view: put the view's element inside its panel. A tab shows once\n\t\t\t\t     its panel holds something; an empty selected panel shows the assumptions\n\t\t\t\t     instead (page.css), so keep a panel without a view free of any whitespace. "}
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-curve"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-curve"}}}
 					vgparent.AppendChild(vgn)
-					vgn.AddAttrInterface("hidden", c.tab != "curve")
+					vgn.AddAttrInterface("hidden", c.Tab() != "curve")
 					{
 						vgparent := vgn
 						_ = vgparent
@@ -216,7 +252,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
-							vgcomp.Active = c.tab == "curve"
+							vgcomp.Active = c.Tab() == "curve"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
 							vgcomp.Model = c.Model
@@ -229,7 +265,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-map"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-map"}}}
 					vgparent.AppendChild(vgn)
-					vgn.AddAttrInterface("hidden", c.tab != "map")
+					vgn.AddAttrInterface("hidden", c.Tab() != "map")
 					{
 						vgparent := vgn
 						_ = vgparent
@@ -243,7 +279,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
-							vgcomp.Active = c.tab == "map"
+							vgcomp.Active = c.Tab() == "map"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
 							vgcomp.Model = c.Model
@@ -256,7 +292,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-plan"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-plan"}}}
 					vgparent.AppendChild(vgn)
-					vgn.AddAttrInterface("hidden", c.tab != "plan")
+					vgn.AddAttrInterface("hidden", c.Tab() != "plan")
 					{
 						vgparent := vgn
 						_ = vgparent
@@ -270,7 +306,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
-							vgcomp.Active = c.tab == "plan"
+							vgcomp.Active = c.Tab() == "plan"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
 							vgcomp.Model = c.Model
@@ -283,7 +319,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-check"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-check"}}}
 					vgparent.AppendChild(vgn)
-					vgn.AddAttrInterface("hidden", c.tab != "check")
+					vgn.AddAttrInterface("hidden", c.Tab() != "check")
 					{
 						vgparent := vgn
 						_ = vgparent
@@ -299,7 +335,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
-							vgcomp.Active = c.tab == "check"
+							vgcomp.Active = c.Tab() == "check"
 							vgcomp.Browser = c.Browser
 							vgcomp.Jobs = c.Jobs
 							vgcomp.Model = c.Model
@@ -314,7 +350,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-data"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-data"}}}
 					vgparent.AppendChild(vgn)
-					vgn.AddAttrInterface("hidden", c.tab != "data")
+					vgn.AddAttrInterface("hidden", c.Tab() != "data")
 					{
 						vgparent := vgn
 						_ = vgparent
@@ -330,7 +366,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
-							vgcomp.Active = c.tab == "data"
+							vgcomp.Active = c.Tab() == "data"
 							vgcomp.Browser = c.Browser
 							vgcomp.Changed = c.changed
 							vgcomp.Jobs = c.Jobs
@@ -346,7 +382,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-share"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-share"}}}
 					vgparent.AppendChild(vgn)
-					vgn.AddAttrInterface("hidden", c.tab != "share")
+					vgn.AddAttrInterface("hidden", c.Tab() != "share")
 					{
 						vgparent := vgn
 						_ = vgparent
@@ -362,7 +398,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 								vgin.BuildEnv.WireComponent(vgcomp)
 							}
 							vgin.BuildEnv.UseComponent(vgcompKey, vgcomp) // ensure we can use this in the cache next time around
-							vgcomp.Active = c.tab == "share"
+							vgcomp.Active = c.Tab() == "share"
 							vgcomp.Browser = c.Browser
 							vgcomp.Changed = c.changed
 							vgcomp.Figures = c.Figures
@@ -380,7 +416,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 					vgparent.AppendChild(vgn)
 					vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "panel panel-about"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "tabpanel"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "panel-about"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "tab-about"}}}
 					vgparent.AppendChild(vgn)
-					vgn.AddAttrInterface("hidden", c.tab != "about")
+					vgn.AddAttrInterface("hidden", c.Tab() != "about")
 					{
 						vgparent := vgn
 						_ = vgparent

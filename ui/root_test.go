@@ -4,6 +4,7 @@ import (
 	"errors"
 	"strings"
 	"testing"
+	"time"
 )
 
 // recorder is a test double of the Evaluator: it keeps the callbacks so that the test decides
@@ -14,7 +15,8 @@ type recorder struct {
 	cancelled []bool
 }
 
-func (r *recorder) Evaluate(s []byte, done func(Figures, error)) func() {
+func (r *recorder) Evaluate(chk Checked, done func(Figures, error)) func() {
+	s := chk.JSON
 	i := len(r.calls)
 	r.calls = append(r.calls, s)
 	r.dones = append(r.dones, done)
@@ -149,5 +151,38 @@ func TestResultsUnconverged(t *testing.T) {
 	r.Stale, r.Summary, r.Problem = true, "Design: x.", "penalty.l1: bad"
 	if !strings.HasPrefix(r.summaryText(), "Last valid scenario") || !strings.Contains(r.problemText(), "last valid") {
 		t.Errorf("stale texts: %q / %q", r.summaryText(), r.problemText())
+	}
+}
+
+// An evaluation that took longer than slowEval in the page sends the next ones of the same
+// kinds to a compute worker, where the editor is not blocked; a quick one brings them back.
+func TestSlowEvaluationMovesToAWorker(t *testing.T) {
+	ev, jobs := &recorder{}, &queueJobs{}
+	now := time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC)
+	c := &Root{Eval: ev, Jobs: jobs, Clock: func() time.Time { return now }}
+	c.Init(nil)
+	now = now.Add(300 * time.Millisecond)
+	ev.dones[0](Figures{MSE: 0.5, Converged: true}, nil)
+	if c.slowKinds == "" {
+		t.Fatal("a 0.3 s evaluation was not noted as slow")
+	}
+	c.changed()
+	if len(ev.calls) != 1 || len(jobs.queue) != 1 || jobs.queue[0].kind != "eval" || !c.onWorker || c.State() != "busy" {
+		t.Fatalf("the next evaluation should go to a worker: page calls %d, jobs %d, on worker %v", len(ev.calls), len(jobs.queue), c.onWorker)
+	}
+	if !strings.Contains(c.WorkerNote(), "compute worker") {
+		t.Errorf("no progress line while on the worker: %q", c.WorkerNote())
+	}
+	jobs.flush()
+	if c.State() != "ready" || c.onWorker || !c.have || c.Figures.MSE <= 0 {
+		t.Fatalf("the worker's figures were not taken: state %s, %+v", c.State(), c.Figures)
+	}
+	// Another kind of penalty is tried in the page again.
+	if err := c.Model.SetKind("penalty", "ridge"); err != nil {
+		t.Fatal(err)
+	}
+	c.changed()
+	if len(ev.calls) != 2 {
+		t.Errorf("a scenario of other kinds should be evaluated in the page first")
 	}
 }

@@ -14,6 +14,7 @@ import (
 
 	"hdrisk/engine"
 	"hdrisk/engine/scenario"
+	"hdrisk/engine/study"
 )
 
 // Keys, limits and timing of sharing.
@@ -23,6 +24,10 @@ const (
 	// AutosaveBeforeKey keeps the working scenario that a link opened on load replaced, so
 	// that opening someone's link never loses one's own work.
 	AutosaveBeforeKey = "hdrisk.autosave.before-link"
+	// AutosaveUnreadableKey keeps an autosave the page could not read (damaged, or written
+	// by a newer version), so that the starting scenario never overwrites the only copy: the
+	// share panel offers it for download.
+	AutosaveUnreadableKey = "hdrisk.autosave.unreadable"
 	// MaxPaste is the longest text the paste box reads, in bytes: a link (scenario.MaxLinkInput)
 	// or a scenario file (scenario.MaxBytes), both 4 MB. Longer text is refused before any
 	// decoding.
@@ -49,6 +54,14 @@ type saved struct {
 	Saved    string          `json:"saved"` // RFC 3339
 	Scenario json.RawMessage `json:"scenario"`
 	Results  *Figures        `json:"results,omitempty"` // figures of Scenario, when computed
+	Kept     []savedCurve    `json:"kept,omitempty"`    // the kept curves, by their settings
+}
+
+// savedCurve is a kept curve in the autosave: its scenario and axis, swept again on reload.
+type savedCurve struct {
+	Label    string          `json:"label"`
+	Scenario json.RawMessage `json:"scenario"`
+	Axis     study.Axis      `json:"axis"`
 }
 
 // Report is the JSON report the page exports: the scenario, its figures and the engine
@@ -85,11 +98,12 @@ type Share struct {
 
 	Now func() time.Time // clock; time.Now when nil
 
-	seen      string    // fingerprint of the model when last published
-	lastWrite time.Time // when the address was last written
-	figsSaved bool      // the last autosave holds the figures of the working scenario
-	hasBefore bool      // a scenario replaced by a link on load is kept (see Before)
-	started   bool
+	seen       string    // fingerprint of the model when last published
+	lastWrite  time.Time // when the address was last written
+	figsSaved  bool      // the last autosave holds the figures of the working scenario
+	hasBefore  bool      // a scenario replaced by a link on load is kept (see Before)
+	unreadable bool      // an autosave that could not be read is kept (AutosaveUnreadableKey)
+	started    bool
 
 	waitGen  int    // counts the pauses waited for; a timer of an older one does nothing
 	waitFP   string // the fingerprint whose pause is waited for
@@ -133,6 +147,7 @@ func (c *Share) Start() {
 		switch {
 		case ownErr != nil:
 			c.fail("The scenario saved in this browser could not be restored, so the page starts afresh", ownErr)
+			c.keepUnreadable()
 		case own:
 			c.Notice = "Restored the scenario you were working on: " + c.Model.Title
 		}
@@ -147,6 +162,9 @@ func (c *Share) Start() {
 			kept = "the scenario saved in this browser"
 		}
 		c.fail("The link could not be opened; the page shows "+kept+" instead", err)
+		if ownErr != nil {
+			c.keepUnreadable()
+		}
 		c.show("share")
 		c.changed()
 		// The address keeps the bad link until the next change, so the user can look at it.
@@ -158,6 +176,9 @@ func (c *Share) Start() {
 		c.fail("The link could not be opened", err)
 		c.changed()
 		return
+	}
+	if ownErr != nil {
+		c.keepUnreadable()
 	}
 	c.Notice = "Opened the scenario in the link: " + s.Title
 	c.showStudy(s)
@@ -187,14 +208,54 @@ func (c *Share) restore() (bool, error) {
 	if sv.Kind != AutosaveKey {
 		return false, fmt.Errorf("it is not the page's own record (kind %q)", clip(sv.Kind, 40))
 	}
+	if sv.Version != 1 {
+		return false, fmt.Errorf("it was written by another version of the page (record version %d, this page reads 1)", sv.Version)
+	}
 	s, err := scenario.Decode(sv.Scenario)
 	if err != nil {
 		return false, err
 	}
+	var kept []KeptCurve
+	for i, k := range sv.Kept {
+		ks, err := scenario.Decode(k.Scenario)
+		if err != nil {
+			return false, fmt.Errorf("kept curve %d: %w", i+1, err)
+		}
+		kept = append(kept, KeptCurve{Label: k.Label, Scenario: ks, Axis: k.Axis})
+	}
 	if err := c.load(s); err != nil {
 		return false, err
 	}
+	c.Model.SetKept(kept)
 	return true, nil
+}
+
+// keepUnreadable moves an autosave the page could not read out of the way of the next
+// autosave, under AutosaveUnreadableKey, and offers it for download.
+func (c *Share) keepUnreadable() {
+	text, ok := c.Browser.Load(AutosaveKey)
+	if !ok {
+		return
+	}
+	if err := c.Browser.Store(AutosaveUnreadableKey, text); err != nil {
+		c.Message += " It could not be kept aside either (" + err.Error() + "): save nothing here until you have copied it from the browser's storage."
+		return
+	}
+	c.unreadable = true
+	c.Message += " It is kept aside: download it below."
+}
+
+// Unreadable tells whether an autosave the page could not read is kept aside.
+func (c *Share) Unreadable() bool { return c.unreadable }
+
+// SaveUnreadable offers the autosave the page could not read as a file.
+func (c *Share) SaveUnreadable() {
+	text, ok := c.Browser.Load(AutosaveUnreadableKey)
+	if !ok || text == "" {
+		c.fail("There is no unreadable autosave kept in this browser", nil)
+		return
+	}
+	c.download("hdrisk-unreadable-autosave.json", []byte(text), "Saved the unreadable autosave as hdrisk-unreadable-autosave.json.")
 }
 
 // Before returns the scenario a link opened on load replaced, if one was kept.
@@ -244,9 +305,11 @@ func (c *Share) fingerprint() string {
 		}
 	}
 	b.WriteByte(0)
-	if c.Model.Study != nil {
-		st, _ := json.Marshal(c.Model.Study)
-		b.Write(st)
+	v := c.Model.Views()
+	st, _ := json.Marshal(c.Model.studyOfViews())
+	b.Write(st)
+	for _, k := range v.Kept {
+		fmt.Fprintf(&b, "\x00%d", k.ID)
 	}
 	return b.String()
 }
@@ -346,6 +409,13 @@ func (c *Share) autosave() {
 		f := c.Figures
 		sv.Results = &f
 	}
+	for _, k := range c.Model.Views().Kept {
+		data, err := k.Scenario.Encode()
+		if err != nil {
+			continue // a kept curve that cannot be written is left out, never the scenario
+		}
+		sv.Kept = append(sv.Kept, savedCurve{Label: k.Label, Scenario: data, Axis: k.Axis})
+	}
 	data, err := json.Marshal(sv)
 	if err != nil && sv.Results != nil {
 		// A figure JSON cannot hold (an infinite error): keep the scenario, which matters most.
@@ -426,10 +496,15 @@ func reason(err error) string {
 // and an autosave. Special cases are: a scenario the editor cannot hold changes nothing and
 // is reported.
 func (c *Share) open(s scenario.Scenario, notice string) bool {
+	// What is opened from this panel (pasted, a file, an example) sets every view's
+	// settings but leaves the page here, where the notice says what was opened; a link
+	// opens on the view its study names (Start, Navigated).
+	tab := c.Model.Views().Tab
 	if err := c.load(s); err != nil {
 		c.fail("The scenario could not be opened", err)
 		return false
 	}
+	c.Model.showOnly(tab)
 	c.Message, c.Notice = "", notice
 	c.changed()
 	if c.Browser != nil {

@@ -65,7 +65,11 @@ func (s *solver) bracket() (Result, error) {
 	if err == nil && r.Iterations > 0 {
 		return r, nil
 	}
-	return s.observe(Result{G1: b.g1, T1: t1, G2: b.g2, Iterations: 1, Residual: math.Abs(f(y))})
+	r, err = s.observe(Result{G1: b.g1, T1: t1, G2: b.g2, Iterations: 1, Residual: math.Abs(f(y))})
+	if err != nil {
+		return Result{}, errNoBracket()
+	}
+	return r, nil
 }
 
 // crawls reports whether t1 = Phi(t1) fails to cross at r: Phi - t1 keeps its sign a factor
@@ -117,7 +121,9 @@ func (b *bracketer) phi(t1 float64) (float64, bool) {
 			return 0, false
 		}
 	}
-	const reach = 690 // about log(1e300)
+	// g2 within 1e+-140 of the mean eigenvalue 1: S2 ~ 1/g2^2 stays a normal number, and
+	// at the upper end the estimate is zero to any precision (g1 is E[lambda] = 1 there).
+	const reach = 322
 	lo, hi, flo, fhi := x0, x0, f0, f0
 	x := x0
 	switch {

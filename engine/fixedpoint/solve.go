@@ -30,6 +30,7 @@ import (
 	"slices"
 
 	"hdrisk/engine/design"
+	"hdrisk/engine/param"
 	"hdrisk/engine/penalty"
 	"hdrisk/engine/signal"
 )
@@ -93,18 +94,11 @@ func (r Result) State() State { return State{G1: r.G1, T1: r.T1} }
 // ErrInput reports a problem that cannot be solved as stated.
 var ErrInput = errors.New("fixedpoint: invalid problem")
 
-// Error is a problem that has no finite, unique fixed point, or that cannot be solved as
-// stated: Field names the scenario field to change ("penalty", "design.alpha", "noise") and
-// Reason says why and what to do. It wraps ErrInput.
-type Error struct {
-	Field, Reason string
-}
-
-func (e *Error) Error() string { return e.Field + ": " + e.Reason }
-func (e *Error) Unwrap() error { return ErrInput }
-
+// fieldErr reports a problem that has no finite, unique fixed point, or that cannot be
+// solved as stated, as a *param.Error: Field names the scenario field to change ("penalty",
+// "design.alpha", "noise") and Reason says why and what to do.
 func fieldErr(field, format string, args ...any) error {
-	return &Error{Field: field, Reason: fmt.Sprintf(format, args...)}
+	return &param.Error{Field: field, Reason: fmt.Sprintf(format, args...)}
 }
 
 const (
@@ -130,6 +124,8 @@ const (
 	suspectT = 1e6
 
 	defaultMaxIter = 2000
+	// stallIter is how many steps a start may go without halving its best residual.
+	stallIter = 400
 
 	// MinAlpha is the smallest sampling ratio solved: below, the atom 1 - alpha of the
 	// design at zero is 1 to within 1e-8 and the observables differ from those of no
@@ -138,6 +134,9 @@ const (
 	// MinPower is the smallest E[x0^2] solved: below, the weights and variances of the
 	// signal's components approach the subnormal numbers.
 	MinPower = 1e-280
+	// MaxSpread is the largest ratio of the largest to the smallest nonzero eigenvalue of a
+	// design held as atoms.
+	MaxSpread = 1e30
 )
 
 // Solve finds the fixed point of the state evolution and its observables.
@@ -158,7 +157,7 @@ const (
 //	no convergence within MaxIter and no bracket: the last iterate, Converged = false, and
 //	  the residual; with MaxIter below the default the bracketing strategy is not tried.
 //
-// An *Error (wrapping ErrInput) is returned for a nil part, a negative or non-finite Delta,
+// A *param.Error naming the field is returned for a nil part, a negative or non-finite Delta,
 // a NaN, infinite or >= 1 tolerance, a signal of zero power, a problem whose minimizer is not
 // unique (no penalty below m/n = 1) and one whose error is infinite (least squares on a
 // design whose eigenvalues reach 0, or no finite fixed point). No result holds NaN or Inf.
@@ -184,6 +183,9 @@ func Solve(p Problem, o Options) (Result, error) {
 	}
 	if a := p.Design.Alpha(); a < MinAlpha {
 		return Result{}, fieldErr("design.alpha", "m/n = %v is below the solver's limit %v (fewer than one measurement per 100 million unknowns, where 1 - m/n rounds to 1): the error there is E[x0^2] to within m/n", a, MinAlpha)
+	}
+	if sp := design.Spread(p.Design); !(sp <= MaxSpread) {
+		return Result{}, fieldErr("design", "its nonzero eigenvalues spread over a factor %.3g, beyond the solver's limit %g (singular values over a factor 1e15), where the smallest ones are zeros to double precision: raise the smallest singular value (design.min, or the smallest of design.values), or give it as 0", sp, MaxSpread)
 	}
 	mean := p.Design.Mean()
 	if !(mean > 0) || math.IsInf(mean, 0) {
@@ -250,6 +252,10 @@ func refuse(q Problem) error {
 // interpolant), which lies beyond double precision.
 func (s *solver) diagnose() error {
 	pull := math.Abs(0.5-s.p.Penalty.Prox(0.5, 1)) / 0.5
+	if small := 1e-3; s.p.Penalty.Prox(small, 1) == small {
+		// Flat about 0 (a box without l2): small entries are left as they are.
+		pull = 0
+	}
 	if pull < 1e-9 && s.p.Design.Atom0() > 0 {
 		return fieldErr("penalty", "the penalty barely acts on entries of the size of the signal (it moves them by %.2g of their size) and %.3g of the design's eigenvalues are 0 (m/n = %v): the minimizer is not unique, or is the limit of a vanishing penalty, beyond the solver's reach; strengthen the penalty (a box penalty needs an l2 term here), or raise design.alpha", pull, s.p.Design.Atom0(), s.p.Design.Alpha())
 	}
@@ -296,14 +302,14 @@ func (s *solver) solve(start *State, sc, mean float64) (Result, error) {
 		return last, nil
 	}
 	r, err := s.bracket()
-	if err != nil {
-		if d := s.diagnose(); d != nil {
-			return Result{}, d
-		}
-		return Result{}, err
-	}
-	if r.Converged {
+	if err == nil && r.Converged {
 		return r, nil
+	}
+	if d := s.diagnose(); d != nil {
+		return Result{}, d
+	}
+	if err != nil {
+		return Result{}, err
 	}
 	if last.Iterations > 0 && last.Residual < r.Residual {
 		return last, nil
@@ -436,6 +442,7 @@ func (s *solver) run(st State) (Result, error) {
 	scale := s.rho2 + s.p.Noise*(1+1/s.p.Design.Mean()) + 1
 	damp := 0.5
 	prevRes := math.Inf(1)
+	bestRes, bestIt := math.Inf(1), 0
 	zeroCount := 0
 	var r Result
 	im, err := s.apply(g1, t1, math.NaN())
@@ -464,6 +471,13 @@ func (s *solver) run(st State) (Result, error) {
 				g1, t1, im = ng1, nt1, nim
 				continue
 			}
+		}
+		if im.res < bestRes/2 {
+			bestRes, bestIt = im.res, it
+		} else if it-bestIt > stallIter && s.o.MaxIter >= defaultMaxIter {
+			// No halving of the residual in stallIter steps: this start is stuck, and the
+			// bracketing strategy is cheaper than the rest of the budget.
+			break
 		}
 		if im.res > prevRes {
 			damp = math.Max(0.05, damp*0.5)
@@ -641,12 +655,15 @@ func (p scaled) Linear(g float64) (penalty.Linear, bool) {
 		return penalty.Linear{}, false
 	}
 	l, ok := lf.Linear(p.c * g)
+	if !ok {
+		return penalty.Linear{}, false
+	}
 	var out penalty.Linear
 	for _, q := range l.Pieces() {
 		q = p.piece(q)
 		out.Then(q.Hi, q.Slope, q.Intercept)
 	}
-	return out, ok
+	return out, true
 }
 
 func (p scaled) piece(q penalty.Piece) penalty.Piece {

@@ -2,6 +2,7 @@ package plot
 
 import (
 	"bytes"
+	"math"
 
 	"gonum.org/v1/plot/vg/vgpdf"
 )
@@ -21,15 +22,23 @@ func (f *Figure) PDF() ([]byte, error) {
 	return b.Bytes(), nil
 }
 
-// Warm draws a small figure of each kind and drops them, so that the first figure someone
-// waits for does not pay for loading the font and for the first run of the layout code (in
-// the page's WebAssembly, about a quarter of a second).
+// Warm draws a curve and a small map and drops them, so that the first figure someone
+// waits for does not pay for loading the font and for the first runs of the layout, contour
+// and PNG code (in WebAssembly the first map of a page takes ten times as long as the next).
 func Warm() {
 	if f, err := (Line{Title: "warm-up", XLabel: "x", YLabel: "y", Series: []Series{{Name: "a", X: []float64{1, 2, 3}, Y: []float64{1, 3, 2}}},
-		HLines: []Mark{{At: 2, Label: "mark"}}}).Build(); err == nil {
+		HLines: []Mark{{At: 2, Label: "mark"}}, VLines: []Mark{{At: 2, Label: "mark"}}}).Build(); err == nil {
 		_, _ = f.SVG()
 	}
-	if f, err := (Heat{ZLabel: "z", X: []float64{1, 2, 3}, Y: []float64{1, 2}, Z: []float64{1, 2, 3, 4, 5, 6}, MarkLowest: true}).Build(); err == nil {
+	const n = 30
+	x, y, z := make([]float64, n), make([]float64, n), make([]float64, n*n)
+	for i := range x {
+		x[i], y[i] = math.Pow(10, float64(i)/n), float64(i)
+	}
+	for k := range z {
+		z[k] = math.Sin(float64(k%n)/7) + math.Cos(float64(k/n)/5)
+	}
+	if f, err := (Heat{Title: "warm-up", ZLabel: "z", X: x, Y: y, Z: z, XLog: true, MarkLowest: true}).Build(); err == nil {
 		_, _ = f.SVG()
 	}
 }

@@ -187,8 +187,10 @@ func (quietContour) GlyphBoxes(*gplot.Plot) []gplot.GlyphBox { return nil }
 
 // raster draws the cells of a heat map as one 8-bit paletted image (a PNG of a quarter the
 // size of gonum's 16-bit RGBA one, encoded several times faster), each cell split into
-// k x k pixels so that the map is at least 600 pixels wide and tall: the renderer that
-// scales the image up then blurs only a sliver at each cell edge instead of the whole map.
+// k x k pixels so that the map is at least 300 pixels wide and tall: a renderer that scales
+// the image up smoothly (the command line's PNG) then blurs only a sliver at each cell edge
+// instead of the whole map. The browser is told to scale it up without smoothing (see
+// svgFixes); encoding the PNG is most of the time a map takes to draw in the page.
 type raster struct {
 	g      *grid
 	cmap   palette.ColorMap
@@ -200,10 +202,11 @@ const nanIndex = 255
 
 func (r *raster) image() *image.Paletted {
 	nx, ny := len(r.g.x), len(r.g.y)
-	k := max(1, (600+min(nx, ny)-1)/min(nx, ny))
+	k := max(1, (300+min(nx, ny)-1)/min(nx, ny))
 	pal := make(color.Palette, 256)
 	for i := range nanIndex {
-		c, err := r.cmap.At(r.lo + (r.hi-r.lo)*float64(i)/float64(nanIndex-1))
+		// The top entry computed as lo + (hi - lo) can round past hi, which the colour map refuses.
+		c, err := r.cmap.At(math.Min(r.hi, r.lo+(r.hi-r.lo)*float64(i)/float64(nanIndex-1)))
 		if err != nil {
 			c = color.Black
 		}

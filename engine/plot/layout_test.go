@@ -6,6 +6,9 @@ import (
 	"strings"
 	"testing"
 
+	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/study"
+
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/recorder"
@@ -262,5 +265,37 @@ func TestHeatLayoutGolden(t *testing.T) {
 		if !strings.Contains(fmt.Sprint(seen), "lowest") {
 			t.Errorf("%gx%g: the lowest point is not labelled", w, h)
 		}
+	}
+}
+
+// A plan's figure labels its target on the error axis, beside the target's line, and marks
+// the m/n found.
+func TestPlanFigureLabelsTarget(t *testing.T) {
+	var pts []study.Point
+	for i := 0; i <= 40; i++ {
+		a := 1 * math.Pow(8, float64(i)/40)
+		pts = append(pts, study.Point{X: a, Result: fixedpoint.Result{NMSEdB: -5 - 12*math.Log(a), Converged: true}})
+	}
+	l, ok := PlanFigure{Curve: pts, Over: "l1", Target: -17, Alpha: 2.72}.Line()
+	if !ok {
+		t.Fatal("no figure")
+	}
+	f, err := l.Build()
+	if err != nil {
+		t.Fatal(err)
+	}
+	ts := texts(t, f)
+	var target, answer bool
+	for _, x := range ts {
+		_, py := toPoints(f, 2, -17)
+		if x.s == "-17" && math.Abs((x.box.MinY+x.box.MaxY)/2-py) < 2 && x.box.MaxX < f.Layout().Data.MinX {
+			target = true
+		}
+		if strings.HasPrefix(x.s, "m/n = 2.72") {
+			answer = true
+		}
+	}
+	if !target || !answer {
+		t.Errorf("target labelled on the axis: %v; answer marked: %v", target, answer)
 	}
 }

@@ -18,8 +18,11 @@ import (
 	"encoding/base64"
 	"errors"
 	"fmt"
+	"html"
 	"image/color"
 	"math"
+	"regexp"
+	"strconv"
 	"strings"
 
 	gplot "gonum.org/v1/plot"
@@ -123,19 +126,42 @@ func (f *Figure) SVG() ([]byte, error) {
 	if _, err := c.WriteTo(&b); err != nil {
 		return nil, err
 	}
-	return []byte(svgFixes.Replace(b.String())), nil
+	return fitTexts([]byte(svgFixes.Replace(b.String()))), nil
+}
+
+// svgText matches a text of gonum's SVG canvas once svgFixes has run: its attributes, its
+// font size and its (escaped) content.
+var svgText = regexp.MustCompile(`<text ([^>]*?)\n?\s*style="font-size:([0-9.]+)px">([^<]*)</text>`)
+
+// fitTexts gives every text of six characters or more the width the figure was laid out
+// with (textLength, with glyphs and spacing adjusted): where neither Liberation Sans nor a
+// metric-compatible face is installed, the browser's fallback face is wider or narrower,
+// and a title, a legend entry or a label would run out of its box, over a swatch or off
+// the canvas. A shorter text (a tick label) moves by a pixel or two at most.
+func fitTexts(svg []byte) []byte {
+	return svgText.ReplaceAllFunc(svg, func(m []byte) []byte {
+		sub := svgText.FindSubmatch(m)
+		size, err := strconv.ParseFloat(string(sub[2]), 64)
+		if err != nil || len(sub[3]) < 6 {
+			return m
+		}
+		w := textStyle(vg.Length(size)).Width(html.UnescapeString(string(sub[3])))
+		return []byte(fmt.Sprintf(`<text %s textLength="%.1f" lengthAdjust="spacingAndGlyphs" style="font-size:%spx">%s</text>`,
+			strings.TrimSpace(string(sub[1])), float64(w), sub[2], sub[3]))
+	})
 }
 
 // svgFixes corrects what gonum's SVG canvas writes for the page and for export:
 //   - an SVG <image> keeps its own aspect ratio unless told otherwise, which would shrink a
-//     heat map's raster inside its axes; the axes need it stretched;
+//     heat map's raster inside its axes; the axes need it stretched, each cell a sharp
+//     block of colour (pixelated, not smoothed);
 //   - the raster is a PNG, which the canvas labels image/jpg;
 //   - the text is laid out with Liberation Sans metrics: where that face is not installed,
 //     the metric-compatible Arial or Helvetica keeps the legend's and labels' widths. The
 //     one face every text uses is named once, on the root, rather than on every text with
 //     the default variant, weight and style beside it.
 var svgFixes = strings.NewReplacer(
-	"<image ", `<image preserveAspectRatio="none" `,
+	"<image ", `<image preserveAspectRatio="none" image-rendering="pixelated" `,
 	"data:image/jpg;base64,", "data:image/png;base64,",
 	`xmlns:xlink="http://www.w3.org/1999/xlink">`, `xmlns:xlink="http://www.w3.org/1999/xlink" font-family="'Liberation Sans',Arial,Helvetica,sans-serif">`,
 	"font-family:Liberation Sans;font-variant:normal;font-weight:normal;font-style:normal;", "",

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/base64"
 	"encoding/csv"
+	"fmt"
 	"image"
 	"image/color"
 	"math"
@@ -157,7 +158,7 @@ func TestHeatReadoutFindsMissingCell(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if bytes.Contains(svg, []byte("<image x=")) || !bytes.Contains(svg, []byte(`<image preserveAspectRatio="none" `)) {
+		if bytes.Contains(svg, []byte("<image x=")) || !bytes.Contains(svg, []byte(`<image preserveAspectRatio="none" image-rendering="pixelated" `)) {
 			t.Error("the SVG's raster must stretch to the axes (preserveAspectRatio none)")
 		}
 		if !bytes.Contains(svg, []byte(`xlink:href="data:image/png;base64,`)) {
@@ -202,6 +203,12 @@ func TestRenderSVGAndDataURL(t *testing.T) {
 	}
 	if !bytes.Contains(svg, []byte("<svg")) || !bytes.Contains(svg, []byte("reference")) || !bytes.Contains(svg, []byte("no converged value")) {
 		t.Errorf("SVG lacks the figure or its legend: %.200s", svg)
+	}
+	// A label keeps the width it was laid out with in any browser face (textLength).
+	want := fmt.Sprintf(`textLength="%.1f" lengthAdjust="spacingAndGlyphs" style="font-size:%gpx">reference</text>`,
+		float64(textStyle(noteSize).Width("reference")), float64(noteSize))
+	if !bytes.Contains(svg, []byte(want)) {
+		t.Errorf("the mark's label is not held to its laid-out width: want %s", want)
 	}
 	u := DataURL("image/svg+xml", svg)
 	back, err := base64.StdEncoding.DecodeString(strings.TrimPrefix(u, "data:image/svg+xml;base64,"))

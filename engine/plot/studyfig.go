@@ -287,3 +287,38 @@ func FixedLabel(s scenario.Scenario, tuned string) string {
 	}
 	return "as set"
 }
+
+// PlanFigure is the figure of a plan: the best-tuned error against m/n around the answer,
+// the target and the m/n found to reach it.
+type PlanFigure struct {
+	Scenario scenario.Scenario
+	Curve    []study.Point // the best-tuned curve over alpha
+	Over     string        // the weight tuned
+	Target   float64       // NMSE in dB, or an MSE when MSE is set
+	MSE      bool
+	Alpha    float64 // the m/n found; NaN or 0 for none
+	Width    float64
+	Height   float64
+}
+
+// Line returns the line figure. Special cases are: a curve without points gives ok false.
+func (pf PlanFigure) Line() (Line, bool) {
+	q := "nmse_db"
+	unit := " dB"
+	if pf.MSE {
+		q, unit = "mse", ""
+	}
+	sf := SweepFigure{Scenario: pf.Scenario, Axis: study.Axis{Over: "alpha", Log: true}, Quantity: q, YLog: pf.MSE,
+		Curves: []Curve{{Points: pf.Curve}}, Width: pf.Width, Height: pf.Height}
+	l, ok := sf.Line()
+	if !ok {
+		return l, false
+	}
+	l.Title = Observable(q).Label + " at the best " + pf.Over + " against m/n"
+	l.HLines = append(l.HLines, Mark{At: pf.Target, Label: "target " + strconv.FormatFloat(pf.Target, 'g', 4, 64) + unit})
+	l.YTicks = append(l.YTicks, pf.Target)
+	if pf.Alpha > 0 {
+		l.VLines = append(l.VLines, Mark{At: pf.Alpha, Label: "m/n = " + strconv.FormatFloat(pf.Alpha, 'g', 4, 64) + " reaches it"})
+	}
+	return l, true
+}

@@ -171,6 +171,25 @@ func (t ticker) decades(lo, hi float64) (major, minor []float64) {
 			break
 		}
 	}
+	// Two decades or fewer leave few labels: 2 and 5 times each power of ten are labelled
+	// too when they fit.
+	if len(major) < 3 {
+		var more []float64
+		for k := k0; k <= k1; k++ {
+			for _, m := range []float64{1, 2, 5} {
+				if v := m * pow10(k); v >= lo*(1-1e-9) && v <= hi*(1+1e-9) {
+					more = append(more, v)
+				}
+			}
+		}
+		ls := make([]string, len(more))
+		for i, v := range more {
+			ls[i] = label(v)
+		}
+		if t.fits(lo, hi, more, ls) {
+			major = more
+		}
+	}
 	for k := k0; k <= k1; k++ {
 		for m := 1; m <= 9; m++ {
 			v := float64(m) * pow10(k)

@@ -130,6 +130,10 @@ func branchCuts(sides []sideComp, b brancher, e, g float64) []float64 {
 			r = next
 			continue
 		}
+		// A component far narrower than the rounding of its position (a spread of more
+		// than 1e15 between the components' means and widths) is stepped over at the
+		// rounding scale, which bounds the walk.
+		w = math.Max(w, 1e-14*math.Abs(r))
 		r = math.Min(r+w, next)
 		rc = append(rc, r)
 	}

@@ -13,6 +13,8 @@
 //
 // With a piecewise-linear prox, Expect uses closed forms: for each component the posterior of x0
 // given r is Gaussian, and on each linear piece the error reduces to truncated normal moments.
-// ExpectQuad computes the same numbers by Gauss-Legendre quadrature split at the kinks; it serves
-// every other penalty and cross-checks the closed forms.
+// For the power penalty, whose prox has an explicit inverse r = x + k x^(q-1), Expect integrates
+// along that inverse, where no prox is solved and the nodes are shared by every component
+// (method.md section 11). ExpectQuad computes the same numbers by Gauss-Legendre quadrature
+// split at the kinks; it serves every other penalty and cross-checks the faster paths.
 package signal

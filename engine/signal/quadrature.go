@@ -107,6 +107,8 @@ func ExpectQuad(l Law, p penalty.Penalty, g, t float64) Moments {
 		slices.Sort(cuts)
 		cuts = slices.Compact(cuts)
 		var mse, a, nz float64
+		// Sub-intervals below the rounding of their position add nothing but time.
+		width = math.Max(width, 1e-14*math.Max(math.Abs(lo), math.Abs(hi)))
 		for i := 1; i < len(cuts); i++ {
 			n := int(math.Ceil((cuts[i] - cuts[i-1]) / width))
 			h := (cuts[i] - cuts[i-1]) / float64(n)

@@ -46,7 +46,7 @@ var laws = []struct {
 		{Name: "halfwidth", Unit: "units of x0", Max: inf, MinOpen: true, MaxOpen: true, Log: true, Role: param.Scale, Help: "largest absolute value of an entry"}}},
 		func(v map[string]float64, _ map[string][]float64) (Law, error) { return Uniform(v["halfwidth"]) }},
 	{Kind{"student-t", "Student-t: heavy tails, more so with fewer degrees of freedom", false, []param.Param{
-		{Name: "dof", Unit: "degrees of freedom", Min: 2, Max: inf, MinOpen: true, MaxOpen: true, Log: true, Role: param.Shape, Help: "more than 2, so that the variance is finite"},
+		{Name: "dof", Unit: "degrees of freedom", Min: 2, Max: inf, MinOpen: true, MaxOpen: true, Log: true, Role: param.Shape, Help: "more than 2, so that the variance is finite; above 1e10 the Gaussian law of the same variance"},
 		{Name: "scale", Unit: "units of x0", Max: inf, MinOpen: true, MaxOpen: true, Log: true, Role: param.Scale, Help: "spread; the variance is scale^2 dof/(dof - 2)"}}},
 		func(v map[string]float64, _ map[string][]float64) (Law, error) { return StudentT(v["dof"], v["scale"]) }},
 	{Kind{"gauss-mixture", "a mixture of Gaussians with the given weights, means and variances", true, []param.Param{

@@ -149,20 +149,24 @@ func TestDenseOfSVD(t *testing.T) {
 
 // Every coordinate of a Fast matrix is mixed: no column of Q is a signed column of the
 // identity, at sizes where a random draw of the permutations leaves some unmixed (n = 1e4,
-// block k = 9217: about (1 - k/n)^3 n = 5 coordinates).
+// block k = 9217: about (1 - k/n)^3 n = 5 coordinates). An unmixed coordinate j is copied
+// exactly, up to its sign, to some position i, so (Q x)_i = +-x_j for every x: two random
+// vectors find it, where a mixed coordinate matches no entry of x exactly.
 func TestFastMixesEveryCoordinate(t *testing.T) {
-	for _, n := range []int{10000} {
-		f := NewFast(rand.New(rand.NewPCG(1, 0)), n, DefaultRounds)
-		x := make([]float64, n)
-		col := make([]float64, n)
-		// A column of the identity is a vector with a single entry of magnitude 1; mixed
-		// columns have all entries far below 1 (about 1/sqrt(n) each).
-		for j := 0; j < n; j++ {
-			x[j] = 1
-			f.Mul(col, x)
-			x[j] = 0
-			if maxAbs(col) > 0.5 {
-				t.Fatalf("n = %d: column %d of Q has an entry %g: not mixed", n, j, maxAbs(col))
+	for _, n := range []int{10000, 5000, 40000} {
+		rng := rand.New(rand.NewPCG(1, 0))
+		f := NewFast(rng, n, DefaultRounds)
+		x1, x2 := normals(rng, n), normals(rng, n)
+		y1, y2 := make([]float64, n), make([]float64, n)
+		f.Mul(y1, x1)
+		f.Mul(y2, x2)
+		at := map[float64]int{}
+		for j, v := range x1 {
+			at[math.Abs(v)] = j
+		}
+		for i, v := range y1 {
+			if j, ok := at[math.Abs(v)]; ok && math.Abs(y2[i]) == math.Abs(x2[j]) {
+				t.Errorf("n = %d: coordinate %d is copied to %d unmixed", n, j, i)
 			}
 		}
 	}

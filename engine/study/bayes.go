@@ -33,8 +33,8 @@ type BayesResult struct {
 // Limits of the Bayes reference.
 const (
 	// MaxBayesComponents bounds the Gaussian mixture of the signal law: the quadrature of the
-	// posterior mean costs a number of nodes proportional to its square.
-	MaxBayesComponents = 64
+	// posterior mean costs a number of nodes times the number of components.
+	MaxBayesComponents = signal.MaxMixture
 	bayesMaxIter       = 20000
 	bayesTol           = 1e-12
 	bayesFloor         = 1e-13 // relative to rho2: below it the error counts as zero
@@ -59,29 +59,29 @@ const (
 // t = rho2 * 1e10 (uninformed) and from t = rho2 / 1e10 (informed) to the highest and the
 // lowest fixed point; they differ across a first-order transition. The penalty of p is not used.
 //
-// The posterior mean is computed for signal laws whose Gaussian-mixture form is exact
-// (Gaussian, Bernoulli-Gaussian, Bernoulli-Rademacher, Gaussian mixtures, point masses):
-// with components (w_k, m_k, v_k), mmse(t) = sum_k w_k v_k t/(v_k + t) + M,
+// The posterior mean is computed numerically from the signal law's Gaussian-mixture form: exact
+// for the Gaussian, Bernoulli-Gaussian, Bernoulli-Rademacher, Gaussian-mixture and empirical
+// laws, and the law's discretization for the Laplace, Student-t and uniform laws (accurate to
+// the discretization, see package signal). With components (w_k, m_k, v_k),
+// mmse(t) = sum_k w_k v_k t/(v_k + t) + M,
 // M = E[sum_k pi_k(r) (mu_k(r) - E[x0|r])^2], pi_k the posterior weight of component k and
 // mu_k(r) its posterior mean. M has no cancellation; it is integrated by 16-point
 // Gauss-Legendre panels one standard deviation wide over +-12 standard deviations of every
-// component, so that narrow components (small t) are resolved.
+// component (breaks closer than half the local narrowest standard deviation merged), so that
+// narrow components (small t) are resolved.
 //
 // Special cases are: Delta = 0 uses the limit Delta -> 0 of the linear step, gamma1 =
 // gamma2 (1 - nu({0}))/nu({0}) (E2 -> nu({0})/gamma2), and exact recovery (an error below
 // 1e-13 rho2 that is still falling) is reported as MSE = 0 with Exact set; a design without an
 // atom at zero and Delta = 0 recovers exactly at once. Errors are returned for a nil design or
-// signal, a negative or non-finite Delta, a signal law whose mixture form is a discretization
-// (Laplace, Student-t), more than MaxBayesComponents components, and a signal without power.
+// signal, a negative or non-finite Delta, more than MaxBayesComponents components, and a
+// signal without power.
 func Bayes(p fixedpoint.Problem) (BayesResult, error) {
 	if p.Design == nil || p.Signal == nil {
 		return BayesResult{}, specErr("problem", "the Bayes reference needs a design and a signal law")
 	}
 	if !(p.Noise >= 0) || math.IsInf(p.Noise, 0) {
 		return BayesResult{}, specErr("noise", "must be a finite number >= 0, not %v", p.Noise)
-	}
-	if !p.Signal.Exact() {
-		return BayesResult{}, specErr("signal", "the posterior mean of the %s law has no closed form here (the Bayes reference covers Gaussian, Bernoulli-Gaussian, Bernoulli-Rademacher, Gaussian-mixture and point-mass laws)", p.Signal.Name())
 	}
 	mx, err := newMixtureMMSE(p.Signal.Mixture())
 	if err != nil {
@@ -162,6 +162,7 @@ func (se *bayesSE) run(gamma1 float64) (BayesPoint, error) {
 // scalar channel r = x0 + sqrt(t) z.
 type mixtureMMSE struct {
 	c      []signal.Component // components of positive weight
+	rho2   float64            // E[x0^2] of the mixture
 	gx, gw []float64          // Gauss-Legendre nodes and weights on [-1, 1]
 	lq, mu []float64          // scratch: log-density and posterior mean per component
 	breaks []float64          // scratch: panel ends
@@ -182,7 +183,11 @@ func newMixtureMMSE(comps []signal.Component) (*mixtureMMSE, error) {
 		return nil, specErr("signal", "the Bayes reference takes at most %d mixture components, not %d", MaxBayesComponents, len(c))
 	}
 	const nodes = 16
-	m := &mixtureMMSE{c: c, gx: make([]float64, nodes), gw: make([]float64, nodes),
+	rho2 := 0.0
+	for _, k := range c {
+		rho2 += k.Weight * (k.Mean*k.Mean + k.Var)
+	}
+	m := &mixtureMMSE{c: c, rho2: rho2, gx: make([]float64, nodes), gw: make([]float64, nodes),
 		lq: make([]float64, len(c)), mu: make([]float64, len(c))}
 	quad.Legendre{}.FixedLocations(m.gx, m.gw, -1, 1)
 	return m, nil
@@ -217,7 +222,7 @@ func (m *mixtureMMSE) mixing(t, within float64) float64 {
 		}
 	}
 	slices.Sort(m.breaks)
-	m.breaks = slices.Compact(m.breaks)
+	m.breaks = m.prune(m.breaks, t)
 	m.whole = m.whole[:0]
 	var rough float64
 	for i := 1; i < len(m.breaks); i++ {
@@ -225,12 +230,38 @@ func (m *mixtureMMSE) mixing(t, within float64) float64 {
 		m.whole = append(m.whole, q)
 		rough += q
 	}
-	tol := mixingTol * (within + rough) / float64(len(m.whole))
+	// The tolerance is relative to the error, but never below 1e-16 E[x0^2]: an
+	// exponentially small mixing term (well-separated point masses at small t) would
+	// otherwise be refined to the full depth on every panel.
+	tol := mixingTol * math.Max(within+rough, 1e-4*m.rho2) / float64(len(m.whole))
 	var sum float64
 	for i, q := range m.whole {
 		sum += m.refine(m.breaks[i], m.breaks[i+1], t, q, tol, 0)
 	}
 	return sum
+}
+
+// prune drops the breaks closer to the last kept one than half the narrowest standard
+// deviation of the components whose window holds them: a scale mixture's windows overlap
+// and would otherwise put 25 breaks per component in the same place.
+func (m *mixtureMMSE) prune(b []float64, t float64) []float64 {
+	if len(m.c) <= 8 {
+		return slices.Compact(b)
+	}
+	out := b[:1]
+	for _, x := range b[1:] {
+		w := math.Inf(1)
+		for _, k := range m.c {
+			sd := math.Sqrt(k.Var + t)
+			if math.Abs(x-k.Mean) <= windowSD*sd {
+				w = math.Min(w, sd)
+			}
+		}
+		if x-out[len(out)-1] >= w/2 || x == b[len(b)-1] {
+			out = append(out, x)
+		}
+	}
+	return out
 }
 
 const (

@@ -2,11 +2,12 @@ package study
 
 import (
 	"context"
+	"encoding/json"
 	"math"
-	"strings"
 	"testing"
 
 	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/penalty"
 	"hdrisk/engine/signal"
 )
 
@@ -191,14 +192,66 @@ func TestBayesFirstOrderTransition(t *testing.T) {
 	}
 }
 
+// The Bayes reference covers the laws whose mixture is a discretization, numerically: for
+// Laplace, Student-t and uniform signals (and a mixture of 100 components) it exists, and the
+// posterior mean's error lies below that of every other estimator, here the best LASSO of a
+// grid (the defining property of the minimum mean-square error, common practice).
+func TestBayesNumericalPosterior(t *testing.T) {
+	w, m, v := make([]float64, 100), make([]float64, 100), make([]float64, 100)
+	for i := range w {
+		w[i], m[i], v[i] = 0.01, float64(i%10)-4.5, 0.1
+	}
+	mix, _ := json.Marshal(map[string]any{"law": "gauss-mixture", "weights": w, "means": m, "variances": v})
+	for _, sig := range []string{`{"law": "laplace", "scale": 1}`, `{"law": "student-t", "dof": 5, "scale": 1}`, `{"law": "uniform", "halfwidth": 2}`, string(mix)} {
+		p, err := scen(t, gaussDesign(0.5, "rows"), sig, 0.1, lasso(1)).Problem()
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := Bayes(p)
+		if err != nil || !b.Uninformed.Converged {
+			t.Fatalf("%s: %+v %v", sig, b, err)
+		}
+		best := math.Inf(1)
+		for _, l1 := range []float64{0.01, 0.03, 0.1, 0.3, 1} {
+			p.Penalty, _ = penalty.L1(l1)
+			if r, err := fixedpoint.Solve(p, fixedpoint.Options{}); err == nil && r.Converged {
+				best = math.Min(best, r.MSE)
+			}
+		}
+		if !(b.Informed.MSE <= best) {
+			t.Errorf("%s: Bayes MSE %v above the best LASSO %v", sig, b.Informed.MSE, best)
+		}
+	}
+}
+
+// The mixture MMSE of the uniform law's 64 atoms against the posterior of the uniform law
+// itself: x0 | r is N(r, t) truncated to [-a, a], whose variance is t (1 + (A phi(A) - B phi(B))/Z
+// - ((phi(A) - phi(B))/Z)^2), A = (-a - r)/sqrt t, B = (a - r)/sqrt t, Z = Phi(B) - Phi(A)
+// (truncated normal moments; Johnson, Kotz & Balakrishnan 1994, Continuous Univariate
+// Distributions 1, section 10.1), integrated over r by Simpson's rule with p(r) = Z/(2a).
+func TestBayesUniformPosterior(t *testing.T) {
+	const a = 2.0
+	l, _ := signal.Uniform(a)
+	for _, tv := range []float64{0.1, 1} {
+		st := math.Sqrt(tv)
+		phi := func(x float64) float64 { return math.Exp(-x*x/2) / math.Sqrt(2*math.Pi) }
+		cdf := func(x float64) float64 { return math.Erfc(-x/math.Sqrt2) / 2 }
+		want := simpson(func(r float64) float64 {
+			A, B := (-a-r)/st, (a-r)/st
+			z := cdf(B) - cdf(A)
+			if z <= 0 {
+				return 0
+			}
+			d := (phi(A) - phi(B)) / z
+			return z / (2 * a) * tv * (1 + (A*phi(A)-B*phi(B))/z - d*d)
+		}, -a-14*st, a+14*st, 20000)
+		if got := mmseOf(t, l.Mixture(), tv); relDiff(got, want) > 1e-8 {
+			t.Errorf("t = %v: mixture MMSE %.12g, truncated-normal integral %.12g", tv, got, want)
+		}
+	}
+}
+
 func TestBayesErrors(t *testing.T) {
-	lap, err := scen(t, gaussDesign(0.5, "rows"), `{"law": "laplace", "scale": 1}`, 0.1, lasso(1)).Problem()
-	if err != nil {
-		t.Fatal(err)
-	}
-	if _, err := Bayes(lap); err == nil || !strings.Contains(err.Error(), "signal") {
-		t.Errorf("Laplace prior: %v", err)
-	}
 	p, _ := scen(t, gaussDesign(0.5, "rows"), bgSignal(0.1, 1), 0.1, lasso(1)).Problem()
 	for _, bad := range []fixedpoint.Problem{
 		{Design: p.Design, Signal: p.Signal, Noise: -1},
@@ -213,5 +266,29 @@ func TestBayesErrors(t *testing.T) {
 	full, _ := scen(t, gaussDesign(1.2, "rows"), bgSignal(0.5, 1), 0, lasso(1)).Problem()
 	if b, err := Bayes(full); err != nil || !b.Uninformed.Exact || !b.Informed.Exact {
 		t.Errorf("alpha 1.2, noiseless: %+v, %v", b, err)
+	}
+}
+
+// The issue's case: a sparse +-1 signal at low noise, where the state evolution has several
+// fixed points (gaussian design, density 0.15, noise 1e-4). Both starts converge; at m/n =
+// 0.25 they differ (the algorithm's fixed point above the informed one, a first-order
+// transition), at 0.5 both recover. Its time is a benchmark figure (BenchmarkBayes), not
+// asserted here.
+func TestBayesSparseLowNoise(t *testing.T) {
+	for _, c := range []struct {
+		alpha  float64
+		differ bool
+	}{{0.25, true}, {0.5, false}} {
+		p, err := scen(t, gaussDesign(c.alpha, "rows"), `{"law": "bernoulli-rademacher", "density": 0.15, "amplitude": 1}`, 1e-4, ridge(0.1)).Problem()
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := Bayes(p)
+		if err != nil || !b.Uninformed.Converged || !b.Informed.Converged || b.Differ != c.differ {
+			t.Errorf("alpha %v: %+v %v", c.alpha, b, err)
+		}
+		if b.Informed.MSE > b.Uninformed.MSE {
+			t.Errorf("alpha %v: informed error above the uninformed one: %+v", c.alpha, b)
+		}
 	}
 }

@@ -26,6 +26,12 @@ func Eval(args protocol.EvalArgs) (fixedpoint.Result, error) {
 	if err != nil {
 		return fixedpoint.Result{}, err
 	}
+	return EvalChecked(c)
+}
+
+// EvalChecked solves the fixed point of a scenario checked already (the page's own
+// evaluation, which checked it once for the edit).
+func EvalChecked(c scenario.Checked) (fixedpoint.Result, error) {
 	if g, ok := c.GLM(); ok {
 		return fixedpoint.SolveGLM(g, fixedpoint.Options{})
 	}

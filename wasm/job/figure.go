@@ -27,10 +27,11 @@ func finiteMarks(ms []plot.Mark) []plot.Mark {
 // and Heat is an error; marks at a NaN or infinite place are left out; the errors of plot's
 // Build and render are returned as they are.
 func Figure(a protocol.FigureArgs) (protocol.FigureResult, error) {
-	var (
-		f   *plot.Figure
-		err error
-	)
+	a, err := a.Unpacked()
+	if err != nil {
+		return protocol.FigureResult{}, err
+	}
+	var f *plot.Figure
 	switch {
 	case a.Line != nil && a.Heat == nil:
 		l := *a.Line

@@ -5,7 +5,6 @@
 package page
 
 import (
-	"errors"
 	"fmt"
 	"os"
 	"sync"
@@ -15,8 +14,6 @@ import (
 	"github.com/vugu/vugu"
 	"github.com/vugu/vugu/domrender"
 
-	"hdrisk/engine/fixedpoint"
-	"hdrisk/protocol"
 	"hdrisk/ui"
 	"hdrisk/wasm/job"
 	"hdrisk/wasm/pool"
@@ -26,6 +23,9 @@ import (
 func Run() error {
 	boot, err := pool.ReadBoot()
 	if err != nil {
+		return err
+	}
+	if err := installTextGuard(); err != nil {
 		return err
 	}
 	renderer, err := domrender.New("#hdrisk")
@@ -169,27 +169,15 @@ func (e *evaluator) settle(d time.Duration) {
 // an evaluation started by an event (an edit) has that event's render still to come unless
 // a build began since, and the render loop waiting for it (see settle) builds next; a
 // cancelled evaluation changes nothing on the page.
-func (e *evaluator) Evaluate(scenario []byte, done func(ui.Figures, error)) func() {
+func (e *evaluator) Evaluate(chk ui.Checked, done func(ui.Figures, error)) func() {
 	cancelled := false
-	args, err := protocol.Eval.EncodeArgs(protocol.EvalArgs{Scenario: scenario})
 	e.mu.Lock()
 	e.running++
 	fromEvent, builds := !e.inBuild, e.builds
 	e.mu.Unlock()
 	go func() {
-		var f ui.Figures
-		if err == nil {
-			var last protocol.Reply
-			job.Run(protocol.Request{Kind: protocol.Eval.Name, Args: args}, func(r protocol.Reply) { last = r })
-			switch {
-			case last.Type == protocol.Failed:
-				err = errors.New(last.Error)
-			default:
-				var r fixedpoint.Result
-				r, err = protocol.Eval.DecodeResult(last.Result)
-				f = ui.FiguresOf(r)
-			}
-		}
+		r, err := job.EvalChecked(chk.Engine)
+		f := ui.FiguresOf(r)
 		e.env.Lock()
 		shown := !cancelled
 		if shown {

@@ -7,6 +7,7 @@ package worker
 import (
 	"encoding/json"
 	"fmt"
+	"time"
 
 	"github.com/hack-pad/safejs"
 
@@ -48,12 +49,22 @@ func Serve() error {
 		return fmt.Errorf("worker: onmessage: %w", err)
 	}
 	post(protocol.Reply{Type: protocol.Ready})
-	// The first figure a worker draws loads the font and warms the code that lays figures
-	// out (a quarter of a second in WebAssembly); doing it now, while the page starts,
-	// keeps that out of the first map's time to its figure.
-	plot.Warm()
-	for text := range requests {
+	// The first figure a worker draws loads the font and runs the layout, contour and PNG
+	// code for the first time (several times slower in WebAssembly than the next); the worker
+	// draws a throw-away one the first time it is idle, so that the first map waits less.
+	warm := time.After(300 * time.Millisecond)
+	for {
+		var text string
+		select {
+		case text = <-requests:
+		case <-warm:
+			plot.Warm()
+			warm = nil
+			continue
+		}
+		if warm != nil {
+			warm = time.After(300 * time.Millisecond)
+		}
 		job.Handle(text, post)
 	}
-	return nil
 }

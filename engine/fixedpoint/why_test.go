@@ -1,0 +1,202 @@
+package fixedpoint
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+
+	"hdrisk/engine/design"
+	"hdrisk/engine/param"
+	"hdrisk/engine/penalty"
+	"hdrisk/engine/signal"
+)
+
+// refused checks that Solve refuses p with an *Error naming field.
+func refused(t *testing.T, name string, p Problem, o Options, field string) {
+	t.Helper()
+	_, err := Solve(p, o)
+	var fe *param.Error
+	if !errors.As(err, &fe) || fe.Field != field {
+		t.Errorf("%s: want a refusal naming %q, got %v", name, field, err)
+	}
+}
+
+// fixedPointHolds recomputes the two equations of the fixed point (method.md section 3) at a
+// result, independently of the solver's iteration: S1(g2) = V = A/g1, g1 = T(g2)/S1(g2) and
+// t1 = (Delta S3 + W E)/(g1^2 S2).
+func fixedPointHolds(t *testing.T, name string, p Problem, r Result) {
+	t.Helper()
+	m := signal.Expect(p.Signal, p.Penalty, r.G1, r.T1)
+	tr := p.Design.At(r.G2)
+	t1 := (p.Noise*tr.S3 + tr.W*m.MSE) / (r.G1 * r.G1 * tr.S2)
+	for what, d := range map[string]float64{
+		"S1(g2) = A/g1": relDiff(tr.S1, m.A/r.G1), "g1 = T/S1": relDiff(r.G1, tr.T/tr.S1), "t1": relDiff(r.T1, t1),
+	} {
+		if d > 1e-7 {
+			t.Errorf("%s: %s off by %.2g", name, what, d)
+		}
+	}
+}
+
+// The examples of the issue "never silently wrong, never stuck", each with its expected
+// outcome.
+func TestIssueExamples(t *testing.T) {
+	gauss1 := must(signal.Gauss(1))
+	sparse := must(signal.BernoulliGauss(0.1, 1))
+
+	// A LASSO at m/n = 0.03 has a unique solution and a finite error; the damped iteration
+	// runs off here, the bracketing strategy solves it.
+	for _, l1 := range []float64{0.1, 0.01} {
+		p := Problem{must(design.Gaussian(0.03, design.Rows)), gauss1, must(penalty.L1(l1)), 0.1}
+		r := solve(t, p)
+		fixedPointHolds(t, "alpha 0.03", p, r)
+	}
+
+	// So strong a penalty that the estimate is zero: MSE = E[x0^2] exactly (the error of the
+	// zero estimate, common practice).
+	for name, pen := range map[string]penalty.Penalty{"l1 1e308": must(penalty.L1(1e308)), "ridge 1e300": must(penalty.Ridge(1e300))} {
+		r := solve(t, Problem{must(design.Orthogonal(0.4, design.Rows)), sparse, pen, 0.01})
+		if !r.EstimateZero || r.MSE != sparse.Second() || r.NonZero != 0 {
+			t.Errorf("%s: want the zero estimate with MSE = E[x0^2] = %v, got %+v", name, sparse.Second(), r)
+		}
+	}
+
+	// A box of bound 1e300 with l2 is ridge: with l2 = Delta/rho2 and a Gaussian signal, the
+	// MMSE of Tulino & Verdu 2004 (Random Matrix Theory and Wireless Communications, eq.
+	// 2.121), as in TestRidgeEqualsMMSE.
+	{
+		const alpha, rho2, delta = 0.5, 1.0, 0.2
+		x, beta := rho2/delta, 1/alpha
+		a := math.Sqrt(x*(1+math.Sqrt(beta))*(1+math.Sqrt(beta)) + 1)
+		b := math.Sqrt(x*(1-math.Sqrt(beta))*(1-math.Sqrt(beta)) + 1)
+		want := rho2 * (1 - (a-b)*(a-b)/(4*beta*x))
+		r := solve(t, Problem{must(design.Gaussian(alpha, design.Columns)), gauss1, must(penalty.Box(1e300, delta/rho2)), delta})
+		if d := relDiff(r.MSE, want); d > 1e-9 {
+			t.Errorf("box 1e300: MSE %.14g, ridge MMSE closed form %.14g (rel %.2g)", r.MSE, want, d)
+		}
+	}
+
+	// A Gaussian signal of variance 1e300 with l1 0.1 is the signal of variance 1 with l1
+	// 0.1/1e150 and the noise divided by 1e300 (the objective scales by 1e300).
+	{
+		d := must(design.Gaussian(0.5, design.Rows))
+		big := solve(t, Problem{d, must(signal.Gauss(1e300)), must(penalty.L1(0.1)), 0.01 * 1e300})
+		unit := solve(t, Problem{d, gauss1, must(penalty.L1(0.1 / 1e150)), 0.01})
+		if relDiff(big.NMSE, unit.NMSE) > 1e-9 || relDiff(big.MSE, 1e300*unit.MSE) > 1e-9 {
+			t.Errorf("variance 1e300: NMSE %.15g, rescaled %.15g", big.NMSE, unit.NMSE)
+		}
+	}
+
+	// l1 = 0 below m/n = 1: the minimizer is not unique.
+	refused(t, "l1 = 0 at alpha 0.4", Problem{must(design.Gaussian(0.4, design.Rows)), sparse, must(penalty.L1(0)), 0.01}, Options{}, "penalty")
+
+	// Least squares on a spectrum reaching 0 has an infinite error with noise, whatever the
+	// discretized law's S1(0) says.
+	refused(t, "least squares on uniform-ev [0, 2]", Problem{must(design.UniformEV(6, 0, 2, design.Rows)), gauss1, must(penalty.Ridge(0)), 0.01}, Options{}, "penalty")
+
+	// Nonnegative least squares on a symmetric signal at exactly m/n = 1/2, noiseless: the
+	// error is infinite (the iteration only crawls).
+	refused(t, "NNLS at alpha 0.5", Problem{must(design.Gaussian(0.5, design.Rows)), must(signal.Laplace(1)), must(penalty.NonnegL1(0, 0)), 0}, Options{}, "penalty")
+
+	// A density of 1e-300: E[x0^2] below the stated limit.
+	refused(t, "density 1e-300", Problem{must(design.Gaussian(0.5, design.Rows)), must(signal.BernoulliGauss(1e-300, 1)), must(penalty.L1(0.1)), 0.01}, Options{}, "signal")
+
+	// Tolerances that cannot mean anything.
+	for _, tol := range []float64{math.Inf(1), math.NaN(), 1} {
+		refused(t, "tol", Problem{must(design.Gaussian(0.5, design.Rows)), sparse, must(penalty.L1(0.1)), 0.01}, Options{Tol: tol}, "tol")
+	}
+
+	// Noiseless exact recovery with a box: stops on the floor, converged.
+	{
+		r := solve(t, Problem{must(design.Gaussian(0.6, design.Rows)), must(signal.BernoulliRademacher(1, 1)), must(penalty.Box(1, 0)), 0})
+		if !r.Floor || r.NMSE > FloorNMSE || !strings.Contains(r.Note, "floor") {
+			t.Errorf("noiseless box recovery: want the floor marked, got %+v", r)
+		}
+	}
+
+	// Student-t with a huge number of degrees of freedom is the Gaussian law of its variance.
+	for _, dof := range []float64{1e13, 1e17, 1e300} {
+		st := solve(t, Problem{must(design.Gaussian(0.5, design.Rows)), must(signal.StudentT(dof, 1)), must(penalty.L1(0.1)), 0.01})
+		ga := solve(t, Problem{must(design.Gaussian(0.5, design.Rows)), must(signal.Gauss(dof / (dof - 2))), must(penalty.L1(0.1)), 0.01})
+		if relDiff(st.MSE, ga.MSE) > 1e-12 {
+			t.Errorf("dof %v: MSE %.15g, Gaussian %.15g", dof, st.MSE, ga.MSE)
+		}
+	}
+
+	// The power penalty joins l1 at q -> 1 to 1e-6, and its nonzero fraction is 1 for q > 1;
+	// q > 2 is convex and accepted.
+	{
+		p := Problem{must(design.Gaussian(0.5, design.Rows)), must(signal.BernoulliGauss(0.2, 1)), must(penalty.Power(0.3, 1)), 0.01}
+		at1 := solve(t, p)
+		for _, q := range []float64{1 + 2e-16, 1 + 1e-7} {
+			p.Penalty = must(penalty.Power(0.3, q))
+			r := solve(t, p)
+			if relDiff(r.MSE, at1.MSE) > 1e-6 {
+				t.Errorf("q = %v: MSE %.12g, at q = 1 %.12g", q, r.MSE, at1.MSE)
+			}
+		}
+		p.Penalty = must(penalty.Power(0.3, 1.001))
+		if r := solve(t, p); r.NonZero != 1 {
+			t.Errorf("q = 1.001: nonzero fraction %v, want 1", r.NonZero)
+		}
+		p.Penalty = must(penalty.Power(0.3, 3))
+		solve(t, p)
+	}
+}
+
+// Equivalent scenarios give the same numbers: a rows-scaled design is the columns-scaled one
+// with the noise and the penalty divided by alpha (the objective is alpha times the other),
+// and a signal rescaled by c with the noise by c^2 and the l1 strength by c is the same
+// problem in other units.
+func TestEquivalentScenarios(t *testing.T) {
+	for _, alpha := range []float64{0.02, 0.0147, 0.3, 2} {
+		sig := must(signal.BernoulliGauss(0.1, 1))
+		rows := solve(t, Problem{must(design.Gaussian(alpha, design.Rows)), sig, must(penalty.ElasticNet(0.05, 0.01)), 0.01})
+		cols := solve(t, Problem{must(design.Gaussian(alpha, design.Columns)), sig, must(penalty.ElasticNet(0.05/alpha, 0.01/alpha)), 0.01 / alpha})
+		if d := relDiff(rows.MSE, cols.MSE); d > 1e-9 {
+			t.Errorf("alpha %v: rows %.15g, columns translation %.15g (rel %.2g)", alpha, rows.MSE, cols.MSE, d)
+		}
+		for _, c := range []float64{1e-100, 3, 1e100} {
+			big := solve(t, Problem{must(design.Gaussian(alpha, design.Rows)), must(signal.BernoulliGauss(0.1, c*c)), must(penalty.L1(0.05 * c)), 0.01 * c * c})
+			small := solve(t, Problem{must(design.Gaussian(alpha, design.Rows)), sig, must(penalty.L1(0.05)), 0.01})
+			if d := relDiff(big.NMSE, small.NMSE); d > 1e-9 {
+				t.Errorf("alpha %v, scale %v: NMSE %.15g, unscaled %.15g (rel %.2g)", alpha, c, big.NMSE, small.NMSE, d)
+			}
+		}
+	}
+}
+
+// A warm-started sweep gives the same points upwards and downwards, and the same as cold
+// starts: alpha from 0.01 to 0.1 with a LASSO, where the issue found 7 of 40 points empty
+// upwards.
+func TestSweepEitherDirection(t *testing.T) {
+	const n = 40
+	sig := must(signal.Gauss(1))
+	at := func(i int) Problem {
+		alpha := 0.01 * math.Pow(10, float64(i)/(n-1))
+		return Problem{must(design.Gaussian(alpha, design.Rows)), sig, must(penalty.L1(0.1)), 0.1}
+	}
+	cold := make([]float64, n)
+	for i := range n {
+		cold[i] = solve(t, at(i)).MSE
+	}
+	for _, dir := range []int{1, -1} {
+		var start *State
+		for k := range n {
+			i := k
+			if dir < 0 {
+				i = n - 1 - k
+			}
+			r, err := Solve(at(i), Options{Start: start})
+			if err != nil || !r.Converged {
+				t.Fatalf("direction %d, point %d: %v %+v", dir, i, err, r)
+			}
+			if d := relDiff(r.MSE, cold[i]); d > 1e-8 {
+				t.Errorf("direction %d, point %d: MSE %.12g, cold %.12g", dir, i, r.MSE, cold[i])
+			}
+			st := r.State()
+			start = &st
+		}
+	}
+}
