@@ -209,6 +209,9 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 	if !(vp > 0) {
 		return outMoments{az: math.NaN()}
 	}
+	if !o.train && o.ls.Name() == "square" && len(o.cuts) > 0 {
+		return o.cellsSquare(g)
+	}
 	beta := mu1 * o.rhoz / vp
 	s := o.rhoz * tau / vp
 	var kinks []float64
@@ -272,6 +275,32 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 	out.muz = mu1 + dmu
 	out.sigz = math.Max(dd/(c*c)-tau-dmu*dmu*o.rhoz, 0)
 	return out
+}
+
+// cellsSquare is the output side of a cell readout (sign, quantize) with the square loss
+// in closed form. The prox is linear, zhat = (y + g p1)/(1 + g), so Az = g/(1 + g) and the
+// backward message is y itself: muz = E[z0 y]/rhoz and sigz = E[y^2] - muz^2 rhoz, whatever
+// (mu1, tau). With u = z0 + w ~ N(0, rhoz + V) for each noise component,
+// E[z0 1{u in cell}] = rhoz/sd (phi(a) - phi(b)) at the cell's standardized ends a, b.
+// The training observables need the joint law of (y, zhat) and keep labels' quadrature.
+func (o *outSide) cellsSquare(g float64) outMoments {
+	var ey2, ezy float64
+	for _, k := range o.nz {
+		sd := math.Sqrt(o.rhoz + k.Var)
+		lo, loPDF := math.Inf(-1), 0.0
+		for j, y := range o.levels {
+			hi, hiPDF := math.Inf(1), 0.0
+			if j < len(o.cuts) {
+				hi = o.cuts[j] / sd
+				hiPDF = normPDF(hi)
+			}
+			ey2 += k.Weight * y * y * normCell(lo, hi)
+			ezy += k.Weight * y * o.rhoz / sd * (loPDF - hiPDF)
+			lo, loPDF = hi, hiPDF
+		}
+	}
+	muz := ezy / o.rhoz
+	return outMoments{az: g / (1 + g), muz: muz, sigz: math.Max(ey2-muz*ezy, 0)}
 }
 
 // zeroCrossing returns the p1 where zhat(y, p1) changes sign (zhat is nondecreasing in p1),
