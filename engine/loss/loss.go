@@ -177,6 +177,12 @@ func (logistic) ProxNear(y, p, g, near float64) (float64, float64) {
 		}
 		step := f / (g + sm*(1-sm))
 		n := s - step
+		if math.Abs(step) <= 1e-15*math.Max(1, math.Abs(s)) {
+			// Converged. Tested before the bracket: s has just become one of its ends, and a
+			// step too small to move s would be taken for a step out of it.
+			s = n
+			break
+		}
 		if !(n > lo && n < hi) {
 			n = (lo + hi) / 2
 		}
