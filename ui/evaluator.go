@@ -14,7 +14,10 @@ type Figures struct {
 	TrainError      float64 `json:"train_error"`      // (1/m) ||y - F xhat||^2
 	Converged       bool    `json:"converged"`
 	Iterations      int     `json:"iterations"`
-	EstimateZero    bool    `json:"estimate_zero"` // the penalty sets the whole estimate to zero
+	EstimateZero    bool    `json:"estimate_zero"`  // the penalty sets the whole estimate to zero
+	Residual        float64 `json:"residual"`       // the last relative change of the iterate
+	Floor           bool    `json:"floor"`          // the error is below the solver's floor (-120 dB)
+	Note            string  `json:"note,omitempty"` // the limit or special case that applies, in words
 	// The generalized model's figures (docs/method.md section 10), when GLM is set.
 	GLM       bool    `json:"glm,omitempty"`
 	Labels    bool    `json:"labels,omitempty"` // the readout gives labels: TestError applies
@@ -26,7 +29,7 @@ type Figures struct {
 func FiguresOf(r fixedpoint.Result) Figures {
 	return Figures{MSE: r.MSE, NMSEdB: r.NMSEdB, Susceptibility: r.Susceptibility, NonzeroFraction: r.NonZero,
 		TPP: r.TPP, FDP: r.FDP, TrainError: r.TrainError, Converged: r.Converged, Iterations: r.Iterations,
-		EstimateZero: r.EstimateZero, GLM: r.GLM, Labels: r.Labels, Cosine: r.Cosine, TestError: r.TestError}
+		EstimateZero: r.EstimateZero, Residual: r.Residual, Floor: r.Floor, Note: r.Note, GLM: r.GLM, Labels: r.Labels, Cosine: r.Cosine, TestError: r.TestError}
 }
 
 // Evaluator computes the figures of a checked scenario in the page, from the laws the check

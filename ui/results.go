@@ -3,6 +3,7 @@ package ui
 import (
 	"fmt"
 	"strconv"
+	"strings"
 )
 
 // row is one headline figure: Value is the full-precision text for data-value, Shown the
@@ -36,8 +37,31 @@ func (c *Results) summaryText() string {
 }
 
 func (c *Results) unconvergedText() string {
-	return fmt.Sprintf("Not converged: the solver stopped after %d iterations without settling. "+
-		"These numbers are not a prediction; change the regularization or the noise and look again.", c.Figures.Iterations)
+	return fmt.Sprintf("Not converged: the solver stopped after %d iterations without settling (last relative change %.2g). "+
+		"These numbers are not a prediction; change the regularization or the noise and look again.", c.Figures.Iterations, c.Figures.Residual)
+}
+
+func (c *Results) floorText() string {
+	return strconv.FormatBool(c.Have && c.Figures.Floor)
+}
+
+// greyed is the class of figures that are not a plain prediction: unconverged, or on the
+// solver's floor (an upper bound, not a value).
+func (c *Results) greyed() string {
+	if c.Have && (!c.Figures.Converged || c.Figures.Floor) {
+		return "figures greyed"
+	}
+	return "figures"
+}
+
+// noteText is the solver's note, unless a paragraph of its own already says it (the zero
+// estimate, the unconverged warning with its residual).
+func (c *Results) noteText() string {
+	f := c.Figures
+	if !c.Have || f.EstimateZero || (!f.Converged && strings.HasPrefix(f.Note, "not converged")) {
+		return ""
+	}
+	return f.Note
 }
 
 func (c *Results) rows() []row {
@@ -64,6 +88,9 @@ func (c *Results) rows() []row {
 	}
 	nmse := num("nmse_db", "Normalized error", f.NMSEdB, "relative to E[x0²]", "10 log₁₀(MSE / E[x0²]): the error relative to the signal's power; lower is better")
 	nmse.Shown = strconv.FormatFloat(f.NMSEdB, 'f', 2, 64) + " dB"
+	if f.Floor {
+		nmse.Shown, nmse.Unit = "≤ −120 dB", "the solver's floor: at most this"
+	}
 	nz := num("nonzero_fraction", "Nonzero estimates", f.NonzeroFraction, "share of entries", "the share of entries the estimate does not set to zero")
 	if !c.Zeroes {
 		nz.Unit = "this penalty zeroes none"

@@ -34,6 +34,7 @@ func (c *Results) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 	vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "section", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "results"}, vugu.VGAttribute{Namespace: "", Key: "aria-labelledby", Val: "results-heading"}}}
 	vgout.Out = append(vgout.Out, vgn) // root for output
 	vgn.AddAttrInterface("data-converged", c.convergedText())
+	vgn.AddAttrInterface("data-floor", c.floorText())
 	vgn.AddAttrInterface("data-stale", c.staleText())
 	{
 		vgparent := vgn
@@ -88,9 +89,17 @@ func (c *Results) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 		}
 		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 		vgparent.AppendChild(vgn)
-		if c.Have {
-			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "dl", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figures"}, vugu.VGAttribute{Namespace: "", Key: "aria-live", Val: "polite"}}}
+		if c.noteText() != "" {
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "note solver-note"}}}
 			vgparent.AppendChild(vgn)
+			vgn.SetInnerHTML(c.noteText())
+		}
+		vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
+		vgparent.AppendChild(vgn)
+		if c.Have {
+			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "dl", Attr: []vugu.VGAttribute{{Namespace: "", Key: "aria-live", Val: "polite"}}}
+			vgparent.AppendChild(vgn)
+			vgn.AddAttrInterface("class", c.greyed())
 			{
 				vgparent := vgn
 				_ = vgparent

@@ -154,6 +154,32 @@ func TestResultsUnconverged(t *testing.T) {
 	}
 }
 
+// The solver's note is shown, a result on the floor is greyed and marked, and an unconverged
+// result is greyed with its residual (issue 14 item 3).
+func TestResultsNoteFloorResidual(t *testing.T) {
+	floor := &Results{Figures: Figures{MSE: 1e-14, Converged: true, Floor: true, Note: "below the solver's floor"}, Have: true}
+	if floor.noteText() != "below the solver's floor" || floor.floorText() != "true" || floor.greyed() != "figures greyed" {
+		t.Errorf("floor: note %q, data-floor %q, class %q", floor.noteText(), floor.floorText(), floor.greyed())
+	}
+	for _, x := range floor.rows() {
+		if x.Name == "nmse_db" && x.Shown != "≤ −120 dB" {
+			t.Errorf("floor: the normalized error reads %q, not as the floor", x.Shown)
+		}
+	}
+	plain := &Results{Figures: Figures{MSE: 0.1, Converged: true}, Have: true}
+	if plain.noteText() != "" || plain.floorText() != "false" || plain.greyed() != "figures" {
+		t.Errorf("plain: note %q, data-floor %q, class %q", plain.noteText(), plain.floorText(), plain.greyed())
+	}
+	un := &Results{Figures: Figures{MSE: 0.1, Iterations: 2000, Residual: 3.5e-4, Note: "not converged: the last relative change is 0.00035"}, Have: true}
+	if !strings.Contains(un.unconvergedText(), "0.00035") || un.greyed() != "figures greyed" || un.noteText() != "" {
+		t.Errorf("unconverged: %q, class %q, note %q", un.unconvergedText(), un.greyed(), un.noteText())
+	}
+	zero := &Results{Figures: Figures{MSE: 1, Converged: true, EstimateZero: true, Note: "the estimate is zero"}, Have: true}
+	if zero.noteText() != "" {
+		t.Errorf("zero estimate: the note %q repeats the paragraph of its own", zero.noteText())
+	}
+}
+
 // An evaluation that took longer than slowEval in the page sends the next ones of the same
 // kinds to a compute worker, where the editor is not blocked; a quick one brings them back.
 func TestSlowEvaluationMovesToAWorker(t *testing.T) {

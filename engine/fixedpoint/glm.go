@@ -326,12 +326,16 @@ func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) 
 	if !finiteAll(r.MSE, r.TrainError, r.TrainLoss, r.Cosine, r.NormRatio, r.TestError) {
 		return Result{}, errRunOff
 	}
+	if !r.Converged && r.Note == "" {
+		r.Note = fmt.Sprintf("not converged: the last relative change of the iterate is %.2g, above the tolerance %.2g", r.Residual, s.o.Tol)
+	}
 	return r, nil
 }
 
 func (s *glmSolver) zeroResult(it int, st GLMState, im glmImage) Result {
 	r := Result{G1: st.G1, T1: st.T1, Iterations: it, Converged: true, EstimateZero: true, MSE: s.rho2,
-		GLM: true, Labels: s.p.Readout.Labels()}
+		GLM: true, Labels: s.p.Readout.Labels(),
+		Note: "the penalty is strong enough that the estimate is zero: MSE = E[x0^2]"}
 	fill(&r, signal.Moments{MSE: s.rho2, Active: im.m.Active}, s.rho2)
 	r.NormRatio = 0
 	if r.Labels {
@@ -352,6 +356,10 @@ func fill(r *Result, m signal.Moments, rho2 float64) {
 	r.NMSEdB = dbFloor
 	if r.NMSE > 0 {
 		r.NMSEdB = math.Max(dbFloor, 10*math.Log10(r.NMSE))
+	}
+	if r.NMSE < FloorNMSE && !r.EstimateZero {
+		r.Floor = true
+		r.Note = "the error is below the solver's floor of 1e-12 E[x0^2] (-120 dB): read it as at most that"
 	}
 	r.NonZero = m.NonZero
 	if m.Active > 0 {

@@ -22,6 +22,9 @@ type outSide struct {
 	levels, cuts []float64
 	// train asks for the training observables too, which only the final evaluation needs
 	train bool
+	// hermE holds exp(-sqrt(hermS) x) at the Gauss-Hermite nodes of the logistic readout
+	hermS float64
+	hermE []float64
 }
 
 // outMoments are the output side's answers: the derivative Az = E[d zhat/dp], the truth
@@ -134,10 +137,23 @@ func (o *outSide) labelProb(m, s float64, py, zy []float64) {
 	if o.rd.Name() == "logistic" {
 		// Labels -1, +1 with P(+1 | z) = sigmoid(z): Gauss-Hermite in z0, and Stein's identity
 		// E[z0 h(z0)] = m E[h] + s E[h'] for the first moment.
+		// sigmoid(m + rs x) = 1/(1 + e^-m e^(-rs x)): the factors e^(-rs x) at the nodes
+		// are kept while s stays (one labels call), which leaves one exp per call here.
+		if o.hermE == nil || s != o.hermS {
+			o.hermS = s
+			o.hermE = make([]float64, len(hermX))
+			for i, x := range hermX {
+				o.hermE[i] = math.Exp(-math.Sqrt(s) * x)
+			}
+		}
 		p, d := 0.0, 0.0
-		rs := math.Sqrt(s)
+		em := math.Exp(-m)
 		for i, x := range hermX {
-			sg := readout.Sigmoid(m + rs*x)
+			e := em * o.hermE[i]
+			sg := 1 / (1 + e)
+			if em == 0 || math.IsInf(em, 0) || math.IsInf(o.hermE[i], 0) || o.hermE[i] == 0 {
+				sg = readout.Sigmoid(m + math.Sqrt(s)*x)
+			}
 			p += hermW[i] * sg
 			d += hermW[i] * sg * (1 - sg)
 		}
@@ -209,6 +225,9 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 	if !(vp > 0) {
 		return outMoments{az: math.NaN()}
 	}
+	if !o.train && o.ls.Name() == "square" && len(o.cuts) > 0 {
+		return o.cellsSquare(g)
+	}
 	beta := mu1 * o.rhoz / vp
 	s := o.rhoz * tau / vp
 	var kinks []float64
@@ -240,13 +259,25 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 	py := make([]float64, len(o.levels))
 	zy := make([]float64, len(o.levels))
 	var az, dz, dd, dp, terr, tloss, mis float64
+	// The nodes increase, and so does zhat: an iterative prox starts from the previous node's.
+	near, _ := o.ls.(loss.Near)
+	last := make([]float64, len(o.levels))
+	for j := range last {
+		last[j] = math.NaN()
+	}
 	for i, p := range x {
 		o.labelProb(beta*p, s, py, zy)
 		for j, y := range o.levels {
 			if py[j] == 0 && zy[j] == 0 {
 				continue
 			}
-			zh, der := o.ls.Prox(y, p, g)
+			var zh, der float64
+			if near != nil {
+				zh, der = near.ProxNear(y, p, g, last[j])
+				last[j] = zh
+			} else {
+				zh, der = o.ls.Prox(y, p, g)
+			}
 			pw := w[i] * py[j]
 			az += pw * der
 			dz += w[i] * zy[j] * (zh - p)
@@ -272,6 +303,32 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 	out.muz = mu1 + dmu
 	out.sigz = math.Max(dd/(c*c)-tau-dmu*dmu*o.rhoz, 0)
 	return out
+}
+
+// cellsSquare is the output side of a cell readout (sign, quantize) with the square loss
+// in closed form. The prox is linear, zhat = (y + g p1)/(1 + g), so Az = g/(1 + g) and the
+// backward message is y itself: muz = E[z0 y]/rhoz and sigz = E[y^2] - muz^2 rhoz, whatever
+// (mu1, tau). With u = z0 + w ~ N(0, rhoz + V) for each noise component,
+// E[z0 1{u in cell}] = rhoz/sd (phi(a) - phi(b)) at the cell's standardized ends a, b.
+// The training observables need the joint law of (y, zhat) and keep labels' quadrature.
+func (o *outSide) cellsSquare(g float64) outMoments {
+	var ey2, ezy float64
+	for _, k := range o.nz {
+		sd := math.Sqrt(o.rhoz + k.Var)
+		lo, loPDF := math.Inf(-1), 0.0
+		for j, y := range o.levels {
+			hi, hiPDF := math.Inf(1), 0.0
+			if j < len(o.cuts) {
+				hi = o.cuts[j] / sd
+				hiPDF = normPDF(hi)
+			}
+			ey2 += k.Weight * y * y * normCell(lo, hi)
+			ezy += k.Weight * y * o.rhoz / sd * (loPDF - hiPDF)
+			lo, loPDF = hi, hiPDF
+		}
+	}
+	muz := ezy / o.rhoz
+	return outMoments{az: g / (1 + g), muz: muz, sigz: math.Max(ey2-muz*ezy, 0)}
 }
 
 // zeroCrossing returns the p1 where zhat(y, p1) changes sign (zhat is nondecreasing in p1),

@@ -44,7 +44,15 @@ func (s scaledLaw) Sample(r *rand.Rand, n int) []float64 {
 // at 0 as in signal.ExpectQuad. With xbar = E[x0 | r] (linear in r within a component),
 // O = E[(xhat - mu xbar) xbar] - mu E[Var(x0 | r)], which keeps the part that the quadrature
 // sees bounded by the estimate's own error.
+//
+// A piecewise-linear prox makes the integrand a quadratic in r on each piece, and then O is
+// a sum of truncated normal moments (no quadrature).
 func overlap(l signal.Law, p penalty.Penalty, mu, g, t float64) float64 {
+	if lf, ok := p.(penalty.LinearForm); ok {
+		if lin, ok := lf.Linear(g); ok {
+			return overlapLinear(l, lin.Pieces(), mu, t)
+		}
+	}
 	splits := append(slices.Clone(p.Kinks(g)), 0)
 	o := 0.0
 	for _, c := range l.Mixture() {
@@ -82,4 +90,41 @@ func overlap(l signal.Law, p penalty.Penalty, mu, g, t float64) float64 {
 		o += c.Weight * (sum - mu*post)
 	}
 	return o
+}
+
+// overlapLinear is overlap for a prox with the given linear pieces: with u = r - mean,
+// xhat - mu xbar = c0 + c1 u and xbar = cm + beta u on a piece, whose truncated moments of u
+// give the piece's share.
+func overlapLinear(l signal.Law, pieces []penalty.Piece, mu, t float64) float64 {
+	o := 0.0
+	for _, c := range l.Mixture() {
+		mean, v := mu*c.Mean, mu*mu*c.Var+t
+		if v == 0 {
+			o += c.Weight * (proxAt(pieces, mean) - mu*c.Mean) * c.Mean
+			continue
+		}
+		beta := mu * c.Var / v
+		post := c.Var * t / v
+		sum := 0.0
+		for _, q := range pieces {
+			m0, m1, m2 := truncMoments(q.Lo-mean, q.Hi-mean, v)
+			c0 := q.Slope*mean + q.Intercept - mu*c.Mean
+			c1 := q.Slope - mu*beta
+			sum += c0*c.Mean*m0 + (c0*beta+c1*c.Mean)*m1 + c1*beta*m2
+		}
+		o += c.Weight * (sum - mu*post)
+	}
+	return o
+}
+
+// proxAt evaluates the piecewise-linear prox at r (a kink belongs to the piece on its right).
+func proxAt(pieces []penalty.Piece, r float64) float64 {
+	q := pieces[len(pieces)-1]
+	for _, c := range pieces[:len(pieces)-1] {
+		if r < c.Hi {
+			q = c
+			break
+		}
+	}
+	return q.Slope*r + q.Intercept
 }

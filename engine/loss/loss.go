@@ -34,6 +34,12 @@ type Loss interface {
 	Kinks(y, g float64) []float64
 }
 
+// Near is implemented by losses whose prox is found by iteration: ProxNear is Prox started
+// at near, a prox value for a nearby p (same y and g).
+type Near interface {
+	ProxNear(y, p, g, near float64) (zhat, deriv float64)
+}
+
 // Piece is one linear piece of a residual prox: R(v) = Slope v + Intercept on [Lo, Hi).
 type Piece struct{ Lo, Hi, Slope, Intercept float64 }
 
@@ -148,10 +154,19 @@ func (logistic) Value(y, z float64) float64 {
 
 // Prox: with s = y z and q = y p, s solves g (s - q) = sigma(-s), a strictly increasing
 // equation whose root lies in (q, q + 1/g); Newton steps kept inside that bracket.
-func (logistic) Prox(y, p, g float64) (float64, float64) {
+func (l logistic) Prox(y, p, g float64) (float64, float64) {
+	return l.ProxNear(y, p, g, y*p+0.5*y/g)
+}
+
+// ProxNear is Prox with the Newton steps started at near, a nearby prox value (for
+// instance that of the neighbouring node of a quadrature), which saves steps.
+func (logistic) ProxNear(y, p, g, near float64) (float64, float64) {
 	q := y * p
 	lo, hi := q, q+1/g
-	s := q + 0.5/g
+	s := y * near
+	if !(s > lo && s < hi) {
+		s = q + 0.5/g
+	}
 	for range 60 {
 		sm := readout.Sigmoid(-s)
 		f := g*(s-q) - sm
@@ -162,6 +177,12 @@ func (logistic) Prox(y, p, g float64) (float64, float64) {
 		}
 		step := f / (g + sm*(1-sm))
 		n := s - step
+		if math.Abs(step) <= 1e-15*math.Max(1, math.Abs(s)) {
+			// Converged. Tested before the bracket: s has just become one of its ends, and a
+			// step too small to move s would be taken for a step out of it.
+			s = n
+			break
+		}
 		if !(n > lo && n < hi) {
 			n = (lo + hi) / 2
 		}

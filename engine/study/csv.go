@@ -36,6 +36,8 @@ func Observables() []Observable {
 // WriteCSV writes points as CSV: a header naming the fields (one column per name in fields:
 // the swept field of a sweep, or a map's X then Y), every observable, then iterations,
 // converged, estimate_zero, residual and status. Numbers are written in full precision.
+// status is Point.Status, except that a converged point on the solver's floor (an error
+// below -120 dB, to be read as at most that) says "floor".
 //
 // Special cases are: a point that did not converge or failed has its observables left empty,
 // so that nothing plots it by mistake, and its status says why. fields may hold at most two
@@ -71,7 +73,7 @@ func WriteCSV(w io.Writer, fields []string, pts []Point) error {
 			rec = append(rec, v)
 		}
 		rec = append(rec, strconv.Itoa(p.Result.Iterations), strconv.FormatBool(p.OK()),
-			strconv.FormatBool(p.OK() && p.Result.EstimateZero), num(p.Result.Residual), p.Status())
+			strconv.FormatBool(p.OK() && p.Result.EstimateZero), num(p.Result.Residual), csvStatus(p))
 		if err := cw.Write(rec); err != nil {
 			return err
 		}
@@ -81,3 +83,10 @@ func WriteCSV(w io.Writer, fields []string, pts []Point) error {
 }
 
 func num(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+
+func csvStatus(p Point) string {
+	if p.OK() && p.Result.Floor {
+		return "floor"
+	}
+	return p.Status()
+}

@@ -149,6 +149,18 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 			return usagef("--trials %d: the verdict of --matrix needs at least 2 trials, for its standard errors", *trials)
 		}
 	}
+	if c, err := s.Check(); err == nil {
+		if g, ok := c.GLM(); ok {
+			// A readout or loss group: the generalized model's own finite-size check.
+			if fixed != nil {
+				return usagef("--matrix: the check of a held matrix is for the linear readout with the square loss")
+			}
+			ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+			defer stop()
+			d := simulate.DesignDraw{Law: g.Design, GaussianEntries: s.Design.Shape == "gaussian", Factors: factors}
+			return runCheckGLM(ctx, g, d, *n, *trials, *seed, simulate.SolverOptions{Tol: *tol, MaxIter: *maxIter}, stdout, stderr, *progress)
+		}
+	}
 	p, err := s.Problem()
 	if err != nil {
 		return err

@@ -27,6 +27,10 @@ type evalResult struct {
 	Iterations      int    `json:"iterations"`
 	EstimateZero    bool   `json:"estimate_zero"`
 	Exists          bool   `json:"exists"`
+	// Floor marks an error below the solver's floor (-120 dB), Note the limit or special case
+	// that applies in plain words (left out when there is none).
+	Floor bool   `json:"floor"`
+	Note  string `json:"note,omitempty"`
 	glmFields
 }
 
@@ -65,5 +69,6 @@ func runEval(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		TPP: number(r.TPP), FDP: number(r.FDP), TrainError: number(r.TrainError),
 		G1: number(r.G1), T1: number(r.T1), G2: number(r.G2), Residual: number(r.Residual),
 		Converged: r.Converged, Iterations: r.Iterations, EstimateZero: r.EstimateZero,
+		Floor: r.Floor, Note: r.Note,
 	})
 }

@@ -109,6 +109,36 @@ func TestEvalMinNormLeastSquares(t *testing.T) {
 	}
 }
 
+// TestEvalNoteFloor checks that eval prints the solver's note and floor mark: noiseless
+// least squares above m/n = 1 (exact recovery, error 0) is on the floor with a note, the
+// example LASSO is neither, and a huge l1 gives the zero estimate's note.
+func TestEvalNoteFloor(t *testing.T) {
+	cases := []struct {
+		scenario  string
+		floor     bool
+		noteWants string
+	}{
+		{`{"kind": "hdrisk.scenario", "version": 1, "title": "Noiseless ridge", "design": {"shape": "gaussian", "alpha": 2},
+ "signal": {"law": "gauss", "variance": 1}, "noise": {"variance": 0}, "penalty": {"kind": "ridge", "l2": 0}}`, true, "floor"},
+		{exampleScenario, false, ""},
+		{strings.Replace(exampleScenario, `"l1": 0.1`, `"l1": 100`, 1), false, "estimate is zero"},
+	}
+	for _, c := range cases {
+		code, out, errs := call(t, c.scenario, "eval", "-")
+		if code != 0 {
+			t.Fatalf("status %d: %s", code, errs)
+		}
+		var r map[string]any
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatal(err)
+		}
+		note, _ := r["note"].(string)
+		if r["floor"] != c.floor || (c.noteWants == "") != (note == "") || !strings.Contains(note, c.noteWants) {
+			t.Errorf("eval %s: floor %v note %q, want floor %v and a note with %q", c.scenario, r["floor"], note, c.floor, c.noteWants)
+		}
+	}
+}
+
 func TestLinkOpen(t *testing.T) {
 	for _, f := range examples(t) {
 		code, out, errs := call(t, "", "link", f)

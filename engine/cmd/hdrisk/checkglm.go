@@ -1,0 +1,100 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"math"
+	"math/rand/v2"
+	"time"
+
+	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/simulate"
+)
+
+// checkGLMResult is the output of check for a generalized linear model (a scenario with a
+// readout or loss group, docs/method.md section 10): finite instances solved by the primal-dual
+// method with the loss's prox, beside the prediction.
+type checkGLMResult struct {
+	GLM                 bool     `json:"glm"`
+	MeanMSE             number   `json:"mean_mse"`
+	StdErr              number   `json:"stderr"`
+	PredictedMSE        number   `json:"predicted_mse"`
+	MeanCosine          number   `json:"mean_cosine"`
+	CosineStdErr        number   `json:"cosine_stderr"`
+	PredictedCosine     number   `json:"predicted_cosine"`
+	PredictionConverged bool     `json:"prediction_converged"`
+	Trials              int      `json:"trials"`
+	N                   int      `json:"n"`
+	M                   int      `json:"m"`
+	Seed                uint64   `json:"seed"`
+	Solver              string   `json:"solver"`
+	Converged           bool     `json:"converged"`
+	NotConverged        int      `json:"not_converged"`
+	Warnings            []string `json:"warnings"`
+	Seconds             number   `json:"seconds"`
+}
+
+// runCheckGLM draws trials instances of g with n unknowns (trial t from PCG(seed, t)),
+// solves each with simulate.TrialGLM and compares the mean error and cosine with SolveGLM's.
+func runCheckGLM(ctx context.Context, g fixedpoint.GLM, d simulate.DesignDraw, n, trials int, seed uint64,
+	so simulate.SolverOptions, stdout, stderr io.Writer, progress bool) error {
+	if n < 2 || trials < 1 {
+		return usagef("--n must be at least 2 and --trials at least 1")
+	}
+	pred, err := fixedpoint.SolveGLM(g, fixedpoint.Options{})
+	if err != nil {
+		return err
+	}
+	start := time.Now()
+	out := checkGLMResult{GLM: true, Trials: trials, N: n, M: simulate.Rows(g.Design.Alpha(), n), Seed: seed,
+		Solver: "primal-dual", PredictedMSE: number(pred.MSE), PredictedCosine: number(pred.Cosine),
+		PredictionConverged: pred.Converged, Warnings: []string{}}
+	mse := make([]float64, 0, trials)
+	cos := make([]float64, 0, trials)
+	for t := range trials {
+		rng := rand.New(rand.NewPCG(seed, uint64(t)))
+		tr, err := simulate.TrialGLM(ctx, rng, d, g.Signal, g.Noise, g.Readout, g.Loss, g.Penalty, n, so)
+		if err != nil {
+			return err
+		}
+		if !tr.Converged {
+			out.NotConverged++
+		}
+		mse = append(mse, tr.MSE)
+		cos = append(cos, tr.Cosine)
+		if progress {
+			fmt.Fprintf(stderr, "hdrisk check: trial %d of %d done\n", t+1, trials)
+		}
+	}
+	m, se := meanStdErr(mse)
+	out.MeanMSE, out.StdErr = number(m), number(se)
+	m, se = meanStdErr(cos)
+	out.MeanCosine, out.CosineStdErr = number(m), number(se)
+	out.Converged = out.NotConverged == 0
+	if !out.Converged {
+		out.Warnings = append(out.Warnings, fmt.Sprintf("%d of %d instances did not reach the solver's tolerance; raise --max-iter", out.NotConverged, trials))
+	}
+	if !pred.Converged {
+		out.Warnings = append(out.Warnings, "the prediction did not converge: "+pred.Note)
+	}
+	out.Seconds = number(time.Since(start).Seconds())
+	return writeJSON(stdout, out)
+}
+
+// meanStdErr returns the mean of xs and its standard error (NaN with fewer than 2 values).
+func meanStdErr(xs []float64) (float64, float64) {
+	var s, ss float64
+	for _, x := range xs {
+		s += x
+	}
+	m := s / float64(len(xs))
+	for _, x := range xs {
+		ss += (x - m) * (x - m)
+	}
+	k := float64(len(xs))
+	if k < 2 {
+		return m, math.NaN()
+	}
+	return m, math.Sqrt(ss / (k - 1) / k)
+}
