@@ -424,6 +424,7 @@ func (m *Model) Load(s scenario.Scenario) error {
 	m.Title, m.Notes, m.Study = s.Title, s.Notes, s.Study
 	tab := m.views.Tab
 	m.views = viewsOf(s.Study)
+	m.SetKept(m.views.Kept)
 	if s.Study == nil || s.Study.View == "" {
 		m.views.Tab = tab // a scenario that names no view leaves the page on the one it shows
 	}
@@ -522,7 +523,7 @@ func (m *Model) withStudy(c Checked) Checked {
 		if err == nil || !dropStudyPart(s.Study, err) {
 			break
 		}
-		if *s.Study == (scenario.Study{}) {
+		if emptyStudy(s.Study) {
 			s.Study = nil
 		}
 	}
