@@ -384,3 +384,25 @@ func TestUnreadableAutosaveKeptAside(t *testing.T) {
 		t.Errorf("downloaded %s: %q", name, data)
 	}
 }
+
+// Text pasted in the data tab survives a switch to another tab and back: the box shows it
+// again, and reading it reads that text.
+func TestPastedDataSurvivesATabSwitch(t *testing.T) {
+	b, _ := open(t)
+	b.shareSettle(t)
+	b.cdWorkers(t)
+	b.studyClick(t, "#tab-data")
+	b.shareWait(t, "the data view", `document.getElementById("data-signal-text") !== null`)
+	samples := "0 0 0 1.5 -2 0 0 0.5 0 0 3 0"
+	if err := chromedp.Run(b.ctx, chromedp.SetValue("#data-signal-text", samples, chromedp.ByQuery)); err != nil {
+		t.Fatal(err)
+	}
+	b.cdJS(t, `document.getElementById("data-signal-text").dispatchEvent(new Event("change",{bubbles:true}));true`)
+	b.psTab(t, "curve")
+	b.studyClick(t, "#tab-data")
+	b.shareWait(t, "the pasted samples back in their box", fmt.Sprintf(`(e=>e!==null&&e.value===%q)(document.getElementById("data-signal-text"))`, samples))
+	b.studyClick(t, "#data-signal-read")
+	if got := b.studyWait(t, `[data-part=signal]`, "data-run", 30*time.Second, "done", "error"); got != "done" {
+		t.Errorf("reading the samples pasted before the tab switch ended in %s: %s", got, b.text(t, "[data-part=signal] .problem"))
+	}
+}
