@@ -67,8 +67,9 @@ func (b *browser) cdClick(t *testing.T, sel string) {
 // cdTab opens the view's tab when the page has tabs.
 func (b *browser) cdTab(t *testing.T, name string) {
 	t.Helper()
-	b.cdJS(t, fmt.Sprintf(`(e=>{if(e){e.click()}return true})(document.getElementById("tab-%s"))`, name))
-	time.Sleep(100 * time.Millisecond)
+	if b.cdJS(t, fmt.Sprintf(`(e=>{if(e){e.click();return true}return false})(document.getElementById("tab-%s"))`, name)) == "true" {
+		b.shareWait(t, "the "+name+" tab", fmt.Sprintf(`document.getElementById("tab-%s").getAttribute("aria-selected")==="true"`, name))
+	}
 }
 
 // cdWaitRun polls the data-run of sel until it leaves "running" (and idle, once started) and
@@ -181,7 +182,7 @@ func TestCheckInPage(t *testing.T) {
 	}
 	b.screenshot(t, "check-running.png")
 	b.cdClick(t, "#check-cancel")
-	time.Sleep(1500 * time.Millisecond)
+	b.shareWait(t, "the check to stop", `document.querySelector("[data-view=check]").getAttribute("data-run")!=="running"`)
 	if run := b.cdJS(t, `document.querySelector("[data-view=check]").getAttribute("data-run")`); run != "cancelled" {
 		t.Errorf("after cancel data-run=%s", run)
 	}

@@ -263,7 +263,9 @@ func render(p *gplot.Plot, alt string) (lp lawPlot, err error) {
 		}
 	}()
 	c := vgsvg.New(editorPlotW, editorPlotH)
-	p.Draw(draw.New(c))
+	// gonum/plot centres the end tick labels on the ends of the axis, so half of the last
+	// label would fall off the canvas: keep a margin of a few characters on the right.
+	p.Draw(draw.Crop(draw.New(c), 0, -vg.Points(10), 0, 0))
 	var b bytes.Buffer
 	if _, err := c.WriteTo(&b); err != nil {
 		return lawPlot{}, err
