@@ -137,6 +137,8 @@ func TestKeptCurvesOnAnotherAxisRefused(t *testing.T) {
 	b.studyClick(t, "#curve-run")
 	b.studyWait(t, "[data-view=curve]", "data-run", 30*time.Second, "done")
 	b.studyClick(t, "#curve-keep")
+	b.psKeptTravel(t)
+	b.psTab(t, "curve")
 	b.psChoose(t, "#curve-over", "l1")
 	b.studyClick(t, "#curve-run")
 	msg := b.text(t, "[data-view=curve] .problem")
@@ -148,6 +150,35 @@ func TestKeptCurvesOnAnotherAxisRefused(t *testing.T) {
 	b.studyClick(t, "#curve-run")
 	if got := b.studyWait(t, "[data-view=curve]", "data-run", 30*time.Second, "done", "error"); got != "done" {
 		t.Errorf("after clearing, the sweep over l1 ended in %s: %s", got, b.text(t, "[data-view=curve] .problem"))
+	}
+}
+
+// psKeptTravel checks that the curve just kept travels in the link, as its settings, and
+// that the link brings it back, swept again and drawn, in a browser that never saw it.
+func (b *browser) psKeptTravel(t *testing.T) {
+	t.Helper()
+	b.shareShow(t)
+	sent, _ := b.psLink(t, "the kept curve", func(s scenario.Scenario) bool { return s.Study != nil && len(s.Study.Kept) == 1 })
+	k := sent.Study.Kept[0]
+	if k.Sweep.Over != "alpha" || k.Sweep.Points != 20 || k.Label == "" {
+		t.Errorf("the link carries the kept curve as %+v; it was kept over alpha with 20 points", k.Sweep)
+	}
+	fresh, _ := open(t)
+	if state := fresh.shareGoTo(t, fresh.pageURL+"#"+shareCode(t, sent)); state != "ready" {
+		t.Fatalf("data-state=%s: %s", state, fresh.text(t, ".problem"))
+	}
+	fresh.cdWorkers(t)
+	fresh.psTab(t, "curve")
+	if got := fresh.studyWait(t, "[data-view=curve]", "data-run", 30*time.Second, "done", "error"); got != "done" {
+		t.Fatalf("the kept curve of the link ended in %s: %s", got, fresh.text(t, "[data-view=curve] .problem"))
+	}
+	if got := fresh.text(t, "#curve-series"); !strings.Contains(got, k.Label) {
+		t.Errorf("the curves a fresh browser draws after opening the link (%q) miss its kept curve %q", got, k.Label)
+	}
+	fresh.shareShow(t)
+	back, _ := fresh.psLink(t, "the kept curve republished", func(s scenario.Scenario) bool { return s.Study != nil && len(s.Study.Kept) == 1 })
+	if got := back.Study.Kept[0]; got.Sweep != k.Sweep || got.Label != k.Label {
+		t.Errorf("the fresh browser republishes the kept curve as %+v, the link had %+v", got, k)
 	}
 }
 
@@ -351,5 +382,27 @@ func TestUnreadableAutosaveKeptAside(t *testing.T) {
 	name, data := b.studyDownload(t, dir, "#share-unreadable")
 	if name != "hdrisk-unreadable-autosave.json" || string(data) != bad {
 		t.Errorf("downloaded %s: %q", name, data)
+	}
+}
+
+// Text pasted in the data tab survives a switch to another tab and back: the box shows it
+// again, and reading it reads that text.
+func TestPastedDataSurvivesATabSwitch(t *testing.T) {
+	b, _ := open(t)
+	b.shareSettle(t)
+	b.cdWorkers(t)
+	b.studyClick(t, "#tab-data")
+	b.shareWait(t, "the data view", `document.getElementById("data-signal-text") !== null`)
+	samples := "0 0 0 1.5 -2 0 0 0.5 0 0 3 0"
+	if err := chromedp.Run(b.ctx, chromedp.SetValue("#data-signal-text", samples, chromedp.ByQuery)); err != nil {
+		t.Fatal(err)
+	}
+	b.cdJS(t, `document.getElementById("data-signal-text").dispatchEvent(new Event("change",{bubbles:true}));true`)
+	b.psTab(t, "curve")
+	b.studyClick(t, "#tab-data")
+	b.shareWait(t, "the pasted samples back in their box", fmt.Sprintf(`(e=>e!==null&&e.value===%q)(document.getElementById("data-signal-text"))`, samples))
+	b.studyClick(t, "#data-signal-read")
+	if got := b.studyWait(t, `[data-part=signal]`, "data-run", 30*time.Second, "done", "error"); got != "done" {
+		t.Errorf("reading the samples pasted before the tab switch ended in %s: %s", got, b.text(t, "[data-part=signal] .problem"))
 	}
 }

@@ -32,6 +32,7 @@ type CheckView struct {
 
 	nText, trialsText, seedText, atText string
 	trialsTyped, noMatrix               bool
+	opened                              int // the Model.Opened whose study.check the inputs show
 	run, problem                        string
 	settingsUsed                        scenario.Check
 	scen                                []byte

@@ -56,14 +56,22 @@ type checkPoint struct {
 	Result protocol.CheckResult
 }
 
-// checkStart prepares a check: defaults, or the settings the scenario carries in study.check.
+// checkStart prepares a check's inputs: defaults, or the settings the scenario carries in
+// study.check. They are read again whenever a scenario was opened since (a link, a file, a
+// pasted code), so that the inputs show what the opened scenario states.
 func (c *CheckView) checkStart() {
-	if c.nText != "" {
+	if c.nText != "" && (c.Model == nil || c.opened == c.Model.Opened()) {
 		return
 	}
-	c.nText, c.trialsText, c.seedText, c.Solver, c.Factors = "500", "20", "1", "cd", "fast"
-	c.run = RunIdle
-	if c.Model != nil && c.Model.Study != nil && c.Model.Study.Check != nil {
+	if c.nText == "" {
+		c.Factors, c.run = "fast", RunIdle
+	}
+	c.nText, c.trialsText, c.seedText, c.Solver, c.trialsTyped = "500", "20", "1", "cd", false
+	if c.Model == nil {
+		return
+	}
+	c.opened = c.Model.Opened()
+	if c.Model.Study != nil && c.Model.Study.Check != nil {
 		k := c.Model.Study.Check
 		c.nText, c.trialsText, c.seedText = strconv.Itoa(k.N), strconv.Itoa(k.Trials), strconv.FormatUint(k.Seed, 10)
 		if k.Solver != "" {
@@ -74,6 +82,9 @@ func (c *CheckView) checkStart() {
 
 // Init implements vugu's initializer.
 func (c *CheckView) Init(vugu.InitCtx) { c.checkStart() }
+
+// Compute implements vugu's computer: the inputs follow a scenario opened since the last render.
+func (c *CheckView) Compute(vugu.ComputeCtx) { c.checkStart() }
 
 // Run is the data-run hook: idle, running, done, cancelled or error.
 func (c *CheckView) Run() string { return c.run }

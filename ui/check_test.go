@@ -297,3 +297,36 @@ func TestCheckPathsFollowTheKinds(t *testing.T) {
 		t.Errorf("ridge paths %v", c.Paths())
 	}
 }
+
+// TestCheckFollowsAnOpenedScenario checks that the check's inputs show the study.check of a
+// scenario opened after the view started (a link, a file, a pasted code), and go back to
+// the defaults when the opened scenario has none.
+func TestCheckFollowsAnOpenedScenario(t *testing.T) {
+	m := lassoModel(t)
+	c := &CheckView{Model: m}
+	c.Init(nil)
+	_ = c.SetSetting("seed", "9")
+	s := m.Check().Scenario
+	s.Study = &scenario.Study{View: "check", Check: &scenario.Check{N: 800, Trials: 7, Seed: 42, Solver: "prox"}}
+	if err := m.Load(s); err != nil {
+		t.Fatal(err)
+	}
+	c.Compute(nil)
+	if c.NText() != "800" || c.TrialsText() != "7" || c.SeedText() != "42" || c.Solver != "prox" {
+		t.Errorf("after opening a scenario with a check: n=%s trials=%s seed=%s solver=%s, it states 800, 7, 42, prox",
+			c.NText(), c.TrialsText(), c.SeedText(), c.Solver)
+	}
+	_ = c.SetSetting("n", "1200")
+	c.Compute(nil)
+	if c.NText() != "1200" {
+		t.Errorf("an edit of n is undone by the next render: n=%s", c.NText())
+	}
+	s.Study = nil
+	if err := m.Load(s); err != nil {
+		t.Fatal(err)
+	}
+	c.Compute(nil)
+	if c.NText() != "500" || c.SeedText() != "1" || c.Solver != "cd" {
+		t.Errorf("after opening a scenario without a check: n=%s seed=%s solver=%s, want the defaults", c.NText(), c.SeedText(), c.Solver)
+	}
+}

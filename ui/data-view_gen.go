@@ -33,6 +33,7 @@ type DataView struct {
 	spectrum         *protocol.SpectrumResult
 	matrixText       string // the text of the matrix whose spectrum was read last
 	fit              *protocol.FitResult
+	refilled         bool // the paste boxes got back their text since the tab was last selected
 }
 
 func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {

@@ -82,6 +82,38 @@ func (c *DataView) start() {
 // Init implements vugu's initializer.
 func (c *DataView) Init(vugu.InitCtx) { c.start() }
 
+// InputWriter puts text in a text box of the page directly: the renderer passes what it
+// sets through a 16 KB buffer, which a pasted matrix does not fit.
+type InputWriter interface {
+	SetInput(id, text string)
+}
+
+// Rendered implements vugu's rendered hook. The paste boxes are built afresh, empty, each
+// time the tab is selected; the text pasted in them is kept in the view, and goes back into
+// them here, so that a tab switch loses nothing and the box shows what Read would read.
+func (c *DataView) Rendered(vugu.RenderedCtx) {
+	if !c.Active {
+		c.refilled = false
+		return
+	}
+	if c.refilled {
+		return
+	}
+	c.refilled = true
+	w, ok := c.Browser.(InputWriter)
+	if !ok {
+		return
+	}
+	for _, b := range []struct {
+		id   string
+		text string
+	}{{"data-design-text", c.design.text}, {"data-signal-text", c.signal.text}} {
+		if b.text != "" {
+			w.SetInput(b.id, b.text)
+		}
+	}
+}
+
 func (c *DataView) now() time.Time {
 	if c.Clock != nil {
 		return c.Clock()

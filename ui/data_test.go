@@ -222,3 +222,45 @@ func TestDataLongListIsShortenedAndSaid(t *testing.T) {
 		t.Errorf("%d values (%d characters) in the design; applied %q", len(v), len(text), c.Applied("design"))
 	}
 }
+
+// boxBrowser records the texts put in the page's boxes directly (InputWriter).
+type boxBrowser struct {
+	*cdBrowser
+	boxes map[string]string
+}
+
+func (b *boxBrowser) SetInput(id, text string) { b.boxes[id] = text }
+
+// TestPastedTextSurvivesATabSwitch checks that the text pasted in the data view's boxes goes
+// back into them when its tab is selected again (the boxes are then built afresh, empty),
+// once per selection, and that Read reads that text.
+func TestPastedTextSurvivesATabSwitch(t *testing.T) {
+	br := &boxBrowser{cdBrowser: &cdBrowser{}, boxes: map[string]string{}}
+	c := &DataView{Active: true, Model: lassoModel(t), Browser: br}
+	c.Init(nil)
+	c.Rendered(nil)
+	if len(br.boxes) != 0 {
+		t.Fatalf("empty boxes were written: %v", br.boxes)
+	}
+	pasted := "3, 0\n0, 2\n"
+	if err := c.SetSetting("design-text", pasted); err != nil {
+		t.Fatal(err)
+	}
+	_ = c.SetSetting("signal-text", "1 2 3")
+	c.Rendered(nil)
+	if len(br.boxes) != 0 {
+		t.Errorf("a box the user is typing in was written back: %v", br.boxes)
+	}
+	c.Active = false // another tab
+	c.Rendered(nil)
+	c.Active = true // back
+	c.Rendered(nil)
+	if br.boxes["data-design-text"] != pasted || br.boxes["data-signal-text"] != "1 2 3" {
+		t.Errorf("after a tab switch the boxes hold %q", br.boxes)
+	}
+	clear(br.boxes)
+	c.Rendered(nil)
+	if len(br.boxes) != 0 {
+		t.Errorf("the boxes are written again at every render: %v", br.boxes)
+	}
+}

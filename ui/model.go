@@ -248,6 +248,7 @@ type Model struct {
 	rev     int // counts changes of the scenario made through the methods
 	vrev    int // counts changes of the views' settings
 	keptSeq int // the last KeptCurve ID given
+	opened  int // counts the scenarios opened (Load)
 	probKey struct {
 		checked *Checked // the check the text belongs to
 		text    string
@@ -400,6 +401,10 @@ func (m *Model) SetText(id, text string) error {
 	return fmt.Errorf("no input %q in the current scenario", id)
 }
 
+// Opened counts the scenarios opened so far (Load): a view that keeps the texts of its
+// inputs reads them again from the page state when it changes.
+func (m *Model) Opened() int { return m.opened }
+
 // Load replaces the model's contents with the scenario s (for a link, a file or an
 // example). Special cases are: a kind the page does not offer is an error and changes nothing.
 func (m *Model) Load(s scenario.Scenario) error {
@@ -424,6 +429,8 @@ func (m *Model) Load(s scenario.Scenario) error {
 	m.Title, m.Notes, m.Study = s.Title, s.Notes, s.Study
 	tab := m.views.Tab
 	m.views = viewsOf(s.Study)
+	m.SetKept(m.views.Kept)
+	m.opened++
 	if s.Study == nil || s.Study.View == "" {
 		m.views.Tab = tab // a scenario that names no view leaves the page on the one it shows
 	}
@@ -522,7 +529,7 @@ func (m *Model) withStudy(c Checked) Checked {
 		if err == nil || !dropStudyPart(s.Study, err) {
 			break
 		}
-		if *s.Study == (scenario.Study{}) {
+		if emptyStudy(s.Study) {
 			s.Study = nil
 		}
 	}

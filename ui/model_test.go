@@ -4,6 +4,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"reflect"
 	"strconv"
 	"strings"
 	"testing"
@@ -286,5 +287,42 @@ func TestLoadRoundTrip(t *testing.T) {
 	bad := scenario.Scenario{Design: scenario.Design{Shape: "triangular", Scale: "rows"}}
 	if err := m.Load(bad); err == nil || m.Kind("design") != "orthogonal" {
 		t.Errorf("unknown shape loaded: %v, design now %q", err, m.Kind("design"))
+	}
+}
+
+// TestLoadKeepsKeptCurves checks that a scenario's kept curves (study.kept) become the
+// page state's, and that the page writes them back unchanged.
+func TestLoadKeepsKeptCurves(t *testing.T) {
+	data, err := os.ReadFile(filepath.Join("..", "testdata", "scenarios", "sparse-survey.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := scenario.Decode(data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	other := s
+	other.Study = nil
+	other.Penalty.Params = map[string]float64{"l1": 0.02}
+	s.Study = &scenario.Study{View: "curve", Kept: []scenario.Kept{
+		{Label: "l1 = 0.02", Scenario: other, Sweep: scenario.Sweep{Over: "alpha", From: 0.2, To: 2, Points: 15}}}}
+	m := NewModel()
+	if err := m.Load(s); err != nil {
+		t.Fatal(err)
+	}
+	k := m.Views().Kept
+	if len(k) != 1 || k[0].ID == 0 || k[0].Label != "l1 = 0.02" || k[0].Axis.Over != "alpha" || k[0].Axis.Points != 15 {
+		t.Fatalf("the page state holds the kept curves %+v", k)
+	}
+	c := m.Check()
+	if c.Err != nil {
+		t.Fatal(c.Err)
+	}
+	back, err := scenario.Decode(c.JSON)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if back.Study == nil || !reflect.DeepEqual(back.Study.Kept, s.Study.Kept) {
+		t.Errorf("the page writes the kept curves as %+v, it opened %+v", back.Study, s.Study.Kept)
 	}
 }

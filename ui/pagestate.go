@@ -97,6 +97,11 @@ func viewsOf(st *scenario.Study) Views {
 		v.Over = b.Over
 		v.travel[partBest] = true
 	}
+	for _, k := range st.Kept {
+		w := k.Sweep
+		v.Kept = append(v.Kept, KeptCurve{Label: k.Label, Scenario: k.Scenario,
+			Axis: study.Axis{Over: w.Over, From: w.From, To: w.To, Points: w.Points, Log: w.Log}})
+	}
 	return v
 }
 
@@ -345,7 +350,14 @@ func (m *Model) studyOfViews() *scenario.Study {
 	if v.travel[partBest] && (v.Over == "l1" || v.Over == "l2") {
 		st.Best = &scenario.Best{Over: v.Over}
 	}
-	if st.Sweep == nil && st.Map == nil && st.Plan == nil && st.Best == nil && st.Check == nil && st.View == "" {
+	for _, k := range v.Kept {
+		ks := k.Scenario
+		ks.Study = nil
+		a := k.Axis
+		st.Kept = append(st.Kept, scenario.Kept{Label: k.Label, Scenario: ks,
+			Sweep: scenario.Sweep{Over: a.Over, From: a.From, To: a.To, Points: a.Points, Log: a.Log}})
+	}
+	if emptyStudy(&st) {
 		return nil
 	}
 	if st.View == "" {
@@ -377,9 +389,18 @@ func dropStudyPart(st *scenario.Study, err error) bool {
 	case "check":
 		st.Check = nil
 	default:
+		if strings.HasPrefix(part, "kept") {
+			st.Kept = nil
+			break
+		}
 		*st = scenario.Study{}
 	}
 	return true
+}
+
+// emptyStudy reports whether st states nothing.
+func emptyStudy(st *scenario.Study) bool {
+	return st.Sweep == nil && st.Map == nil && st.Plan == nil && st.Best == nil && st.Check == nil && st.View == "" && len(st.Kept) == 0
 }
 
 // problemKey identifies the problem of the checked scenario: its file without title, notes

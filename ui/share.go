@@ -54,10 +54,12 @@ type saved struct {
 	Saved    string          `json:"saved"` // RFC 3339
 	Scenario json.RawMessage `json:"scenario"`
 	Results  *Figures        `json:"results,omitempty"` // figures of Scenario, when computed
-	Kept     []savedCurve    `json:"kept,omitempty"`    // the kept curves, by their settings
+	// Kept holds the kept curves in records written before the scenario's study carried
+	// them (study.kept): it is read, no longer written.
+	Kept []savedCurve `json:"kept,omitempty"`
 }
 
-// savedCurve is a kept curve in the autosave: its scenario and axis, swept again on reload.
+// savedCurve is a kept curve in an earlier autosave: its scenario and axis.
 type savedCurve struct {
 	Label    string          `json:"label"`
 	Scenario json.RawMessage `json:"scenario"`
@@ -226,7 +228,9 @@ func (c *Share) restore() (bool, error) {
 	if err := c.load(s); err != nil {
 		return false, err
 	}
-	c.Model.SetKept(kept)
+	if len(kept) > 0 {
+		c.Model.SetKept(kept)
+	}
 	return true, nil
 }
 
@@ -408,13 +412,6 @@ func (c *Share) autosave() {
 	if c.Have {
 		f := c.Figures
 		sv.Results = &f
-	}
-	for _, k := range c.Model.Views().Kept {
-		data, err := k.Scenario.Encode()
-		if err != nil {
-			continue // a kept curve that cannot be written is left out, never the scenario
-		}
-		sv.Kept = append(sv.Kept, savedCurve{Label: k.Label, Scenario: data, Axis: k.Axis})
 	}
 	data, err := json.Marshal(sv)
 	if err != nil && sv.Results != nil {

@@ -13,6 +13,7 @@ type node struct {
 	keys []string
 	vals []node
 	nums []float64 // a list of numbers, written as flt writes each
+	list []node    // a list of other values, when set
 	lit  string
 	kind jkind
 }
@@ -78,6 +79,10 @@ func (n node) write(b *bytes.Buffer, indent string, pretty bool) {
 		}
 		b.WriteByte('}')
 	case jArray:
+		if n.list != nil {
+			n.writeList(b, indent, pretty)
+			return
+		}
 		b.WriteByte('[')
 		var d []byte
 		for i, x := range n.nums {
@@ -94,6 +99,25 @@ func (n node) write(b *bytes.Buffer, indent string, pretty bool) {
 	default:
 		b.WriteString(n.lit)
 	}
+}
+
+// writeList writes a list of values other than numbers, one a line when pretty.
+func (n node) writeList(b *bytes.Buffer, indent string, pretty bool) {
+	b.WriteByte('[')
+	inner := indent + "  "
+	for i, e := range n.list {
+		if i > 0 {
+			b.WriteByte(',')
+		}
+		if pretty {
+			b.WriteString("\n" + inner)
+		}
+		e.write(b, inner, pretty)
+	}
+	if pretty && len(n.list) > 0 {
+		b.WriteString("\n" + indent)
+	}
+	b.WriteByte(']')
 }
 
 // Encode writes s in canonical form: keys in a fixed order (kind, version, title, notes,
@@ -221,6 +245,17 @@ func (st *Study) tree() node {
 			n.set("solver", str(c.Solver))
 		}
 		t.set("check", n)
+	}
+	if len(st.Kept) > 0 {
+		l := node{kind: jArray, list: []node{}}
+		for _, k := range st.Kept {
+			n := obj()
+			n.set("label", str(k.Label))
+			n.set("scenario", k.Scenario.tree())
+			n.axis("over", "", k.Sweep.Over, k.Sweep.From, k.Sweep.To, k.Sweep.Points, k.Sweep.Log)
+			l.list = append(l.list, n)
+		}
+		t.set("kept", l)
 	}
 	return t
 }

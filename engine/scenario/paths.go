@@ -3,6 +3,7 @@ package scenario
 import (
 	"maps"
 	"math"
+	"slices"
 	"strings"
 
 	"hdrisk/engine/param"
@@ -231,6 +232,10 @@ func (s Scenario) clone() Scenario {
 		st.Best = clonePtr(st.Best)
 		st.Plan = clonePtr(st.Plan)
 		st.Check = clonePtr(st.Check)
+		st.Kept = slices.Clone(st.Kept)
+		for i := range st.Kept {
+			st.Kept[i].Scenario = st.Kept[i].Scenario.clone()
+		}
 		c.Study = &st
 	}
 	return c

@@ -94,6 +94,16 @@ type Study struct {
 	Best  *Best
 	Plan  *Plan
 	Check *Check
+	Kept  []Kept // at most MaxKept
+}
+
+// Kept is a curve kept beside the study's own for comparison, by its settings: the
+// scenario it sweeps (with no study of its own) and its axis. Its points do not travel:
+// whoever opens the study computes them again.
+type Kept struct {
+	Label    string // at most MaxTitle characters
+	Scenario Scenario
+	Sweep    Sweep
 }
 
 // Sweep is a curve over one scalar path (see Paths).
@@ -142,6 +152,9 @@ const (
 	MaxCheckN      = 100000
 	MaxTrials      = 100000
 	MaxSeed        = 1<<53 - 1
+	// MaxKept is the number of kept curves a study holds: the page draws at most eight
+	// curves on one figure, the current one and seven kept.
+	MaxKept = 7
 )
 
 var (

@@ -9,7 +9,8 @@ import (
 )
 
 var (
-	studyKeys = []string{"view", "sweep", "map", "best", "plan", "check"}
+	studyKeys = []string{"view", "sweep", "map", "best", "plan", "check", "kept"}
+	keptKeys  = []string{"label", "scenario", "over", "from", "to", "points", "log"}
 	sweepKeys = []string{"over", "from", "to", "points", "log"}
 	mapKeys   = []string{"x", "x_from", "x_to", "x_points", "x_log", "y", "y_from", "y_to", "y_points", "y_log"}
 	bestKeys  = []string{"over"}
@@ -110,7 +111,65 @@ func readStudy(v *jval) (Study, error) {
 		}
 		st.Check = &c
 	}
+	if kv, ok := r.get("kept"); ok {
+		if st.Kept, err = readKept(kv); err != nil {
+			return st, err
+		}
+	}
 	return st, nil
+}
+
+// readKept reads study.kept: a list of at most MaxKept curves, each a label, a scenario
+// document with no study and the keys of a sweep.
+func readKept(v *jval) ([]Kept, error) {
+	if v.kind != jArray {
+		return nil, fieldErr("study.kept", "must be a list of kept curves, not %v", v.kind)
+	}
+	if len(v.arr) > MaxKept {
+		return nil, fieldErr("study.kept", "holds %d curves; the limit is %d", len(v.arr), MaxKept)
+	}
+	var kept []Kept
+	for i, e := range v.arr {
+		path := sprintf("study.kept[%d]", i)
+		r, err := newReader(path, e)
+		if err != nil {
+			return nil, err
+		}
+		if err := r.restExcept(keptKeys); err != nil {
+			return nil, err
+		}
+		var k Kept
+		if k.Label, err = r.text("label", false); err != nil {
+			return nil, err
+		}
+		sv, err := r.need("scenario")
+		if err != nil {
+			return nil, err
+		}
+		if k.Scenario, err = fromTree(sv); err != nil {
+			return nil, under(path+".scenario", err)
+		}
+		if k.Scenario.Study != nil {
+			return nil, fieldErr(path+".scenario.study", "a kept curve's scenario holds no study")
+		}
+		if err := r.axis("over", "", MaxSweepPoints, &k.Sweep.Over, &k.Sweep.From, &k.Sweep.To, &k.Sweep.Points, &k.Sweep.Log); err != nil {
+			return nil, err
+		}
+		kept = append(kept, k)
+	}
+	return kept, nil
+}
+
+// under moves a *FieldError of a nested document under the path it was found at.
+func under(path string, err error) error {
+	fe, ok := err.(*FieldError)
+	if !ok {
+		return err
+	}
+	if fe.Field == "" {
+		return fieldErr(path, "%s", fe.Reason)
+	}
+	return fieldErr(path+"."+fe.Field, "%s", fe.Reason)
 }
 
 func readSweep(v *jval) (Sweep, error) {
@@ -213,6 +272,26 @@ func (s Scenario) validateStudy() error {
 			return fieldErr("study.check.seed", "must be between 0 and %d, not %d", uint64(MaxSeed), c.Seed)
 		case c.Solver != "" && !slices.Contains(solvers, c.Solver):
 			return fieldErr("study.check.solver", "must be one of %s, not %q", strings.Join(solvers, ", "), clip(c.Solver, 40))
+		}
+	}
+	if len(st.Kept) > MaxKept {
+		return fieldErr("study.kept", "holds %d curves; the limit is %d", len(st.Kept), MaxKept)
+	}
+	for i, k := range st.Kept {
+		path := sprintf("study.kept[%d]", i)
+		if err := checkText(path+".label", k.Label, MaxTitle, false); err != nil {
+			return err
+		}
+		if k.Scenario.Study != nil {
+			return fieldErr(path+".scenario.study", "a kept curve's scenario holds no study")
+		}
+		if err := k.Scenario.Validate(); err != nil {
+			return under(path+".scenario", err)
+		}
+		sw := k.Sweep
+		if _, err := k.Scenario.checkAxis(path+".over", sw.Over, path+".from", sw.From, path+".to", sw.To,
+			path+".points", sw.Points, MaxSweepPoints, sw.Log); err != nil {
+			return err
 		}
 	}
 	return nil

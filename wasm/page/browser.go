@@ -425,7 +425,19 @@ func (b *browser) ClearInput(id string) {
 	}
 }
 
+// SetInput implements ui.InputWriter.
+func (b *browser) SetInput(id, text string) {
+	if doc, err := global("document"); err == nil {
+		if el, err := doc.Call("getElementById", id); err == nil && !el.IsNull() && !el.IsUndefined() {
+			if str(el.Get("value")) != text {
+				_ = el.Set("value", text)
+			}
+		}
+	}
+}
+
 var (
 	_ ui.Browser     = (*browser)(nil)
 	_ ui.InputReader = (*browser)(nil)
+	_ ui.InputWriter = (*browser)(nil)
 )
