@@ -198,3 +198,17 @@ func TestCheckSplitMatchesWhole(t *testing.T) {
 		t.Error("parts with a gap between their trials were merged")
 	}
 }
+
+// TestWarmCheckScenarios checks that the warm-up's scenarios run: a warm-up that fails at once
+// would warm nothing.
+func TestWarmCheckScenarios(t *testing.T) {
+	for _, s := range warmScenarios {
+		r, err := Check(protocol.CheckArgs{Scenario: json.RawMessage(s), N: 200, Trials: 2, Seed: 1, Solver: "cd", Factors: "fast"}, nil)
+		if err != nil {
+			t.Fatalf("%s: %v", s, err)
+		}
+		if r.Trials != 2 || len(r.PerTrial) != 2 {
+			t.Errorf("%s: %d trials, want 2", s, r.Trials)
+		}
+	}
+}
