@@ -82,14 +82,28 @@ func expectBranch(l Law, p penalty.Penalty, b brancher, g, t float64) Moments {
 	}
 	cuts := branchCuts(sides, b, e, g)
 	var mse, a float64
+	// The components a panel can reach: r(u) increases with u, so a component whose
+	// quadSpan + 1 standard deviations miss [r(lo), r(hi)] is skipped at every node of the
+	// panel anyway. Listing them once per panel keeps a mixture of many narrow components
+	// (a uniform signal at small t) from costing panels times nodes times components.
+	near := make([]sideComp, 0, len(sides))
+	_, _, rLo, _ := b.Branch(cuts[0], g)
 	for i := 1; i < len(cuts); i++ {
+		_, _, rHi, _ := b.Branch(cuts[i], g)
+		near = near[:0]
+		for _, s := range sides {
+			if reach := (quadSpan + 1) * s.sd; s.m+reach >= rLo && s.m-reach <= rHi {
+				near = append(near, s)
+			}
+		}
+		rLo = rHi
 		h := (cuts[i] - cuts[i-1]) / 2
 		c := (cuts[i] + cuts[i-1]) / 2
 		for j, z := range legendreX {
 			u := c + h*z
 			x, dxdu, r, drdu := b.Branch(u, g)
 			gw := legendreW[j] * h
-			for _, s := range sides {
+			for _, s := range near {
 				y := (r - s.m) / s.sd
 				if y > quadSpan+1 || y < -quadSpan-1 {
 					continue

@@ -22,9 +22,9 @@ import (
 
 var propVerbose = flag.Bool("hdrisk.props.v", false, "log every refusal of TestRandomScenarios")
 
-// propCount is 5000 by default so that the test stays within a minute on a shared machine;
-// -hdrisk.props=20000 (or more) runs the full check.
-var propCount = flag.Int("hdrisk.props", 5000, "number of random scenarios of TestRandomScenarios")
+// propCount is 20000 by default, the count the issue asks of CI: 31 s measured for the whole
+// test on a 2-core machine; -hdrisk.props=N (more) runs a larger check.
+var propCount = flag.Int("hdrisk.props", 20000, "number of random scenarios of TestRandomScenarios")
 
 // domain is the part of a registry parameter that the generator reads.
 type domain struct {
@@ -153,10 +153,10 @@ func fill(rng *rand.Rand, obj map[string]any, d domain) {
 }
 
 // TestRandomScenarios solves random valid scenarios drawn from the registries' domains (fixed
-// seed; 5000 by default, -hdrisk.props=N for another count, at most 2000 under -short): every
+// seed; 20000 by default, -hdrisk.props=N for another count, at most 2000 under -short): every
 // one is solved with finite observables in range, or refused with an error that names a
 // field, but for a few beyond the solver's reach (bracketing failed, or not converged with
-// its residual), which are listed and bounded. It logs the counts by outcome.
+// its residual), which are listed and bounded. It logs the counts by outcome and the 20 slowest draws.
 func TestRandomScenarios(t *testing.T) {
 	n := *propCount
 	if testing.Short() {
@@ -166,8 +166,14 @@ func TestRandomScenarios(t *testing.T) {
 	counts := map[string]int{}
 	reasons := map[string]int{}
 	beyond := 0
-	var slowest time.Duration
-	var slowDoc string
+	// The slowest draws, logged at the end: where the solver spends the test's time.
+	type slow struct {
+		el  time.Duration
+		i   int
+		doc string
+	}
+	var slowest []slow
+	var total time.Duration
 	for i := range n {
 		doc := randomScenario(rng)
 		sc, err := scenario.Decode([]byte(doc))
@@ -191,11 +197,12 @@ func TestRandomScenarios(t *testing.T) {
 		}
 		t0 := time.Now()
 		r, err := fixedpoint.Solve(p, fixedpoint.Options{})
-		if el := time.Since(t0); el > slowest {
-			slowest, slowDoc = el, doc
-		}
-		if el := time.Since(t0); el > time.Second {
-			t.Logf("scenario %d took %v:\n%s", i, el, doc)
+		el := time.Since(t0)
+		total += el
+		if len(slowest) < 20 || el > slowest[len(slowest)-1].el {
+			slowest = append(slowest, slow{el, i, doc})
+			sort.Slice(slowest, func(a, b int) bool { return slowest[a].el > slowest[b].el })
+			slowest = slowest[:min(len(slowest), 20)]
 		}
 		if err != nil {
 			var fe *param.Error
@@ -235,12 +242,16 @@ func TestRandomScenarios(t *testing.T) {
 		}
 	}
 	// The solver's reach is not yet the whole domain: scenarios it can neither solve nor
-	// refuse for a stated reason are listed above and must stay below 1 % of the draws
-	// (0.4 % of the first 20000 when this bound was set; the goal is none).
-	if beyond*100 > n {
-		t.Errorf("%d of %d scenarios beyond the solver's reach, more than 1 %%", beyond, n)
+	// refuse for a stated reason are listed above and must stay below 0.1 % of the draws
+	// (4 of the first 20000 when this bound was set, down from 21 before an SNR beyond
+	// +-600 dB got its own account; the goal is none).
+	if beyond*1000 > n {
+		t.Errorf("%d of %d scenarios beyond the solver's reach, more than 0.1 %%", beyond, n)
 	}
-	t.Logf("%d scenarios; the slowest took %v:\n%s", n, slowest, slowDoc)
+	t.Logf("%d scenarios, %v in Solve; the slowest %d:", n, total, len(slowest))
+	for _, sl := range slowest {
+		t.Logf("  scenario %d took %v: %s", sl.i, sl.el, sl.doc)
+	}
 	for _, k := range sortedKeys(counts) {
 		t.Logf("  %-48s %6d", k, counts[k])
 	}
