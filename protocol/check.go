@@ -3,7 +3,7 @@ package protocol
 import "encoding/json"
 
 // CheckArgs are the arguments of the "check" kind: finite-size trials of one scenario
-// (method.md section 8), optionally with one of its numbers set first, and optionally with
+// (docs/method.md section 8), optionally with one of its numbers set first, and optionally with
 // the predicted curve over a range of that number for the figure the check is drawn on.
 type CheckArgs struct {
 	Scenario json.RawMessage `json:"scenario"`

@@ -33,7 +33,7 @@ type HistogramOut struct {
 }
 
 // SpectrumResult is the result of the "spectrum" kind: what the theory takes from a user's
-// matrix (its singular values and alpha = rows/cols, method.md M1 and M5) and a summary.
+// matrix (its singular values and alpha = rows/cols, docs/method.md sections 1 and 5) and a summary.
 type SpectrumResult struct {
 	Source         string       `json:"source"`
 	SingularValues []float64    `json:"singular_values"` // min(rows, cols) values, decreasing

@@ -10,7 +10,7 @@ import "github.com/vugu/vugu"
 import js "github.com/vugu/vugu/js"
 import "log"
 
-// Assumptions states, always visible, what the predictions rest on (method.md section 1).
+// Assumptions states, always visible, what the predictions rest on (docs/method.md section 1).
 type Assumptions struct{}
 
 func (c *Assumptions) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {

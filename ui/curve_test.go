@@ -175,7 +175,7 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	if !ok || len(spec.VLines) != 1 || spec.VLines[0].At != wb.Value || len(spec.HLines) != 1 {
 		t.Errorf("the figure should carry the best marker at %g and the Bayes line: %+v %+v", wb.Value, spec.VLines, spec.HLines)
 	}
-	// No convex estimator beats the Bayes-optimal error (method.md section 4).
+	// No convex estimator beats the Bayes-optimal error (docs/method.md section 4).
 	var bayes float64
 	for _, a := range c.Answers() {
 		if a[0] == "curve_bayes_nmse_db" {

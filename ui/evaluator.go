@@ -15,7 +15,7 @@ type Figures struct {
 	Converged       bool    `json:"converged"`
 	Iterations      int     `json:"iterations"`
 	EstimateZero    bool    `json:"estimate_zero"` // the penalty sets the whole estimate to zero
-	// The generalized model's figures (method.md section 10), when GLM is set.
+	// The generalized model's figures (docs/method.md section 10), when GLM is set.
 	GLM       bool    `json:"glm,omitempty"`
 	Labels    bool    `json:"labels,omitempty"` // the readout gives labels: TestError applies
 	Cosine    float64 `json:"cosine,omitempty"`

@@ -8,7 +8,7 @@ import (
 	"hdrisk/engine/scenario"
 )
 
-// The groups of a generalized linear model (method.md section 10), from the engine's noise,
+// The groups of a generalized linear model (docs/method.md section 10), from the engine's noise,
 // readout and loss registries. Each starts at today's model (Gaussian noise, the linear
 // readout, the square loss), which writes nothing into the scenario file, so that a file or
 // link made before these groups existed means what it meant.

@@ -2,7 +2,7 @@ package data
 
 import "hdrisk/engine/design"
 
-// EmpiricalDesign returns the law of F^T F (method.md M5, empirical) of a user's m x n
+// EmpiricalDesign returns the law of F^T F (docs/method.md section 5, empirical) of a user's m x n
 // matrix F given its min(m, n) singular values sv, in any order: the sampling ratio is the
 // shape's alpha = m/n, and when m < n the n - m missing eigenvalues of F^T F are the atom
 // at zero that design.EmpiricalSV adds. The scale s is applied as for any other design.

@@ -12,7 +12,7 @@ import (
 )
 
 // The singular values of a matrix with orthonormal columns (all 1, shape 60 x 25) give the
-// same law as the closed-form orthogonal design with alpha = 60/25 (method.md M5: two
+// same law as the closed-form orthogonal design with alpha = 60/25 (docs/method.md section 5: two
 // atoms), under both normalizing scales.
 func TestEmpiricalDesignOrthogonal(t *testing.T) {
 	q := orthonormalColumns(rand.New(rand.NewPCG(5, 6)), 60, 25)

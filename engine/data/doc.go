@@ -1,10 +1,10 @@
 // Package data reads what a practitioner brings: a measurement matrix, a list of its
 // singular values (or of the eigenvalues of F^T F), and samples of the signal.
 //
-// The rotationally invariant theory of method.md (sections M1 and M5) depends on the design
+// The rotationally invariant theory of docs/method.md (sections 1 and 5) depends on the design
 // only through the limiting law of the eigenvalues of F^T F, so a user's own matrix enters as
 // its min(m, n) singular values together with its shape alpha = m/n (an empirical-sv design).
-// A user's own signal enters as its samples (an empirical law, method.md M6), or as a
+// A user's own signal enters as its samples (an empirical law, docs/method.md section 6), or as a
 // Bernoulli-Gaussian or Gaussian-mixture law fitted to them by expectation maximization.
 //
 // Readers never trust the size of their input: every reader takes Limits, stops after reading

@@ -9,7 +9,7 @@ import (
 // Fits of a signal law to samples by maximum likelihood through expectation maximization
 // (Dempster, Laird & Rubin 1977, J. R. Stat. Soc. B; for Gaussian mixtures, Bishop 2006,
 // Pattern Recognition and Machine Learning, section 9.2). The fitted laws are those of
-// method.md M6 and of the scenario file: bernoulli-gauss {density, variance} and
+// docs/method.md section 6 and of the scenario file: bernoulli-gauss {density, variance} and
 // gauss-mixture {weights, means, variances}.
 
 const log2Pi = 1.8378770664093453 // log(2 pi)

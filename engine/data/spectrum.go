@@ -154,7 +154,7 @@ func GramTolerance(m, n int, sigmaMax float64) float64 {
 // Summary describes the singular values of an m x n design.
 type Summary struct {
 	Rows, Cols int     // m and n
-	Alpha      float64 // m/n, the sampling ratio of method.md M1
+	Alpha      float64 // m/n, the sampling ratio of docs/method.md section 1
 	Min, Max   float64 // smallest and largest of the min(m, n) singular values
 	Condition  float64 // Max/Min; +Inf when Min is 0
 	Rank       int     // how many singular values exceed Tolerance

@@ -7,7 +7,7 @@ import (
 )
 
 // twoAtoms returns the transforms of p0 delta_0 + q delta_lam by their definitions
-// (method.md section 2), summed term by term; W is the two-point variance
+// (docs/method.md section 2), summed term by term; W is the two-point variance
 // p0 q (1/g - 1/(lam + g))^2 / S1^2 with the difference written as lam/(g (lam + g)).
 func twoAtoms(p0, q, lam, g float64) Transforms {
 	r := 1 / (lam + g)
@@ -25,7 +25,7 @@ func twoAtoms(p0, q, lam, g float64) Transforms {
 
 // TestOrthogonal checks the two atoms and the nonzero eigenvalue each scale gives:
 // rows 1 for alpha <= 1 (F F^T = I) and alpha above, columns 1/alpha and 1, as given 1
-// (method.md section 1).
+// (docs/method.md section 1).
 func TestOrthogonal(t *testing.T) {
 	for _, alpha := range []float64{0.2, 0.5, 1, 2, 7} {
 		p0, q := max(0, 1-alpha), min(1, alpha)
@@ -50,7 +50,7 @@ func TestOrthogonal(t *testing.T) {
 }
 
 // TestEmpiricalOnesIsOrthogonal: a list of equal singular values is the orthogonal design
-// (its definition in method.md section 5), for every transform to 1e-12.
+// (its definition in docs/method.md section 5), for every transform to 1e-12.
 func TestEmpiricalOnesIsOrthogonal(t *testing.T) {
 	for _, k := range []int{1, 7, MaxValues} {
 		ones := make([]float64, k)
@@ -80,7 +80,7 @@ func TestEmpiricalOnesIsOrthogonal(t *testing.T) {
 }
 
 // TestEmpiricalAgainstSums checks an unsorted list with repeats and zeros against the
-// definitions of method.md section 2 summed value by value (Welford's running variance for
+// definitions of docs/method.md section 2 summed value by value (Welford's running variance for
 // W; Welford 1962, Technometrics 4(3)).
 func TestEmpiricalAgainstSums(t *testing.T) {
 	values := []float64{2, 0.5, 0, 3, 2, 1e-3, 0.5, 7}

@@ -27,7 +27,7 @@
 //	T  = E[l/(l+g)] = 1 - g S1            W  = Var[1/(l+g)]/S1^2 = S2/S1^2 - 1
 //
 // and S2Pos, S2 without the atom at zero. The fixed point ties them to the penalty side by
-// S1(g2) = V and g1 = T(g2)/S1(g2) (method.md sections 2 and 3); InverseS1 solves the first
+// S1(g2) = V and g1 = T(g2)/S1(g2) (docs/method.md sections 2 and 3); InverseS1 solves the first
 // relation. None of these is ever formed by the subtractions on the right, which lose every
 // digit when g is large: the closed forms are rationalized so that all their terms are
 // nonnegative, and sums over atoms compute the variance behind W by a centered second pass.

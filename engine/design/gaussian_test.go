@@ -13,7 +13,7 @@ import (
 // and the density sqrt((b - l)(l - a))/(2 pi y l) on [a, b], a = (1 - sqrt y)^2,
 // b = (1 + sqrt y)^2 (Marchenko & Pastur 1967; Bai & Silverstein 2010, Spectral Analysis of
 // Large Dimensional Random Matrices, section 3.1.1). The substitution
-// l = a + (b - a)(1 - cos theta)/2 = a + (b - a) sin^2(theta/2) removes the square-root edges (method.md section 5), and
+// l = a + (b - a)(1 - cos theta)/2 = a + (b - a) sin^2(theta/2) removes the square-root edges (docs/method.md section 5), and
 // the smooth integrand in theta is summed by a 2000-node Gauss-Legendre rule.
 func mpReference(y, f float64, atom func() float64, h func(l float64) float64) float64 {
 	a, b := (1-math.Sqrt(y))*(1-math.Sqrt(y)), (1+math.Sqrt(y))*(1+math.Sqrt(y))

@@ -7,8 +7,8 @@ import (
 	"hdrisk/engine/param"
 )
 
-// Transforms holds the transforms of a law nu at one point g (method.md sections 2 and 3).
-// Every field is formed without the cancellations of method.md section 3, so each keeps its
+// Transforms holds the transforms of a law nu at one point g (docs/method.md sections 2 and 3).
+// Every field is formed without the cancellations of docs/method.md section 3, so each keeps its
 // relative accuracy from g much smaller to g much larger than the spectrum.
 type Transforms struct {
 	S1, S2, S3 float64 // E[1/(l+g)], E[1/(l+g)^2], E[l/(l+g)^2]

@@ -91,7 +91,7 @@ func (c lawCase) moments() (m1, m2, atom float64) {
 	return f * q * c.e1, f * f * q * c.e2, atom
 }
 
-// TestMeanAndAtom checks the scale conventions of method.md section 1 (common practice:
+// TestMeanAndAtom checks the scale conventions of docs/method.md section 1 (common practice:
 // E_nu[lambda] = alpha for rows, 1 for columns) and nu({0}) = max(0, 1 - alpha) plus the
 // zero singular values given.
 func TestMeanAndAtom(t *testing.T) {
@@ -125,7 +125,7 @@ func TestMeanAndAtom(t *testing.T) {
 }
 
 // TestIdentities checks T + g S1 = 1, S3 + g S2 = S1, S1^2 (1 + W) = S2 and
-// S2Pos + nu({0})/g^2 = S2 (definitions in method.md section 2) from 1e-10 to 1e10 times
+// S2Pos + nu({0})/g^2 = S2 (definitions in docs/method.md section 2) from 1e-10 to 1e10 times
 // the mean eigenvalue. Written as sums of nonnegative terms they are well conditioned at
 // every g, so each side is held to a few rounding errors; S1 and T must decrease.
 func TestIdentities(t *testing.T) {
@@ -170,7 +170,7 @@ func TestIdentities(t *testing.T) {
 	}
 }
 
-// TestLargeG checks the expansions in 1/g of method.md section 2 (common practice: expand
+// TestLargeG checks the expansions in 1/g of docs/method.md section 2 (common practice: expand
 // 1/(l + g) in powers of l/g): g T = E l - E l^2/g + O(g^-2), g^2 S3 = E l - 2 E l^2/g +
 // O(g^-2), g^2 W = Var l + O(1/g). At g = 1e8 times the mean, a T or S3 formed by a
 // subtraction would be wrong in the eighth digit and a W formed as S2/S1^2 - 1 in the first;

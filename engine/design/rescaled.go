@@ -3,7 +3,7 @@ package design
 import "math"
 
 // rescaled is the law of lambda/c for a law of lambda: the solver's units, in which the mean
-// eigenvalue is 1 (method.md section 3).
+// eigenvalue is 1 (docs/method.md section 3).
 type rescaled struct {
 	base Law
 	c    float64

@@ -5,7 +5,7 @@ import (
 	"testing"
 )
 
-// A rows-scaled law divided by its mean eigenvalue alpha is the columns-scaled law (method.md
+// A rows-scaled law divided by its mean eigenvalue alpha is the columns-scaled law (docs/method.md
 // section 1): the transforms of Rescaled agree with those computed directly.
 func TestRescaledIsTheOtherScale(t *testing.T) {
 	for _, alpha := range []float64{0.03, 0.5, 1, 4} {

@@ -7,7 +7,7 @@ import (
 )
 
 // Scale fixes the overall size of F, that is the mean eigenvalue E_nu[lambda] of F^T F
-// (method.md section 1).
+// (docs/method.md section 1).
 type Scale int
 
 const (

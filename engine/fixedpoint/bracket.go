@@ -6,7 +6,7 @@ import (
 	"hdrisk/engine/signal"
 )
 
-// bracket solves the one-dimensional reduction of the fixed point (method.md section 10) when
+// bracket solves the one-dimensional reduction of the fixed point (docs/method.md section 3.10) when
 // the damped iteration fails. At a fixed point, S1(g2) = V and g1 = 1/V - g2, so g1 =
 // T(g2)/S1(g2) is a function of g2 alone, increasing; the first equation A(g1, t1) = g1 V
 // then reads A(g1(g2), t1) = T(g2), whose left side increases with g2 and right side

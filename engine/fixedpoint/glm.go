@@ -13,7 +13,7 @@ import (
 	"hdrisk/engine/signal"
 )
 
-// GLM is a generalized linear model (method.md section 10): y_mu = readout((F x0)_mu, w_mu)
+// GLM is a generalized linear model (docs/method.md section 10): y_mu = readout((F x0)_mu, w_mu)
 // and the estimate minimizes sum_mu L(y_mu, (F x)_mu) + sum_i f(x_i). With the linear readout,
 // Gaussian noise and the square loss it is the Problem of Solve.
 type GLM struct {
@@ -30,7 +30,7 @@ type GLM struct {
 type GLMState struct{ G1, T1, G2Z, SigZ, MuZ float64 }
 
 // NoMinimizerError reports a generalized model whose estimate has no unique finite
-// minimizer (method.md section 10), so that no error figure exists.
+// minimizer (docs/method.md section 10), so that no error figure exists.
 type NoMinimizerError struct{ Reason string }
 
 func (e *NoMinimizerError) Error() string { return "no finite minimizer: " + e.Reason }
@@ -156,7 +156,7 @@ type glmImage struct {
 	res             float64
 }
 
-// apply evaluates the update map at st (method.md section 10):
+// apply evaluates the update map at st (docs/method.md section 10):
 //
 //	E, A  = moments of r1 = muz x0 + sqrt(t1) z at g1;       S1(g) = g2z A / g1
 //	g1   <- g2z T / S1;  t1 <- (W E + sigz S3) S1^2 / (S2 T^2)

@@ -45,7 +45,7 @@ func defaultsCases() map[string]Problem {
 }
 
 // TestDefaultsReproduceSolve: with the linear readout, Gaussian noise and the square loss the
-// generalized iteration has the fixed point of Solve (method.md section 10), so every
+// generalized iteration has the fixed point of Solve (docs/method.md section 10), so every
 // observable agrees to 1e-9.
 func TestDefaultsReproduceSolve(t *testing.T) {
 	o := Options{Tol: 1e-13, MaxIter: 20000}

@@ -7,7 +7,7 @@ import (
 	"gonum.org/v1/gonum/integrate/quad"
 )
 
-// Gaussian helpers for the output side of the generalized linear model (method.md section
+// Gaussian helpers for the output side of the generalized linear model (docs/method.md section
 // 10). Probabilities of intervals come from erfc on the side away from the mean, so that a
 // cell far in a tail keeps its relative accuracy.
 

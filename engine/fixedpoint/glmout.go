@@ -8,7 +8,7 @@ import (
 	"hdrisk/engine/readout"
 )
 
-// outSide evaluates the output side of the generalized linear model (method.md section 10):
+// outSide evaluates the output side of the generalized linear model (docs/method.md section 10):
 // the scalar channel of z, with z0 ~ N(0, rhoz), the message p1 = mu1 z0 + sqrt(tau) e
 // (e ~ N(0, 1) independent of z0 and w), y = readout(z0, w) and zhat = prox of the loss at
 // precision g.

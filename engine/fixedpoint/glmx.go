@@ -10,7 +10,7 @@ import (
 )
 
 // scaledLaw is the law of mu x0: the input side of a generalized linear model sees
-// r1 = mu x0 + sqrt(t1) z (method.md section 10), and signal.Expect of this law gives the
+// r1 = mu x0 + sqrt(t1) z (docs/method.md section 10), and signal.Expect of this law gives the
 // error about mu x0, the derivative and the support counts in closed form.
 type scaledLaw struct {
 	l     signal.Law

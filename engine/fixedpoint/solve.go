@@ -2,7 +2,7 @@
 // MAP form for penalized linear regression with a rotationally invariant design, and reports
 // the high-dimensional limit of the error and of the other observables.
 //
-// Model and conventions (method.md sections 1-4): x0 in R^n has i.i.d. entries, y = F x0 + w
+// Model and conventions (docs/method.md sections 1-4): x0 in R^n has i.i.d. entries, y = F x0 + w
 // with w ~ N(0, Delta I_m), and the estimate minimizes 1/2 ||y - F x||^2 + sum_i f(x_i) for a
 // convex separable f. The design enters through nu, the limiting eigenvalue law of F^T F; the
 // penalty and the signal law enter through the scalar channel r = x0 + sqrt(t1) z, whose
@@ -53,7 +53,7 @@ type Options struct {
 	Start   *State  // warm start, for instance the State of a neighbouring Result
 }
 
-// Result is the fixed point and the observables of method.md section 4. Every number is
+// Result is the fixed point and the observables of docs/method.md section 4. Every number is
 // finite; the fractions lie in [0, 1] and the susceptibility is positive.
 type Result struct {
 	MSE            float64 // lim (1/n)||xhat - x0||^2
@@ -78,7 +78,7 @@ type Result struct {
 	// Note says in plain words which limit or special case applies, if any.
 	Note string
 
-	// Set by SolveGLM only (method.md section 10); zero from Solve.
+	// Set by SolveGLM only (docs/method.md section 10); zero from Solve.
 	GLM         bool    // solved as a generalized linear model
 	Labels      bool    // the readout gives labels: TestError and TrainMisfit apply
 	Cosine      float64 // lim <xhat, x0> / (|xhat| |x0|)
@@ -103,7 +103,7 @@ func fieldErr(field, format string, args ...any) error {
 
 const (
 	// zeroA is the derivative below which the estimate is zero but for an exponentially
-	// small set (method.md section 3).
+	// small set (docs/method.md section 3).
 	zeroA = 1e-12
 	// mseFloor, relative to E[x0^2], stops noiseless recovery, which converges only
 	// linearly towards zero error.
@@ -146,16 +146,16 @@ const (
 
 // Solve finds the fixed point of the state evolution and its observables.
 //
-// It works in units where E[x0^2] = 1 and the mean eigenvalue of the design is 1 (method.md
-// section 10), so that problems of any size meet the same numbers and equivalent scenarios
+// It works in units where E[x0^2] = 1 and the mean eigenvalue of the design is 1 (docs/method.md
+// section 3.8), so that problems of any size meet the same numbers and equivalent scenarios
 // (a design scale and its translation, a signal and noise rescaled together with the
 // penalty) give the same result to rounding. Then:
 //
 //	the zero-estimate end is tested first: if the estimate is zero at the fixed point of a
 //	  zero estimate (A < 1e-12 there), MSE = E[x0^2] and EstimateZero is set;
 //	the damped iteration with Newton steps runs from the warm start and two cold starts;
-//	if none converges, a bracketing strategy solves the one-dimensional reduction (method.md
-//	  section 10): for each t1 the root in g2 of A(g1(g2), t1) = T(g2), then the root in
+//	if none converges, a bracketing strategy solves the one-dimensional reduction (docs/method.md
+//	  section 3.10): for each t1 the root in g2 of A(g1(g2), t1) = T(g2), then the root in
 //	  t1 of t1 = Phi(t1), each by the Illinois method on a bracket in log scale;
 //	Delta = 0 below the recovery threshold: the error goes to 0 linearly; the solver stops
 //	  when MSE < 1e-13 E[x0^2] and reports it as converged, with Floor set;
@@ -236,7 +236,7 @@ func (s *solver) unscale(r Result, rho2, sc, mean float64) (Result, error) {
 }
 
 // refuse returns the account of a problem without a finite, unique fixed point that can be
-// told before iterating (method.md section 10).
+// told before iterating (docs/method.md section 3.11).
 func refuse(q Problem) error {
 	if !isIdentity(q.Penalty) {
 		return nil
@@ -371,7 +371,7 @@ func (s *solver) expect(g1, t1 float64) signal.Moments {
 	return m
 }
 
-// coldStart starts sparse (method.md section 3): t1 = rho2 and g1 such that a threshold
+// coldStart starts sparse (docs/method.md section 3): t1 = rho2 and g1 such that a threshold
 // penalty thresholds at k standard deviations; the restart uses a larger k.
 func (s *solver) coldStart(k float64) State {
 	t := s.rho2 + s.p.Noise
@@ -545,7 +545,7 @@ func (s *solver) observe(r Result) (Result, error) {
 	r.Susceptibility = v
 	s.fill(&r, m)
 	// Training error over mu, the law of F F^T (m x m): E_mu[h] = E_nu[h]/alpha +
-	// (1 - 1/alpha) h(0), with h(l) = g2^2 (Delta + l t2)/(l + g2)^2 (method.md section 4).
+	// (1 - 1/alpha) h(0), with h(l) = g2^2 (Delta + l t2)/(l + g2)^2 (docs/method.md section 4).
 	// g2^2 t2 = (E - A^2 t1)/V^2 because 1 - A = g2 V; the atom of nu at zero is split off so
 	// that nothing cancels when alpha < 1.
 	alpha := p.Design.Alpha()
@@ -623,7 +623,7 @@ func finiteAll(xs ...float64) bool {
 }
 
 // scaled is a penalty in the solver's units: x = sc x' and g = c g', so that
-// prox'(r'; g') = prox(sc r'; c g')/sc (method.md section 10).
+// prox'(r'; g') = prox(sc r'; c g')/sc (docs/method.md section 3.8).
 type scaled struct {
 	penalty.Penalty
 	sc, c float64

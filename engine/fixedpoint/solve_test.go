@@ -38,7 +38,7 @@ func solve(t *testing.T, p Problem) Result {
 // Minimum-norm least squares with a Gaussian design in the rows scale, signal power rho2 and
 // noise Delta: MSE = Delta/(alpha - 1) above alpha = 1 and rho2 (1 - alpha) + Delta alpha /
 // (1 - alpha) below it (Belkin, Hsu & Xu 2020, SIAM J. Math. Data Sci., double descent; the
-// form used here is the one re-derived in method.md section 9). The limit is approached by a
+// form used here is the one re-derived in docs/method.md section 9). The limit is approached by a
 // vanishing ridge, whose bias is O(l2).
 func TestMinimumNormLeastSquares(t *testing.T) {
 	const rho2, delta, l2 = 1.0, 0.1, 1e-9

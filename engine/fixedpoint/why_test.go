@@ -22,7 +22,7 @@ func refused(t *testing.T, name string, p Problem, o Options, field string) {
 	}
 }
 
-// fixedPointHolds recomputes the two equations of the fixed point (method.md section 3) at a
+// fixedPointHolds recomputes the two equations of the fixed point (docs/method.md section 3) at a
 // result, independently of the solver's iteration: S1(g2) = V = A/g1, g1 = T(g2)/S1(g2) and
 // t1 = (Delta S3 + W E)/(g1^2 S2).
 func fixedPointHolds(t *testing.T, name string, p Problem, r Result) {

@@ -2,7 +2,7 @@
 //
 //	xhat = argmin_x sum_mu L(y_mu, (F x)_mu) + sum_i f(x_i)
 //
-// of a generalized linear model (method.md section 10) through their proximal operators in z:
+// of a generalized linear model (docs/method.md section 10) through their proximal operators in z:
 //
 //	zhat(y, p; g) = argmin_z L(y, z) + (g/2)(z - p)^2,   g > 0,
 //

@@ -1,5 +1,5 @@
 // Package noise holds the laws of the entries of the measurement noise w of a generalized
-// linear model (method.md section 10): Gaussian (the default, today's model), Laplace,
+// linear model (docs/method.md section 10): Gaussian (the default, today's model), Laplace,
 // Student-t and Gaussian with outliers. Every law is a Gaussian scale mixture with mean 0,
 // given as a finite list of components so that the output side of the fixed point can use
 // the closed forms of Gaussian integrals component by component.

@@ -2,7 +2,7 @@
 //
 //	xhat = argmin_x 1/2 ||y - F x||^2 + sum_i f(x_i)
 //
-// through their scalar proximal operators (method.md sections 2 and 7):
+// through their scalar proximal operators (docs/method.md sections 2 and 7):
 //
 //	prox(r; g) = argmin_x f(x) + (g/2)(x - r)^2,   g > 0,
 //

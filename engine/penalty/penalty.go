@@ -33,7 +33,7 @@ type Penalty interface {
 	Pieces(g float64) ([]Piece, bool)
 	// HasZeroRegion reports whether the prox is exactly 0 on an interval of positive length.
 	HasZeroRegion() bool
-	// StartG returns a first g1 for the fixed point when t1 = t (method.md section 3).
+	// StartG returns a first g1 for the fixed point when t1 = t (docs/method.md section 3).
 	StartG(t float64) float64
 	// Strengths returns the penalty's strengths (the parameters of its registry kind with
 	// the role param.Strength), in the registry's order, with their values.

@@ -366,7 +366,7 @@ func TestStartG(t *testing.T) {
 	for _, tt := range []float64{1e-6, 0.01, 1, 50} {
 		p, _ := L1(0.3)
 		g := p.StartG(tt)
-		// method.md section 3: threshold l1/g1 at two standard deviations.
+		// docs/method.md section 3: threshold l1/g1 at two standard deviations.
 		if th := 0.3 / g; math.Abs(th-2*math.Sqrt(tt)) > 1e-14*th {
 			t.Errorf("l1: threshold %v at t = %v, want 2 sqrt(t) = %v", th, tt, 2*math.Sqrt(tt))
 		}

@@ -62,7 +62,7 @@ func (l *Linear) at(r float64) Piece {
 type PiecewiseLinear interface {
 	Name() string
 	Strengths() []Strength
-	// Piecewise returns the prox at precision g as its pieces (method.md section 7).
+	// Piecewise returns the prox at precision g as its pieces (docs/method.md section 7).
 	Piecewise(g float64) Linear
 	HasZeroRegion() bool
 	StartG(t float64) float64

@@ -129,8 +129,8 @@ func (p power) Deriv(r, g float64) float64 {
 	return s / (s + k*(p.q-1))
 }
 
-// Branch parametrizes the positive branch of the prox at precision g by u > 0 (method.md
-// section 10): it returns x = prox(r; g) >= 0, dx/du, the r itself and dr/du, all explicit,
+// Branch parametrizes the positive branch of the prox at precision g by u > 0 (docs/method.md
+// section 7): it returns x = prox(r; g) >= 0, dx/du, the r itself and dr/du, all explicit,
 // so that expectations over r can run in u where no prox has to be solved, with
 // prox'(r) dr = dx. With k = q weight / g and e = q - 1: for q < 2, u = x^e, x = u^(1/e) and
 // r = x + k u (u is about r/k near 0, where x vanishes faster than any power of r when q is

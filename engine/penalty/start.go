@@ -7,7 +7,7 @@ import "math"
 //
 // The rule: choose g1 so that the prox pulls an entry of two channel standard deviations by
 // exactly two standard deviations, f'(2 sd)/g1 = 2 sd. For the l1 penalty this is
-// g1 = l1 / (2 sqrt(t)), the threshold at two standard deviations of method.md section 3
+// g1 = l1 / (2 sqrt(t)), the threshold at two standard deviations of docs/method.md section 3
 // (from that sparse start the iteration converged on 640 of 648 cases where g1 = 1 ran off);
 // for the other penalties it is the same rule, continuous in their parameters (for the power
 // penalty, continuous in q from the l1 start at q = 1 to the ridge start g1 = l2 at q = 2).

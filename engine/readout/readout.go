@@ -1,5 +1,5 @@
 // Package readout holds the maps from the noiseless measurement z = (F x0)_mu and the noise
-// w to the observed y of a generalized linear model (method.md section 10): linear (y = z + w,
+// w to the observed y of a generalized linear model (docs/method.md section 10): linear (y = z + w,
 // the default), sign (y = sign(z + w)), a uniform mid-rise quantizer of z + w, and the
 // logistic label (y = +-1 with P(y = +1 | z) = 1/(1 + exp(-z)), no additive noise).
 //

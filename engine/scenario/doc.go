@@ -14,7 +14,7 @@
 // signal and penalty. Adding a law there makes it readable, writable, sweepable (Paths) and
 // buildable (Problem) here without an edit.
 //
-// Conventions are those of method.md: alpha = m/n, the design's scale fixes E_nu[lambda]
+// Conventions are those of docs/method.md: alpha = m/n, the design's scale fixes E_nu[lambda]
 // (rows: alpha), the noise variance Delta is per measurement, and the error is per entry
 // of x0.
 package scenario

@@ -12,7 +12,7 @@ import (
 	"hdrisk/engine/readout"
 )
 
-// Choice is an optional group of a generalized linear model (method.md section 10): a
+// Choice is an optional group of a generalized linear model (docs/method.md section 10): a
 // readout or a loss, or the law of the noise, by its registry kind and parameters.
 type Choice struct {
 	Kind   string

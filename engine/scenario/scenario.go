@@ -28,7 +28,7 @@ const (
 	MaxSNRdB    = 200.0
 )
 
-// Scales of the design (method.md section 1).
+// Scales of the design (docs/method.md section 1).
 const (
 	ScaleRows    = "rows"
 	ScaleColumns = "columns"
@@ -47,7 +47,7 @@ type Scenario struct {
 	Signal  Signal
 	Noise   Noise
 	Penalty Penalty
-	Readout *Choice // nil: the linear readout, y = F x0 + w (method.md section 10)
+	Readout *Choice // nil: the linear readout, y = F x0 + w (docs/method.md section 10)
 	Loss    *Choice // nil: the square loss
 	Study   *Study  // nil when absent
 }
@@ -83,7 +83,7 @@ type Noise struct {
 	Variance float64 // Delta >= 0; used when SNR is false, and 0 otherwise
 	SNRdB    float64 // 10 log10 SNR; used when SNR is true, and 0 otherwise
 	SNR      bool    // the noise is stated as SNRdB
-	Law      *Choice // nil: Gaussian; Variance is then the typical entry's (method.md section 10)
+	Law      *Choice // nil: Gaussian; Variance is then the typical entry's (docs/method.md section 10)
 }
 
 // Study records what the page or a command was last asked: the view and its settings.

@@ -36,7 +36,7 @@ type sideComp struct {
 	w, m, v, beta, sd, lo, hi float64
 }
 
-// expectBranch returns the moments of Expect along the branch of b (method.md section 10):
+// expectBranch returns the moments of Expect along the branch of b (docs/method.md sections 7 and 11.3):
 // for each component, E[h(prox(r))] over r ~ N(m, v) is, by the change of variable r = r(u),
 // the integral over u > 0 of h(x(u)) phi(r(u)) r'(u) on each branch, and A the integral of
 // phi(r(u)) x'(u). Every component shares the nodes: the panels in r are at most branchWidth

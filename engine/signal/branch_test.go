@@ -18,7 +18,7 @@ func pw(t *testing.T, w, q float64) penalty.Penalty {
 
 // The quadrature along the branch of the power prox agrees with the generic quadrature in r
 // (ExpectQuad, which solves the prox at every node) away from q = 1, where that one is
-// accurate: this states the accuracy of the branch path (method.md section 10).
+// accurate: this states the accuracy of the branch path (docs/method.md section 11.3).
 func TestBranchAgreesWithQuadrature(t *testing.T) {
 	laws := map[string]Law{}
 	laws["bernoulli-gauss"], _ = BernoulliGauss(0.2, 1)

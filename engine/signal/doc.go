@@ -1,5 +1,5 @@
 // Package signal holds the laws of the entries of the unknown x0 and the expectations of the
-// scalar channel that the fixed point needs (method.md sections 2, 3 and 6):
+// scalar channel that the fixed point needs (docs/method.md sections 2, 3 and 6):
 //
 //	r = x0 + sqrt(t) z,   z ~ N(0, 1) independent of x0,   xhat = prox(r; g),
 //
@@ -15,6 +15,6 @@
 // given r is Gaussian, and on each linear piece the error reduces to truncated normal moments.
 // For the power penalty, whose prox has an explicit inverse r = x + k x^(q-1), Expect integrates
 // along that inverse, where no prox is solved and the nodes are shared by every component
-// (method.md section 11). ExpectQuad computes the same numbers by Gauss-Legendre quadrature
+// (docs/method.md section 11). ExpectQuad computes the same numbers by Gauss-Legendre quadrature
 // split at the kinks; it serves every other penalty and cross-checks the faster paths.
 package signal

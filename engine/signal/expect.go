@@ -25,7 +25,7 @@ type Moments struct {
 // xhat - E[x0|r] is linear in r, so that only truncated normal moments of order 0, 1, 2 enter.
 // A piece lying in a tail is expanded about its finite end and its moments come from
 // erfc and a continued fraction (see tailMoments), so that tails never cancel; with a
-// soft threshold and a zero-mean component this reproduces method.md section 3.
+// soft threshold and a zero-mean component this reproduces docs/method.md section 3.
 //
 // Special cases are: t = 0 with a point-mass component evaluates the prox at the atom (for
 // A and NonZero, the piece [Lo, Hi) containing the atom decides, the right-derivative

@@ -87,7 +87,7 @@ func checkDensity(v float64) error {
 	return nil
 }
 
-// scaled is the law of x0/s for a law of x0, in the solver's units (method.md section 3).
+// scaled is the law of x0/s for a law of x0, in the solver's units (docs/method.md section 3).
 type scaled struct {
 	mixture
 	base   Law

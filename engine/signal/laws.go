@@ -152,7 +152,7 @@ func Laplace(scale float64) (Law, error) {
 	return laplace{mixture{comps}, scale}, nil
 }
 
-// Trapezoidal rule for the standard exponential law in u = log(s): 62 nodes.
+// Trapezoidal rule for the standard exponential law in u = log(s): 63 nodes.
 const (
 	laplaceStep = 0.4  // h
 	laplaceLow  = 1e-9 // below: mass 1e-9, spread over the nodes by the normalization

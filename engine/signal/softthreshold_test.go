@@ -7,7 +7,7 @@ import (
 	"hdrisk/engine/penalty"
 )
 
-// The soft-threshold closed forms of method.md section 3 (elastic net xhat = c soft(r, theta),
+// The soft-threshold closed forms of docs/method.md section 3 (elastic net xhat = c soft(r, theta),
 // zero-mean Gaussian component x0 ~ N(0, s2)), checked three ways: the formulas against direct
 // numerical integration with gonum's quad (1-D over r for the moments of soft, 2-D over x0 and z
 // for the MSE, without the posterior split), and Expect against the formulas.
@@ -91,7 +91,7 @@ func TestSoftThresholdClosedForms(t *testing.T) {
 			{"NonZero", m.NonZero, pNZ, 1e-13},
 		} {
 			if !close(chk.got, chk.want, chk.tol, 1e-300) {
-				t.Errorf("%+v: Expect %s = %.17g, method.md closed form %.17g", tc, chk.name, chk.got, chk.want)
+				t.Errorf("%+v: Expect %s = %.17g, docs/method.md closed form %.17g", tc, chk.name, chk.got, chk.want)
 			}
 		}
 	}

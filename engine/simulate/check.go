@@ -69,7 +69,7 @@ type Options struct {
 	// First is the index of the first trial: trial t of this run draws from PCG(Seed, First+t),
 	// so that trials split over several runs give the numbers of one run.
 	First int
-	// Matrix, when set, is the user's own design, held fixed in every trial (method.md
+	// Matrix, when set, is the user's own design, held fixed in every trial (docs/method.md
 	// section 8): see CheckMatrix's rules in Check.
 	Matrix *Matrix
 }
@@ -140,7 +140,7 @@ func (r Report) Warnings() []string {
 }
 
 // Check draws o.Trials instances of p with o.N unknowns, solves each, and reports the mean
-// error with its standard error beside the prediction of fixedpoint.Solve (method.md section 8).
+// error with its standard error beside the prediction of fixedpoint.Solve (docs/method.md section 8).
 // progress, when not nil, is called after each trial with the number done and the total. A
 // cancelled ctx stops the work and returns ctx.Err().
 //

@@ -1,5 +1,5 @@
 // Package simulate checks the asymptotic predictions of package fixedpoint on finite instances
-// (method.md section 8).
+// (docs/method.md section 8).
 //
 // An instance is y = F x0 + w with x0 drawn from the signal law, w ~ N(0, Delta I_m), and an
 // m x n design F with m = round(alpha n). A Gaussian design is drawn entry by entry, N(0, s)

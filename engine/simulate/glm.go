@@ -12,7 +12,7 @@ import (
 	"hdrisk/engine/signal"
 )
 
-// DrawGLM draws an instance of a generalized linear model (method.md section 10): x0 and F as
+// DrawGLM draws an instance of a generalized linear model (docs/method.md section 10): x0 and F as
 // Draw draws them, then y_mu = readout((F x0)_mu, w_mu) with w from the noise law (nil: no
 // noise) and the logistic readout's labels from rng.
 func DrawGLM(rng *rand.Rand, d DesignDraw, sig signal.Law, w noise.Law, rd readout.Readout, n int) (*Instance, error) {

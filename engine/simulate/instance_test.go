@@ -40,7 +40,7 @@ func TestDrawEmpiricalUsesItsValues(t *testing.T) {
 }
 
 // Gaussian entries have variance Mean/m, so that the mean eigenvalue of F^T F is the law's Mean
-// (method.md section 1: rows scale gives N(0, 1/n)); the noise has the variance asked for.
+// (docs/method.md section 1: rows scale gives N(0, 1/n)); the noise has the variance asked for.
 func TestDrawGaussianEntriesScale(t *testing.T) {
 	for _, sc := range []design.Scale{design.Rows, design.Columns} {
 		d, _ := design.Gaussian(0.5, sc)

@@ -22,7 +22,7 @@ const AgreeZ = 3
 const rotationSalt = 0x9e3779b97f4a7c15
 
 // Comparison sets the trials with a user's fixed matrix beside trials that keep its singular
-// values and draw its singular vectors at random (method.md section 8). Both use the same x0
+// values and draw its singular vectors at random (docs/method.md section 8). Both use the same x0
 // and w in trial t, and the same solver. The prediction assumes generic (rotationally
 // invariant) singular vectors, and at a few hundred unknowns both means sit some percent from
 // the asymptotic value by finite-size effects alike, so the verdict compares the two means:
@@ -67,7 +67,7 @@ func matrixShape(d design.Law, a *Matrix) error {
 }
 
 // scaledMatrix returns c F with c chosen so that the mean eigenvalue of (c F)^T (c F),
-// ||c F||_F^2 / n, is the design law's (method.md section 1): the scale the scenario states.
+// ||c F||_F^2 / n, is the design law's (docs/method.md section 1): the scale the scenario states.
 func scaledMatrix(d design.Law, a *Matrix) (*Matrix, error) {
 	ff := 0.0
 	top := maxAbs(a.Data)

@@ -36,7 +36,7 @@ const kktEvery = 4
 // Schniter & Fletcher 2019, "Vector approximate message passing", IEEE Trans. Inf. Theory 65,
 // Algorithm 1 with the SVD form of section IV). Its fixed points are the minimizers of
 // 1/2 ||y - F x||^2 + sum f(x_i); for a rotationally invariant F its per-iteration error follows
-// the state evolution of method.md section 3. It starts from r2 = 0 and precision Gamma2, and
+// the state evolution of docs/method.md section 3. It starts from r2 = 0 and precision Gamma2, and
 // stops on the relative KKT residual of the denoiser output x1 (CriterionKKT), checked every
 // kktEvery iterations. An iteration costs two products with V, and a check two more.
 //

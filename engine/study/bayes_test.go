@@ -117,7 +117,7 @@ func TestBayesGaussianClosedForm(t *testing.T) {
 	}
 }
 
-// No convex estimator beats the Bayes reference (method.md section 4): the best LASSO error is
+// No convex estimator beats the Bayes reference (docs/method.md section 4): the best LASSO error is
 // at or above the uninformed Bayes error, which is at or above the informed one.
 func TestBayesBelowBestLasso(t *testing.T) {
 	for _, c := range []struct {

@@ -10,7 +10,7 @@ import (
 )
 
 // For a Gaussian prior the posterior mean is ridge with l2 = Delta/rho2, so the best ridge
-// must be found there, with the Bayes error (method.md section 4; Tulino & Verdu 2004, Random
+// must be found there, with the Bayes error (docs/method.md section 4; Tulino & Verdu 2004, Random
 // Matrix Theory and Wireless Communications, section 3.1). Both numbers are computed here:
 // the l2 by Best's search, the error by Bayes' state evolution with the posterior-mean
 // denoiser.

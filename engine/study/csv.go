@@ -15,7 +15,7 @@ type Observable struct {
 	Of    func(fixedpoint.Result) float64
 }
 
-// Observables lists every observable of a fixed point (method.md section 4), in the order of
+// Observables lists every observable of a fixed point (docs/method.md section 4), in the order of
 // the CSV columns.
 func Observables() []Observable {
 	return []Observable{

@@ -3,7 +3,7 @@
 // once (Map, MapRows), which regularization gives the lowest error (Best), how few
 // measurements reach a target error (Plan), and what error no estimator can beat (Bayes).
 //
-// Conventions are those of method.md: alpha = m/n, Delta is the noise variance, the MSE is
+// Conventions are those of docs/method.md: alpha = m/n, Delta is the noise variance, the MSE is
 // lim (1/n)||xhat - x0||^2 and the NMSE is the MSE divided by rho2 = E[x0^2]. Fields of a
 // scenario are named as scenario.Scenario.Get names them ("alpha", "l1", "noise",
 // "density", "design.min", ...).

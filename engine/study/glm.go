@@ -6,7 +6,7 @@ import (
 	"hdrisk/engine/fixedpoint"
 )
 
-// solveGLM solves one point of a generalized linear model (method.md section 10). A point
+// solveGLM solves one point of a generalized linear model (docs/method.md section 10). A point
 // without a unique finite minimizer fails with the reason, so that no study draws, minimizes
 // or writes an error figure for it.
 func solveGLM(g fixedpoint.GLM, o fixedpoint.Options) Point {

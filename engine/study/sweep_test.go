@@ -58,7 +58,7 @@ func TestAxisValues(t *testing.T) {
 // Double descent: with a vanishing ridge the MSE over alpha peaks at alpha = 1 and follows
 // the minimum-norm least-squares closed form on both sides: Delta/(alpha - 1) above 1 and
 // rho2 (1 - alpha) + Delta alpha/(1 - alpha) below (Belkin, Hsu & Xu 2020, SIAM J. Math. Data
-// Sci.; the form re-derived in method.md section 9; the peak at alpha = 1 is common practice).
+// Sci.; the form re-derived in docs/method.md section 9; the peak at alpha = 1 is common practice).
 // At alpha = 1 itself the error of a ridge of 1e-10 is of order 1/sqrt(l2) and the fixed point
 // is approached too slowly to converge; the sweep must then mark that point, not draw it.
 func TestSweepDoubleDescent(t *testing.T) {

@@ -11,7 +11,7 @@ import (
 // dtCurve is the Donoho-Tanner weak phase transition of l1 recovery with a Gaussian design,
 // given parametrically by tau > 0 (Donoho & Tanner 2009, J. AMS; the parametric form through
 // the minimax soft-threshold risk, Donoho, Maleki & Montanari 2009, PNAS, from memory as
-// quoted in method.md section 9): eps = k/n and delta = m/n.
+// quoted in docs/method.md section 9): eps = k/n and delta = m/n.
 func dtCurve(tau float64) (eps, delta float64) {
 	phi, tail := distuv.UnitNormal.Prob(tau), distuv.UnitNormal.Survival(tau)
 	a := 2 * (phi - tau*tail)
@@ -35,7 +35,7 @@ func dtEps(delta float64) float64 {
 	return e
 }
 
-// The curve as the tests use it: at delta = 0.5, eps = 0.1928 and k/m = 0.3857 (method.md
+// The curve as the tests use it: at delta = 0.5, eps = 0.1928 and k/m = 0.3857 (docs/method.md
 // section 9, from memory and checked there), and each point of the parametric form is the
 // minimum over the threshold of the soft-threshold risk eps (1 + tau^2) + (1 - eps) 2((1 +
 // tau^2) Phi(-tau) - tau phi(tau)) at its eps (the minimax characterization, Donoho, Maleki

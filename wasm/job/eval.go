@@ -12,7 +12,7 @@ func init() {
 	Serve(protocol.Eval, func(a protocol.EvalArgs, _ func(int, int)) (fixedpoint.Result, error) { return Eval(a) })
 }
 
-// Eval solves the fixed point of one scenario (method.md section 3). Special cases are: a
+// Eval solves the fixed point of one scenario (docs/method.md section 3). Special cases are: a
 // missing or invalid scenario is an error naming the field (scenario.FieldError).
 func Eval(args protocol.EvalArgs) (fixedpoint.Result, error) {
 	if len(args.Scenario) == 0 {

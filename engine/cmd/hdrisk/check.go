@@ -207,7 +207,7 @@ func runCheck(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 
 // readDesignMatrix reads the matrix of check --matrix and makes the scenario's design its
 // spectrum: an empirical-sv law of its singular values with m/n its shape, at the scale the
-// scenario states (method.md section 5).
+// scenario states (docs/method.md section 5).
 func readDesignMatrix(name string, stdin io.Reader, s *scenario.Scenario) (*simulate.Matrix, error) {
 	a, err := readMatrixFile(name, stdin)
 	if err != nil {

@@ -77,7 +77,7 @@ func TestEvalExamples(t *testing.T) {
 
 // TestEvalMinNormLeastSquares checks eval against the minimum-norm least-squares error of
 // a Gaussian design with rows scale, MSE = Delta / (alpha - 1) for alpha > 1 (Belkin, Hsu &
-// Xu 2020, SIAM J. Math. Data Sci.; method.md section 9), approached by ridge as l2 -> 0.
+// Xu 2020, SIAM J. Math. Data Sci.; docs/method.md section 9), approached by ridge as l2 -> 0.
 func TestEvalMinNormLeastSquares(t *testing.T) {
 	data, err := os.ReadFile("../../../testdata/scenarios/ridge-threshold.json")
 	if err != nil {
