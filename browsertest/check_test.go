@@ -129,6 +129,7 @@ func TestCheckInPage(t *testing.T) {
 	if b.cdJS(t, `document.querySelector("[data-view=check]").getAttribute("data-run")`) != "idle" {
 		t.Fatalf("the check view is not idle at start")
 	}
+	b.cdJS(t, `performance.mark("hdrisk:check-click"), ""`)
 	start := time.Now()
 	b.cdClick(t, "#check-run")
 	run, seen := b.cdWaitRun(t, "[data-view=check]", "[data-view=check] [role=status]", 60*time.Second)
@@ -145,6 +146,11 @@ func TestCheckInPage(t *testing.T) {
 	if !trialSeen {
 		t.Errorf("no progress line like \"Trial 7 of 20\" was shown: %q", seen)
 	}
+	// Where the time went: the pool's marks of each job (posted, progress, end) after the click,
+	// in ms from it, and the render the result waited for.
+	t.Logf("page marks from the click: %s", b.cdJS(t, `(()=>{const ms=performance.getEntriesByType("mark");`+
+		`const c=ms.filter(m=>m.name==="hdrisk:check-click").pop().startTime;`+
+		`return ms.filter(m=>m.startTime>=c&&m.name!=="hdrisk:check-click").map(m=>m.name.replace("hdrisk:","")+" "+(m.startTime-c).toFixed(0)).join(", ")})()`))
 	b.screenshot(t, "check-done.png")
 	figs := b.figures(t)
 	// The same check natively: identical draws (PCG seeded per trial) and the same solver.
@@ -157,8 +163,8 @@ func TestCheckInPage(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	t.Logf("the same check natively in one process: %v (goal: the page within 2x); in the page %v on %s workers",
-		time.Since(t0).Round(time.Millisecond), elapsed.Round(time.Millisecond), b.cdJS(t, `String(hdriskJobs.size())`))
+	t.Logf("the same check natively in one process: %v (goal: the page within 2x); in the page %v on %s workers, %.3f s of it in the workers' jobs (summed over the parts)",
+		time.Since(t0).Round(time.Millisecond), elapsed.Round(time.Millisecond), b.cdJS(t, `String(hdriskJobs.size())`), cdNum(t, figs, "check_seconds"))
 	for name, w := range map[string]float64{"check_mean_mse": float64(native.MeanMSE), "check_stderr": float64(native.StdErr),
 		"check_predicted_mse": float64(native.PredictedMSE), "check_tpp": float64(native.TPP.Mean), "check_predicted_fdp": float64(native.FDP.Predicted)} {
 		if got := cdNum(t, figs, name); math.Abs(got-w) > 1e-6*math.Max(math.Abs(w), 1e-12) {
@@ -485,6 +491,7 @@ func TestMatrixCheckInPage(t *testing.T) {
 		t.Fatalf("check view with the matrix: checked|n = %s", got)
 	}
 	b.typeInto(t, "#check-trials", strconv.Itoa(trials))
+	b.cdJS(t, `performance.mark("hdrisk:check-click"), ""`)
 	start := time.Now()
 	b.cdClick(t, "#check-run")
 	run, seen := b.cdWaitRun(t, "[data-view=check]", "[data-view=check] [role=status]", 120*time.Second)

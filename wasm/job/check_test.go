@@ -198,3 +198,24 @@ func TestCheckSplitMatchesWhole(t *testing.T) {
 		t.Error("parts with a gap between their trials were merged")
 	}
 }
+
+// TestWarmCheckScenarios checks that the warm-up's scenarios run, one on each solver a LASSO
+// check with cd asked may run: a warm-up that fails at once would warm nothing.
+func TestWarmCheckScenarios(t *testing.T) {
+	ran := map[string]bool{}
+	defer func() {
+		if !ran["cd"] || !ran["prox"] {
+			t.Errorf("the warm-up ran the solvers %v, want cd and prox", ran)
+		}
+	}()
+	for _, s := range warmScenarios {
+		r, err := Check(warmArgs(s), nil)
+		if err != nil {
+			t.Fatalf("%s: %v", s, err)
+		}
+		if r.Trials != 1 || len(r.PerTrial) != 1 {
+			t.Errorf("%s: %d trials, want 1", s, r.Trials)
+		}
+		ran[r.Solver] = true
+	}
+}

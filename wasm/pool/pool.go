@@ -276,6 +276,7 @@ func (p *Pool) receive(w *worker, text string, isErr bool) {
 		p.fail(w, "the worker stopped ("+r.Error+")")
 	case protocol.Progress:
 		if t := w.task; t != nil && t.req.ID == r.ID && !t.over {
+			Mark(fmt.Sprintf("hdrisk:job-%d-progress-%d", r.ID, r.Done))
 			p.arm(t)
 			if t.progress != nil {
 				done, total, f := r.Done, r.Total, t.progress
@@ -288,6 +289,7 @@ func (p *Pool) receive(w *worker, text string, isErr bool) {
 			return
 		}
 		w.task = nil
+		Mark(fmt.Sprintf("hdrisk:job-%d-end", r.ID))
 		var err error
 		if r.Type == protocol.Failed {
 			err = errors.New(r.Error)
@@ -344,6 +346,7 @@ func (p *Pool) dispatch() {
 		}
 		w.task, t.w = t, w
 		t.started = time.Now()
+		Mark(fmt.Sprintf("hdrisk:job-%d-%s-posted", t.req.ID, t.req.Kind))
 		p.arm(t)
 	}
 }
@@ -471,8 +474,9 @@ func (t *Task) Cancel() {
 	p.dispatch()
 }
 
-// Mark records a User Timing mark (the browser test logs them to show where start-up time
-// goes). Failure only loses the mark.
+// Mark records a User Timing mark (the browser tests log them to show where start-up time
+// and a job's time go: each job's posting, progress reports and end are marked). Failure only
+// loses the mark.
 func Mark(name string) {
 	if perf, err := safejs.Global().Get("performance"); err == nil {
 		_, _ = perf.Call("mark", name)

@@ -51,7 +51,8 @@ func Serve() error {
 	post(protocol.Reply{Type: protocol.Ready})
 	// The first figure a worker draws loads the font and runs the layout, contour and PNG
 	// code for the first time (several times slower in WebAssembly than the next); the worker
-	// draws a throw-away one the first time it is idle, so that the first map waits less.
+	// draws a throw-away one the first time it is idle, so that the first map waits less, and
+	// runs a throw-away check for the same reason (job.WarmCheck).
 	warm := time.After(300 * time.Millisecond)
 	for {
 		var text string
@@ -59,6 +60,7 @@ func Serve() error {
 		case text = <-requests:
 		case <-warm:
 			plot.Warm()
+			job.WarmCheck()
 			warm = nil
 			continue
 		}
