@@ -934,6 +934,28 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Save figure (PNG)"}
 							vgparent.AppendChild(vgn)
 						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "button", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-pdf"}, vugu.VGAttribute{Namespace: "", Key: "type", Val: "button"}}}
+						vgparent.AppendChild(vgn)
+						{
+							b, err := vjson.Marshal(c.figure == nil)
+							if err != nil {
+								panic(err)
+							}
+							vgn.Prop = append(vgn.Prop, vugu.VGProperty{Key: "disabled", JSONVal: vjson.RawMessage(b)})
+						}
+						vgn.DOMEventHandlerSpecList = append(vgn.DOMEventHandlerSpecList, vugu.DOMEventHandlerSpec{
+							EventType: "click",
+							Func:      func(event vugu.DOMEvent) { c.Export("pdf") },
+							// TODO: implement capture, etc. mostly need to decide syntax
+						})
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "Save figure (PDF)"}
+							vgparent.AppendChild(vgn)
+						}
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t"}
 						vgparent.AppendChild(vgn)
 					}

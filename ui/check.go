@@ -657,7 +657,7 @@ func (c *CheckView) CSV() []byte {
 	return b.Bytes()
 }
 
-// Export offers the check's results (csv) or its figure (svg, png) as a file.
+// Export offers the check's results (csv) or its figure (svg, png, pdf) as a file.
 func (c *CheckView) Export(what string) {
 	if c.Browser == nil {
 		c.problem = "exporting needs the browser"
@@ -672,6 +672,12 @@ func (c *CheckView) Export(what string) {
 	switch what {
 	case "csv":
 		data, mime = c.CSV(), "text/csv"
+	case "pdf":
+		if c.figure == nil {
+			return
+		}
+		data, err = c.figure.PDF()
+		mime = "application/pdf"
 	case "svg", "png":
 		if c.figure == nil {
 			return

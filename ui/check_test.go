@@ -229,6 +229,10 @@ func TestCheckRunsToTheEnd(t *testing.T) {
 	if w, h := pngSize(t, br.downloads["hdrisk-check.png"]); w != 1280 || h != 800 {
 		t.Errorf("PNG of %d x %d pixels, want 1280 x 800", w, h)
 	}
+	c.Export("pdf")
+	if pdf := br.downloads["hdrisk-check.pdf"]; !bytes.HasPrefix(pdf, []byte("%PDF-")) {
+		t.Errorf("the PDF file starts with %q", pdf[:min(len(pdf), 8)])
+	}
 }
 
 // Over a number, one job per value; the first also asks for the predicted curve, and the
