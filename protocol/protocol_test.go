@@ -2,6 +2,7 @@ package protocol
 
 import (
 	"encoding/json"
+	"fmt"
 	"math"
 	"reflect"
 	"strings"
@@ -133,6 +134,26 @@ func TestPointsPackedRoundTrip(t *testing.T) {
 	bb, _ := json.Marshal(big)
 	if per := len(bb) / len(big); per > 240 {
 		t.Errorf("%d bytes a cell packed", per)
+	}
+	// A column is read straight from its base64 text; one written with JSON escapes (a
+	// legal encoding of the same string) still reads back the same.
+	var cols map[string]json.RawMessage
+	if err := json.Unmarshal(b, &cols); err != nil {
+		t.Fatal(err)
+	}
+	var res map[string]json.RawMessage
+	if err := json.Unmarshal(cols["result"], &res); err != nil {
+		t.Fatal(err)
+	}
+	esc := strings.Replace(string(b), string(res["MSE"]), `"\u00`+fmt.Sprintf("%x", res["MSE"][1])+string(res["MSE"][2:]), 1)
+	var back Points
+	if err := json.Unmarshal([]byte(esc), &back); err != nil {
+		t.Fatal(err)
+	}
+	for i := range in {
+		if !same(back[i].Result.MSE, in[i].Result.MSE) {
+			t.Errorf("escaped column: point %d MSE %v read back as %v", i, in[i].Result.MSE, back[i].Result.MSE)
+		}
 	}
 	bad := strings.Replace(string(b), `"n":3`, `"n":4`, 1)
 	if err := json.Unmarshal([]byte(bad), &out); err == nil {
