@@ -4,7 +4,9 @@
 // code, so the page (ui, wasm/page) and the workers (wasm/job) share one set of types.
 //
 // The page posts a Request as JSON text; the worker answers with Replies as JSON text: any
-// number of "progress" replies, then exactly one "result" or "error". Results are encoded
+// number of "progress" replies, then exactly one "result" or "error". A reply with a result
+// is posted as two texts, the reply without its result and the result, so that the page
+// takes in a large result without scanning it as part of the reply. Results are encoded
 // with Marshal, which keeps NaN (written null) where the engine means "undefined", and carries
 // sweeps and maps as packed columns (Points).
 package protocol

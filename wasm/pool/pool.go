@@ -171,14 +171,24 @@ func (p *Pool) spawn() (*worker, error) {
 	}
 	w := &worker{js: wjs}
 	w.handler, err = safejs.FuncOf(func(_ safejs.Value, args []safejs.Value) any {
-		text, isErr := "", false
+		text, result, isErr := "", "", false
 		if len(args) > 0 {
 			if typ, err := args[0].Get("type"); err == nil {
 				s, _ := typ.String()
 				isErr = s == "error"
 			}
 			if d, err := args[0].Get("data"); err == nil && !isErr {
-				text, _ = d.String()
+				if d.Type() == safejs.TypeObject {
+					// A reply and its result, posted side by side (package worker).
+					if v, err := d.Index(0); err == nil {
+						text, _ = v.String()
+					}
+					if v, err := d.Index(1); err == nil {
+						result, _ = v.String()
+					}
+				} else {
+					text, _ = d.String()
+				}
 			}
 			if isErr {
 				if m, err := args[0].Get("message"); err == nil {
@@ -186,7 +196,7 @@ func (p *Pool) spawn() (*worker, error) {
 				}
 			}
 		}
-		go p.receive(w, text, isErr)
+		go p.receive(w, text, result, isErr)
 		return nil
 	})
 	if err != nil {
@@ -235,8 +245,9 @@ func (p *Pool) deliver() {
 	}
 }
 
-// receive handles one message or error event of worker w.
-func (p *Pool) receive(w *worker, text string, isErr bool) {
+// receive handles one message or error event of worker w; result is the result posted
+// beside the reply text, if any.
+func (p *Pool) receive(w *worker, text, result string, isErr bool) {
 	var r protocol.Reply
 	switch {
 	case isErr:
@@ -244,6 +255,8 @@ func (p *Pool) receive(w *worker, text string, isErr bool) {
 	default:
 		if err := json.Unmarshal([]byte(text), &r); err != nil {
 			r = protocol.Reply{Type: protocol.Fatal, Error: "worker sent an unreadable message"}
+		} else if result != "" {
+			r.Result = json.RawMessage(result)
 		}
 	}
 	p.mu.Lock()

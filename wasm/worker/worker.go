@@ -22,12 +22,20 @@ import (
 func Serve() error {
 	self := safejs.Global()
 	post := func(r protocol.Reply) {
+		// A result travels beside its reply, not inside it (protocol.Reply), so that the
+		// page does not run the JSON scanner over a large result only to find its end.
+		result := r.Result
+		r.Result = nil
 		b, err := json.Marshal(r)
 		if err != nil {
-			b = []byte(fmt.Sprintf(`{"id":%d,"type":"error","error":"reply: cannot encode"}`, r.ID))
+			b, result = []byte(fmt.Sprintf(`{"id":%d,"type":"error","error":"reply: cannot encode"}`, r.ID)), nil
+		}
+		var msg any = string(b)
+		if result != nil {
+			msg = []any{string(b), string(result)}
 		}
 		// A failed post leaves the page waiting; there is nobody else to tell.
-		_, _ = self.Call("postMessage", string(b))
+		_, _ = self.Call("postMessage", msg)
 	}
 	requests := make(chan string, 16)
 	onMessage, err := safejs.FuncOf(func(_ safejs.Value, args []safejs.Value) any {
