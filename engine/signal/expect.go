@@ -26,6 +26,8 @@ type Moments struct {
 // A piece lying in a tail is expanded about its finite end and its moments come from
 // erfc and a continued fraction (see tailMoments), so that tails never cancel; with a
 // soft threshold and a zero-mean component this reproduces docs/method.md section 3.
+// Consecutive components whose variances the channel noise cannot tell apart are evaluated
+// as one (see merger), within about mergeTol of the moments.
 //
 // Special cases are: t = 0 with a point-mass component evaluates the prox at the atom (for
 // A and NonZero, the piece [Lo, Hi) containing the atom decides, the right-derivative
@@ -50,11 +52,75 @@ func Expect(l Law, p penalty.Penalty, g, t float64) Moments {
 		return ExpectQuad(l, p, g, t)
 	}
 	var m Moments
+	grp := merger{lo: math.Inf(1), hi: math.Inf(-1)}
+	for _, q := range pieces[:len(pieces)-1] {
+		if !math.IsInf(q.Hi, 0) {
+			grp.lo, grp.hi = math.Min(grp.lo, q.Hi), math.Max(grp.hi, q.Hi)
+		}
+	}
 	for _, c := range componentsOf(l) {
-		addComponent(&m, c, pieces, t)
+		if !grp.add(c, t) {
+			addComponent(&m, grp.component(), pieces, t)
+			grp.w = 0
+			grp.add(c, t)
+		}
+	}
+	if grp.w > 0 {
+		addComponent(&m, grp.component(), pieces, t)
 	}
 	return m
 }
+
+// mergeTol bounds the relative change of the moments when Expect evaluates a group of
+// components as one (see merger).
+const mergeTol = 1e-10
+
+// merger gathers consecutive components of one mean, each of positive variance, into one
+// component of their total weight and mean variance. A component's moments are smooth
+// functions H(v) of v = Var + t; replacing the group by its mean variance changes their
+// weighted sum by about H”/2 var(V) times the group's weight (the first order cancels).
+// H varies on the scale v, and, where a kink lies y = |kink - mean| / sqrt(v) standard
+// deviations out, its tail masses like phi(y) change by y^2/(2v) per unit of v, so that
+// |H”/H| stays below (1 + y^2)^2 / v^2 up to a factor of order one. A group is kept while
+// var(V) (1 + y^2)^2 / (t + min V)^2 <= mergeTol with the farthest kink: the group's part of
+// the moments then moves by about mergeTol of itself. This merges the many nodes of a scale
+// mixture that lie far below the channel noise (Laplace nodes of variance down to 1e-9 of
+// E[x0^2] when t is of order one).
+type merger struct {
+	w, mean, v, m2, vmin float64 // weight, mean of x0, weighted mean and spread of Var
+	lo, hi               float64 // the extreme finite kinks (+Inf, -Inf when none)
+}
+
+// add adds c to the group if the group stays within mergeTol at noise t, and reports whether
+// it did; the empty group takes any component.
+func (g *merger) add(c Component, t float64) bool {
+	if g.w == 0 {
+		g.w, g.mean, g.v, g.m2, g.vmin = c.Weight, c.Mean, c.Var, 0, c.Var
+		return true
+	}
+	if c.Mean != g.mean || c.Var == 0 || g.vmin == 0 || c.Weight == 0 {
+		return false
+	}
+	// Weighted Welford update: no cancellation in the spread.
+	w := g.w + c.Weight
+	d := c.Var - g.v
+	v := g.v + d*c.Weight/w
+	m2 := g.m2 + c.Weight*d*(c.Var-v)
+	vmin := math.Min(g.vmin, c.Var)
+	s := t + vmin
+	y2 := 0.0
+	if g.lo <= g.hi {
+		k := math.Max(math.Abs(g.lo-g.mean), math.Abs(g.hi-g.mean))
+		y2 = k * k / s
+	}
+	if !(m2/w*(1+y2)*(1+y2) <= mergeTol*s*s) {
+		return false
+	}
+	g.w, g.v, g.m2, g.vmin = w, v, m2, vmin
+	return true
+}
+
+func (g *merger) component() Component { return Component{g.w, g.mean, g.v} }
 
 func nanMoments() Moments {
 	n := math.NaN()

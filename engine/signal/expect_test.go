@@ -226,3 +226,26 @@ func TestPowerPenaltyQuadrature(t *testing.T) {
 		}
 	}
 }
+
+// Evaluating a group of components as one (merger) against evaluating every component, over
+// thresholds from 1e-4 to 4e2 channel standard deviations and channel noises far below and
+// far above the component variances: the merged moments stay within 1e-9 relative.
+func TestExpectMergeMatchesComponents(t *testing.T) {
+	for _, l := range testLaws() {
+		for _, p := range piecewisePenalties() {
+			for _, g := range []float64{1e-3, 0.05, 1, 20, 1e4} {
+				for _, tt := range []float64{1e-6, 0.01, 1, 100} {
+					pieces, ok := p.Pieces(g)
+					if !ok {
+						t.Fatalf("%s: no pieces", p.Name())
+					}
+					var each Moments
+					for _, c := range componentsOf(l) {
+						addComponent(&each, c, pieces, tt)
+					}
+					cmpMoments(t, l.Name()+"/"+p.Name()+gtString(g, tt), Expect(l, p, g, tt), each, 1e-9, 1e-15)
+				}
+			}
+		}
+	}
+}
