@@ -90,6 +90,21 @@ func (p Points) MarshalJSON() ([]byte, error) {
 	}
 	for _, c := range resultColumns {
 		col := func(i int) reflect.Value { return reflect.ValueOf(&p[i].Result).Elem().Field(c.index) }
+		// A column that is zero at every point (the generalized model's numbers of a
+		// linear one, say) is left out: UnmarshalJSON leaves a missing column zero, and a
+		// block of a map is taken in on the page's main thread, where every byte costs.
+		// A float is zero by its bits, so that -0 and NaN still come back.
+		zero := true
+		for i := range p {
+			v := col(i)
+			if (c.kind == reflect.Float64 && math.Float64bits(v.Float()) != 0) || (c.kind != reflect.Float64 && !v.IsZero()) {
+				zero = false
+				break
+			}
+		}
+		if zero {
+			continue
+		}
 		var raw []byte
 		var err error
 		switch c.kind {

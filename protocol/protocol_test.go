@@ -155,6 +155,25 @@ func TestPointsPackedRoundTrip(t *testing.T) {
 			t.Errorf("escaped column: point %d MSE %v read back as %v", i, in[i].Result.MSE, back[i].Result.MSE)
 		}
 	}
+	// A column zero at every point is left out and reads back zero; -0 is not zero.
+	if _, ok := res["Cosine"]; !ok {
+		t.Error("a column with a value was left out")
+	}
+	if _, ok := res["TrainLoss"]; ok {
+		t.Error("a column zero at every point was written")
+	}
+	neg := Points{{X: 1, Result: fixedpoint.Result{TrainLoss: math.Copysign(0, -1)}}, {X: 2}}
+	nb, err := json.Marshal(neg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var negBack Points
+	if err := json.Unmarshal(nb, &negBack); err != nil {
+		t.Fatal(err)
+	}
+	if len(negBack) != 2 || !math.Signbit(negBack[0].Result.TrainLoss) || math.Signbit(negBack[1].Result.TrainLoss) {
+		t.Errorf("a column of -0 and 0 read back as %+v", negBack)
+	}
 	bad := strings.Replace(string(b), `"n":3`, `"n":4`, 1)
 	if err := json.Unmarshal([]byte(bad), &out); err == nil {
 		t.Error("columns shorter than n should be refused")
