@@ -1,9 +1,7 @@
 package design
 
 import (
-	"fmt"
 	"math"
-	"strings"
 
 	"hdrisk/engine/param"
 )
@@ -76,16 +74,14 @@ func Shapes() []Shape {
 // or unknown parameter with its own name as Field; values out of range as the
 // constructor reports them.
 func New(shape string, alpha float64, s Scale, params map[string]float64, lists map[string][]float64) (Law, error) {
-	names := make([]string, len(shapes))
-	for i, k := range shapes {
-		names[i] = k.Name
-		if k.Name == shape {
-			v, l, err := param.Gather("shape "+shape, k.Params, params, lists)
-			if err != nil {
-				return nil, err
-			}
-			return k.build(alpha, s, v, l)
-		}
+	i, err := param.Find("shape", "shape", shape, len(shapes), func(i int) string { return shapes[i].Name })
+	if err != nil {
+		return nil, err
 	}
-	return nil, &param.Error{Field: "shape", Reason: fmt.Sprintf("unknown shape %q (known: %s)", shape, strings.Join(names, ", "))}
+	k := shapes[i]
+	v, l, err := param.Gather("shape "+shape, k.Params, params, lists)
+	if err != nil {
+		return nil, err
+	}
+	return k.build(alpha, s, v, l)
 }

@@ -3,7 +3,6 @@ package loss
 import (
 	"math"
 	"slices"
-	"strings"
 
 	"hdrisk/engine/param"
 )
@@ -47,16 +46,14 @@ func Kinds() []Kind {
 // New builds the loss of the given kind. An unknown kind is reported with Field "kind", a
 // missing or unknown parameter with its own name.
 func New(kind string, params map[string]float64) (Loss, error) {
-	names := make([]string, len(kinds))
-	for i, k := range kinds {
-		names[i] = k.Name
-		if k.Name == kind {
-			v, _, err := param.Gather("loss "+kind, k.Params, params, nil)
-			if err != nil {
-				return nil, err
-			}
-			return k.build(v)
-		}
+	i, err := param.Find("kind", "loss", kind, len(kinds), func(i int) string { return kinds[i].Name })
+	if err != nil {
+		return nil, err
 	}
-	return nil, param.Errorf("kind", "unknown loss %q (known: %s)", kind, strings.Join(names, ", "))
+	k := kinds[i]
+	v, _, err := param.Gather("loss "+kind, k.Params, params, nil)
+	if err != nil {
+		return nil, err
+	}
+	return k.build(v)
 }

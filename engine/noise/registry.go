@@ -3,7 +3,6 @@ package noise
 import (
 	"math"
 	"slices"
-	"strings"
 
 	"hdrisk/engine/param"
 )
@@ -51,16 +50,14 @@ func Kinds() []Kind {
 // own parameters. An unknown kind is reported with Field "law", a missing or unknown
 // parameter with its own name.
 func New(kind string, variance float64, params map[string]float64) (Law, error) {
-	names := make([]string, len(kinds))
-	for i, k := range kinds {
-		names[i] = k.Name
-		if k.Name == kind {
-			v, _, err := param.Gather("law "+kind, k.Params, params, nil)
-			if err != nil {
-				return nil, err
-			}
-			return k.build(variance, v)
-		}
+	i, err := param.Find("law", "law", kind, len(kinds), func(i int) string { return kinds[i].Name })
+	if err != nil {
+		return nil, err
 	}
-	return nil, param.Errorf("law", "unknown law %q (known: %s)", kind, strings.Join(names, ", "))
+	k := kinds[i]
+	v, _, err := param.Gather("law "+kind, k.Params, params, nil)
+	if err != nil {
+		return nil, err
+	}
+	return k.build(variance, v)
 }

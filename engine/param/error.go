@@ -3,6 +3,7 @@ package param
 import (
 	"errors"
 	"fmt"
+	"strings"
 )
 
 // Error is the engine's one error for an input it refuses: Field names the value the way
@@ -50,4 +51,17 @@ func Under(prefix string, err error) error {
 		return &Error{Field: prefix + e.Field, Reason: e.Reason}
 	}
 	return &Error{Field: prefix + "." + e.Field, Reason: e.Reason}
+}
+
+// Find returns the index of the entry called want among n entries, whose names name
+// gives, for a registry's New. Special cases are: an unknown name is an *Error under field
+// saying "unknown NOUN "want" (known: ...)" with every name in the registry's order.
+func Find(field, noun, want string, n int, name func(i int) string) (int, error) {
+	names := make([]string, n)
+	for i := range n {
+		if names[i] = name(i); names[i] == want {
+			return i, nil
+		}
+	}
+	return -1, Errorf(field, "unknown %s %q (known: %s)", noun, want, strings.Join(names, ", "))
 }

@@ -121,3 +121,15 @@ func TestGather(t *testing.T) {
 		t.Errorf("Names(nil) = %q", Names(nil))
 	}
 }
+
+func TestFind(t *testing.T) {
+	names := []string{"l1", "ridge"}
+	name := func(i int) string { return names[i] }
+	if i, err := Find("kind", "penalty", "ridge", len(names), name); i != 1 || err != nil {
+		t.Errorf("ridge: %d, %v", i, err)
+	}
+	_, err := Find("kind", "penalty", "lasso", len(names), name)
+	if want := `kind: unknown penalty "lasso" (known: l1, ridge)`; err == nil || err.Error() != want {
+		t.Errorf("lasso: %v, want %s", err, want)
+	}
+}

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"strings"
 
 	"hdrisk/engine/param"
 )
@@ -102,18 +101,16 @@ func Kinds() []Kind {
 // Optional parameters left out take their Default. An unknown kind is reported with Field
 // "kind"; a missing, unknown or out-of-range parameter with its own name as Field.
 func New(kind string, params map[string]float64) (Penalty, error) {
-	names := make([]string, len(kinds))
-	for i, k := range kinds {
-		names[i] = k.Name
-		if k.Name == kind {
-			v, _, err := param.Gather("penalty "+kind, k.Params, params, nil)
-			if err != nil {
-				return nil, err
-			}
-			return k.build(v)
-		}
+	i, err := param.Find("kind", "penalty", kind, len(kinds), func(i int) string { return kinds[i].Name })
+	if err != nil {
+		return nil, err
 	}
-	return nil, &param.Error{Field: "kind", Reason: fmt.Sprintf("unknown penalty %q (known: %s)", kind, strings.Join(names, ", "))}
+	k := kinds[i]
+	v, _, err := param.Gather("penalty "+kind, k.Params, params, nil)
+	if err != nil {
+		return nil, err
+	}
+	return k.build(v)
 }
 
 // Strengths of the power penalty: its weight, at every q.

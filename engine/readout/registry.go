@@ -3,7 +3,6 @@ package readout
 import (
 	"math"
 	"slices"
-	"strings"
 
 	"hdrisk/engine/param"
 )
@@ -52,16 +51,14 @@ func Kinds() []Kind {
 // New builds the readout of the given kind. An unknown kind is reported with Field "kind",
 // a missing or unknown parameter with its own name.
 func New(kind string, params map[string]float64) (Readout, error) {
-	names := make([]string, len(kinds))
-	for i, k := range kinds {
-		names[i] = k.Name
-		if k.Name == kind {
-			v, _, err := param.Gather("readout "+kind, k.Params, params, nil)
-			if err != nil {
-				return nil, err
-			}
-			return k.build(v)
-		}
+	i, err := param.Find("kind", "readout", kind, len(kinds), func(i int) string { return kinds[i].Name })
+	if err != nil {
+		return nil, err
 	}
-	return nil, param.Errorf("kind", "unknown readout %q (known: %s)", kind, strings.Join(names, ", "))
+	k := kinds[i]
+	v, _, err := param.Gather("readout "+kind, k.Params, params, nil)
+	if err != nil {
+		return nil, err
+	}
+	return k.build(v)
 }

@@ -1,10 +1,8 @@
 package signal
 
 import (
-	"fmt"
 	"math"
 	"slices"
-	"strings"
 
 	"hdrisk/engine/param"
 )
@@ -77,16 +75,14 @@ func Laws() []Kind {
 // "law"; a missing or unknown parameter, or one given as a number where a list is expected
 // (or the reverse), with its own name as Field; out-of-range values as by the constructors.
 func New(law string, params map[string]float64, lists map[string][]float64) (Law, error) {
-	names := make([]string, len(laws))
-	for i, k := range laws {
-		names[i] = k.Name
-		if k.Name == law {
-			v, l, err := param.Gather("law "+law, k.Params, params, lists)
-			if err != nil {
-				return nil, err
-			}
-			return k.build(v, l)
-		}
+	i, err := param.Find("law", "law", law, len(laws), func(i int) string { return laws[i].Name })
+	if err != nil {
+		return nil, err
 	}
-	return nil, &param.Error{Field: "law", Reason: fmt.Sprintf("unknown law %q (known: %s)", law, strings.Join(names, ", "))}
+	k := laws[i]
+	v, l, err := param.Gather("law "+law, k.Params, params, lists)
+	if err != nil {
+		return nil, err
+	}
+	return k.build(v, l)
 }
