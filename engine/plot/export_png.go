@@ -10,7 +10,7 @@ import (
 )
 
 // PNGScale is the pixel density of a figure saved as PNG: two pixels per CSS pixel (192
-// dots per inch for a figure measured in points), sharp on a slide and on a dense screen.
+// dots per inch for a figure measured in points), sharp when projected or shown on a dense screen.
 const PNGScale = 2
 
 // PNG renders the figure as an 8-bit PNG at PNGScale pixels per CSS pixel. The page draws

@@ -3,7 +3,6 @@ package scenario
 import (
 	"maps"
 	"slices"
-	"sync"
 
 	"hdrisk/engine/fixedpoint"
 	"hdrisk/engine/loss"
@@ -28,26 +27,20 @@ func (c *Choice) clone() *Choice {
 
 // The three registries of the generalized linear model, read once.
 var (
-	readouts = sync.OnceValue(func() *family {
-		f := &family{Object: "readout", Key: "kind", Noun: "readout"}
+	readouts = familyOf("readout", "kind", "readout", func(add adder) {
 		for _, k := range readout.Kinds() {
-			f.add(k.Name, k.Help, k.Params)
+			add(k.Name, k.Help, k.Params)
 		}
-		return f
 	})
-	losses = sync.OnceValue(func() *family {
-		f := &family{Object: "loss", Key: "kind", Noun: "loss"}
+	losses = familyOf("loss", "kind", "loss", func(add adder) {
 		for _, k := range loss.Kinds() {
-			f.add(k.Name, k.Help, k.Params)
+			add(k.Name, k.Help, k.Params)
 		}
-		return f
 	})
-	noiseLaws = sync.OnceValue(func() *family {
-		f := &family{Object: "noise", Key: "law", Noun: "noise law"}
+	noiseLaws = familyOf("noise", "law", "noise law", func(add adder) {
 		for _, k := range noise.Kinds() {
-			f.add(k.Name, k.Help, k.Params)
+			add(k.Name, k.Help, k.Params)
 		}
-		return f
 	})
 )
 

@@ -11,28 +11,35 @@ import (
 
 // The three families, read once from the engine registries.
 var (
-	designs = sync.OnceValue(func() *family {
-		f := &family{Object: "design", Key: "shape", Noun: "shape"}
-		for _, s := range design.Shapes() {
-			f.add(s.Name, s.Help, s.Params)
+	designs = familyOf("design", "shape", "shape", func(add adder) {
+		for _, k := range design.Shapes() {
+			add(k.Name, k.Help, k.Params)
 		}
-		return f
 	})
-	signals = sync.OnceValue(func() *family {
-		f := &family{Object: "signal", Key: "law", Noun: "law"}
+	signals = familyOf("signal", "law", "law", func(add adder) {
 		for _, k := range signal.Laws() {
-			f.add(k.Name, k.Help, k.Params)
+			add(k.Name, k.Help, k.Params)
 		}
-		return f
 	})
-	penalties = sync.OnceValue(func() *family {
-		f := &family{Object: "penalty", Key: "kind", Noun: "penalty"}
+	penalties = familyOf("penalty", "kind", "penalty", func(add adder) {
 		for _, k := range penalty.Kinds() {
-			f.add(k.Name, k.Help, k.Params)
+			add(k.Name, k.Help, k.Params)
 		}
-		return f
 	})
 )
+
+// adder takes one entry of an engine registry into a family.
+type adder func(name, help string, params []param.Param)
+
+// familyOf returns the family of the JSON object named object, whose kind is named by key,
+// read once on first use from the registry that each lists entry by entry.
+func familyOf(object, key, noun string, each func(add adder)) func() *family {
+	return sync.OnceValue(func() *family {
+		f := &family{Object: object, Key: key, Noun: noun}
+		each(f.add)
+		return f
+	})
+}
 
 func buildDesign(d Design) (design.Law, error) {
 	sc, err := design.ParseScale(d.Scale)
