@@ -5,7 +5,6 @@ import (
 	"math"
 	"slices"
 
-	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
 	lapackgonum "gonum.org/v1/gonum/lapack/gonum"
 	"gonum.org/v1/gonum/mat"
@@ -21,13 +20,15 @@ const (
 )
 
 // gramBlock is the number of rows of the Gram matrix formed per product: large enough for
-// gonum's blocked, parallel Dgemm to run at speed, small enough for progress and cancel.
+// gonum's blocked, parallel Dgemm to run at speed, small enough for progress and cancel; a
+// multiple of 4, as gramRows's blocks need.
 const gramBlock = 128
 
 // SingularValues returns the min(m, n) singular values of the m x n matrix a in decreasing
 // order, as the square roots of the eigenvalues of the smaller Gram matrix: G = A A^T (m <= n)
-// or A^T A, formed by gonum's Dgemm in blocks of rows (its lower triangle only), reduced to
-// tridiagonal form by LAPACK's Dsytrd and solved for its eigenvalues alone by Dsterf (the
+// or A^T A, formed in blocks of rows (its lower triangle only; gonum's Dgemm, or a plain-Go
+// loop in the browser: portableKernels), reduced to tridiagonal form by LAPACK's Householder
+// reduction (Dsytrd, or its unblocked form Dsytd2 in the browser) and solved for its eigenvalues alone by Dsterf (the
 // root-free QL/QR of Pal, Walker and Kahan), all from gonum's LAPACK port. No singular vector
 // is ever formed. Rows and columns that are entirely zero are left out first (they add only
 // zero singular values), so the work is bounded by the data, not by the stated shape.
@@ -75,23 +76,14 @@ func SingularValues(ctx context.Context, a *mat.Dense, progress func(step Step, 
 		return out, nil
 	}
 	b := compact(raw, rows, cols, top)
-	rm, rn := b.Rows, b.Cols
-	k := min(rm, rn)
+	k := b.Rows
 	g := make([]float64, k*k)
 	for i0 := 0; i0 < k; i0 += gramBlock {
 		if ctx.Err() != nil {
 			return nil, ErrCanceled
 		}
 		i1 := min(k, i0+gramBlock)
-		if rm <= rn {
-			// Rows i0..i1 of A A^T, left of the diagonal block's end.
-			blas64.Implementation().Dgemm(blas.NoTrans, blas.Trans, i1-i0, i1, rn, 1,
-				b.Data[i0*b.Stride:], b.Stride, b.Data, b.Stride, 0, g[i0*k:], k)
-		} else {
-			// Rows i0..i1 of A^T A: columns i0..i1 of A against columns 0..i1.
-			blas64.Implementation().Dgemm(blas.Trans, blas.NoTrans, i1-i0, i1, rm, 1,
-				b.Data[i0:], b.Stride, b.Data, b.Stride, 0, g[i0*k:], k)
-		}
+		gramBlockRows(b, i0, i1, g, k)
 		progress(StepGram, float64(i1)*float64(i1)/(float64(k)*float64(k)))
 	}
 	b = blas64.General{}
@@ -99,17 +91,14 @@ func SingularValues(ctx context.Context, a *mat.Dense, progress func(step Step, 
 		return nil, ErrCanceled
 	}
 	progress(StepTridiagonal, 0)
-	var impl lapackgonum.Implementation
-	d, e, tau := make([]float64, k), make([]float64, max(0, k-1)), make([]float64, max(0, k-1))
-	work := make([]float64, 1)
-	impl.Dsytrd(blas.Lower, k, g, k, d, e, tau, work, -1)
-	work = make([]float64, int(work[0]))
-	impl.Dsytrd(blas.Lower, k, g, k, d, e, tau, work, len(work))
+	d, e := make([]float64, k), make([]float64, max(0, k-1))
+	tridiagonalize(g, k, d, e)
 	g = nil
 	if ctx.Err() != nil {
 		return nil, ErrCanceled
 	}
 	progress(StepEigenvalues, 0)
+	var impl lapackgonum.Implementation
 	if !impl.Dsterf(k, d, e) {
 		return nil, paramErr("matrix", "the eigenvalue iteration of its Gram matrix did not converge")
 	}
@@ -121,7 +110,9 @@ func SingularValues(ctx context.Context, a *mat.Dense, progress func(step Step, 
 }
 
 // compact copies the nonzero rows and columns of raw, divided by top so that the Gram matrix
-// can neither overflow nor underflow.
+// can neither overflow nor underflow, with the shorter side as its rows (transposed when raw
+// has more nonzero rows than columns), so that the Gram matrix of the result's rows is the
+// smaller one.
 func compact(raw blas64.General, rows, cols []bool, top float64) blas64.General {
 	var ri, ci []int
 	for i, ok := range rows {
@@ -134,12 +125,22 @@ func compact(raw blas64.General, rows, cols []bool, top float64) blas64.General 
 			ci = append(ci, j)
 		}
 	}
-	out := blas64.General{Rows: len(ri), Cols: len(ci), Stride: len(ci), Data: make([]float64, len(ri)*len(ci))}
+	if len(ri) <= len(ci) {
+		out := blas64.General{Rows: len(ri), Cols: len(ci), Stride: len(ci), Data: make([]float64, len(ri)*len(ci))}
+		for r, i := range ri {
+			src := raw.Data[i*raw.Stride:]
+			dst := out.Data[r*out.Stride : (r+1)*out.Stride]
+			for c, j := range ci {
+				dst[c] = src[j] / top
+			}
+		}
+		return out
+	}
+	out := blas64.General{Rows: len(ci), Cols: len(ri), Stride: len(ri), Data: make([]float64, len(ri)*len(ci))}
 	for r, i := range ri {
 		src := raw.Data[i*raw.Stride:]
-		dst := out.Data[r*out.Stride : (r+1)*out.Stride]
 		for c, j := range ci {
-			dst[c] = src[j] / top
+			out.Data[c*out.Stride+r] = src[j] / top
 		}
 	}
 	return out
