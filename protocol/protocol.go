@@ -3,7 +3,8 @@
 // codec that carries engine values across as they are. It imports the engine and no browser
 // code, so the page (ui, wasm/page) and the workers (wasm/job) share one set of types.
 //
-// The page posts a Request as JSON text; the worker answers with Replies as JSON text: any
+// The page posts a Request as JSON text (with a Bulky argument's large text beside it as
+// bytes); the worker answers with Replies as JSON text: any
 // number of "progress" replies, then exactly one "result" or "error". A reply with a result
 // is posted as two texts, the reply without its result and the result, so that the page
 // takes in a large result without scanning it as part of the reply. Results are encoded
@@ -15,11 +16,14 @@ import (
 	"encoding/json"
 )
 
-// Request is one piece of work. Args holds the arguments of Kind.
+// Request is one piece of work. Args holds the arguments of Kind; Bulk, when not empty, is
+// the large text of Bulky arguments, which travels beside the JSON (as a second part of the
+// message), never inside it.
 type Request struct {
 	ID   uint64          `json:"id"`
 	Kind string          `json:"kind"`
 	Args json.RawMessage `json:"args"`
+	Bulk string          `json:"-"`
 }
 
 // Reply types.

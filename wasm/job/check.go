@@ -15,7 +15,7 @@ import (
 	"hdrisk/protocol"
 )
 
-func init() { Register("check", runCheck) }
+func init() { Serve(protocol.Check, Check) }
 
 // Check runs simulate.Check for the scenario of a (moved to Over = At when Over is set) and,
 // when a.Curve is set, the predicted curve along it. progress gets (trials done, trials).
@@ -108,14 +108,6 @@ func checkTrials(ts []simulate.Trial) []protocol.CheckTrial {
 			Residual: protocol.Num(t.Residual), Seconds: protocol.Num(t.Seconds)})
 	}
 	return out
-}
-
-func runCheck(raw json.RawMessage, progress func(done, total int)) (any, error) {
-	var a protocol.CheckArgs
-	if err := json.Unmarshal(raw, &a); err != nil {
-		return nil, fmt.Errorf("check arguments: %w", err)
-	}
-	return Check(a, progress)
 }
 
 // warmScenarios are the scenarios of WarmCheck: the LASSO on an orthogonal design (cd asked,

@@ -1,7 +1,6 @@
 package job
 
 import (
-	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
@@ -17,7 +16,7 @@ import (
 // curvePoints is the resolution of a fitted density drawn over the histogram.
 const curvePoints = 101
 
-func init() { Register("fit", runFit) }
+func init() { Serve(protocol.Fit, Fit) }
 
 // Fit reads signal samples, bins them and, when a.Method asks, fits a law to them.
 // Special cases are: problems with the text are *data.LineError values naming the line; an
@@ -108,12 +107,4 @@ func mixtureDensity(t float64, w, mu, v []float64) float64 {
 		}
 	}
 	return d
-}
-
-func runFit(raw json.RawMessage, progress func(done, total int)) (any, error) {
-	var a protocol.FitArgs
-	if err := json.Unmarshal(raw, &a); err != nil {
-		return nil, fmt.Errorf("fit arguments: %w", err)
-	}
-	return Fit(a, progress)
 }

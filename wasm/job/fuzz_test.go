@@ -31,7 +31,7 @@ func FuzzHandle(f *testing.F) {
 			}
 		}
 		var replies []protocol.Reply
-		Handle(text, func(r protocol.Reply) { replies = append(replies, r) })
+		Handle(text, "", func(r protocol.Reply) { replies = append(replies, r) })
 		if len(replies) == 0 {
 			t.Fatal("no reply")
 		}

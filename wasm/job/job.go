@@ -15,10 +15,11 @@ import (
 	"hdrisk/protocol"
 )
 
-// Runner does the work of one kind. It decodes args itself, calls progress(done, total) as it
+// Runner does the work of one kind. It decodes args itself (bulk is the large text of
+// protocol.Bulky arguments, sent beside them; "" when there is none), calls progress(done, total) as it
 // goes (as often as it likes; Run thins the calls out), and returns a value that
 // protocol.Marshal encodes. Errors name the argument and the reason.
-type Runner func(args json.RawMessage, progress func(done, total int)) (any, error)
+type Runner func(args json.RawMessage, bulk string, progress func(done, total int)) (any, error)
 
 var (
 	mu      sync.RWMutex
@@ -41,12 +42,16 @@ func Register(kind string, r Runner) {
 }
 
 // Serve registers run as the worker side of the protocol's kind k: its arguments are
-// decoded as k's, and its result is k's result type.
+// decoded as k's (with the bulk text put back when A has one: protocol.BulkSetter), and its
+// result is k's result type.
 func Serve[A, R any](k protocol.Kind[A, R], run func(A, func(done, total int)) (R, error)) {
-	Register(k.Name, func(raw json.RawMessage, progress func(done, total int)) (any, error) {
+	Register(k.Name, func(raw json.RawMessage, bulk string, progress func(done, total int)) (any, error) {
 		a, err := k.DecodeArgs(raw)
 		if err != nil {
 			return nil, err
+		}
+		if s, ok := any(&a).(protocol.BulkSetter); ok && bulk != "" {
+			s.SetBulk(bulk)
 		}
 		return run(a, progress)
 	})
@@ -89,7 +94,7 @@ func Run(req protocol.Request, emit func(protocol.Reply)) {
 		last = now
 		emit(protocol.Reply{ID: req.ID, Type: protocol.Progress, Done: done, Total: total})
 	}
-	v, err := call(r, req.Args, progress)
+	v, err := call(r, req.Args, req.Bulk, progress)
 	if err != nil {
 		emit(protocol.Reply{ID: req.ID, Type: protocol.Failed, Error: err.Error()})
 		return
@@ -102,22 +107,24 @@ func Run(req protocol.Request, emit func(protocol.Reply)) {
 	emit(protocol.Reply{ID: req.ID, Type: protocol.Result, Result: b})
 }
 
-func call(r Runner, args json.RawMessage, progress func(int, int)) (v any, err error) {
+func call(r Runner, args json.RawMessage, bulk string, progress func(int, int)) (v any, err error) {
 	defer func() {
 		if p := recover(); p != nil {
 			err = fmt.Errorf("internal error: %v", p)
 		}
 	}()
-	return r(args, progress)
+	return r(args, bulk, progress)
 }
 
-// Handle decodes one request text and runs it. It is what a worker does with each message.
+// Handle decodes one request text and runs it, with bulk as its protocol.Request.Bulk. It is
+// what a worker does with each message.
 // Special cases are: text that is not a protocol.Request is a Failed reply with ID 0.
-func Handle(text string, emit func(protocol.Reply)) {
+func Handle(text, bulk string, emit func(protocol.Reply)) {
 	var req protocol.Request
 	if err := json.Unmarshal([]byte(text), &req); err != nil {
 		emit(protocol.Reply{Type: protocol.Failed, Error: "request: " + err.Error()})
 		return
 	}
+	req.Bulk = bulk
 	Run(req, emit)
 }

@@ -10,7 +10,7 @@ import (
 )
 
 func init() {
-	Register("test-count", func(args json.RawMessage, progress func(int, int)) (any, error) {
+	Register("test-count", func(args json.RawMessage, _ string, progress func(int, int)) (any, error) {
 		var n int
 		if err := json.Unmarshal(args, &n); err != nil {
 			return nil, errors.New("n: " + err.Error())
@@ -20,7 +20,7 @@ func init() {
 		}
 		return map[string]int{"n": n}, nil
 	})
-	Register("test-panic", func(json.RawMessage, func(int, int)) (any, error) {
+	Register("test-panic", func(json.RawMessage, string, func(int, int)) (any, error) {
 		var m map[string]int
 		m["x"] = 1
 		return nil, nil
@@ -29,7 +29,7 @@ func init() {
 
 func collect(text string) []protocol.Reply {
 	var out []protocol.Reply
-	Handle(text, func(r protocol.Reply) { out = append(out, r) })
+	Handle(text, "", func(r protocol.Reply) { out = append(out, r) })
 	return out
 }
 
@@ -76,4 +76,64 @@ func TestKindsListsEval(t *testing.T) {
 	if !found {
 		t.Errorf("Kinds() = %v, has no eval", Kinds())
 	}
+}
+
+// A file's text sent beside the request (protocol.Bulky) gives the same result as the same
+// text inside the arguments, for each kind that reads a file; the JSON part alone is refused
+// as an empty file.
+func TestBulkBesideTheRequest(t *testing.T) {
+	for _, c := range []struct {
+		kind string
+		args protocol.Bulky
+		text string
+	}{
+		{"spectrum", protocol.SpectrumArgs{Source: protocol.SourceMatrix}, "1,2,0\n3,4,1\n"},
+		{"fit", protocol.FitArgs{Method: protocol.FitNone}, "0.5\n-1\n0\n2\n0\n"},
+	} {
+		inside, _ := json.Marshal(withBulk(c.args, c.text))
+		beside, _ := json.Marshal(c.args.WithoutBulk())
+		run := func(args []byte, bulk string) protocol.Reply {
+			var last protocol.Reply
+			Handle(`{"id":1,"kind":"`+c.kind+`","args":`+string(args)+`}`, bulk, func(r protocol.Reply) { last = r })
+			return last
+		}
+		a, b := run(inside, ""), run(beside, c.text)
+		if a.Type != protocol.Result || b.Type != protocol.Result {
+			t.Fatalf("%s: inside %+v, beside %+v", c.kind, a, b)
+		}
+		// The results name their read time; compare everything else.
+		if strip(a.Result) != strip(b.Result) {
+			t.Errorf("%s: beside the request gave %s, inside %s", c.kind, b.Result, a.Result)
+		}
+		if r := run(beside, ""); r.Type != protocol.Failed {
+			t.Errorf("%s: the arguments without their text gave %+v, want a refusal", c.kind, r)
+		}
+	}
+}
+
+func withBulk(a protocol.Bulky, text string) any {
+	switch v := a.(type) {
+	case protocol.SpectrumArgs:
+		v.SetBulk(text)
+		return v
+	case protocol.FitArgs:
+		v.SetBulk(text)
+		return v
+	}
+	panic("withBulk: unknown arguments")
+}
+
+// strip removes the fields that hold seconds from a JSON result.
+func strip(b []byte) string {
+	var m map[string]any
+	if json.Unmarshal(b, &m) != nil {
+		return string(b)
+	}
+	for k := range m {
+		if strings.HasSuffix(k, "seconds") {
+			delete(m, k)
+		}
+	}
+	out, _ := json.Marshal(m)
+	return string(out)
 }

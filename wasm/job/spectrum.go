@@ -2,7 +2,6 @@ package job
 
 import (
 	"context"
-	"encoding/json"
 	"fmt"
 	"strings"
 	"time"
@@ -12,7 +11,7 @@ import (
 	"hdrisk/protocol"
 )
 
-func init() { Register("spectrum", runSpectrum) }
+func init() { Serve(protocol.Spectrum, Spectrum) }
 
 // countingReader reports the share of a text of known length read so far.
 type countingReader struct {
@@ -110,12 +109,4 @@ func Spectrum(a protocol.SpectrumArgs, progress func(done, total int)) (protocol
 		Histogram:   protocol.HistogramOut{Edges: s.Histogram.Edges, Counts: s.Histogram.Counts, Density: s.Histogram.Density},
 		ReadSeconds: protocol.Num(readSecs), SVDSeconds: protocol.Num(svdSeconds),
 	}, nil
-}
-
-func runSpectrum(raw json.RawMessage, progress func(done, total int)) (any, error) {
-	var a protocol.SpectrumArgs
-	if err := json.Unmarshal(raw, &a); err != nil {
-		return nil, fmt.Errorf("spectrum arguments: %w", err)
-	}
-	return Spectrum(a, progress)
 }

@@ -351,7 +351,7 @@ func (p *Pool) dispatch() {
 		p.queue = p.queue[1:]
 		text, err := json.Marshal(t.req)
 		if err == nil {
-			_, err = w.js.Call("postMessage", string(text))
+			err = postRequest(w.js, string(text), t.req.Bulk)
 		}
 		if err != nil {
 			p.finish(t, nil, fmt.Errorf("pool: posting job: %w", err))
@@ -442,6 +442,9 @@ func (p *Pool) Start(kind string, args any, progress func(done, total int), done
 	defer p.mu.Unlock()
 	p.nextID++
 	t := &Task{pool: p, req: protocol.Request{ID: p.nextID, Kind: kind}, progress: progress, done: done}
+	if b, ok := args.(protocol.Bulky); ok {
+		t.req.Bulk, args = b.BulkText(), b.WithoutBulk()
+	}
 	b, err := json.Marshal(args)
 	switch {
 	case err != nil:
@@ -454,6 +457,33 @@ func (p *Pool) Start(kind string, args any, progress func(done, total int), done
 		p.dispatch()
 	}
 	return t
+}
+
+// postRequest posts a request's JSON text to worker w, with its bulk text (when not empty)
+// beside it as the bytes of a Uint8Array whose buffer is transferred, not copied
+// (protocol.Bulky; the worker reads both in package worker).
+func postRequest(w safejs.Value, text, bulk string) error {
+	if bulk == "" {
+		_, err := w.Call("postMessage", text)
+		return err
+	}
+	ctor, err := safejs.Global().Get("Uint8Array")
+	if err != nil {
+		return err
+	}
+	u8, err := ctor.New(len(bulk))
+	if err != nil {
+		return err
+	}
+	if _, err := safejs.CopyBytesToJS(u8, []byte(bulk)); err != nil {
+		return err
+	}
+	buf, err := u8.Get("buffer")
+	if err != nil {
+		return err
+	}
+	_, err = w.Call("postMessage", []any{text, u8}, []any{buf})
+	return err
 }
 
 // Cancel stops t: a queued task is dropped; a running one has its worker terminated and

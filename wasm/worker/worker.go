@@ -37,15 +37,15 @@ func Serve() error {
 		// A failed post leaves the page waiting; there is nobody else to tell.
 		_, _ = self.Call("postMessage", msg)
 	}
-	requests := make(chan string, 16)
+	requests := make(chan [2]string, 16)
 	onMessage, err := safejs.FuncOf(func(_ safejs.Value, args []safejs.Value) any {
-		text := ""
+		var req [2]string // the request's JSON and its bulk text (package pool)
 		if len(args) > 0 {
 			if d, err := args[0].Get("data"); err == nil {
-				text, _ = d.String()
+				req = readRequest(d)
 			}
 		}
-		go func() { requests <- text }()
+		go func() { requests <- req }()
 		return nil
 	})
 	if err == nil {
@@ -63,9 +63,9 @@ func Serve() error {
 	// runs a throw-away check for the same reason (job.WarmCheck).
 	warm := time.After(300 * time.Millisecond)
 	for {
-		var text string
+		var req [2]string
 		select {
-		case text = <-requests:
+		case req = <-requests:
 		case <-warm:
 			plot.Warm()
 			job.WarmCheck()
@@ -75,6 +75,28 @@ func Serve() error {
 		if warm != nil {
 			warm = time.After(300 * time.Millisecond)
 		}
-		job.Handle(text, post)
+		job.Handle(req[0], req[1], post)
 	}
+}
+
+// readRequest reads a message of the page: a request's JSON text, or an array of that text and
+// a Uint8Array holding its bulk text (protocol.Bulky), copied into Go once.
+func readRequest(d safejs.Value) [2]string {
+	if d.Type() != safejs.TypeObject {
+		text, _ := d.String()
+		return [2]string{text, ""}
+	}
+	var out [2]string
+	if v, err := d.Index(0); err == nil {
+		out[0], _ = v.String()
+	}
+	if v, err := d.Index(1); err == nil {
+		if n, err := v.Length(); err == nil && n > 0 {
+			b := make([]byte, n)
+			if _, err := safejs.CopyBytesToGo(b, v); err == nil {
+				out[1] = string(b)
+			}
+		}
+	}
+	return out
 }
