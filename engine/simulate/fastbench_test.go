@@ -14,3 +14,14 @@ func BenchmarkFastMul100000(b *testing.B) {
 		f.Mul(x, x)
 	}
 }
+
+// BenchmarkFastMul500 times one product with a Fast matrix of order 500, the size of the
+// page's finite-size check; run it under GOOS=js GOARCH=wasm too to see what a page worker pays.
+func BenchmarkFastMul500(b *testing.B) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	f := NewFast(rng, 500, DefaultRounds)
+	x := normals(rng, 500)
+	for b.Loop() {
+		f.Mul(x, x)
+	}
+}

@@ -2,37 +2,50 @@ package job
 
 import (
 	"encoding/json"
-	"os"
+	"math/rand/v2"
+	"strconv"
+	"strings"
 	"testing"
 	"time"
 
 	"hdrisk/protocol"
 )
 
-func TestSpectrumBig(t *testing.T) {
-	b, err := os.ReadFile("/tmp/m1500.csv")
-	if err != nil {
-		t.Skip(err)
-	}
-	t0 := time.Now()
-	req, _ := json.Marshal(protocol.SpectrumArgs{Source: protocol.SourceMatrix, Text: string(b), MaxBytes: 1 << 30})
-	t1 := time.Now()
-	var a protocol.SpectrumArgs
-	if err := json.Unmarshal(req, &a); err != nil {
-		t.Fatal(err)
-	}
-	t2 := time.Now()
-	last := time.Now()
-	lastStep := ""
-	r, err := Spectrum(a, func(done, total int) {
-		st := protocol.SpectrumStep(done)
-		if st != lastStep {
-			t.Logf("step %v starts after %.2fs", st, time.Since(last).Seconds())
-			last, lastStep = time.Now(), st
+// BenchmarkSpectrumJob1500x3000 reads a 1500 x 3000 Gaussian matrix from about 60 MB of CSV
+// and computes its singular values, as the page's worker does once the file has arrived, and
+// reports the seconds of each step the page shows (read, gram, tridiagonal, eigenvalues);
+// run it under GOOS=js GOARCH=wasm for the worker's figures (DEVELOPERS.md, "Benchmarks").
+func BenchmarkSpectrumJob1500x3000(b *testing.B) {
+	rng := rand.New(rand.NewPCG(1, 1500))
+	var sb strings.Builder
+	for range 1500 {
+		for j := range 3000 {
+			if j > 0 {
+				sb.WriteByte(',')
+			}
+			sb.WriteString(strconv.FormatFloat(rng.NormFloat64(), 'g', 10, 64))
 		}
-	})
-	if err != nil {
-		t.Fatal(err)
+		sb.WriteByte('\n')
 	}
-	t.Logf("marshal %.2fs unmarshal %.2fs read %.2fs svd %.2fs total %.2fs", t1.Sub(t0).Seconds(), t2.Sub(t1).Seconds(), float64(r.ReadSeconds), float64(r.SVDSeconds), time.Since(t0).Seconds())
+	raw, _ := json.Marshal(protocol.SpectrumArgs{Source: protocol.SourceMatrix, MaxBytes: 1 << 30})
+	a, err := protocol.Spectrum.DecodeArgs(raw)
+	if err != nil {
+		b.Fatal(err)
+	}
+	a.SetBulk(sb.String())
+	for b.Loop() {
+		secs := map[string]float64{}
+		last, step := time.Now(), protocol.StepReading
+		if _, err := Spectrum(a, func(done, _ int) {
+			if s := protocol.SpectrumStep(done); s != step {
+				secs[step] += time.Since(last).Seconds()
+				last, step = time.Now(), s
+			}
+		}); err != nil {
+			b.Fatal(err)
+		}
+		for s, v := range secs {
+			b.ReportMetric(v, s+"-s")
+		}
+	}
 }
