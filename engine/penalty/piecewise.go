@@ -77,10 +77,17 @@ type piecewise struct{ PiecewiseLinear }
 // Prox evaluates the piece holding r. A flat piece returns its level, so that the prox of
 // +-Inf on a flat outer piece (the box) is the level rather than 0*Inf.
 func (p piecewise) Prox(r, g float64) float64 {
+	l := p.Piecewise(g)
+	return l.Prox(r)
+}
+
+// Prox returns the value at r of the prox that l describes: the Prox of its penalty at the
+// precision l was made for, without building the pieces again (a solver that applies one
+// prox to many coordinates builds them once).
+func (l *Linear) Prox(r float64) float64 {
 	if math.IsNaN(r) {
 		return r
 	}
-	l := p.Piecewise(g)
 	q := l.at(r)
 	if q.Slope == 0 {
 		return q.Intercept

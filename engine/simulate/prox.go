@@ -56,6 +56,14 @@ func ProxGradient(ctx context.Context, f Operator, y []float64, p penalty.Penalt
 			grad[i] -= fty[i]
 		}
 	}
+	// A piecewise-linear prox (l1, elastic net, box...) is built once for the step 1/lip
+	// rather than once a coordinate.
+	prox := p.Prox
+	if lf, ok := p.(penalty.LinearForm); ok {
+		if l, ok := lf.Linear(lip); ok {
+			prox = func(r, _ float64) float64 { return l.Prox(r) }
+		}
+	}
 	const every = 5
 	t := 1.0
 	for sol.Iterations < o.MaxIter {
@@ -64,7 +72,7 @@ func ProxGradient(ctx context.Context, f Operator, y []float64, p penalty.Penalt
 				break
 			}
 			gradient(x)
-			sol.Residual = kktResidual(x, grad, p.Prox, lip, scale)
+			sol.Residual = kktResidual(x, grad, prox, lip, scale)
 			if sol.Residual <= o.Tol {
 				sol.Converged = true
 				return sol, nil
@@ -74,7 +82,7 @@ func ProxGradient(ctx context.Context, f Operator, y []float64, p penalty.Penalt
 		gradient(z)
 		restart := 0.0
 		for i := range xn {
-			xn[i] = p.Prox(z[i]-grad[i]/lip, lip)
+			xn[i] = prox(z[i]-grad[i]/lip, lip)
 			restart += (z[i] - xn[i]) * (xn[i] - x[i])
 		}
 		if restart > 0 {
@@ -89,7 +97,7 @@ func ProxGradient(ctx context.Context, f Operator, y []float64, p penalty.Penalt
 		t = tn
 	}
 	gradient(x)
-	sol.Residual = kktResidual(x, grad, p.Prox, lip, scale)
+	sol.Residual = kktResidual(x, grad, prox, lip, scale)
 	sol.Converged = sol.Residual <= o.Tol
 	return sol, nil
 }
