@@ -322,3 +322,33 @@ func (pf PlanFigure) Line() (Line, bool) {
 	}
 	return l, true
 }
+
+// ValueLabel names the curve of a curves-per-value sweep at value v of field: "bits = 2",
+// "m/n = 0.5", with the field's unit after the value when it has one.
+func ValueLabel(s scenario.Scenario, field string, v float64) string {
+	n, unit := field, ""
+	for _, p := range s.Paths() {
+		if p.Name == field || p.Path == field {
+			n, unit = p.Name, p.Unit
+			break
+		}
+	}
+	if n == "alpha" {
+		n = "m/n"
+	}
+	t := n + " = " + strconv.FormatFloat(v, 'g', 4, 64)
+	if unit != "" {
+		t += " " + unit
+	}
+	return t
+}
+
+// ValueCurves turns the curves of a curves-per-value sweep into the Curves of one figure,
+// each named by its value (ValueLabel), in order, so that the figure has a legend.
+func ValueCurves(s scenario.Scenario, cs study.Curves) []Curve {
+	out := make([]Curve, 0, len(cs.Curves))
+	for _, c := range cs.Curves {
+		out = append(out, Curve{Label: ValueLabel(s, cs.Field, c.Value), Points: c.Points})
+	}
+	return out
+}
