@@ -324,7 +324,7 @@ func (pf PlanFigure) Line() (Line, bool) {
 }
 
 // ValueLabel names the curve of a curves-per-value sweep at value v of field: "bits = 2",
-// "m/n = 0.5", with the field's unit after the value when it has one.
+// "m/n = 0.5", with the field's unit after the value when it has one other than its name.
 func ValueLabel(s scenario.Scenario, field string, v float64) string {
 	n, unit := field, ""
 	for _, p := range s.Paths() {
@@ -337,7 +337,7 @@ func ValueLabel(s scenario.Scenario, field string, v float64) string {
 		n = "m/n"
 	}
 	t := n + " = " + strconv.FormatFloat(v, 'g', 4, 64)
-	if unit != "" {
+	if unit != "" && unit != n {
 		t += " " + unit
 	}
 	return t
