@@ -113,6 +113,8 @@ type GLMTrial struct {
 	MSE, Cosine, NormRatio float64
 	TestError              float64
 	Converged              bool
+	Iterations             int
+	Residual               float64 // the primal-dual stopping criterion at the solution
 }
 
 // TrialGLM draws one instance with n unknowns and solves it with PrimalDual.
@@ -137,7 +139,7 @@ func TrialGLM(ctx context.Context, rng *rand.Rand, d DesignDraw, sig signal.Law,
 		x0x0 += inst.X0[i] * inst.X0[i]
 		xx0 += xh * inst.X0[i]
 	}
-	t := GLMTrial{MSE: e / float64(n), Converged: sol.Converged, TestError: math.NaN()}
+	t := GLMTrial{MSE: e / float64(n), Converged: sol.Converged, TestError: math.NaN(), Iterations: sol.Iterations, Residual: sol.Residual}
 	if xx > 0 && x0x0 > 0 {
 		t.Cosine = xx0 / math.Sqrt(xx*x0x0)
 		t.NormRatio = math.Sqrt(xx / x0x0)
