@@ -17,7 +17,9 @@ import (
 	"hdrisk/engine/fixedpoint"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
+	"hdrisk/protocol"
 	"hdrisk/ui"
+	"hdrisk/wasm/job"
 )
 
 // TestOneBitInPage builds a 1-bit scenario in the editor (a quantizer of one bit), checks its
@@ -181,6 +183,40 @@ func TestOneBitInPage(t *testing.T) {
 			}
 		}
 	}
+
+	// The finite-size check of the 1-bit scenario, its trials shared between the workers: the
+	// cosine and the test error beside their predictions, the same numbers as natively.
+	b.studyClick(t, "#tab-check")
+	b.studyWait(t, "[data-view=check]", "data-run", 5*time.Second, "idle")
+	b.typeInto(t, "#check-n", "200")
+	b.typeInto(t, "#check-trials", "4")
+	b.typeInto(t, "#check-seed", "3")
+	b.studyClick(t, "#check-run")
+	if got := b.studyWait(t, "[data-view=check]", "data-run", 120*time.Second, "done", "error", "cancelled"); got != "done" {
+		t.Fatalf("the check ended in %s: %s", got, b.text(t, "[data-view=check] .problem"))
+	}
+	scen, err := m.JSON()
+	if err != nil {
+		t.Fatal(err)
+	}
+	native, err := job.Check(protocol.CheckArgs{Scenario: scen, N: 200, Trials: 4, Seed: 3}, nil)
+	if err != nil || !native.GLM || native.TestError == nil {
+		t.Fatalf("the native check: %v (glm %v)", err, native.GLM)
+	}
+	cf := b.figures(t)
+	for name, w := range map[string]protocol.Num{"check_mean_mse": native.MeanMSE, "check_cosine": native.Cosine.Mean,
+		"check_predicted_cosine": native.Cosine.Predicted, "check_test_error": native.TestError.Mean,
+		"check_predicted_test_error": native.TestError.Predicted, "check_stderr": native.StdErr} {
+		got, err := strconv.ParseFloat(cf[name], 64)
+		if err != nil || math.Abs(got-float64(w)) > 1e-12*math.Abs(float64(w)) {
+			t.Errorf("%s = %q in the page, %v natively", name, cf[name], w)
+		}
+	}
+	if v := float64(native.TestError.Predicted); v != want.TestError {
+		t.Errorf("the check's predicted test error %v, the fixed point's %v", v, want.TestError)
+	}
+	t.Logf("1-bit check n = 200, 4 trials: MSE %s (predicted %s), cosine %s (predicted %s), test error %s (predicted %s)",
+		cf["check_mean_mse"], cf["check_predicted_mse"], cf["check_cosine"], cf["check_predicted_cosine"], cf["check_test_error"], cf["check_predicted_test_error"])
 
 	// The link, opened again in a fresh browser.
 	b.studyClick(t, "#tab-share")
