@@ -77,7 +77,18 @@ func (c *CurveView) Axis() axisText {
 func (c *CurveView) Paths() []scenario.PathInfo { return modelPaths(c.Model) }
 
 // Quantities are the numbers a curve can show on its y axis.
-func (c *CurveView) Quantities() []study.Observable { return study.Observables() }
+// Those of a generalized linear model (cosine, test error, ...) are offered for such a
+// scenario only.
+func (c *CurveView) Quantities() []study.Observable {
+	if c.Model != nil {
+		if ch := c.Model.Check(); ch.Err == nil {
+			if _, glm := ch.Engine.GLM(); glm {
+				return plot.Quantities()
+			}
+		}
+	}
+	return study.Observables()
+}
 
 // Set stores one setting: "over", "from", "to", "points", "log", "curves" (the number
 // that sets each curve, "" for one curve), "curves_at" (its values), "ylog", "quantity" or
@@ -721,13 +732,14 @@ func (c *CurveView) settle() {
 }
 
 // quantity returns the observable shown on the y axis.
+// A quantity of a generalized model chosen for an earlier scenario falls back to NMSE in dB.
 func (c *CurveView) quantity() study.Observable {
-	for _, o := range study.Observables() {
+	for _, o := range c.Quantities() {
 		if o.Name == c.Quantity {
 			return o
 		}
 	}
-	return study.Observables()[2]
+	return plot.Observable("nmse_db")
 }
 
 // figureSpec is the line figure of every finished curve, drawn as the command line draws

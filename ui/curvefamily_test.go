@@ -76,6 +76,18 @@ func TestCurvePerValue(t *testing.T) {
 	if !reflect.DeepEqual(c.Curves(), []string{"bits = 1", "bits = 2", "bits = 3", "bits = 4"}) || !c.ListCurves() || c.CanKeep() {
 		t.Errorf("curves listed %v (list %v), keep offered %v", c.Curves(), c.ListCurves(), c.CanKeep())
 	}
+	// The generalized model's observables can be drawn: the test error of each bit depth.
+	if !slicesContainObs(c.Quantities(), "test_error") || !slicesContainObs(c.Quantities(), "cosine") {
+		t.Errorf("the 1-bit scenario's quantities lack cosine or test_error")
+	}
+	_ = c.Set("quantity", "test_error")
+	if l, ok := c.figureSpec(); !ok || l.YLabel != "test error (fresh labels)" || l.Series[2].Y[4] != want.Curves[2].Points[4].Result.TestError {
+		t.Errorf("test error figure: %q, %v", l.YLabel, l.Series[2].Y[4])
+	}
+	_ = c.Set("quantity", "nmse_db")
+	if lin := (&CurveView{Model: modelOf(t, lassoScenario)}); slicesContainObs(lin.Quantities(), "cosine") {
+		t.Error("a linear scenario offers the cosine")
+	}
 	if c.FigureURL() == "" {
 		t.Fatalf("no figure: %q", c.FigureProblem())
 	}
@@ -134,6 +146,15 @@ func TestCurvePerValue(t *testing.T) {
 func slicesContainName(ps []pathChoice, name string) bool {
 	for _, p := range ps {
 		if p.Name == name {
+			return true
+		}
+	}
+	return false
+}
+
+func slicesContainObs(os []study.Observable, name string) bool {
+	for _, o := range os {
+		if o.Name == name {
 			return true
 		}
 	}

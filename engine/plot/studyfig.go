@@ -38,9 +38,17 @@ type SweepFigure struct {
 	Height   float64
 }
 
-// Observable returns the observable named q ("" and unknown names give NMSE in dB).
+// Quantities are the observables a sweep's figure can show: every fixed point's, then those
+// of a generalized linear model (cosine, test error, ...; NaN, so not drawn, at a point
+// without them).
+func Quantities() []study.Observable {
+	return append(study.Observables(), study.GLMObservables()...)
+}
+
+// Observable returns the observable named q among Quantities ("" and unknown names give
+// NMSE in dB).
 func Observable(q string) study.Observable {
-	for _, o := range study.Observables() {
+	for _, o := range Quantities() {
 		if o.Name == q {
 			return o
 		}
@@ -57,7 +65,8 @@ func Observable(q string) study.Observable {
 // drawn on a logarithmic axis (a value in dB or a signed statistic cannot).
 func LogAllowed(q string) bool {
 	switch q {
-	case "mse", "nmse", "susceptibility", "nonzero_fraction", "tpp", "fdp", "train_error":
+	case "mse", "nmse", "susceptibility", "nonzero_fraction", "tpp", "fdp", "train_error",
+		"norm_ratio", "test_error", "train_misfit", "train_loss":
 		return true
 	}
 	return false

@@ -65,6 +65,16 @@ func TestSweepCurvesCommand(t *testing.T) {
 		}
 	}
 
+	// The generalized model's observables can be drawn too.
+	cosPath := filepath.Join(filepath.Dir(path), "cos.svg")
+	if _, errs, code := runCmd(t, bitsScenario, "sweep", "-", "--over", "alpha", "--from", "0.5", "--to", "4", "--points", "6",
+		"--curves", "bits=1,2", "--quantity", "cosine", "--figure", cosPath); code != 0 {
+		t.Fatalf("--quantity cosine: exit %d: %s", code, errs)
+	}
+	if svg, err := os.ReadFile(cosPath); err != nil || !bytes.Contains(svg, []byte("cosine of xhat and x0 against m/n")) {
+		t.Errorf("the cosine figure: %v", err)
+	}
+
 	// The same from the scenario's study.
 	withStudy := strings.Replace(bitsScenario, `"penalty":`, `"study": {"view": "curve", "sweep": {"over": "alpha", "from": 0.5, "to": 4, "points": 6, "curves": "bits", "curves_at": [1, 2, 3, 4]}}, "penalty":`, 1)
 	again, errs, code := runCmd(t, withStudy, "sweep", "-")
