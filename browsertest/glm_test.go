@@ -2,23 +2,33 @@ package browsertest
 
 import (
 	"context"
+	"encoding/csv"
 	"math"
+	"os"
 	"reflect"
 	"strconv"
+	"strings"
 	"testing"
 	"time"
+
+	cdpbrowser "github.com/chromedp/cdproto/browser"
+	"github.com/chromedp/chromedp"
 
 	"hdrisk/engine/fixedpoint"
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
+	"hdrisk/protocol"
 	"hdrisk/ui"
+	"hdrisk/wasm/job"
 )
 
 // TestOneBitInPage builds a 1-bit scenario in the editor (a quantizer of one bit), checks its
 // headline figures (cosine and test error among them) against the engine, draws the error
 // over m/n for 1, 2, 3 and 4 bits (one row of the map per bit depth, each a curve over m/n)
-// and compares every cell with the engine's map, then opens the page's link in a fresh
-// browser and finds the same scenario and figures.
+// and compares every cell with the engine's map, draws the same as four curves in the curve
+// view (one per bit depth, compared with the engine's curves through the saved CSV), logs the
+// page's time for a 200-point sweep, then opens the page's link in a fresh browser and finds
+// the same scenario, figures and four curves.
 func TestOneBitInPage(t *testing.T) {
 	b, _ := open(t)
 	if state := b.settle(t); state != "ready" {
@@ -113,6 +123,101 @@ func TestOneBitInPage(t *testing.T) {
 		t.Errorf("map_lowest %q in the page, %v dB natively", b.figures(t)["map_lowest"], lowest)
 	}
 
+	// The curve view: first a 200-point sweep over m/n, timed by the page's own marks
+	// (logged, not asserted), then m/n from 0.5 to 4 (8 points) drawn once per bit depth.
+	downloads, err := os.MkdirTemp("", "hdrisk-downloads-")
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { os.RemoveAll(downloads) })
+	if err := chromedp.Run(b.ctx, cdpbrowser.SetDownloadBehavior(cdpbrowser.SetDownloadBehaviorBehaviorAllowAndName).
+		WithDownloadPath(downloads).WithEventsEnabled(true)); err != nil {
+		t.Fatalf("download folder: %v", err)
+	}
+	b.studyClick(t, "#tab-curve")
+	b.studyWait(t, "[data-view=curve]", "data-run", 5*time.Second, "idle")
+	b.cdChoose(t, "#curve-over", "alpha")
+	b.typeInto(t, "#curve-from", "0.5")
+	b.typeInto(t, "#curve-to", "4")
+	b.typeInto(t, "#curve-points", "200")
+	b.studyClick(t, "#curve-run")
+	if got := b.studyWait(t, "[data-view=curve]", "data-run", 60*time.Second, "done", "error"); got != "done" {
+		t.Fatalf("the 200-point sweep ended in %s: %s", got, b.text(t, "[data-view=curve] .problem"))
+	}
+	b.studyWait(t, "[data-view=curve]", "data-figure-seconds", 10*time.Second)
+	t.Logf("budget: 200-point sweep of the 1-bit scenario over m/n in the page: %s s from the click to the numbers, %s s to the figure (goal 0.5 s)",
+		b.studyAttr(t, "[data-view=curve]", "data-seconds"), b.studyAttr(t, "[data-view=curve]", "data-figure-seconds"))
+
+	b.typeInto(t, "#curve-points", "8")
+	b.cdChoose(t, "#curve-curves", "bits")
+	b.typeInto(t, "#curve-curves-at", "1, 2, 3, 4")
+	b.studyClick(t, "#curve-run")
+	if got := b.studyWait(t, "[data-view=curve]", "data-run", 60*time.Second, "done", "error"); got != "done" {
+		t.Fatalf("the curves ended in %s: %s", got, b.text(t, "[data-view=curve] .problem"))
+	}
+	b.studyWait(t, "[data-view=curve]", "data-figure-seconds", 10*time.Second)
+	t.Logf("4 curves of 8 points in the page: %s s from the click to the numbers", b.studyAttr(t, "[data-view=curve]", "data-seconds"))
+	b.imageShown(t, "#curve-figure")
+	bitsCurves := []string{"bits = 1", "bits = 2", "bits = 3", "bits = 4"}
+	b.curvesDrawn(t, bitsCurves)
+	ch, err = c.Scenario.Check()
+	if err != nil {
+		t.Fatal(err)
+	}
+	family, err := study.SweepCurves(context.Background(), ch, study.CurvesSpec{
+		SweepSpec: study.SweepSpec{Axis: study.Axis{Over: "alpha", From: 0.5, To: 4, Points: 8}}, Curves: "bits", At: []float64{1, 2, 3, 4}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, data := b.studyDownload(t, downloads, "#curve-csv")
+	rows, err := csv.NewReader(strings.NewReader(string(data))).ReadAll()
+	if err != nil || len(rows) != 1+32 || rows[0][0] != "curve" || rows[0][1] != "alpha" || rows[0][2] != "mse" {
+		t.Fatalf("downloaded CSV: %v, %d rows", err, len(rows))
+	}
+	for k, cv := range family.Curves {
+		for i, p := range cv.Points {
+			row := rows[1+8*k+i]
+			mse, err := strconv.ParseFloat(row[2], 64)
+			if row[0] != bitsCurves[k] || !p.OK() || err != nil || math.Abs(mse-p.Result.MSE) > 1e-12*math.Abs(p.Result.MSE) {
+				t.Errorf("%s, point %d: page %q mse %q, engine %v (ok %v)", bitsCurves[k], i, row[0], row[2], p.Result.MSE, p.OK())
+			}
+		}
+	}
+
+	// The finite-size check of the 1-bit scenario, its trials shared between the workers: the
+	// cosine and the test error beside their predictions, the same numbers as natively.
+	b.studyClick(t, "#tab-check")
+	b.studyWait(t, "[data-view=check]", "data-run", 5*time.Second, "idle")
+	b.typeInto(t, "#check-n", "200")
+	b.typeInto(t, "#check-trials", "4")
+	b.typeInto(t, "#check-seed", "3")
+	b.studyClick(t, "#check-run")
+	if got := b.studyWait(t, "[data-view=check]", "data-run", 120*time.Second, "done", "error", "cancelled"); got != "done" {
+		t.Fatalf("the check ended in %s: %s", got, b.text(t, "[data-view=check] .problem"))
+	}
+	scen, err := m.JSON()
+	if err != nil {
+		t.Fatal(err)
+	}
+	native, err := job.Check(protocol.CheckArgs{Scenario: scen, N: 200, Trials: 4, Seed: 3}, nil)
+	if err != nil || !native.GLM || native.TestError == nil {
+		t.Fatalf("the native check: %v (glm %v)", err, native.GLM)
+	}
+	cf := b.figures(t)
+	for name, w := range map[string]protocol.Num{"check_mean_mse": native.MeanMSE, "check_cosine": native.Cosine.Mean,
+		"check_predicted_cosine": native.Cosine.Predicted, "check_test_error": native.TestError.Mean,
+		"check_predicted_test_error": native.TestError.Predicted, "check_stderr": native.StdErr} {
+		got, err := strconv.ParseFloat(cf[name], 64)
+		if err != nil || math.Abs(got-float64(w)) > 1e-12*math.Abs(float64(w)) {
+			t.Errorf("%s = %q in the page, %v natively", name, cf[name], w)
+		}
+	}
+	if v := float64(native.TestError.Predicted); v != want.TestError {
+		t.Errorf("the check's predicted test error %v, the fixed point's %v", v, want.TestError)
+	}
+	t.Logf("1-bit check n = 200, 4 trials: MSE %s (predicted %s), cosine %s (predicted %s), test error %s (predicted %s)",
+		cf["check_mean_mse"], cf["check_predicted_mse"], cf["check_cosine"], cf["check_predicted_cosine"], cf["check_test_error"], cf["check_predicted_test_error"])
+
 	// The link, opened again in a fresh browser.
 	b.studyClick(t, "#tab-share")
 	b.shareWait(t, "the share tab", `!document.getElementById("panel-share").hidden`)
@@ -134,5 +239,40 @@ func TestOneBitInPage(t *testing.T) {
 	}
 	if !reflect.DeepEqual(fresh.studyValue(t, "#pick-readout"), "quantize") {
 		t.Errorf("the reopened page's readout menu shows %q", fresh.studyValue(t, "#pick-readout"))
+	}
+	if sw := s.Study.Sweep; sw == nil || sw.Curves != "bits" || !reflect.DeepEqual(sw.CurvesAt, []float64{1, 2, 3, 4}) || sw.Points != 8 {
+		t.Fatalf("the link does not hold the curves per bit depth: %+v", sw)
+	}
+	// The reopened curve view holds the same settings and draws the same four curves.
+	fresh.cdWorkers(t)
+	fresh.psTab(t, "curve")
+	for sel, want := range map[string]string{"#curve-over": "alpha", "#curve-from": "0.5", "#curve-to": "4", "#curve-points": "8",
+		"#curve-curves": "bits", "#curve-curves-at": "1, 2, 3, 4"} {
+		if got := fresh.studyValue(t, sel); got != want {
+			t.Errorf("reopened curve view: %s = %q, the link says %q", sel, got, want)
+		}
+	}
+	fresh.studyClick(t, "#curve-run")
+	if got := fresh.studyWait(t, "[data-view=curve]", "data-run", 60*time.Second, "done", "error"); got != "done" {
+		t.Fatalf("the reopened curves ended in %s: %s", got, fresh.text(t, "[data-view=curve] .problem"))
+	}
+	fresh.studyWait(t, "[data-view=curve]", "data-figure-seconds", 10*time.Second)
+	fresh.imageShown(t, "#curve-figure")
+	fresh.curvesDrawn(t, bitsCurves)
+}
+
+// curvesDrawn checks that the curve view's figure holds the named curves, in order: its
+// data-curves hook counts them and its list of curves names them.
+func (b *browser) curvesDrawn(t *testing.T, want []string) {
+	t.Helper()
+	if n := b.studyAttr(t, "[data-view=curve]", "data-curves"); n != strconv.Itoa(len(want)) {
+		t.Errorf("the figure holds %s curves, want %d", n, len(want))
+	}
+	var names []string
+	if err := chromedp.Run(b.ctx, chromedp.Evaluate(`Array.from(document.querySelectorAll("#curve-series li")).map(e=>e.textContent)`, &names)); err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(names, want) {
+		t.Errorf("the curves listed are %q, want %q", names, want)
 	}
 }

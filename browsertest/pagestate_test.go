@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"reflect"
 	"strconv"
 	"strings"
 	"testing"
@@ -119,7 +120,7 @@ func TestLinkWithStudyOpensEveryView(t *testing.T) {
 	b.psTab(t, "plan") // the view the link names, so that study.view is the same too
 	b.shareShow(t)
 	back, _ := b.psLink(t, "the plan view", func(s scenario.Scenario) bool { return s.Study != nil && s.Study.View == "plan" })
-	if back.Study == nil || back.Study.Sweep == nil || *back.Study.Sweep != *s.Study.Sweep || back.Study.Map == nil ||
+	if back.Study == nil || back.Study.Sweep == nil || !reflect.DeepEqual(*back.Study.Sweep, *s.Study.Sweep) || back.Study.Map == nil ||
 		*back.Study.Map != *s.Study.Map || back.Study.Plan == nil || *back.Study.Plan != *s.Study.Plan || back.Study.View != "plan" {
 		t.Errorf("the republished study differs from the link's:\n got %+v\nwant %+v", back.Study, s.Study)
 	}
@@ -177,7 +178,7 @@ func (b *browser) psKeptTravel(t *testing.T) {
 	}
 	fresh.shareShow(t)
 	back, _ := fresh.psLink(t, "the kept curve republished", func(s scenario.Scenario) bool { return s.Study != nil && len(s.Study.Kept) == 1 })
-	if got := back.Study.Kept[0]; got.Sweep != k.Sweep || got.Label != k.Label {
+	if got := back.Study.Kept[0]; !reflect.DeepEqual(got.Sweep, k.Sweep) || got.Label != k.Label {
 		t.Errorf("the fresh browser republishes the kept curve as %+v, the link had %+v", got, k)
 	}
 }

@@ -63,12 +63,17 @@ type CheckStat struct {
 	Predicted Num `json:"predicted"`
 }
 
-// CheckTrial is one instance drawn and solved.
+// CheckTrial is one instance drawn and solved. Cosine, NormRatio and TestError are those
+// of a generalized linear model's trial (TestError for a readout with labels); null (NaN)
+// where they do not apply, as Nonzero, TPP and FDP are for a generalized model.
 type CheckTrial struct {
 	MSE        Num  `json:"mse"`
 	Nonzero    Num  `json:"nonzero_fraction"`
 	TPP        Num  `json:"tpp"`
 	FDP        Num  `json:"fdp"`
+	Cosine     Num  `json:"cosine"`
+	NormRatio  Num  `json:"norm_ratio"`
+	TestError  Num  `json:"test_error"`
 	Iterations int  `json:"iterations"`
 	Converged  bool `json:"converged"`
 	Residual   Num  `json:"residual"`
@@ -113,6 +118,14 @@ type CheckResult struct {
 	Curve               []CurvePoint     `json:"curve,omitempty"`
 	First               int              `json:"first,omitempty"`
 	Comparison          *CheckComparison `json:"comparison,omitempty"`
+	// GLM is set for a generalized linear model (a readout or loss group, docs/method.md
+	// section 10): its trials are solved by the primal-dual method with the loss's prox, and
+	// Cosine and NormRatio (and TestError for a readout with labels) stand beside their
+	// predictions; Nonzero, TPP and FDP are then NaN.
+	GLM       bool       `json:"glm,omitempty"`
+	Cosine    *CheckStat `json:"cosine,omitempty"`
+	NormRatio *CheckStat `json:"norm_ratio,omitempty"`
+	TestError *CheckStat `json:"test_error,omitempty"`
 }
 
 // Check runs finite-size trials of a scenario.

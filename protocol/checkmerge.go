@@ -23,6 +23,12 @@ func MergeChecks(parts []CheckResult) (CheckResult, error) {
 	slices.SortFunc(ps, func(a, b CheckResult) int { return a.First - b.First })
 	out := ps[0]
 	out.PerTrial, out.Warnings, out.NotConverged, out.Seconds = nil, []string{}, 0, 0
+	for _, st := range []**CheckStat{&out.Cosine, &out.NormRatio, &out.TestError} {
+		if *st != nil {
+			c := **st
+			*st = &c
+		}
+	}
 	var cmp *CheckComparison
 	if ps[0].Comparison != nil {
 		c := *ps[0].Comparison
@@ -31,7 +37,8 @@ func MergeChecks(parts []CheckResult) (CheckResult, error) {
 	}
 	next := ps[0].First
 	for _, p := range ps {
-		if p.First != next || p.N != out.N || p.M != out.M || p.Seed != out.Seed || p.Solver != out.Solver || (p.Comparison != nil) != (cmp != nil) {
+		if p.First != next || p.N != out.N || p.M != out.M || p.Seed != out.Seed || p.Solver != out.Solver || (p.Comparison != nil) != (cmp != nil) ||
+			p.GLM != out.GLM || (p.TestError != nil) != (out.TestError != nil) {
 			return CheckResult{}, fmt.Errorf("check: the parts are not one check split by trials (trials from %d, expected %d)", p.First, next)
 		}
 		next += p.Trials
@@ -61,7 +68,12 @@ func MergeChecks(parts []CheckResult) (CheckResult, error) {
 	for _, s := range []struct {
 		st *CheckStat
 		f  func(CheckTrial) Num
-	}{{&out.Nonzero, func(t CheckTrial) Num { return t.Nonzero }}, {&out.TPP, func(t CheckTrial) Num { return t.TPP }}, {&out.FDP, func(t CheckTrial) Num { return t.FDP }}} {
+	}{{&out.Nonzero, func(t CheckTrial) Num { return t.Nonzero }}, {&out.TPP, func(t CheckTrial) Num { return t.TPP }}, {&out.FDP, func(t CheckTrial) Num { return t.FDP }},
+		{out.Cosine, func(t CheckTrial) Num { return t.Cosine }}, {out.NormRatio, func(t CheckTrial) Num { return t.NormRatio }},
+		{out.TestError, func(t CheckTrial) Num { return t.TestError }}} {
+		if s.st == nil {
+			continue
+		}
 		v := col(out.PerTrial, s.f)
 		s.st.Mean, s.st.StdErr = Num(v.Mean), Num(v.StdErr)
 	}

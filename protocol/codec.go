@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"hdrisk/engine/scenario"
+	"hdrisk/engine/study"
 )
 
 // Marshal encodes v as JSON the way encoding/json does (field names from json tags or the
@@ -37,6 +38,7 @@ func Unmarshal(data []byte, v any) error {
 
 var (
 	scenarioType    = reflect.TypeFor[scenario.Scenario]()
+	pointsType      = reflect.TypeFor[[]study.Point]()
 	marshalerType   = reflect.TypeFor[json.Marshaler]()
 	unmarshalerType = reflect.TypeFor[json.Unmarshaler]()
 )
@@ -80,6 +82,13 @@ func encode(b *bytes.Buffer, v reflect.Value) error {
 	if !v.IsValid() {
 		b.WriteString("null")
 		return nil
+	}
+	if v.Type() == pointsType {
+		// The points of a sweep travel packed wherever an engine result holds them (the
+		// curves of study.Curves), as Points carries them.
+		out, err := Points(v.Interface().([]study.Point)).MarshalJSON()
+		b.Write(out)
+		return err
 	}
 	if v.Type().Implements(marshalerType) && (v.Kind() != reflect.Pointer || !v.IsNil()) {
 		out, err := v.Interface().(json.Marshaler).MarshalJSON()
@@ -149,6 +158,14 @@ func plain(b *bytes.Buffer, v reflect.Value) error {
 
 func decode(data []byte, v reflect.Value) error {
 	if v.Type() == scenarioType {
+		return nil
+	}
+	if v.Type() == pointsType {
+		var p Points
+		if err := p.UnmarshalJSON(data); err != nil {
+			return err
+		}
+		v.Set(reflect.ValueOf([]study.Point(p)))
 		return nil
 	}
 	if reflect.PointerTo(v.Type()).Implements(unmarshalerType) {

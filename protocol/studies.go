@@ -33,6 +33,21 @@ type SweepResult struct {
 // Sweep runs a sweep (or a block of one).
 var Sweep = Kind[SweepArgs, SweepResult]{Name: "sweep"}
 
+// CurvesArgs are the arguments of Curves: a sweep drawn once per value in At of the field
+// Curves (study.CurvesSpec). The page shares one such study between workers by giving each
+// job some of the values: every curve is the whole sweep at its value, so the numbers do not
+// depend on how the values were shared.
+type CurvesArgs struct {
+	Scenario json.RawMessage `json:"scenario"`
+	Axis     study.Axis      `json:"axis"`
+	Curves   string          `json:"curves"`
+	At       []float64       `json:"curves_at"`
+}
+
+// Curves runs study.SweepCurves; its result is the engine's, each curve's points packed as
+// Points packs them.
+var Curves = Kind[CurvesArgs, study.Curves]{Name: "curves"}
+
 // MapArgs are the arguments of MapRows: a scenario file, the two axes of the map (X along a
 // row, Y from row to row) and the block of rows to compute, RowFrom <= j < RowTo.
 type MapArgs struct {

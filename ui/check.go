@@ -451,10 +451,26 @@ func (c *CheckView) Rows() []checkRow {
 			Shown:    fmtNum(float64(s.Mean)) + " ± " + fmtNum(float64(s.StdErr)),
 			PredName: "check_predicted_" + name, PredValue: fullNum(float64(s.Predicted)), PredShown: fmtNum(float64(s.Predicted))}
 	}
+	mse := checkRow{Label: "Mean squared error", Name: "check_mean_mse", Value: fullNum(float64(r.MeanMSE)),
+		Shown:    fmtNum(float64(r.MeanMSE)) + " ± " + fmtNum(float64(r.StdErr)),
+		PredName: "check_predicted_mse", PredValue: fullNum(float64(r.PredictedMSE)), PredShown: fmtNum(float64(r.PredictedMSE))}
+	if r.GLM {
+		// A generalized model: the observables that apply to its readout (docs/method.md
+		// section 10.4); the support statistics of the LASSO do not.
+		rows := []checkRow{mse}
+		for _, g := range []struct {
+			label, name string
+			st          *protocol.CheckStat
+		}{{"Cosine of the estimate and the signal", "cosine", r.Cosine}, {"Norm ratio |xhat| / |x0|", "norm_ratio", r.NormRatio},
+			{"Test error (fresh rows and labels)", "test_error", r.TestError}} {
+			if g.st != nil {
+				rows = append(rows, stat(g.label, g.name, *g.st))
+			}
+		}
+		return rows
+	}
 	return []checkRow{
-		{Label: "Mean squared error", Name: "check_mean_mse", Value: fullNum(float64(r.MeanMSE)),
-			Shown:    fmtNum(float64(r.MeanMSE)) + " ± " + fmtNum(float64(r.StdErr)),
-			PredName: "check_predicted_mse", PredValue: fullNum(float64(r.PredictedMSE)), PredShown: fmtNum(float64(r.PredictedMSE))},
+		mse,
 		stat("Fraction nonzero", "nonzero_fraction", r.Nonzero),
 		stat("True positive proportion", "tpp", r.TPP),
 		stat("False discovery proportion", "fdp", r.FDP),
@@ -522,6 +538,13 @@ func (c *CheckView) PerTrial() []string {
 	for i, t := range r.PerTrial {
 		s := fmt.Sprintf("Trial %d: MSE %s, nonzero %s, TPP %s, FDP %s, %d iterations", i+1,
 			fmtNum(float64(t.MSE)), fmtNum(float64(t.Nonzero)), fmtNum(float64(t.TPP)), fmtNum(float64(t.FDP)), t.Iterations)
+		if r.GLM {
+			s = fmt.Sprintf("Trial %d: MSE %s, cosine %s", i+1, fmtNum(float64(t.MSE)), fmtNum(float64(t.Cosine)))
+			if r.TestError != nil {
+				s += ", test error " + fmtNum(float64(t.TestError))
+			}
+			s += fmt.Sprintf(", %d iterations", t.Iterations)
+		}
 		if !t.Converged {
 			s += " — stopped at the iteration limit, not converged"
 		}
@@ -629,9 +652,18 @@ func (c *CheckView) FigureProblem() string { return c.figErr }
 func (c *CheckView) CSV() []byte {
 	var b bytes.Buffer
 	w := csv.NewWriter(&b)
-	_ = w.Write([]string{"over", "at", "trial", "mse", "nonzero_fraction", "tpp", "fdp", "iterations", "converged", "residual", "seconds",
+	head := []string{"over", "at", "trial", "mse", "nonzero_fraction", "tpp", "fdp", "iterations", "converged", "residual", "seconds",
 		"mean_mse", "stderr", "predicted_mse", "n", "m", "seed", "solver", "factors", "stop_criterion", "tol",
-		"rotated_mse", "rotated_mean_mse", "rotated_stderr", "z", "agrees"})
+		"rotated_mse", "rotated_mean_mse", "rotated_stderr", "z", "agrees"}
+	glm := slices.ContainsFunc(c.points, func(p checkPoint) bool { return p.Result.GLM })
+	if glm {
+		// A generalized model's check adds its own observables, each trial's beside the
+		// mean, its standard error and the prediction (empty where they do not apply).
+		for _, n := range glmCheckColumns {
+			head = append(head, n, "mean_"+n, n+"_stderr", "predicted_"+n)
+		}
+	}
+	_ = w.Write(head)
 	for _, p := range c.points {
 		r := p.Result
 		at := ""
@@ -650,7 +682,7 @@ func (c *CheckView) CSV() []byte {
 				fullNum(float64(t.TPP)), fullNum(float64(t.FDP)), strconv.Itoa(t.Iterations), strconv.FormatBool(t.Converged),
 				fullNum(float64(t.Residual)), fullNum(float64(t.Seconds)), fullNum(float64(r.MeanMSE)), fullNum(float64(r.StdErr)),
 				fullNum(float64(r.PredictedMSE)), strconv.Itoa(r.N), strconv.Itoa(r.M), strconv.FormatUint(r.Seed, 10),
-				r.Solver, r.Factors, r.Criterion, fullNum(float64(r.Tol))}, rot...))
+				r.Solver, r.Factors, r.Criterion, fullNum(float64(r.Tol))}, append(rot, glmCheckCells(glm, r, t)...)...))
 		}
 	}
 	w.Flush()
@@ -712,4 +744,27 @@ func (c *CheckView) toggleMatrix(e vugu.DOMEvent) {
 		on = "on"
 	}
 	_ = c.SetSetting("matrix", on)
+}
+
+// glmCheckColumns are the observables of a generalized model's check in its CSV.
+var glmCheckColumns = []string{"cosine", "norm_ratio", "test_error"}
+
+// glmCheckCells are the CSV cells of glmCheckColumns for trial t of check r ("" where one
+// does not apply); none when the CSV has no such columns.
+func glmCheckCells(glm bool, r protocol.CheckResult, t protocol.CheckTrial) []string {
+	if !glm {
+		return nil
+	}
+	var out []string
+	for _, c := range []struct {
+		st *protocol.CheckStat
+		v  protocol.Num
+	}{{r.Cosine, t.Cosine}, {r.NormRatio, t.NormRatio}, {r.TestError, t.TestError}} {
+		if c.st == nil {
+			out = append(out, "", "", "", "")
+			continue
+		}
+		out = append(out, fullNum(float64(c.v)), fullNum(float64(c.st.Mean)), fullNum(float64(c.st.StdErr)), fullNum(float64(c.st.Predicted)))
+	}
+	return out
 }

@@ -34,6 +34,12 @@ type curveSeries struct {
 	cancel func()
 	err    string
 	done   bool
+
+	// A curve per value: the number that sets each (family), its values and the curves
+	// computed at them (one protocol.Curves job each); Points then holds all their points.
+	family string
+	at     []float64
+	curves []study.Curve
 }
 
 // curveInit sets the view's own display settings the first time it is used.
@@ -71,16 +77,28 @@ func (c *CurveView) Axis() axisText {
 func (c *CurveView) Paths() []scenario.PathInfo { return modelPaths(c.Model) }
 
 // Quantities are the numbers a curve can show on its y axis.
-func (c *CurveView) Quantities() []study.Observable { return study.Observables() }
+// Those of a generalized linear model (cosine, test error, ...) are offered for such a
+// scenario only.
+func (c *CurveView) Quantities() []study.Observable {
+	if c.Model != nil {
+		if ch := c.Model.Check(); ch.Err == nil {
+			if _, glm := ch.Engine.GLM(); glm {
+				return plot.Quantities()
+			}
+		}
+	}
+	return study.Observables()
+}
 
-// Set stores one setting: "over", "from", "to", "points", "log", "ylog", "quantity" or
+// Set stores one setting: "over", "from", "to", "points", "log", "curves" (the number
+// that sets each curve, "" for one curve), "curves_at" (its values), "ylog", "quantity" or
 // "tuned" (the weight of the best-tuned curve: "l1", "l2", "l1+l2", or "" for none).
 // Choosing "over" proposes a range for it; a logarithmic vertical axis is kept only for a
 // quantity that is never negative. Special cases are: an unknown name is an error.
 func (c *CurveView) Set(name, text string) error {
 	c.curveInit()
 	switch name {
-	case "over", "from", "to", "points", "log":
+	case "over", "from", "to", "points", "log", "curves", "curves_at":
 		if c.Model == nil {
 			return fmt.Errorf("no scenario")
 		}
@@ -132,6 +150,52 @@ func (c *CurveView) spec() (scenario.Scenario, study.Axis, error) {
 	return ch.Scenario, study.Axis{Over: over, From: from, To: to, Points: n, Log: ax.Log}, nil
 }
 
+// CurvesOver is the number that sets each curve ("" for one curve), from the page state.
+func (c *CurveView) CurvesOver() string {
+	if c.Model == nil {
+		return ""
+	}
+	c.Model.Check()
+	return c.Model.Views().Curves
+}
+
+// CurvesAt is the text of the curves' values, from the page state.
+func (c *CurveView) CurvesAt() string {
+	if c.Model == nil {
+		return ""
+	}
+	return c.Model.Views().CurvesAt
+}
+
+// curvesChoices is the "One curve per" menu: none, then every number but the varied one.
+func (c *CurveView) curvesChoices() []pathChoice {
+	out := []pathChoice{{Name: "", Text: "none (one curve)", Title: "Draw one curve"}}
+	over := c.Axis().Over
+	for _, p := range c.varyChoices() {
+		if p.Name != over {
+			out = append(out, p)
+		}
+	}
+	return out
+}
+
+// curvesSpec reads the curves' settings: the number and its values ("" and nil for one
+// curve). The engine checks the values against the number's range.
+func (c *CurveView) curvesSpec() (string, []float64, error) {
+	field := c.CurvesOver()
+	if field == "" {
+		return "", nil, nil
+	}
+	at, err := parseValues(c.CurvesAt())
+	if err != nil {
+		return "", nil, err
+	}
+	if len(at) == 0 {
+		return "", nil, fmt.Errorf("one curve per %s: give its values, separated by commas", field)
+	}
+	return field, at, nil
+}
+
 // Start sweeps the scenario in the editor (replacing the curve of the current scenario and
 // keeping the kept ones), with the best regularization when the sweep is over l1 or l2 and
 // the Bayes-optimal error when the signal law has one and the sweep leaves it unchanged.
@@ -144,13 +208,26 @@ func (c *CurveView) Start() {
 		c.problem = err.Error()
 		return
 	}
+	field, at, err := c.curvesSpec()
+	if err != nil {
+		c.problem = err.Error()
+		return
+	}
 	if c.Jobs == nil {
 		c.problem = "the compute workers are still starting; try again in a moment"
+		return
+	}
+	if field != "" && len(at)+len(c.Model.Views().Kept) > maxCurveSeries {
+		c.problem = fmt.Sprintf("at most %d curves at once: give fewer values or clear the kept curves", maxCurveSeries)
 		return
 	}
 	if k := c.Model.Views().Kept; len(k) > 0 && k[0].Axis.Over != ax.Over {
 		c.problem = fmt.Sprintf("the kept curves vary %s, not %s: clear them first, so that no curve is drawn on another's axis",
 			pathLabel(s, k[0].Axis.Over), pathLabel(s, ax.Over))
+		return
+	}
+	if field != "" {
+		c.startFamily(s, ax, field, at)
 		return
 	}
 	isWeight := plot.WantsBest(s, ax.Over)
@@ -178,6 +255,69 @@ func (c *CurveView) Start() {
 	if c.Tuned != "" {
 		c.tuned, c.tunedOver = &curveSeries{Label: plot.TunedCurve(c.Tuned, nil).Label, Scen: s}, c.Tuned
 		c.startTuned(c.tuned, c.Tuned)
+	}
+	c.run = RunRunning
+	c.redraw()
+}
+
+// startFamily draws one curve per value of field: one protocol.Curves job per value, so
+// that the curves are shared between the workers, each the whole sweep at its value. The
+// references of one curve (best weight, Bayes-optimal error, best-tuned curve) belong to
+// one scenario and are not drawn.
+func (c *CurveView) startFamily(s scenario.Scenario, ax study.Axis, field string, at []float64) {
+	c.Model.ranStudy("curve", partSweep)
+	c.stopAll()
+	c.axis = ax
+	c.best, c.bestErr, c.bayes, c.bayesNote = nil, "", nil, ""
+	c.tuned, c.tunedOver = nil, ""
+	c.note = "One curve per value of " + pathLabel(s, field) + ": the best weight, the Bayes-optimal error and the best-tuned curve are drawn for one curve only."
+	cs := &curveSeries{Label: c.label(s, "this scenario"), Scen: s, Axis: ax, key: c.Model.problemKey(),
+		family: field, at: at, curves: make([]study.Curve, len(at))}
+	c.current = cs
+	c.seconds, c.figSeconds, c.started = 0, 0, c.now()
+	t0 := c.started
+	data, err := bareJSON(s)
+	if err != nil {
+		cs.err, cs.done = err.Error(), true
+		c.settle()
+		return
+	}
+	cancels := make([]func(), len(at))
+	pending := len(at)
+	cs.cancel = func() {
+		for i, f := range cancels {
+			if f != nil {
+				f()
+				cancels[i] = nil
+			}
+		}
+	}
+	for i, v := range at {
+		args := protocol.CurvesArgs{Scenario: data, Axis: ax, Curves: field, At: []float64{v}}
+		cancels[i] = start(c.Jobs, protocol.Curves, args, nil, func(r study.Curves, err error) {
+			cancels[i] = nil
+			pending--
+			if err == nil && (len(r.Curves) != 1 || len(r.Curves[0].Points) != ax.Points) {
+				err = fmt.Errorf("the curve at %s = %s came back incomplete", field, full(v))
+			}
+			if err != nil {
+				cs.cancel()
+				cs.cancel, cs.done, cs.err = nil, true, err.Error()
+				c.settle()
+				return
+			}
+			cs.curves[i] = r.Curves[0]
+			if pending > 0 {
+				return
+			}
+			var all []study.Point
+			for _, cv := range cs.curves {
+				all = append(all, cv.Points...)
+			}
+			cs.cancel, cs.done, cs.Points = nil, true, all
+			c.seconds = c.now().Sub(t0).Seconds()
+			c.settle()
+		})
 	}
 	c.run = RunRunning
 	c.redraw()
@@ -464,7 +604,9 @@ func (c *CurveView) Stale() bool {
 		return false
 	}
 	_, ax, err := c.spec()
-	return err != nil || ax != c.current.Axis || c.current.key != c.Model.problemKey()
+	field, at, ferr := c.curvesSpec()
+	return err != nil || ferr != nil || ax != c.current.Axis || c.current.key != c.Model.problemKey() ||
+		field != c.current.family || !slices.Equal(at, c.current.at)
 }
 
 // Compute implements vugu's computer: the kept curves follow the page state.
@@ -484,7 +626,11 @@ func (c *CurveView) Compare() {
 		c.problem = "the compute workers are still starting; try again in a moment"
 		return
 	}
-	if c.current == nil || c.axis != ax {
+	if field, _, _ := c.curvesSpec(); field != "" {
+		c.problem = "Comparing design shapes draws one curve per shape: set \"One curve per\" to none first."
+		return
+	}
+	if c.current == nil || c.axis != ax || c.current.family != "" {
 		c.Start()
 		if c.problem != "" {
 			return
@@ -586,13 +732,14 @@ func (c *CurveView) settle() {
 }
 
 // quantity returns the observable shown on the y axis.
+// A quantity of a generalized model chosen for an earlier scenario falls back to NMSE in dB.
 func (c *CurveView) quantity() study.Observable {
-	for _, o := range study.Observables() {
+	for _, o := range c.Quantities() {
 		if o.Name == c.Quantity {
 			return o
 		}
 	}
-	return study.Observables()[2]
+	return plot.Observable("nmse_db")
 }
 
 // figureSpec is the line figure of every finished curve, drawn as the command line draws
@@ -602,6 +749,12 @@ func (c *CurveView) figureSpec() (plot.Line, bool) {
 	sf := plot.SweepFigure{Scenario: c.current0(), Quantity: c.quantity().Name, YLog: c.YLog, Axis: c.axis}
 	tuned := c.tuned != nil && len(c.tuned.Points) > 0
 	for _, cs := range c.all() {
+		if cs.family != "" {
+			if cs.done && cs.err == "" {
+				sf.Curves = append(sf.Curves, plot.ValueCurves(cs.Scen, study.Curves{Over: cs.Axis.Over, Field: cs.family, Curves: cs.curves})...)
+			}
+			continue
+		}
 		label := cs.Label
 		if len(c.kept) == 0 {
 			label = ""
@@ -745,6 +898,9 @@ func (c *CurveView) Problem() string { return c.problem }
 // Notes are remarks about the references drawn (or not drawn).
 func (c *CurveView) Notes() []string {
 	var out []string
+	if c.note != "" {
+		out = append(out, c.note)
+	}
 	if c.bestErr != "" {
 		out = append(out, c.bestErr)
 	}
@@ -795,33 +951,67 @@ func (c *CurveView) Answers() [][3]string {
 	return out
 }
 
-// Curves lists the drawn curves by label.
+// Curves lists the drawn curves by label (a curve per value by its value).
 func (c *CurveView) Curves() []string {
 	var out []string
 	for _, cs := range c.all() {
+		if cs.family != "" {
+			for _, v := range cs.at {
+				out = append(out, plot.ValueLabel(cs.Scen, cs.family, v))
+			}
+			continue
+		}
 		out = append(out, cs.Label)
 	}
 	return out
 }
 
+// LineCount is the number of curves on the figure (data hook).
+func (c *CurveView) LineCount() string {
+	l, ok := c.figureSpec()
+	if !ok {
+		return "0"
+	}
+	return strconv.Itoa(len(l.Series))
+}
+
 // HasKept reports whether there are kept curves.
 func (c *CurveView) HasKept() bool { return len(c.kept) > 0 }
 
+// ListCurves reports whether the figure has several curves to list by name.
+func (c *CurveView) ListCurves() bool {
+	return len(c.kept) > 0 || (c.current != nil && c.current.family != "" && c.current.done && c.current.err == "")
+}
+
 // CanKeep reports whether the current curve can be kept.
 func (c *CurveView) CanKeep() bool {
-	return c.current != nil && c.current.done && c.current.err == "" && c.run != RunRunning
+	return c.current != nil && c.current.done && c.current.err == "" && c.run != RunRunning && c.current.family == ""
 }
 
 // CSV writes every curve with every observable (study.WriteCSV) under one header, with a
 // first column naming the curve.
 func (c *CurveView) CSV() ([]byte, error) {
 	var b bytes.Buffer
+	type named struct {
+		label  string
+		points []study.Point
+	}
+	var curves []named
 	for _, cs := range c.all() {
-		if len(cs.Points) == 0 {
+		if cs.family == "" {
+			curves = append(curves, named{cs.Label, cs.Points})
+			continue
+		}
+		for _, cv := range cs.curves {
+			curves = append(curves, named{plot.ValueLabel(cs.Scen, cs.family, cv.Value), cv.Points})
+		}
+	}
+	for _, cs := range curves {
+		if len(cs.points) == 0 {
 			continue
 		}
 		var part bytes.Buffer
-		if err := study.WriteCSV(&part, []string{c.axis.Over}, cs.Points); err != nil {
+		if err := study.WriteCSV(&part, []string{c.axis.Over}, cs.points); err != nil {
 			return nil, err
 		}
 		lines := bytes.SplitAfter(part.Bytes(), []byte("\n"))
@@ -832,7 +1022,7 @@ func (c *CurveView) CSV() ([]byte, error) {
 			if k == 0 {
 				b.WriteString("curve,")
 			} else {
-				b.WriteString(csvField(cs.Label) + ",")
+				b.WriteString(csvField(cs.label) + ",")
 			}
 			b.Write(ln)
 		}

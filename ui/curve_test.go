@@ -7,6 +7,7 @@ import (
 	"encoding/json"
 	"errors"
 	"math"
+	"reflect"
 	"strings"
 	"testing"
 
@@ -191,7 +192,7 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	br.shown(t, "curve", c.FigureURL())
 	// The settings travel with the scenario.
 	st := m.Check().Scenario.Study
-	if st == nil || st.View != "curve" || st.Sweep == nil || *st.Sweep != (scenario.Sweep{Over: "l1", From: 1e-3, To: 1, Points: 60, Log: true}) ||
+	if st == nil || st.View != "curve" || st.Sweep == nil || !reflect.DeepEqual(*st.Sweep, scenario.Sweep{Over: "l1", From: 1e-3, To: 1, Points: 60, Log: true}) ||
 		st.Best == nil || st.Best.Over != "l1" {
 		t.Fatalf("study not saved: %+v", st)
 	}

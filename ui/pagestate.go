@@ -24,6 +24,8 @@ type Views struct {
 	Tab      string      // the selected view (viewTabs)
 	Study    string      // the study view last selected or opened: study.view
 	Curve    axisText    // the curve's swept number and range
+	Curves   string      // the number that sets each curve ("" for one curve): study.sweep.curves
+	CurvesAt string      // its values as typed, separated by commas: study.sweep.curves_at
 	Map      [2]axisText // the map's x and y axes
 	Target   string      // the planner's target, in dB (or an MSE, with Unit mse)
 	Unit     string      // "db" or "mse"
@@ -79,6 +81,7 @@ func viewsOf(st *scenario.Study) Views {
 	}
 	if w := st.Sweep; w != nil {
 		v.Curve = axisText{Over: w.Over, From: full(w.From), To: full(w.To), Points: strconv.Itoa(w.Points), Log: w.Log}
+		v.Curves, v.CurvesAt = w.Curves, valuesText(w.CurvesAt)
 		v.travel[partSweep] = true
 	}
 	if m := st.Map; m != nil {
@@ -130,8 +133,21 @@ func (m *Model) showOnly(name string) {
 }
 
 // SetCurve sets one input of the curve's axis: "over" (which proposes a range for the
-// number chosen), "from", "to", "points" or "log".
+// number chosen), "from", "to", "points" or "log"; or of its curves: "curves" (the number
+// that sets each curve, "" for one curve) or "curves_at" (its values, separated by commas).
 func (m *Model) SetCurve(name, text string) error {
+	switch name {
+	case "curves":
+		m.views.Curves = text
+		m.views.travel[partSweep] = true
+		m.vrev++
+		return nil
+	case "curves_at":
+		m.views.CurvesAt = text
+		m.views.travel[partSweep] = true
+		m.vrev++
+		return nil
+	}
 	if err := m.setAxis(&m.views.Curve, name, text, sweepPoints); err != nil {
 		return err
 	}
@@ -294,6 +310,15 @@ func (m *Model) fitViews(s scenario.Scenario) {
 		*a = defaultAxis(p, val, points)
 	}
 	fit(&v.Curve, "curve", study.DefaultOver(s), sweepPoints, "")
+	if v.Curves != "" {
+		if _, ok := pathNamed(s, v.Curves); !ok {
+			notes = append(notes, fmt.Sprintf("The curve was drawn once per value of %s, which this scenario does not have; it is now one curve.", v.Curves))
+			v.Curves = ""
+		} else if v.Curves == v.Curve.Over {
+			notes = append(notes, fmt.Sprintf("The curve now varies %s, which set each curve; it is now one curve.", v.Curves))
+			v.Curves = ""
+		}
+	}
 	fit(&v.Map[1], "map's y axis", "alpha", mapPoints, "")
 	x := study.DefaultOver(s)
 	if x == "" {
@@ -330,6 +355,9 @@ func (m *Model) studyOfViews() *scenario.Study {
 	if v.travel[partSweep] {
 		if over, from, to, n, err := v.Curve.parse("sweep", scenario.MaxSweepPoints); err == nil {
 			st.Sweep = &scenario.Sweep{Over: over, From: from, To: to, Points: n, Log: v.Curve.Log}
+			if at, err := parseValues(v.CurvesAt); err == nil && v.Curves != "" && len(at) > 0 {
+				st.Sweep.Curves, st.Sweep.CurvesAt = v.Curves, at
+			}
 		}
 	}
 	if v.travel[partMap] {
@@ -422,4 +450,28 @@ func (m *Model) problemKey() string {
 	}
 	m.probKey.checked, m.probKey.text = m.checked, string(data)
 	return m.probKey.text
+}
+
+// valuesText writes a list of values as the curves' values box shows them.
+func valuesText(v []float64) string {
+	parts := make([]string, len(v))
+	for i, x := range v {
+		parts[i] = full(x)
+	}
+	return strings.Join(parts, ", ")
+}
+
+// parseValues reads the curves' values box: numbers separated by commas (or spaces).
+// The engine checks them against the number's range.
+func parseValues(text string) ([]float64, error) {
+	f := strings.FieldsFunc(text, func(r rune) bool { return r == ',' || r == ' ' || r == ';' })
+	out := make([]float64, 0, len(f))
+	for _, t := range f {
+		v, err := strconv.ParseFloat(t, 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("curve values: %q is not a number", t)
+		}
+		out = append(out, v)
+	}
+	return out, nil
 }

@@ -38,9 +38,17 @@ type SweepFigure struct {
 	Height   float64
 }
 
-// Observable returns the observable named q ("" and unknown names give NMSE in dB).
+// Quantities are the observables a sweep's figure can show: every fixed point's, then those
+// of a generalized linear model (cosine, test error, ...; NaN, so not drawn, at a point
+// without them).
+func Quantities() []study.Observable {
+	return append(study.Observables(), study.GLMObservables()...)
+}
+
+// Observable returns the observable named q among Quantities ("" and unknown names give
+// NMSE in dB).
 func Observable(q string) study.Observable {
-	for _, o := range study.Observables() {
+	for _, o := range Quantities() {
 		if o.Name == q {
 			return o
 		}
@@ -57,7 +65,8 @@ func Observable(q string) study.Observable {
 // drawn on a logarithmic axis (a value in dB or a signed statistic cannot).
 func LogAllowed(q string) bool {
 	switch q {
-	case "mse", "nmse", "susceptibility", "nonzero_fraction", "tpp", "fdp", "train_error":
+	case "mse", "nmse", "susceptibility", "nonzero_fraction", "tpp", "fdp", "train_error",
+		"norm_ratio", "test_error", "train_misfit", "train_loss":
 		return true
 	}
 	return false
@@ -321,4 +330,34 @@ func (pf PlanFigure) Line() (Line, bool) {
 		l.VLines = append(l.VLines, Mark{At: pf.Alpha, Label: "m/n = " + strconv.FormatFloat(pf.Alpha, 'g', 4, 64) + " reaches it"})
 	}
 	return l, true
+}
+
+// ValueLabel names the curve of a curves-per-value sweep at value v of field: "bits = 2",
+// "m/n = 0.5", with the field's unit after the value when it has one other than its name.
+func ValueLabel(s scenario.Scenario, field string, v float64) string {
+	n, unit := field, ""
+	for _, p := range s.Paths() {
+		if p.Name == field || p.Path == field {
+			n, unit = p.Name, p.Unit
+			break
+		}
+	}
+	if n == "alpha" {
+		n = "m/n"
+	}
+	t := n + " = " + strconv.FormatFloat(v, 'g', 4, 64)
+	if unit != "" && unit != n {
+		t += " " + unit
+	}
+	return t
+}
+
+// ValueCurves turns the curves of a curves-per-value sweep into the Curves of one figure,
+// each named by its value (ValueLabel), in order, so that the figure has a legend.
+func ValueCurves(s scenario.Scenario, cs study.Curves) []Curve {
+	out := make([]Curve, 0, len(cs.Curves))
+	for _, c := range cs.Curves {
+		out = append(out, Curve{Label: ValueLabel(s, cs.Field, c.Value), Points: c.Points})
+	}
+	return out
 }

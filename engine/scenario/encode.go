@@ -217,6 +217,10 @@ func (st *Study) tree() node {
 	if sw := st.Sweep; sw != nil {
 		n := obj()
 		n.axis("over", "", sw.Over, sw.From, sw.To, sw.Points, sw.Log)
+		if sw.Curves != "" {
+			n.set("curves", str(sw.Curves))
+			n.set("curves_at", floats(sw.CurvesAt))
+		}
 		t.set("sweep", n)
 	}
 	if m := st.Map; m != nil {

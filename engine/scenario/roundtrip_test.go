@@ -3,6 +3,7 @@ package scenario
 import (
 	"bytes"
 	"encoding/json"
+	"errors"
 	"math"
 	"math/rand/v2"
 	"reflect"
@@ -131,6 +132,13 @@ func randScenario(r *rand.Rand) Scenario {
 	if r.IntN(2) == 0 {
 		sw := &Sweep{Points: 2 + r.IntN(MaxSweepPoints-1)}
 		sw.Over, sw.From, sw.To, sw.Log = randAxis(r, s, "")
+		if r.IntN(2) == 0 {
+			// One curve per value of a second number: its two random ends, or one of them.
+			x, _ := s.resolve(sw.Over)
+			var from, to float64
+			sw.Curves, from, to, _ = randAxis(r, s, x.full)
+			sw.CurvesAt = []float64{from, to}[:1+r.IntN(2)]
+		}
 		st.Sweep = sw
 	}
 	if r.IntN(2) == 0 {
@@ -219,5 +227,49 @@ func TestFloatsWrittenAsEncodingJSON(t *testing.T) {
 		if got := appendFloat(nil, x); string(got) != string(want) {
 			t.Errorf("%v written %s, encoding/json writes %s", x, got, want)
 		}
+	}
+}
+
+// TestSweepCurvesRoundTrip: a sweep with one curve per bit depth keeps its curves through
+// the file and the link, writes them after the axis, and a sweep without them encodes as
+// before (no curves keys).
+func TestSweepCurvesRoundTrip(t *testing.T) {
+	doc := `{"kind": "hdrisk.scenario", "version": 1, "title": "invented 1-bit case",
+		"design": {"shape": "gaussian", "alpha": 2, "scale": "rows"},
+		"signal": {"law": "bernoulli-gauss", "density": 0.2, "variance": 1}, "noise": {"variance": 0.01},
+		"penalty": {"kind": "l1", "l1": 0.05}, "readout": {"kind": "quantize", "bits": 1, "range": 1},
+		"study": {"view": "curve", "sweep": {"over": "alpha", "from": 0.5, "to": 4, "points": 8, "curves": "bits", "curves_at": [1, 2, 3, 4]}}}`
+	s, err := Decode([]byte(doc))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sw := s.Study.Sweep; sw.Curves != "bits" || !reflect.DeepEqual(sw.CurvesAt, []float64{1, 2, 3, 4}) {
+		t.Fatalf("decoded sweep %+v", sw)
+	}
+	data, err := s.Encode()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Contains(data, []byte(`"points":8,"curves":"bits","curves_at":[1,2,3,4]}`)) && !bytes.Contains(data, []byte(`"curves": "bits"`)) {
+		t.Errorf("encoded sweep: %s", data)
+	}
+	code, err := EncodeLink(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	back, err := DecodeLink(code)
+	if err != nil || !reflect.DeepEqual(back, s) {
+		t.Fatalf("link round trip: %v\n%+v\n%+v", err, back.Study.Sweep, s.Study.Sweep)
+	}
+	// bits takes whole numbers only: a value between is refused, naming its place.
+	bad := strings.Replace(doc, "[1, 2, 3, 4]", "[1, 2.5]", 1)
+	var fe *FieldError
+	if _, err := Decode([]byte(bad)); !errors.As(err, &fe) || fe.Field != "study.sweep.curves_at[1]" {
+		t.Errorf("bits 2.5: %v", err)
+	}
+	s.Study.Sweep.Curves, s.Study.Sweep.CurvesAt = "", nil
+	plain, _ := s.Encode()
+	if bytes.Contains(plain, []byte("curves")) {
+		t.Errorf("a sweep without curves writes them: %s", plain)
 	}
 }

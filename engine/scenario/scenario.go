@@ -106,12 +106,17 @@ type Kept struct {
 	Sweep    Sweep
 }
 
-// Sweep is a curve over one scalar path (see Paths).
+// Sweep is a curve over one scalar path (see Paths), or, with Curves, one such curve for
+// each value in CurvesAt of a second scalar path ("how many measurements with 1, 2, 3 or 4
+// bits": Over alpha, Curves bits, CurvesAt 1, 2, 3, 4). Both are optional keys of the file
+// (curves, curves_at): a sweep without them is one curve, as before.
 type Sweep struct {
 	Over     string
 	From, To float64
 	Points   int
 	Log      bool
+	Curves   string    // the second path; "" for one curve
+	CurvesAt []float64 // its values, 1 to MaxCurves, when Curves is set
 }
 
 // Map is a grid over two scalar paths.
@@ -155,6 +160,8 @@ const (
 	// MaxKept is the number of kept curves a study holds: the page draws at most eight
 	// curves on one figure, the current one and seven kept.
 	MaxKept = 7
+	// MaxCurves is the number of values of study.sweep.curves_at: the curves of one figure.
+	MaxCurves = 8
 )
 
 var (

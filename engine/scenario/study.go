@@ -11,7 +11,7 @@ import (
 var (
 	studyKeys = []string{"view", "sweep", "map", "best", "plan", "check", "kept"}
 	keptKeys  = []string{"label", "scenario", "over", "from", "to", "points", "log"}
-	sweepKeys = []string{"over", "from", "to", "points", "log"}
+	sweepKeys = []string{"over", "from", "to", "points", "log", "curves", "curves_at"}
 	mapKeys   = []string{"x", "x_from", "x_to", "x_points", "x_log", "y", "y_from", "y_to", "y_points", "y_log"}
 	bestKeys  = []string{"over"}
 	planKeys  = []string{"target_db", "alpha_max"}
@@ -181,8 +181,18 @@ func readSweep(v *jval) (Sweep, error) {
 	if err := r.restExcept(sweepKeys); err != nil {
 		return sw, err
 	}
-	err = r.axis("over", "", MaxSweepPoints, &sw.Over, &sw.From, &sw.To, &sw.Points, &sw.Log)
-	return sw, err
+	if err := r.axis("over", "", MaxSweepPoints, &sw.Over, &sw.From, &sw.To, &sw.Points, &sw.Log); err != nil {
+		return sw, err
+	}
+	if sw.Curves, err = r.text("curves", false); err != nil {
+		return sw, err
+	}
+	if cv, ok := r.get("curves_at"); ok {
+		if sw.CurvesAt, err = readList(cv, r.at("curves_at"), MaxCurves); err != nil {
+			return sw, err
+		}
+	}
+	return sw, nil
 }
 
 func readMap(v *jval) (Map, error) {
@@ -231,6 +241,9 @@ func (s Scenario) validateStudy() error {
 	if sw := st.Sweep; sw != nil {
 		if _, err := s.checkAxis("study.sweep.over", sw.Over, "study.sweep.from", sw.From, "study.sweep.to", sw.To,
 			"study.sweep.points", sw.Points, MaxSweepPoints, sw.Log); err != nil {
+			return err
+		}
+		if err := s.checkCurves(sw); err != nil {
 			return err
 		}
 	}
@@ -337,4 +350,49 @@ func (s Scenario) checkAxis(overField, over, fromField string, from float64, toF
 		return t, fieldErr(pointsField, "must be between 2 and %d, not %d", maxPoints, points)
 	}
 	return t, nil
+}
+
+// checkCurves validates the optional curves of a sweep: a scalar path other than the swept
+// one, with 1 to MaxCurves values, each in its domain; values without a path are refused.
+func (s Scenario) checkCurves(sw *Sweep) error {
+	if sw.Curves == "" {
+		if sw.CurvesAt != nil {
+			return fieldErr("study.sweep.curves_at", "gives values without study.sweep.curves, the field they set")
+		}
+		return nil
+	}
+	t, err := s.resolve(sw.Curves)
+	if err != nil {
+		return fieldErr("study.sweep.curves", "%s", err.(*FieldError).Reason)
+	}
+	if !t.scalar {
+		return fieldErr("study.sweep.curves", "%s is a list, not a number that can set a curve", t.full)
+	}
+	if o, err := s.resolve(sw.Over); err == nil && o.full == t.full {
+		return fieldErr("study.sweep.curves", "names the swept value (%s); the curves need another", t.full)
+	}
+	if len(sw.CurvesAt) < 1 || len(sw.CurvesAt) > MaxCurves {
+		return fieldErr("study.sweep.curves_at", "must hold 1 to %d values, not %d", MaxCurves, len(sw.CurvesAt))
+	}
+	bare := s
+	bare.Study = nil
+	for i, v := range sw.CurvesAt {
+		f := sprintf("study.sweep.curves_at[%d]", i)
+		if err := t.p.Check(f, v); err != nil {
+			return err
+		}
+		// The scenario with the value set is checked whole, so that a value its kind refuses
+		// (a bit depth between whole numbers) is refused here as the file decoder would.
+		if _, err := bare.With(t.full, v); err != nil {
+			reason := err.Error()
+			if fe, ok := err.(*FieldError); ok {
+				reason = fe.Reason
+			}
+			return fieldErr(f, "%s", reason)
+		}
+		if slices.Contains(sw.CurvesAt[:i], v) {
+			return fieldErr(f, "repeats %s", num(v))
+		}
+	}
+	return nil
 }

@@ -107,10 +107,14 @@ func PrimalDual(ctx context.Context, f Operator, y []float64, ls loss.Loss, p pe
 	return sol, nil
 }
 
-// GLMTrial is the outcome of one finite instance of a generalized linear model.
+// GLMTrial is the outcome of one finite instance of a generalized linear model. TestError is
+// measured on fresh rows (see TestErrorGLM) for a readout that gives labels, NaN otherwise.
 type GLMTrial struct {
 	MSE, Cosine, NormRatio float64
+	TestError              float64
 	Converged              bool
+	Iterations             int
+	Residual               float64 // the primal-dual stopping criterion at the solution
 }
 
 // TrialGLM draws one instance with n unknowns and solves it with PrimalDual.
@@ -135,10 +139,51 @@ func TrialGLM(ctx context.Context, rng *rand.Rand, d DesignDraw, sig signal.Law,
 		x0x0 += inst.X0[i] * inst.X0[i]
 		xx0 += xh * inst.X0[i]
 	}
-	t := GLMTrial{MSE: e / float64(n), Converged: sol.Converged}
+	t := GLMTrial{MSE: e / float64(n), Converged: sol.Converged, TestError: math.NaN(), Iterations: sol.Iterations, Residual: sol.Residual}
 	if xx > 0 && x0x0 > 0 {
 		t.Cosine = xx0 / math.Sqrt(xx*x0x0)
 		t.NormRatio = math.Sqrt(xx / x0x0)
 	}
+	if rd.Labels() {
+		// Drawn after the solve, so that the instance and its solution are those of a trial
+		// without the test rows.
+		if t.TestError, err = TestErrorGLM(rng, d, sig, w, rd, inst.X0, sol.X); err != nil {
+			return GLMTrial{}, err
+		}
+	}
 	return t, nil
+}
+
+// TestErrorGLM is the test error of the estimate xhat of x0 measured on fresh rows: the m
+// rows of a fresh design drawn as the instance's was (docs/method.md sections 8 and 10.4), each with its
+// fresh noise and label y = readout(a . x0 + w), counted wrong when the sign of a . xhat differs
+// from the label's (a tie, a . xhat = 0, counts one half). This is the finite-size version of
+// the observable test_error.
+func TestErrorGLM(rng *rand.Rand, d DesignDraw, sig signal.Law, w noise.Law, rd readout.Readout, x0, xhat []float64) (float64, error) {
+	fresh, err := Draw(rng, d, sig, 0, len(x0))
+	if err != nil {
+		return 0, err
+	}
+	var f Operator = fresh.SVD
+	if fresh.Dense != nil {
+		f = fresh.Dense
+	}
+	z, zh := make([]float64, fresh.M), make([]float64, fresh.M)
+	f.Mul(z, x0)
+	f.Mul(zh, xhat)
+	ws := make([]float64, fresh.M)
+	if w != nil {
+		ws = w.Sample(rng, fresh.M)
+	}
+	y := readout.Draw(rd, z, ws, rng)
+	wrong := 0.0
+	for i := range y {
+		switch {
+		case zh[i] == 0:
+			wrong += 0.5
+		case (zh[i] > 0) != (y[i] > 0):
+			wrong++
+		}
+	}
+	return wrong / float64(len(y)), nil
 }

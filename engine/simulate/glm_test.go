@@ -99,3 +99,53 @@ func TestGLMTrialsMatchPrediction(t *testing.T) {
 		}
 	}
 }
+
+// TestGLMTrialsTestError: the test error measured on fresh rows of finite instances (n = 400,
+// 6 trials) agrees with SolveGLM's within 4 standard errors plus 0.02 for the size, for
+// label readouts; a readout without labels reports none (NaN).
+func TestGLMTrialsTestError(t *testing.T) {
+	if testing.Short() {
+		t.Skip("finite-size trials")
+	}
+	gauss := DesignDraw{Law: must(design.Gaussian(2, design.Rows)), GaussianEntries: true}
+	orth := DesignDraw{Law: must(design.Orthogonal(0.8, design.Rows)), Factors: FactorsQR}
+	cases := []struct {
+		name string
+		d    DesignDraw
+		x    signal.Law
+		w    noise.Law
+		rd   readout.Readout
+		ls   loss.Loss
+		p    penalty.Penalty
+	}{
+		{"1bit-square-l1/gaussian", gauss, must(signal.BernoulliGauss(0.2, 1)), must(noise.Gauss(0.01)), must(readout.Quantize(1, 1)), loss.Square(), must(penalty.L1(0.05))},
+		{"sign-square-l1/orthogonal", orth, must(signal.BernoulliGauss(0.2, 1)), must(noise.Gauss(0.01)), readout.Sign(), loss.Square(), must(penalty.L1(0.1))},
+		{"logistic-logistic-ridge/gaussian", gauss, must(signal.Gauss(4)), nil, readout.Logistic(), loss.Logistic(), must(penalty.Ridge(0.5))},
+	}
+	rng := rand.New(rand.NewPCG(16, 2026))
+	for _, c := range cases {
+		pred, err := fixedpoint.SolveGLM(fixedpoint.GLM{Design: c.d.Law, Signal: c.x, Penalty: c.p, Noise: c.w, Readout: c.rd, Loss: c.ls}, fixedpoint.Options{})
+		if err != nil || !pred.Converged || !pred.Labels {
+			t.Fatalf("%s: %v (labels %v)", c.name, err, pred.Labels)
+		}
+		const trials, n = 6, 400
+		var te, te2 float64
+		for range trials {
+			tr, err := TrialGLM(context.Background(), rng, c.d, c.x, c.w, c.rd, c.ls, c.p, n, SolverOptions{Tol: 1e-9, MaxIter: 200000})
+			if err != nil || math.IsNaN(tr.TestError) || tr.TestError < 0 || tr.TestError > 1 {
+				t.Fatalf("%s: %v, test error %v", c.name, err, tr.TestError)
+			}
+			te += tr.TestError / trials
+			te2 += tr.TestError * tr.TestError / trials
+		}
+		sem := math.Sqrt(math.Max(te2-te*te, 0) / (trials - 1))
+		t.Logf("%s: predicted test error %.4g; trials %.4g +- %.2g", c.name, pred.TestError, te, sem)
+		if math.Abs(pred.TestError-te) > 4*sem+0.02 {
+			t.Errorf("%s: predicted test error %.4g, trials %.4g +- %.2g", c.name, pred.TestError, te, sem)
+		}
+	}
+	tr, err := TrialGLM(context.Background(), rng, gauss, must(signal.Gauss(1)), must(noise.Gauss(0.1)), readout.Linear(), loss.Square(), must(penalty.Ridge(0.1)), 100, SolverOptions{})
+	if err != nil || !math.IsNaN(tr.TestError) {
+		t.Errorf("linear readout: test error %v (%v), want NaN", tr.TestError, err)
+	}
+}

@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"math"
 	"strings"
 
 	"hdrisk/engine/data"
@@ -18,7 +19,8 @@ import (
 func init() { Serve(protocol.Check, Check) }
 
 // Check runs simulate.Check for the scenario of a (moved to Over = At when Over is set) and,
-// when a.Curve is set, the predicted curve along it. progress gets (trials done, trials).
+// when a.Curve is set, the predicted curve along it; a generalized linear model (a readout or
+// loss group) runs its own trials instead (checkGLM). progress gets (trials done, trials).
 // Special cases are: a missing or invalid scenario, an unknown solver or factors, a path
 // Over that the scenario lacks, and sizes past the simulation's caps are errors naming the
 // field.
@@ -57,6 +59,12 @@ func Check(a protocol.CheckArgs, progress func(done, total int)) (protocol.Check
 	if a.Over != "" {
 		if at, err = s.With(a.Over, a.At); err != nil {
 			return protocol.CheckResult{}, err
+		}
+	}
+	if c, err := at.Check(); err == nil {
+		if g, ok := c.GLM(); ok {
+			// A readout or loss group: the generalized model's own trials.
+			return checkGLM(a, at, g, factors, curve, progress)
 		}
 	}
 	p, err := at.Problem()
@@ -103,7 +111,8 @@ func Check(a protocol.CheckArgs, progress func(done, total int)) (protocol.Check
 func checkTrials(ts []simulate.Trial) []protocol.CheckTrial {
 	out := make([]protocol.CheckTrial, 0, len(ts))
 	for _, t := range ts {
-		out = append(out, protocol.CheckTrial{MSE: protocol.Num(t.MSE), Nonzero: protocol.Num(t.NonZero),
+		nan := protocol.Num(math.NaN())
+		out = append(out, protocol.CheckTrial{MSE: protocol.Num(t.MSE), Nonzero: protocol.Num(t.NonZero), Cosine: nan, NormRatio: nan, TestError: nan,
 			TPP: protocol.Num(t.TPP), FDP: protocol.Num(t.FDP), Iterations: t.Iterations, Converged: t.Converged,
 			Residual: protocol.Num(t.Residual), Seconds: protocol.Num(t.Seconds)})
 	}

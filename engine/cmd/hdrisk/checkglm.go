@@ -16,13 +16,18 @@ import (
 // readout or loss group, docs/method.md section 10): finite instances solved by the primal-dual
 // method with the loss's prox, beside the prediction.
 type checkGLMResult struct {
-	GLM                 bool     `json:"glm"`
-	MeanMSE             number   `json:"mean_mse"`
-	StdErr              number   `json:"stderr"`
-	PredictedMSE        number   `json:"predicted_mse"`
-	MeanCosine          number   `json:"mean_cosine"`
-	CosineStdErr        number   `json:"cosine_stderr"`
-	PredictedCosine     number   `json:"predicted_cosine"`
+	GLM             bool   `json:"glm"`
+	MeanMSE         number `json:"mean_mse"`
+	StdErr          number `json:"stderr"`
+	PredictedMSE    number `json:"predicted_mse"`
+	MeanCosine      number `json:"mean_cosine"`
+	CosineStdErr    number `json:"cosine_stderr"`
+	PredictedCosine number `json:"predicted_cosine"`
+	// The test error on fresh rows and labels (simulate.TestErrorGLM), for a readout with
+	// labels only.
+	MeanTestError       *number  `json:"mean_test_error,omitempty"`
+	TestErrorStdErr     *number  `json:"test_error_stderr,omitempty"`
+	PredictedTestError  *number  `json:"predicted_test_error,omitempty"`
 	PredictionConverged bool     `json:"prediction_converged"`
 	Trials              int      `json:"trials"`
 	N                   int      `json:"n"`
@@ -36,7 +41,8 @@ type checkGLMResult struct {
 }
 
 // runCheckGLM draws trials instances of g with n unknowns (trial t from PCG(seed, t)),
-// solves each with simulate.TrialGLM and compares the mean error and cosine with SolveGLM's.
+// solves each with simulate.TrialGLM and compares the mean error and cosine (and, for a readout
+// with labels, the test error on fresh rows) with SolveGLM's.
 func runCheckGLM(ctx context.Context, g fixedpoint.GLM, d simulate.DesignDraw, n, trials int, seed uint64,
 	so simulate.SolverOptions, stdout, stderr io.Writer, progress bool) error {
 	if n < 2 || trials < 1 {
@@ -52,6 +58,7 @@ func runCheckGLM(ctx context.Context, g fixedpoint.GLM, d simulate.DesignDraw, n
 		PredictionConverged: pred.Converged, Warnings: []string{}}
 	mse := make([]float64, 0, trials)
 	cos := make([]float64, 0, trials)
+	te := make([]float64, 0, trials)
 	for t := range trials {
 		rng := rand.New(rand.NewPCG(seed, uint64(t)))
 		tr, err := simulate.TrialGLM(ctx, rng, d, g.Signal, g.Noise, g.Readout, g.Loss, g.Penalty, n, so)
@@ -63,6 +70,7 @@ func runCheckGLM(ctx context.Context, g fixedpoint.GLM, d simulate.DesignDraw, n
 		}
 		mse = append(mse, tr.MSE)
 		cos = append(cos, tr.Cosine)
+		te = append(te, tr.TestError)
 		if progress {
 			fmt.Fprintf(stderr, "hdrisk check: trial %d of %d done\n", t+1, trials)
 		}
@@ -71,6 +79,12 @@ func runCheckGLM(ctx context.Context, g fixedpoint.GLM, d simulate.DesignDraw, n
 	out.MeanMSE, out.StdErr = number(m), number(se)
 	m, se = meanStdErr(cos)
 	out.MeanCosine, out.CosineStdErr = number(m), number(se)
+	if pred.Labels {
+		m, se = meanStdErr(te)
+		p := number(pred.TestError)
+		mn, sn := number(m), number(se)
+		out.MeanTestError, out.TestErrorStdErr, out.PredictedTestError = &mn, &sn, &p
+	}
 	out.Converged = out.NotConverged == 0
 	if !out.Converged {
 		out.Warnings = append(out.Warnings, fmt.Sprintf("%d of %d instances did not reach the solver's tolerance; raise --max-iter", out.NotConverged, trials))

@@ -17,7 +17,7 @@ const oneBitScenario = `{"kind": "hdrisk.scenario", "version": 1, "title": "One-
 
 // check of a scenario with a readout group runs the generalized model's finite-size check:
 // the mean error of solved instances lies within a few standard errors (plus a finite-size
-// margin of 5 %) of the prediction, and so does the cosine.
+// margin of 5 %) of the prediction, and so do the cosine and the test error (0.02 margin).
 func TestCheckGLM(t *testing.T) {
 	code, out, errs := call(t, oneBitScenario, "check", "-", "--n", "300", "--trials", "4")
 	if code != 0 {
@@ -25,12 +25,15 @@ func TestCheckGLM(t *testing.T) {
 	}
 	var r struct {
 		GLM                            bool
-		MeanMSE                        float64 `json:"mean_mse"`
-		StdErr                         float64 `json:"stderr"`
-		PredictedMSE                   float64 `json:"predicted_mse"`
-		MeanCosine                     float64 `json:"mean_cosine"`
-		CosineStdErr                   float64 `json:"cosine_stderr"`
-		PredictedCosine                float64 `json:"predicted_cosine"`
+		MeanMSE                        float64  `json:"mean_mse"`
+		StdErr                         float64  `json:"stderr"`
+		PredictedMSE                   float64  `json:"predicted_mse"`
+		MeanCosine                     float64  `json:"mean_cosine"`
+		CosineStdErr                   float64  `json:"cosine_stderr"`
+		PredictedCosine                float64  `json:"predicted_cosine"`
+		MeanTestError                  *float64 `json:"mean_test_error"`
+		TestErrorStdErr                float64  `json:"test_error_stderr"`
+		PredictedTestError             float64  `json:"predicted_test_error"`
 		Converged, PredictionConverged bool
 		Trials, N, M                   int
 	}
@@ -44,6 +47,10 @@ func TestCheckGLM(t *testing.T) {
 		math.Abs(r.MeanCosine-r.PredictedCosine) > 4*r.CosineStdErr+0.05*r.PredictedCosine {
 		t.Errorf("instances %v +- %v (cosine %v +- %v), prediction %v (cosine %v)", r.MeanMSE, r.StdErr,
 			r.MeanCosine, r.CosineStdErr, r.PredictedMSE, r.PredictedCosine)
+	}
+	// The sign readout gives labels: the test error on fresh rows stands beside its prediction.
+	if r.MeanTestError == nil || math.Abs(*r.MeanTestError-r.PredictedTestError) > 4*r.TestErrorStdErr+0.02 {
+		t.Errorf("test error %v +- %v, prediction %v", r.MeanTestError, r.TestErrorStdErr, r.PredictedTestError)
 	}
 	f := filepath.Join(t.TempDir(), "m.mtx")
 	if err := os.WriteFile(f, []byte("%%MatrixMarket matrix array real general\n2 2\n1\n0\n0\n1\n"), 0o600); err != nil {

@@ -8,7 +8,6 @@ import (
 	"strings"
 
 	"hdrisk/engine/plot"
-	"hdrisk/engine/study"
 )
 
 // figureFlags declares the flags every study command draws its figure with; the page's
@@ -38,7 +37,7 @@ func (ff figureFlags) check() error {
 	}
 	if plot.Observable(*ff.quantity).Name != *ff.quantity {
 		var names []string
-		for _, o := range study.Observables() {
+		for _, o := range plot.Quantities() {
 			names = append(names, o.Name)
 		}
 		return usagef("--quantity: %q is not one of %s", *ff.quantity, strings.Join(names, ", "))

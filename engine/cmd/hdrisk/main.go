@@ -34,7 +34,7 @@ type command struct {
 
 var commands = []command{
 	{"eval", "FILE|-", "one fixed point of the scenario, as JSON", runEval},
-	{"sweep", "FILE --over P --from A --to B [--log]", "the observables along one field, as CSV", runSweep},
+	{"sweep", "FILE --over P --from A --to B [--log] [--curves Q=V1,V2,...]", "the observables along one field (one curve per value of Q), as CSV", runSweep},
 	{"map", "FILE --x P --x-from A ... --y Q ...", "the observables over a grid of two fields, as CSV", runMap},
 	{"best", "FILE [--over STRENGTH|l1+l2]", "the regularization with the lowest MSE, as JSON", runBest},
 	{"plan", "FILE --target-db D", "the smallest alpha reaching D dB at its best regularization, as JSON", runPlan},

@@ -11,6 +11,7 @@ import (
 	"os"
 	"os/signal"
 	"strconv"
+	"strings"
 
 	"hdrisk/engine/plot"
 	"hdrisk/engine/scenario"
@@ -18,7 +19,9 @@ import (
 )
 
 // runSweep solves the scenario along one field and prints a CSV: the field, every
-// observable, and the convergence columns of each point. Settings not given on the command
+// observable, and the convergence columns of each point. With --curves FIELD=V1,V2,... it
+// draws one curve per value of a second field instead, the CSV led by a column holding
+// each row's value of that field, and the figure with one line per value and a legend. Settings not given on the command
 // line come from the scenario's study.sweep, when it has one. With --best the CSV is the
 // best-tuned curve instead (the weight re-tuned at every point, its value in a last
 // column); with --figure the curve figure of the page's curve view is drawn as well, with
@@ -34,6 +37,7 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	progress := fs.Bool("progress", false, "report progress on stderr")
 	best := fs.String("best", "", "re-tune this weight at every point: l1, l2 or l1+l2")
 	logY := fs.Bool("log-y", false, "draw the figure's vertical axis on a log scale (positive quantities only)")
+	curves := fs.String("curves", "", "one curve per value of a second field, as FIELD=V1,V2,... (bits=1,2,3,4; at most 8 values)")
 	fig := addFigureFlags(fs)
 	name, err := onePositional(fs, args, "scenario file")
 	if err != nil {
@@ -61,8 +65,18 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		orDefault(set, "to", to, sw.To)
 		orDefault(set, "points", points, sw.Points)
 		orDefault(set, "log", logAxis, sw.Log)
+		if !set["curves"] && sw.Curves != "" {
+			*curves = curvesText(sw.Curves, sw.CurvesAt)
+		}
 	} else if !set["over"] || !set["from"] || !set["to"] {
 		return usagef("give --over, --from and --to (the scenario has no study.sweep)")
+	}
+	field, at, err := parseCurves(*curves)
+	if err != nil {
+		return err
+	}
+	if field != "" && *best != "" {
+		return usagef("--curves and --best: give one of them (the best-tuned curve is drawn for one curve)")
 	}
 	spec := study.SweepSpec{
 		Axis:   study.Axis{Over: *over, From: *from, To: *to, Points: *points, Log: *logAxis},
@@ -70,6 +84,9 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
+	if field != "" {
+		return sweepCurves(ctx, s, study.CurvesSpec{SweepSpec: spec, Curves: field, At: at}, *logY, fig, stdout, stderr, *progress)
+	}
 	var tuned []study.TunedPoint
 	if *best != "" {
 		if tuned, err = study.Tuned(ctx, s, spec, study.BestSpec{Over: *best}, progressTo(stderr, *progress)); err != nil {
@@ -102,6 +119,73 @@ func runSweep(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		return err
 	}
 	warnUnconverged(stderr, pts)
+	return nil
+}
+
+// parseCurves reads --curves FIELD=V1,V2,...; "" gives no field.
+func parseCurves(text string) (string, []float64, error) {
+	if strings.TrimSpace(text) == "" {
+		return "", nil, nil
+	}
+	field, list, ok := strings.Cut(text, "=")
+	field = strings.TrimSpace(field)
+	if !ok || field == "" || strings.TrimSpace(list) == "" {
+		return "", nil, usagef("--curves %q: give FIELD=V1,V2,... (bits=1,2,3,4)", text)
+	}
+	var at []float64
+	for _, f := range strings.Split(list, ",") {
+		v, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
+		if err != nil {
+			return "", nil, usagef("--curves: %q is not a number", strings.TrimSpace(f))
+		}
+		at = append(at, v)
+	}
+	return field, at, nil
+}
+
+// curvesText writes the curves of a scenario's study.sweep as --curves reads them.
+func curvesText(field string, at []float64) string {
+	parts := make([]string, len(at))
+	for i, v := range at {
+		parts[i] = strconv.FormatFloat(v, 'g', -1, 64)
+	}
+	return field + "=" + strings.Join(parts, ",")
+}
+
+// sweepCurves runs a curves-per-value sweep and writes its CSV (study.WriteCurvesCSV) and,
+// with --figure, its figure: one line per value, named in the legend.
+func sweepCurves(ctx context.Context, s scenario.Scenario, spec study.CurvesSpec, logY bool, fig figureFlags, stdout, stderr io.Writer, progress bool) error {
+	c, err := s.Check()
+	if err != nil {
+		return err
+	}
+	cs, err := study.SweepCurves(ctx, c, spec, progressTo(stderr, progress))
+	if err != nil {
+		return err
+	}
+	if *fig.path != "" {
+		sf := plot.SweepFigure{Scenario: s, Axis: spec.Axis, Quantity: *fig.quantity, YLog: logY, Width: *fig.width, Height: *fig.height,
+			Curves: plot.ValueCurves(s, cs)}
+		l, ok := sf.Line()
+		if !ok {
+			return fmt.Errorf("--figure: the sweep has no point to draw")
+		}
+		f, err := l.Build()
+		if err != nil {
+			return fmt.Errorf("--figure: %w", err)
+		}
+		if err := fig.write(f); err != nil {
+			return err
+		}
+	}
+	if err := study.WriteCurvesCSV(stdout, cs); err != nil {
+		return err
+	}
+	var all []study.Point
+	for _, cv := range cs.Curves {
+		all = append(all, cv.Points...)
+	}
+	warnUnconverged(stderr, all)
 	return nil
 }
 

@@ -1,0 +1,104 @@
+package job
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"time"
+
+	"hdrisk/engine/fixedpoint"
+	"hdrisk/engine/scenario"
+	"hdrisk/engine/simulate"
+	"hdrisk/protocol"
+)
+
+// glmSolver names the solver of a generalized model's trials: primal-dual splitting with the
+// loss's prox (simulate.PrimalDual), whatever the check asked for the linear model.
+const glmSolver = "primal-dual"
+
+// checkGLM runs the finite-size check of a generalized linear model (a scenario with a readout
+// or loss group): trial t of the job draws from PCG(Seed, First+t), as `hdrisk check` draws
+// trial t, so that parts of one check shared between workers merge (protocol.MergeChecks)
+// into the numbers of one job and of the command line. Each trial is solved by
+// simulate.TrialGLM; the mean MSE, cosine, norm ratio and, for a readout with labels, test
+// error stand beside SolveGLM's predictions.
+//
+// Special cases are: a held matrix is refused (its comparison is for the linear model), and
+// sizes past the simulation's caps are errors naming the field.
+func checkGLM(a protocol.CheckArgs, at scenario.Scenario, g fixedpoint.GLM, factors simulate.Factors, curve []protocol.CurvePoint,
+	progress func(done, total int)) (protocol.CheckResult, error) {
+	if a.Matrix != "" {
+		return protocol.CheckResult{}, errors.New("matrix: the check of a held matrix is for the linear readout with the square loss")
+	}
+	if a.Trials < 1 || a.Trials > simulate.MaxTrials {
+		return protocol.CheckResult{}, &simulate.ParamError{Field: "trials", Reason: fmt.Sprintf("%d is outside 1..%d (the cap)", a.Trials, simulate.MaxTrials)}
+	}
+	if a.First < 0 || a.First > simulate.MaxTrials {
+		return protocol.CheckResult{}, &simulate.ParamError{Field: "first", Reason: fmt.Sprintf("%d is outside 0..%d", a.First, simulate.MaxTrials)}
+	}
+	if a.N < 2 {
+		return protocol.CheckResult{}, &simulate.ParamError{Field: "n", Reason: fmt.Sprintf("%d: need at least 2 unknowns", a.N)}
+	}
+	pred, err := fixedpoint.SolveGLM(g, fixedpoint.Options{})
+	if err != nil {
+		return protocol.CheckResult{}, fmt.Errorf("prediction: %w", err)
+	}
+	d := simulate.DesignDraw{Law: g.Design, GaussianEntries: at.Design.Shape == "gaussian", Factors: factors}
+	start := time.Now()
+	nan := protocol.Num(math.NaN())
+	out := protocol.CheckResult{Trials: a.Trials, N: a.N, M: simulate.Rows(g.Design.Alpha(), a.N), Seed: a.Seed, First: a.First,
+		PredictedMSE: protocol.Num(pred.MSE), PredictionConverged: pred.Converged,
+		Nonzero: protocol.CheckStat{Mean: nan, StdErr: nan, Predicted: nan}, TPP: protocol.CheckStat{Mean: nan, StdErr: nan, Predicted: nan},
+		FDP:    protocol.CheckStat{Mean: nan, StdErr: nan, Predicted: nan},
+		Solver: glmSolver, Factors: factors.String(), Criterion: "relative change of (x, u)",
+		Tol: protocol.Num(simulate.DefaultTol), MaxIter: simulate.DefaultMaxIter,
+		Over: a.Over, At: protocol.Num(a.At), Curve: curve, GLM: true, Warnings: []string{},
+		Cosine: &protocol.CheckStat{Predicted: protocol.Num(pred.Cosine)}, NormRatio: &protocol.CheckStat{Predicted: protocol.Num(pred.NormRatio)}}
+	if d.Entries(a.N) {
+		out.Factors = "entries"
+	}
+	if pred.Labels {
+		out.TestError = &protocol.CheckStat{Predicted: protocol.Num(pred.TestError)}
+	}
+	var mse, cos, norm, te []float64
+	for t := range a.Trials {
+		rng := rand.New(rand.NewPCG(a.Seed, uint64(a.First+t)))
+		t0 := time.Now()
+		tr, err := simulate.TrialGLM(context.Background(), rng, d, g.Signal, g.Noise, g.Readout, g.Loss, g.Penalty, a.N, simulate.SolverOptions{})
+		if err != nil {
+			return protocol.CheckResult{}, err
+		}
+		if !tr.Converged {
+			out.NotConverged++
+		}
+		out.PerTrial = append(out.PerTrial, protocol.CheckTrial{MSE: protocol.Num(tr.MSE), Nonzero: nan, TPP: nan, FDP: nan,
+			Cosine: protocol.Num(tr.Cosine), NormRatio: protocol.Num(tr.NormRatio), TestError: protocol.Num(tr.TestError),
+			Iterations: tr.Iterations, Converged: tr.Converged, Residual: protocol.Num(tr.Residual), Seconds: protocol.Num(time.Since(t0).Seconds())})
+		mse, cos, norm, te = append(mse, tr.MSE), append(cos, tr.Cosine), append(norm, tr.NormRatio), append(te, tr.TestError)
+		if progress != nil {
+			progress(t+1, a.Trials)
+		}
+	}
+	m := simulate.Mean(mse)
+	out.MeanMSE, out.StdErr = protocol.Num(m.Mean), protocol.Num(m.StdErr)
+	for _, s := range []struct {
+		st *protocol.CheckStat
+		x  []float64
+	}{{out.Cosine, cos}, {out.NormRatio, norm}, {out.TestError, te}} {
+		if s.st != nil {
+			v := simulate.Mean(s.x)
+			s.st.Mean, s.st.StdErr = protocol.Num(v.Mean), protocol.Num(v.StdErr)
+		}
+	}
+	out.Converged = out.NotConverged == 0
+	if !out.Converged {
+		out.Warnings = append(out.Warnings, fmt.Sprintf("%d of %d instances did not reach the solver's tolerance", out.NotConverged, a.Trials))
+	}
+	if !pred.Converged {
+		out.Warnings = append(out.Warnings, "the prediction did not converge: "+pred.Note)
+	}
+	out.Seconds = protocol.Num(time.Since(start).Seconds())
+	return out, nil
+}
