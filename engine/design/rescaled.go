@@ -61,7 +61,7 @@ func (l rescaled) Stieltjes(g float64) (s1, s2 float64) {
 	return l.c * a, l.c * l.c * b
 }
 
-func (l rescaled) Atom0() float64    { return l.base.Atom0() }
+func (l rescaled) Atom0() float64 { return l.base.Atom0() }
 func (l rescaled) Mean() float64 {
 	if l.own != nil {
 		return l.own.mean
