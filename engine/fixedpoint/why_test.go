@@ -250,3 +250,17 @@ func TestPropertyDraws(t *testing.T) {
 		}
 	}
 }
+
+// Draws of the property test at 100000 scenarios: a Student-t signal of scale 1e150 (its
+// heavy-tail component's variance overflowed at that scale) gives the NMSE of the same
+// problem at scale 1 with the noise rescaled (the objective scales, common practice).
+func TestStudentTHugeScale(t *testing.T) {
+	d := must(design.Gaussian(3.743931125963499, design.AsGiven))
+	for _, dof := range []float64{3, 1645.6365745449818} {
+		big := solve(t, Problem{d, must(signal.StudentT(dof, 1e150)), must(penalty.L1(0.1 * 1e150)), 1e-4 * 1e300})
+		unit := solve(t, Problem{d, must(signal.StudentT(dof, 1)), must(penalty.L1(0.1)), 1e-4})
+		if relDiff(big.NMSE, unit.NMSE) > 1e-9 {
+			t.Errorf("dof %v: NMSE %.15g at scale 1e150, %.15g at scale 1", dof, big.NMSE, unit.NMSE)
+		}
+	}
+}
