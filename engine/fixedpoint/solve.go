@@ -214,6 +214,9 @@ func Solve(p Problem, o Options) (Result, error) {
 	}
 	s := solver{p: q, o: o, rho2: q.Signal.Second()}
 	r, err := s.solve(o.Start, sc, mean)
+	if err == nil {
+		err = s.nonUnique(r)
+	}
 	if err != nil {
 		return Result{}, err
 	}
