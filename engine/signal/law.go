@@ -109,18 +109,22 @@ func Scaled(l Law, s float64) Law {
 	if s == 1 {
 		return l
 	}
-	src := componentsOf(l)
-	f := 1 / s
+	var comps []Component
 	if u, ok := l.(unitScale); ok {
 		// Rescaled from the law of scale 1, so that no variance passes through the square
 		// of a scale near 1e150 (the heavy tail of a Student-t law would overflow there).
-		var sc float64
-		src, sc = u.unitComponents()
-		f = sc / s
-	}
-	comps := make([]Component, len(src))
-	for i, c := range src {
-		comps[i] = Component{c.Weight, c.Mean * f, c.Var * f * f}
+		src, sc := u.unitComponents()
+		f := sc / s
+		comps = make([]Component, len(src))
+		for i, c := range src {
+			comps[i] = Component{c.Weight, c.Mean * f, c.Var * f * f}
+		}
+	} else {
+		src := componentsOf(l)
+		comps = make([]Component, len(src))
+		for i, c := range src {
+			comps[i] = Component{c.Weight, c.Mean / s, c.Var / s / s}
+		}
 	}
 	return scaled{mixture{comps}, l, s, l.Second() / s / s}
 }
