@@ -773,7 +773,7 @@ func (c *CurveView) figureSpec() (plot.Line, bool) {
 		sf.Best = &plot.BestMark{Over: c.best.Over, Value: c.best.Value}
 	}
 	if c.bayes != nil {
-		u := c.bayes.Uninformed
+		u := c.bayes.Optimal
 		sf.Bayes = &u
 	}
 	return sf.Line()
@@ -911,9 +911,13 @@ func (c *CurveView) Notes() []string {
 	if c.bayesNote != "" {
 		out = append(out, c.bayesNote)
 	}
-	if c.bayes != nil && c.bayes.Differ {
-		out = append(out, "The Bayes-optimal state evolution has two fixed points here; the line shows the one reached from no prior knowledge ("+
-			num4(c.bayes.Informed.NMSEdB)+" dB from an informed start).")
+	if b := c.bayes; b != nil && b.Differ {
+		other, from := b.Informed, "an informed start"
+		if b.OptimalStart == study.StartInformed {
+			other, from = b.Uninformed, "no prior knowledge, what the algorithm reaches"
+		}
+		out = append(out, "The Bayes-optimal state evolution has two fixed points here; the line shows the optimal one (of lower free energy), "+
+			num4(b.Optimal.NMSEdB)+" dB; the other is "+num4(other.NMSEdB)+" dB (from "+from+").")
 	}
 	for _, cs := range c.kept {
 		if cs.err != "" {
@@ -938,8 +942,11 @@ func (c *CurveView) Answers() [][3]string {
 			fmt.Sprintf("Best %s: %s (NMSE %s dB)", c.best.Over, num4(c.best.Value), num4(c.best.Result.NMSEdB))})
 	}
 	if c.bayes != nil {
-		out = append(out, [3]string{"curve_bayes_nmse_db", full(c.bayes.Uninformed.NMSEdB),
-			"Bayes-optimal error: " + num4(c.bayes.Uninformed.NMSEdB) + " dB"})
+		text := "Bayes-optimal error: " + num4(c.bayes.Optimal.NMSEdB) + " dB"
+		if c.bayes.Differ {
+			text += " (another fixed point exists)"
+		}
+		out = append(out, [3]string{"curve_bayes_nmse_db", full(c.bayes.Optimal.NMSEdB), text})
 	}
 	if c.current != nil && len(c.current.Points) > 0 && c.run == RunDone {
 		t := fmt.Sprintf("Time in the page: %.3f s to the numbers", c.seconds)

@@ -180,7 +180,7 @@ func TestCurveSweepMatchesEngineWithBestAndBayes(t *testing.T) {
 	var bayes float64
 	for _, a := range c.Answers() {
 		if a[0] == "curve_bayes_nmse_db" {
-			bayes = float64(c.bayes.Uninformed.NMSEdB)
+			bayes = float64(c.bayes.Optimal.NMSEdB)
 		}
 	}
 	if bayes > wb.Result.NMSEdB+1e-9 {

@@ -7,6 +7,25 @@ import "math"
 type rescaled struct {
 	base Law
 	c    float64
+	// own holds the atoms of a law held as atoms, divided by c once: its transforms are then
+	// summed in the new units. Summed in the old ones and multiplied after, S2 = E[1/(l+g)^2]
+	// overflows for eigenvalues below about 1e-154 (a singular value of 1e-134 given as is)
+	// and the product with c^2 is Inf * 0.
+	own *atoms
+}
+
+// asAtoms is a law held as atoms (the empirical and the discretized continuous shapes).
+type asAtoms interface{ atomsOf() *atoms }
+
+func (d *atoms) atomsOf() *atoms { return d }
+
+// divided returns the atoms of the law of lambda/c.
+func (d *atoms) divided(c float64) *atoms {
+	out := &atoms{alpha: d.alpha, mean: d.mean / c, p0: d.p0, lam: make([]float64, len(d.lam)), w: d.w}
+	for i, l := range d.lam {
+		out.lam[i] = l / c
+	}
+	return out
 }
 
 // Rescaled returns the law of lambda/c (c > 0 finite) for the law l of lambda: its transforms
@@ -18,22 +37,37 @@ func Rescaled(l Law, c float64) Law {
 	if c == 1 {
 		return l
 	}
-	return rescaled{l, c}
+	r := rescaled{base: l, c: c}
+	if a, ok := l.(asAtoms); ok {
+		r.own = a.atomsOf().divided(c)
+	}
+	return r
 }
 
 func (l rescaled) At(g float64) Transforms {
+	if l.own != nil {
+		return l.own.At(g)
+	}
 	t := l.base.At(l.c * g)
 	c := l.c
 	return Transforms{S1: c * t.S1, S2: c * c * t.S2, S3: c * t.S3, T: t.T, W: t.W, S2Pos: c * c * t.S2Pos}
 }
 
 func (l rescaled) Stieltjes(g float64) (s1, s2 float64) {
+	if l.own != nil {
+		return l.own.Stieltjes(g)
+	}
 	a, b := l.base.Stieltjes(l.c * g)
 	return l.c * a, l.c * l.c * b
 }
 
-func (l rescaled) Atom0() float64    { return l.base.Atom0() }
-func (l rescaled) Mean() float64     { return l.base.Mean() / l.c }
+func (l rescaled) Atom0() float64 { return l.base.Atom0() }
+func (l rescaled) Mean() float64 {
+	if l.own != nil {
+		return l.own.mean
+	}
+	return l.base.Mean() / l.c
+}
 func (l rescaled) Alpha() float64    { return l.base.Alpha() }
 func (l rescaled) ReachesZero() bool { return ReachesZero(l.base) }
 

@@ -222,6 +222,46 @@ func (s *solver) errNoBracket() error {
 	return fieldErr("scenario", "the fixed point could not be bracketed: the scenario lies beyond the numerical reach of the solver (report it, with its share link)")
 }
 
+// nonUnique returns the account of a result in the end regime g2 -> 0 of a penalty that
+// leaves small entries as they are whatever g1 (a box without l2) on a design with an atom at
+// 0 (docs/method.md section 3.11). Its prox does not depend on g1, so the fixed point asks for
+// A(t1) = T(g2), and T(g2) < 1 - nu({0}) for every g2 > 0: where the share A of entries
+// strictly inside the box reaches the share of nonzero eigenvalues, no g2 > 0 solves it, and
+// the iteration drives g2 (and g1) to 0: many points of the box fit the data equally well.
+// The iterate then reaches g2 = 1e-160 with a meaningless error (0 where simulation finds
+// E[x0^2]); below g2 = 1e-100, T(g2) is 1 - nu({0}) to 70 digits (the spread of the nonzero
+// eigenvalues is at most 1e30).
+func (s *solver) nonUnique(r Result) error {
+	a0 := s.p.Design.Atom0()
+	if r.EstimateZero || a0 == 0 || !(r.G2 < 1e-100) || !s.flat() {
+		return nil
+	}
+	return fieldErr("penalty", "the penalty leaves the entries inside its box as they are, and %.3g of the design's eigenvalues are 0 (m/n = %v): %.3g of the entries lie strictly inside the box at the fixed point, at least the share %.3g of nonzero eigenvalues, so many points of the box fit the data equally well and the minimizer is not unique; give the box an l2 term (as l2 goes to 0 the estimate tends to the minimizer of least norm), or raise design.alpha", a0, s.p.Design.Alpha(), s.expect(r.G1, r.T1).A, 1-a0)
+}
+
+// flat reports a piecewise-linear penalty whose piece about 0 is the identity at every g:
+// the box without an l2 term. (It is read from the pieces, not from the prox's values: a
+// LASSO of strength 1e-151 moves 1e-3 by less than its rounding, and is not flat.)
+func (s *solver) flat() bool {
+	for _, g := range []float64{1e-6, 1, 1e6} {
+		pc, ok := s.p.Penalty.Pieces(g)
+		if !ok {
+			return false
+		}
+		q := pc[len(pc)-1]
+		for _, x := range pc {
+			if 0 < x.Hi {
+				q = x
+				break
+			}
+		}
+		if q.Slope != 1 || q.Intercept != 0 || !(q.Lo < 0) {
+			return false
+		}
+	}
+	return true
+}
+
 func errUnbounded(s *solver) error {
 	return fieldErr("penalty", "there is no finite fixed point: the error grows without bound at m/n = %v with this penalty (for instance nonnegative least squares beyond its phase transition): strengthen the penalty, or raise design.alpha", s.p.Design.Alpha())
 }

@@ -214,6 +214,9 @@ func Solve(p Problem, o Options) (Result, error) {
 	}
 	s := solver{p: q, o: o, rho2: q.Signal.Second()}
 	r, err := s.solve(o.Start, sc, mean)
+	if err == nil {
+		err = s.nonUnique(r)
+	}
 	if err != nil {
 		return Result{}, err
 	}
@@ -278,7 +281,11 @@ func (s *solver) solve(start *State, sc, mean float64) (Result, error) {
 	if r, ok := s.zeroEnd(); ok {
 		return r, nil
 	}
-	starts := []State{s.coldStart(2), s.coldStart(4)}
+	// The third start is g1 at the mean eigenvalue, 1 in these units (its value at the zero
+	// estimate), whatever the penalty: a penalty without pull at the signal's scale (a box
+	// with no l2) gives the other two g1 = 1/t in units of x0^2, not of the eigenvalues,
+	// 5e195 for a signal of power 2e-196, where the iteration leaves the range at once.
+	starts := []State{s.coldStart(2), s.coldStart(4), {G1: 1, T1: s.rho2 + s.p.Noise}}
 	if st := start; st != nil && st.G1 > 0 && st.T1 > 0 && !math.IsInf(st.G1+st.T1, 0) {
 		w := State{G1: st.G1 / mean, T1: st.T1 / sc / sc}
 		if w.G1 > 0 && w.T1 > 0 && !math.IsInf(w.G1+w.T1, 0) {

@@ -249,17 +249,24 @@ func addComponent(m *Moments, c Component, pieces []penalty.Piece, t float64) {
 			// integrate the Taylor series of phi instead.
 			m0, m1, m2 = narrowMoments(lo.y, hi.y)
 		default:
-			// The piece holds the mean: moments about the mean.
+			// The piece holds the mean: moments about the mean. A boundary beyond the
+			// reach of the normal law has phi = 0, and its y phi term is 0 even where y
+			// itself overflowed to +-Inf (a box bound or Huber width near 1.8e308 divided by
+			// a small standard deviation), rather than Inf * 0.
 			m0 = 1
 			if !loInf {
 				m0 -= lo.left
 				m1 += lo.phi
-				m2 += lo.y * lo.phi
+				if lo.phi > 0 {
+					m2 += lo.y * lo.phi
+				}
 			}
 			if !hiInf {
 				m0 -= hi.right
 				m1 -= hi.phi
-				m2 -= hi.y * hi.phi
+				if hi.phi > 0 {
+					m2 -= hi.y * hi.phi
+				}
 			}
 			m2 += m0
 		}

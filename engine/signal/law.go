@@ -77,12 +77,17 @@ func positive(field string, v float64) error {
 	return nil
 }
 
+// MinDensity is the smallest density of the Bernoulli laws: in the solver's units, where
+// E[x0^2] = 1, the nonzero part has variance 1/density, which beyond 1e300 leaves the
+// double-precision numbers (a density of 5e-324 with a variance of 5e99, say).
+const MinDensity = 1e-300
+
 func checkDensity(v float64) error {
 	if err := finite("density", v); err != nil {
 		return err
 	}
-	if !(v > 0 && v <= 1) {
-		return &param.Error{Field: "density", Reason: fmt.Sprintf("must be in (0, 1] (got %v)", v)}
+	if !(v >= MinDensity && v <= 1) {
+		return &param.Error{Field: "density", Reason: fmt.Sprintf("must be in [%g, 1] (got %v): below %g the nonzero entries' variance in units of E[x0^2], 1/density, leaves the range of double-precision numbers", MinDensity, v, MinDensity)}
 	}
 	return nil
 }
@@ -104,12 +109,30 @@ func Scaled(l Law, s float64) Law {
 	if s == 1 {
 		return l
 	}
-	src := componentsOf(l)
-	comps := make([]Component, len(src))
-	for i, c := range src {
-		comps[i] = Component{c.Weight, c.Mean / s, c.Var / s / s}
+	var comps []Component
+	if u, ok := l.(unitScale); ok {
+		// Rescaled from the law of scale 1, so that no variance passes through the square
+		// of a scale near 1e150 (the heavy tail of a Student-t law would overflow there).
+		src, sc := u.unitComponents()
+		f := sc / s
+		comps = make([]Component, len(src))
+		for i, c := range src {
+			comps[i] = Component{c.Weight, c.Mean * f, c.Var * f * f}
+		}
+	} else {
+		src := componentsOf(l)
+		comps = make([]Component, len(src))
+		for i, c := range src {
+			comps[i] = Component{c.Weight, c.Mean / s, c.Var / s / s}
+		}
 	}
 	return scaled{mixture{comps}, l, s, l.Second() / s / s}
+}
+
+// unitScale is a law that is its scale times a law of scale 1: unitComponents returns the
+// mixture of the latter and the scale.
+type unitScale interface {
+	unitComponents() ([]Component, float64)
 }
 
 func (l scaled) Name() string    { return l.base.Name() }

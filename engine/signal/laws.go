@@ -55,7 +55,7 @@ type bernoulliGauss struct {
 }
 
 // BernoulliGauss returns x0 = 0 with probability 1 - density and x0 ~ N(0, variance) otherwise
-// (density in (0, 1], variance >= 0 finite).
+// (density in [MinDensity, 1], variance >= 0 finite).
 //
 // Special cases are: density = 1 is Gauss(variance).
 func BernoulliGauss(density, variance float64) (Law, error) {
@@ -91,7 +91,7 @@ type bernoulliRademacher struct {
 }
 
 // BernoulliRademacher returns x0 = 0 with probability 1 - density and +-amplitude with
-// probability density/2 each (density in (0, 1], amplitude >= 0 finite, units of x0).
+// probability density/2 each (density in [MinDensity, 1], amplitude >= 0 finite, units of x0).
 func BernoulliRademacher(density, amplitude float64) (Law, error) {
 	if err := checkDensity(density); err != nil {
 		return nil, err
@@ -227,7 +227,10 @@ func (l uniform) Sample(rng *rand.Rand, n int) []float64 {
 type studentT struct {
 	mixture
 	dof, scale float64
+	unit       []Component // the mixture of scale 1, which Scaled rescales without overflow
 }
+
+func (l studentT) unitComponents() ([]Component, float64) { return l.unit, l.scale }
 
 // StudentT returns x0 = scale z / sqrt(G) with z ~ N(0, 1) and G ~ Gamma(dof/2, rate dof/2),
 // the Student-t law with dof degrees of freedom (dof > 2 so that E[x0^2] = scale^2 dof/(dof - 2)
@@ -252,7 +255,7 @@ func StudentT(dof, scale float64) (Law, error) {
 	if err := positive("scale", scale); err != nil {
 		return nil, err
 	}
-	return studentT{mixture{studentTMixture(dof, scale, studentStep, studentLow)}, dof, scale}, nil
+	return studentT{mixture{studentTMixture(dof, scale, studentStep, studentLow)}, dof, scale, studentTMixture(dof, 1, studentStep, studentLow)}, nil
 }
 
 const (
@@ -316,11 +319,13 @@ func studentTMixture(dof, scale, step, low float64) []Component {
 		comps[k].Weight *= (1 - lumpMass) / sum
 		second += comps[k].Weight * comps[k].Var
 	}
-	if rest := c/(a-1) - second; lumpMass > 0 && rest > 0 {
+	if rest := c/(a-1) - second; lumpMass > 0 && rest > 1e-12*c/(a-1) {
 		return append(comps, Component{lumpMass, 0, rest / lumpMass})
 	}
 	// The lumped tail is too light to carry the E[x0^2] that the nodes miss (large dof, or
-	// rounding): the node variances are rescaled so that E[x0^2] stays exact.
+	// rounding): the node variances are rescaled so that E[x0^2] stays exact. A rest below
+	// 1e-12 of E[x0^2] is the rounding of the sum: as a lump it would be a component of
+	// weight 1e-31 and variance 1e15 scale^2, which overflows from a scale of 1e147 on.
 	for k := range comps {
 		comps[k].Weight /= 1 - lumpMass
 		comps[k].Var *= c / (a - 1) / (second / (1 - lumpMass))

@@ -66,7 +66,7 @@ func TestLaplaceMixtureAgainstDensity(t *testing.T) {
 func TestStudentTConvergence(t *testing.T) {
 	for _, dof := range []float64{2.2, 3, 5, 30} {
 		law := must(StudentT(dof, 0.9)).(studentT)
-		ref := studentT{mixture{studentTMixture(dof, 0.9, studentStep/4, 1e-22)}, dof, 0.9}
+		ref := studentT{mixture{studentTMixture(dof, 0.9, studentStep/4, 1e-22)}, dof, 0.9, studentTMixture(dof, 1, studentStep/4, 1e-22)}
 		t.Logf("dof=%v: %d components (reference %d)", dof, len(law.comps), len(ref.comps))
 		for _, p := range []penalty.Penalty{must(penalty.L1(0.5)), must(penalty.Ridge(0.4)), must(penalty.Box(1, 0))} {
 			for _, gt := range [][2]float64{{1, 0.3}, {3, 1e-3}, {0.3, 5}} {

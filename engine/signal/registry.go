@@ -17,7 +17,7 @@ type Kind struct {
 
 var (
 	inf        = math.Inf(1)
-	pDensity   = param.Param{Name: "density", Unit: "fraction of entries", Min: 0, Max: 1, MinOpen: true, Help: "share of the entries that are nonzero"}
+	pDensity   = param.Param{Name: "density", Unit: "fraction of entries", Min: MinDensity, Max: 1, Help: "share of the entries that are nonzero, at least 1e-300 (below, the nonzero entries' variance in units of E[x0^2] leaves double precision)"}
 	pVariance  = param.Param{Name: "variance", Unit: "units of x0 squared", Max: inf, MaxOpen: true, Log: true, Role: param.Scale, Help: "variance of a nonzero entry"}
 	pAmplitude = param.Param{Name: "amplitude", Unit: "units of x0", Max: inf, MaxOpen: true, Log: true, Role: param.Scale, Help: "size of a nonzero entry, equally often positive and negative"}
 )

@@ -183,7 +183,8 @@ func TestBestPlanBayesJobsMatchEngine(t *testing.T) {
 	if fail != "" {
 		t.Fatal(fail)
 	}
-	if y.Uninformed.MSE != wy.Uninformed.MSE || y.Informed.NMSEdB != wy.Informed.NMSEdB || y.Differ != wy.Differ {
+	if y.Uninformed.MSE != wy.Uninformed.MSE || y.Informed.NMSEdB != wy.Informed.NMSEdB || y.Differ != wy.Differ ||
+		y.Optimal != wy.Optimal || y.OptimalStart != wy.OptimalStart {
 		t.Errorf("bayes job %+v, engine %+v", y, wy)
 	}
 	lap := strings.Replace(studyScenario, `"law":"bernoulli-gauss","density":0.1,"variance":1`, `"law":"laplace","scale":1`, 1)

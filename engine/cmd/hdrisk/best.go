@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"flag"
+	"fmt"
 	"io"
 	"os"
 	"os/signal"
@@ -30,11 +31,33 @@ type bestOutput struct {
 
 // bayesOutput is the Bayes-optimal reference: what no estimator beats.
 type bayesOutput struct {
-	MSE         number `json:"mse"` // from the uninformed start: what the algorithm reaches
-	NMSEdB      number `json:"nmse_db"`
-	InformedMSE number `json:"informed_mse"`
-	Differ      bool   `json:"differ"` // the starts end apart: a first-order transition
-	Converged   bool   `json:"converged"`
+	MSE    number `json:"mse"` // the optimal fixed point: the minimum mean-square error
+	NMSEdB number `json:"nmse_db"`
+	Start  string `json:"optimal_start"` // the start that reached it: uninformed or informed
+	// Where the starts end apart (a first-order transition) both fixed points are given,
+	// with the free-energy gap between them (informed minus uninformed, nats per entry; null
+	// where it is infinite) and a note saying which one is optimal and that the other exists.
+	UninformedMSE number `json:"uninformed_mse"` // what the algorithm reaches
+	InformedMSE   number `json:"informed_mse"`
+	Differ        bool   `json:"differ"`
+	Gap           number `json:"gap"`
+	Note          string `json:"note,omitempty"`
+	Converged     bool   `json:"converged"`
+}
+
+// bayesJSON is the command line's account of the Bayes reference.
+func bayesJSON(r study.BayesResult) *bayesOutput {
+	out := &bayesOutput{MSE: number(r.Optimal.MSE), NMSEdB: number(r.Optimal.NMSEdB), Start: r.OptimalStart,
+		UninformedMSE: number(r.Uninformed.MSE), InformedMSE: number(r.Informed.MSE), Differ: r.Differ,
+		Gap: number(r.Gap), Converged: r.Uninformed.Converged && r.Informed.Converged}
+	if r.Differ {
+		other := r.Informed
+		if r.OptimalStart == study.StartInformed {
+			other = r.Uninformed
+		}
+		out.Note = fmt.Sprintf("the state evolution has two stable fixed points: the optimal one (lower free energy) is reached from the %s start; the other, NMSE %.4g dB, also exists", r.OptimalStart, other.NMSEdB)
+	}
+	return out
 }
 
 // runBest finds the regularization weight with the lowest MSE and prints it as JSON.
@@ -75,9 +98,7 @@ func runBest(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		if err != nil {
 			return err
 		}
-		out.Bayes = &bayesOutput{MSE: number(r.Uninformed.MSE), NMSEdB: number(r.Uninformed.NMSEdB),
-			InformedMSE: number(r.Informed.MSE), Differ: r.Differ,
-			Converged: r.Uninformed.Converged && r.Informed.Converged}
+		out.Bayes = bayesJSON(r)
 	}
 	return writeJSON(stdout, out)
 }

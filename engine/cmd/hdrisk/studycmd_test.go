@@ -147,3 +147,36 @@ func TestPlanCommand(t *testing.T) {
 		t.Errorf("two targets: exit %d, want 2", code)
 	}
 }
+
+// The issue's sparse +-1 signal at low noise: the Bayes state evolution has two fixed
+// points, and best --bayes reports the optimal one (the informed start's, of lower free
+// energy, docs/method.md section 4.1), names its start and says that the other exists.
+func TestBestBayesTwoFixedPoints(t *testing.T) {
+	sc := `{"kind": "hdrisk.scenario", "version": 1, "title": "sparse +-1, low noise",
+		"design": {"shape": "gaussian", "alpha": 0.25, "scale": "rows"},
+		"signal": {"law": "bernoulli-rademacher", "density": 0.15, "amplitude": 1},
+		"noise": {"variance": 1e-4}, "penalty": {"kind": "ridge", "l2": 0.1}}`
+	out, errs, code := runCmd(t, sc, "best", "-", "--over", "l2", "--bayes")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var r struct {
+		Bayes struct {
+			MSE           float64  `json:"mse"`
+			Start         string   `json:"optimal_start"`
+			UninformedMSE float64  `json:"uninformed_mse"`
+			InformedMSE   float64  `json:"informed_mse"`
+			Differ        bool     `json:"differ"`
+			Gap           *float64 `json:"gap"`
+			Note          string   `json:"note"`
+		} `json:"bayes"`
+	}
+	if err := json.Unmarshal([]byte(out), &r); err != nil {
+		t.Fatal(err)
+	}
+	b := r.Bayes
+	if !b.Differ || b.Start != "informed" || b.MSE != b.InformedMSE || !(b.InformedMSE < b.UninformedMSE) ||
+		b.Gap == nil || !(*b.Gap < 0) || !strings.Contains(b.Note, "also exists") {
+		t.Errorf("%s", out)
+	}
+}

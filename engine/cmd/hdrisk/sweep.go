@@ -208,7 +208,7 @@ func drawSweep(ctx context.Context, s scenario.Scenario, ax study.Axis, pts []st
 	if plot.WantsBayes(s, ax.Over) {
 		if p, err := s.Problem(); err == nil {
 			if b, err := study.Bayes(p); err == nil {
-				sf.Bayes = &b.Uninformed
+				sf.Bayes = &b.Optimal
 			}
 		}
 	}
