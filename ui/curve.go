@@ -261,23 +261,24 @@ func (c *CurveView) Start() {
 	c.redraw()
 }
 
-// familyJobsPerWorker is how many jobs a curves-per-value family gives each worker: curves
-// differ in cost (a 1-bit curve's points take longer than a 4-bit one's), so one job per
-// curve would leave workers idle while the slowest curve runs; a few blocks each keep them
-// all busy to the end.
-const familyJobsPerWorker = 3
+// familyMaxJobs caps the jobs of one curves-per-value family: each finished job costs the
+// page the decoding of its points and a render.
+const familyMaxJobs = 32
 
 // minFamilyBlock is the fewest points of one curve a job of a family is given.
-const minFamilyBlock = 10
+const minFamilyBlock = 5
 
-// familyBlocks splits the points of each of curves curves into blocks of at least
-// minFamilyBlock points, for about familyJobsPerWorker jobs per worker in all.
+// familyBlocks splits the points of each of curves curves into blocks: 2 per worker, so that
+// even a curve that holds nearly all the work (a 4-bit curve's points cost some 40 times a
+// 1-bit one's, measured natively) spreads over every worker and the last block to finish
+// is short; at most familyMaxJobs jobs in all and minFamilyBlock points a block; one block
+// (the whole curve) with one worker.
 func (c *CurveView) familyBlocks(curves, points int) [][2]int {
-	w := 1
+	n := 1
 	if wc, ok := c.Jobs.(workerCount); ok && wc.Workers() > 1 {
-		w = wc.Workers()
+		n = min(2*wc.Workers(), familyMaxJobs/max(curves, 1), points/minFamilyBlock)
 	}
-	n := max(1, min((familyJobsPerWorker*w+curves-1)/curves, points/minFamilyBlock))
+	n = max(n, 1)
 	out := make([][2]int, n)
 	for k := range out {
 		out[k] = [2]int{k * points / n, (k + 1) * points / n}

@@ -166,8 +166,8 @@ func slicesContainObs(os []study.Observable, name string) bool {
 }
 
 // TestCurvePerValueSharedInBlocks: over several workers each curve of a family goes out in
-// blocks of points (familyBlocks), so that a slow curve does not hold one worker while the
-// others idle; the curves put together are the engine's SweepCurves, exactly for the 1-bit
+// blocks of points (familyBlocks, two a worker), so that a slow curve does not hold one
+// worker while the others idle; the curves put together are the engine's SweepCurves, exactly for the 1-bit
 // model (its points start cold, blocked or not) and to the fixed point's tolerance for a
 // linear one (each block starts cold where the whole curve is warm-started; 1e-9 relative,
 // as for a plain sweep shared out).
@@ -177,8 +177,8 @@ func TestCurvePerValueSharedInBlocks(t *testing.T) {
 		points, workers, jobs                  int
 		exact                                  bool
 	}{
-		{"bits", oneBitCurveScenario, "alpha", "0.5", "4", "bits", "1, 2, 3, 4", 30, 2, 8, true},
-		{"l1", lassoScenario, "alpha", "0.2", "0.9", "l1", "0.01, 0.1", 40, 3, 8, false},
+		{"bits", oneBitCurveScenario, "alpha", "0.5", "4", "bits", "1, 2, 3, 4", 30, 2, 16, true},
+		{"l1", lassoScenario, "alpha", "0.2", "0.9", "l1", "0.01, 0.1", 40, 3, 12, false},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			m := modelOf(t, tc.scen)
@@ -245,7 +245,10 @@ func TestCurvePerValueSharedInBlocks(t *testing.T) {
 	if b := (&CurveView{Jobs: &queueJobs{}}).familyBlocks(4, 200); len(b) != 1 {
 		t.Errorf("one worker: blocks %v", b)
 	}
-	if b := (&CurveView{Jobs: &poolJobs{workers: 8}}).familyBlocks(2, 15); len(b) != 1 {
-		t.Errorf("15 points: blocks %v", b)
+	if b := (&CurveView{Jobs: &poolJobs{workers: 8}}).familyBlocks(2, 9); len(b) != 1 {
+		t.Errorf("9 points: blocks %v", b)
+	}
+	if b := (&CurveView{Jobs: &poolJobs{workers: 8}}).familyBlocks(8, 200); len(b) != familyMaxJobs/8 {
+		t.Errorf("8 curves on 8 workers: %d blocks a curve, want %d (the cap)", len(b), familyMaxJobs/8)
 	}
 }
