@@ -174,6 +174,15 @@ func TestCheckInPage(t *testing.T) {
 	if figs["check_converged"] != strconv.FormatBool(native.Converged) {
 		t.Errorf("check_converged = %s, natively %v", figs["check_converged"], native.Converged)
 	}
+	// The orthogonal design's check asked of cd runs prox matrix-free (simulate's cdNote):
+	// the page shows the result's solver note, as text a reader reaches (role=note).
+	if native.SolverNote == "" {
+		t.Fatalf("the native check has no solver note; the test expects cd to run as prox here")
+	}
+	shown := b.cdJS(t, `(e=>e?e.getAttribute("role")+"|"+e.querySelector("[data-note=solver]").textContent:"missing")(document.getElementById("check-notes"))`)
+	if shown != "note|Solver: "+native.SolverNote+"." {
+		t.Errorf("the solver note shown is %q, natively %q", shown, native.SolverNote)
+	}
 	b.imageShown(t, "#check-figure")
 
 	// A long check cancelled midway: the view says so and nothing arrives later.

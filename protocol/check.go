@@ -40,6 +40,7 @@ type CheckComparison struct {
 	RotatedStdErr       Num          `json:"rotated_stderr"`
 	RotatedFactors      string       `json:"rotated_factors"`
 	RotatedSolver       string       `json:"rotated_solver,omitempty"`
+	RotatedSolverNote   string       `json:"rotated_solver_note,omitempty"` // why it is not the one asked for
 	RotatedNotConverged int          `json:"rotated_not_converged"`
 	Z                   Num          `json:"z"`
 	Agrees              bool         `json:"agrees"`

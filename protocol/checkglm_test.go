@@ -25,9 +25,15 @@ func TestMergeChecksGLM(t *testing.T) {
 	}
 	a := part(0, []float64{0.1, 0.2}, []float64{0.7, 0.8}, []float64{0.21, 0.19})
 	b := part(2, []float64{0.3}, []float64{0.9}, []float64{0.25})
+	// Every part computes the prediction and warns of it alike; a trial's warning is its own.
+	pred := "the prediction did not converge: slow"
+	a.Warnings, b.Warnings = []string{"trial 1: not converged", pred}, []string{pred}
 	m, err := MergeChecks([]CheckResult{b, a})
 	if err != nil {
 		t.Fatal(err)
+	}
+	if len(m.Warnings) != 2 || m.Warnings[0] != "trial 1: not converged" || m.Warnings[1] != pred {
+		t.Errorf("merged warnings %q: each once, in trial order", m.Warnings)
 	}
 	cos := simulate.Mean([]float64{0.7, 0.8, 0.9})
 	te := simulate.Mean([]float64{0.21, 0.19, 0.25})

@@ -12,7 +12,8 @@ import (
 // part a job with its own First) into the result of one job: the trials in order, and every
 // mean, standard error and verdict recomputed from them as simulate.Check computes them, so
 // that the numbers do not depend on how many workers ran the check. Seconds is the sum of the
-// parts' times in the workers.
+// parts' times in the workers. A warning that several parts give alike (the prediction's,
+// which every part computes) is kept once.
 // Special cases are: no parts, parts whose trials do not follow one another from the first
 // part's First, and parts of different checks (size, seed, solver) are errors.
 func MergeChecks(parts []CheckResult) (CheckResult, error) {
@@ -43,7 +44,11 @@ func MergeChecks(parts []CheckResult) (CheckResult, error) {
 		}
 		next += p.Trials
 		out.PerTrial = append(out.PerTrial, p.PerTrial...)
-		out.Warnings = append(out.Warnings, p.Warnings...)
+		for _, w := range p.Warnings {
+			if !slices.Contains(out.Warnings, w) {
+				out.Warnings = append(out.Warnings, w)
+			}
+		}
 		out.NotConverged += p.NotConverged
 		out.Seconds += p.Seconds
 		if p.Curve != nil {

@@ -34,14 +34,18 @@ type SweepResult struct {
 var Sweep = Kind[SweepArgs, SweepResult]{Name: "sweep"}
 
 // CurvesArgs are the arguments of Curves: a sweep drawn once per value in At of the field
-// Curves (study.CurvesSpec). The page shares one such study between workers by giving each
-// job some of the values: every curve is the whole sweep at its value, so the numbers do not
-// depend on how the values were shared.
+// Curves (study.CurvesSpec), optionally a block PointFrom <= k < PointTo of each curve's
+// points (PointTo 0: all of them). The page shares one such study between workers by giving
+// each job one value and a block of its points (study.SweepBlock: a generalized model's
+// numbers do not depend on the split; a linear model's agree with the unsplit curve to the
+// fixed point's tolerance).
 type CurvesArgs struct {
-	Scenario json.RawMessage `json:"scenario"`
-	Axis     study.Axis      `json:"axis"`
-	Curves   string          `json:"curves"`
-	At       []float64       `json:"curves_at"`
+	Scenario  json.RawMessage `json:"scenario"`
+	Axis      study.Axis      `json:"axis"`
+	Curves    string          `json:"curves"`
+	At        []float64       `json:"curves_at"`
+	PointFrom int             `json:"point_from,omitempty"`
+	PointTo   int             `json:"point_to,omitempty"`
 }
 
 // Curves runs study.SweepCurves; its result is the engine's, each curve's points packed as

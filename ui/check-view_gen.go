@@ -677,6 +677,30 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						}
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)
+						if len(c.Notes()) > 0 {
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-notes"}, vugu.VGAttribute{Namespace: "", Key: "class", Val: "check-notes"}, vugu.VGAttribute{Namespace: "", Key: "role", Val: "note"}, vugu.VGAttribute{Namespace: "", Key: "aria-label", Val: "Notes on how the check ran"}}}
+							vgparent.AppendChild(vgn)
+							{
+								vgparent := vgn
+								_ = vgparent
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+								vgparent.AppendChild(vgn)
+								for vgiterkeyt, n := range c.Notes() {
+									var vgiterkey interface{} = vgiterkeyt
+									_ = vgiterkey
+									n := n
+									_ = n
+									vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute(nil)}
+									vgparent.AppendChild(vgn)
+									vgn.AddAttrInterface("data-note", n[0])
+									vgn.SetInnerHTML(n[1])
+								}
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+								vgparent.AppendChild(vgn)
+							}
+						}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+						vgparent.AppendChild(vgn)
 						if len(c.MatrixFacts()) > 0 {
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "ul", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "facts verdict"}, vugu.VGAttribute{Namespace: "", Key: "id", Val: "check-verdict"}}}
 							vgparent.AppendChild(vgn)

@@ -503,6 +503,37 @@ func (c *CheckView) Facts() [][3]string {
 	return out
 }
 
+// maxCheckWarnings is how many of a check's warnings its notes show one by one; the rest are
+// counted (each trial's own line, under "Each trial", says whether it converged).
+const maxCheckWarnings = 5
+
+// Notes are what the latest check's result says beside its numbers, as name (data-note) and
+// text: why another solver ran than the one chosen (SolverNote: cd solved matrix-free by
+// prox, or the solver menu that a generalized model does not use), the same for the random
+// rotations beside the user's matrix, then its warnings (a trial at its iteration limit, a
+// prediction that did not converge), the first maxCheckWarnings of them in full.
+func (c *CheckView) Notes() [][2]string {
+	r, ok := c.Latest()
+	if !ok {
+		return nil
+	}
+	var out [][2]string
+	if r.SolverNote != "" {
+		out = append(out, [2]string{"solver", "Solver: " + r.SolverNote + "."})
+	}
+	if k := r.Comparison; k != nil && k.RotatedSolverNote != "" {
+		out = append(out, [2]string{"rotated_solver", "Solver of the random rotations: " + k.RotatedSolverNote + "."})
+	}
+	for i, w := range r.Warnings {
+		if i == maxCheckWarnings {
+			out = append(out, [2]string{"warning", fmt.Sprintf("Warning: %d more like these; each trial's line below says whether it converged.", len(r.Warnings)-i)})
+			break
+		}
+		out = append(out, [2]string{"warning", "Warning: " + w + "."})
+	}
+	return out
+}
+
 // MatrixFacts are the lines of the verdict of a check with the user's matrix, as name,
 // data-value and text; nil for a check with random rotations only.
 func (c *CheckView) MatrixFacts() [][3]string {
@@ -655,6 +686,9 @@ func (c *CheckView) CSV() []byte {
 	head := []string{"over", "at", "trial", "mse", "nonzero_fraction", "tpp", "fdp", "iterations", "converged", "residual", "seconds",
 		"mean_mse", "stderr", "predicted_mse", "n", "m", "seed", "solver", "factors", "stop_criterion", "tol",
 		"rotated_mse", "rotated_mean_mse", "rotated_stderr", "z", "agrees"}
+	// The last two columns are what the result says beside its numbers (Notes): the solver
+	// note on every row of its check, and its warnings, joined by " | ", on the check's first
+	// row only (a check of many trials at their limit has one warning per trial).
 	glm := slices.ContainsFunc(c.points, func(p checkPoint) bool { return p.Result.GLM })
 	if glm {
 		// A generalized model's check adds its own observables, each trial's beside the
@@ -663,6 +697,7 @@ func (c *CheckView) CSV() []byte {
 			head = append(head, n, "mean_"+n, n+"_stderr", "predicted_"+n)
 		}
 	}
+	head = append(head, "solver_note", "warnings")
 	_ = w.Write(head)
 	for _, p := range c.points {
 		r := p.Result
@@ -682,7 +717,7 @@ func (c *CheckView) CSV() []byte {
 				fullNum(float64(t.TPP)), fullNum(float64(t.FDP)), strconv.Itoa(t.Iterations), strconv.FormatBool(t.Converged),
 				fullNum(float64(t.Residual)), fullNum(float64(t.Seconds)), fullNum(float64(r.MeanMSE)), fullNum(float64(r.StdErr)),
 				fullNum(float64(r.PredictedMSE)), strconv.Itoa(r.N), strconv.Itoa(r.M), strconv.FormatUint(r.Seed, 10),
-				r.Solver, r.Factors, r.Criterion, fullNum(float64(r.Tol))}, append(rot, glmCheckCells(glm, r, t)...)...))
+				r.Solver, r.Factors, r.Criterion, fullNum(float64(r.Tol))}, slices.Concat(rot, glmCheckCells(glm, r, t), checkNoteCells(r, i))...))
 		}
 	}
 	w.Flush()
@@ -767,4 +802,17 @@ func glmCheckCells(glm bool, r protocol.CheckResult, t protocol.CheckTrial) []st
 		out = append(out, fullNum(float64(c.v)), fullNum(float64(c.st.Mean)), fullNum(float64(c.st.StdErr)), fullNum(float64(c.st.Predicted)))
 	}
 	return out
+}
+
+// checkNoteCells are the CSV cells solver_note and warnings of row i of check r.
+func checkNoteCells(r protocol.CheckResult, i int) []string {
+	note := r.SolverNote
+	if k := r.Comparison; k != nil && k.RotatedSolverNote != "" {
+		note = strings.TrimPrefix(note+"; random rotations: "+k.RotatedSolverNote, "; ")
+	}
+	warn := ""
+	if i == 0 {
+		warn = strings.Join(r.Warnings, " | ")
+	}
+	return []string{note, warn}
 }

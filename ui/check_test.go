@@ -2,8 +2,10 @@ package ui
 
 import (
 	"bytes"
+	"encoding/csv"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"strings"
 	"testing"
 	"time"
@@ -332,5 +334,64 @@ func TestCheckFollowsAnOpenedScenario(t *testing.T) {
 	c.Compute(nil)
 	if c.NText() != "500" || c.SeedText() != "1" || c.Solver != "cd" {
 		t.Errorf("after opening a scenario without a check: n=%s seed=%s solver=%s, want the defaults", c.NText(), c.SeedText(), c.Solver)
+	}
+}
+
+// The result's solver note and warnings are shown under the numbers and travel in the CSV:
+// the orthogonal LASSO's check asked of cd runs prox matrix-free, and says so.
+func TestCheckShowsSolverNoteAndWarnings(t *testing.T) {
+	jobs := &cdJobs{run: true}
+	br := &cdBrowser{}
+	c := &CheckView{Model: lassoModel(t), Jobs: jobs, Browser: br}
+	_ = c.SetSetting("n", "80")
+	_ = c.SetSetting("trials", "3")
+	c.Start()
+	if c.Run() != RunDone {
+		t.Fatalf("run %s: %s", c.Run(), c.Problem())
+	}
+	want, err := job.Check(jobs.args[0].(protocol.CheckArgs), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want.SolverNote == "" || !strings.HasPrefix(want.SolverNote, "cd was asked; prox ran") {
+		t.Fatalf("the engine's check gives no solver note for cd on the orthogonal design: %+v", want)
+	}
+	notes := c.Notes()
+	if len(notes) != 1 || notes[0][0] != "solver" || notes[0][1] != "Solver: "+want.SolverNote+"." {
+		t.Errorf("notes %q, want the solver note %q", notes, want.SolverNote)
+	}
+	recs, err := csv.NewReader(bytes.NewReader(c.CSV())).ReadAll()
+	if err != nil || len(recs) != 4 {
+		t.Fatalf("CSV: %v, %d rows", err, len(recs))
+	}
+	col := map[string]int{}
+	for i, h := range recs[0] {
+		col[h] = i
+	}
+	for k := 1; k < 4; k++ {
+		if recs[k][col["solver_note"]] != want.SolverNote || recs[k][col["warnings"]] != "" {
+			t.Errorf("CSV row %d: solver_note %q, warnings %q", k, recs[k][col["solver_note"]], recs[k][col["warnings"]])
+		}
+	}
+
+	// Warnings: each shown up to maxCheckWarnings, the rest counted; all of them on the
+	// check's first CSV row; the rotations' own solver note beside the user's matrix.
+	var ws []string
+	for i := range 7 {
+		ws = append(ws, fmt.Sprintf("trial %d: solver prox reached its iteration limit", i))
+	}
+	c.points = []checkPoint{{Result: protocol.CheckResult{Trials: 7, Solver: "prox", Warnings: ws, PerTrial: make([]protocol.CheckTrial, 7),
+		Comparison: &protocol.CheckComparison{RotatedSolverNote: "cd was asked; prox ran instead"}}}}
+	notes = c.Notes()
+	if len(notes) != 2+maxCheckWarnings || notes[0][0] != "rotated_solver" || !strings.Contains(notes[0][1], "cd was asked; prox ran instead") ||
+		notes[1][1] != "Warning: "+ws[0]+"." || !strings.HasPrefix(notes[len(notes)-1][1], "Warning: 2 more like these") {
+		t.Errorf("notes %q", notes)
+	}
+	recs, err = csv.NewReader(bytes.NewReader(c.CSV())).ReadAll()
+	if err != nil || len(recs) != 8 {
+		t.Fatalf("CSV: %v, %d rows", err, len(recs))
+	}
+	if got := recs[1][col["warnings"]]; got != strings.Join(ws, " | ") || recs[2][col["warnings"]] != "" || recs[1][col["solver_note"]] != "random rotations: cd was asked; prox ran instead" {
+		t.Errorf("CSV warnings %q, next row %q, note %q", got, recs[2][col["warnings"]], recs[1][col["solver_note"]])
 	}
 }

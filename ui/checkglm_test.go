@@ -66,6 +66,11 @@ func TestCheckGLMInPage(t *testing.T) {
 	if float64(r.TestError.Predicted) != want.TestError || float64(r.PredictedMSE) != want.MSE {
 		t.Errorf("predictions %v %v, engine %v %v", r.TestError.Predicted, r.PredictedMSE, want.TestError, want.MSE)
 	}
+	// The solver menu (cd here) does not apply to a generalized model, and the view says so.
+	if n := c.Notes(); len(n) == 0 || n[0][0] != "solver" || !strings.Contains(n[0][1], "cd was asked; the solver menu is for the linear readout") ||
+		!strings.Contains(n[0][1], "primal-dual") {
+		t.Errorf("notes %q: the GLM check should say the solver menu does not apply", n)
+	}
 	if s := c.PerTrial()[0]; !strings.Contains(s, "cosine") || !strings.Contains(s, "test error") || strings.Contains(s, "TPP") {
 		t.Errorf("trial line %q", s)
 	}

@@ -36,7 +36,8 @@ type curveSeries struct {
 	done   bool
 
 	// A curve per value: the number that sets each (family), its values and the curves
-	// computed at them (one protocol.Curves job each); Points then holds all their points.
+	// computed at them (protocol.Curves jobs, each a block of one curve's points); Points
+	// then holds all their points.
 	family string
 	at     []float64
 	curves []study.Curve
@@ -260,10 +261,36 @@ func (c *CurveView) Start() {
 	c.redraw()
 }
 
-// startFamily draws one curve per value of field: one protocol.Curves job per value, so
-// that the curves are shared between the workers, each the whole sweep at its value. The
-// references of one curve (best weight, Bayes-optimal error, best-tuned curve) belong to
-// one scenario and are not drawn.
+// familyMaxJobs caps the jobs of one curves-per-value family: each finished job costs the
+// page the decoding of its points and a render.
+const familyMaxJobs = 32
+
+// minFamilyBlock is the fewest points of one curve a job of a family is given.
+const minFamilyBlock = 5
+
+// familyBlocks splits the points of each of curves curves into blocks: 2 per worker, so that
+// even a curve that holds nearly all the work (a 4-bit curve's points cost some 40 times a
+// 1-bit one's, measured natively) spreads over every worker and the last block to finish
+// is short; at most familyMaxJobs jobs in all and minFamilyBlock points a block; one block
+// (the whole curve) with one worker.
+func (c *CurveView) familyBlocks(curves, points int) [][2]int {
+	n := 1
+	if wc, ok := c.Jobs.(workerCount); ok && wc.Workers() > 1 {
+		n = min(2*wc.Workers(), familyMaxJobs/max(curves, 1), points/minFamilyBlock)
+	}
+	n = max(n, 1)
+	out := make([][2]int, n)
+	for k := range out {
+		out[k] = [2]int{k * points / n, (k + 1) * points / n}
+	}
+	return out
+}
+
+// startFamily draws one curve per value of field: one protocol.Curves job per block of
+// points of each value (familyBlocks), so that the curves are shared between the workers
+// and one slow curve does not keep one busy while the others idle. The references of one
+// curve (best weight, Bayes-optimal error, best-tuned curve) belong to one scenario and are
+// not drawn.
 func (c *CurveView) startFamily(s scenario.Scenario, ax study.Axis, field string, at []float64) {
 	c.Model.ranStudy("curve", partSweep)
 	c.stopAll()
@@ -282,8 +309,9 @@ func (c *CurveView) startFamily(s scenario.Scenario, ax study.Axis, field string
 		c.settle()
 		return
 	}
-	cancels := make([]func(), len(at))
-	pending := len(at)
+	blocks := c.familyBlocks(len(at), ax.Points)
+	cancels := make([]func(), len(at)*len(blocks))
+	pending := len(cancels)
 	cs.cancel = func() {
 		for i, f := range cancels {
 			if f != nil {
@@ -293,31 +321,41 @@ func (c *CurveView) startFamily(s scenario.Scenario, ax study.Axis, field string
 		}
 	}
 	for i, v := range at {
-		args := protocol.CurvesArgs{Scenario: data, Axis: ax, Curves: field, At: []float64{v}}
-		cancels[i] = start(c.Jobs, protocol.Curves, args, nil, func(r study.Curves, err error) {
-			cancels[i] = nil
-			pending--
-			if err == nil && (len(r.Curves) != 1 || len(r.Curves[0].Points) != ax.Points) {
-				err = fmt.Errorf("the curve at %s = %s came back incomplete", field, full(v))
+		cs.curves[i] = study.Curve{Value: v, Points: make([]study.Point, ax.Points)}
+	}
+	// Block by block across the curves: the pool runs the jobs in the order they are posted.
+	for kb, b := range blocks {
+		for i, v := range at {
+			args := protocol.CurvesArgs{Scenario: data, Axis: ax, Curves: field, At: []float64{v}}
+			if len(blocks) > 1 {
+				args.PointFrom, args.PointTo = b[0], b[1]
 			}
-			if err != nil {
-				cs.cancel()
-				cs.cancel, cs.done, cs.err = nil, true, err.Error()
+			slot := kb*len(at) + i
+			cancels[slot] = start(c.Jobs, protocol.Curves, args, nil, func(r study.Curves, err error) {
+				cancels[slot] = nil
+				pending--
+				if err == nil && (len(r.Curves) != 1 || len(r.Curves[0].Points) != b[1]-b[0]) {
+					err = fmt.Errorf("the curve at %s = %s came back incomplete (points %d to %d)", field, full(v), b[0], b[1])
+				}
+				if err != nil {
+					cs.cancel()
+					cs.cancel, cs.done, cs.err = nil, true, err.Error()
+					c.settle()
+					return
+				}
+				copy(cs.curves[i].Points[b[0]:], r.Curves[0].Points)
+				if pending > 0 {
+					return
+				}
+				var all []study.Point
+				for _, cv := range cs.curves {
+					all = append(all, cv.Points...)
+				}
+				cs.cancel, cs.done, cs.Points = nil, true, all
+				c.seconds = c.now().Sub(t0).Seconds()
 				c.settle()
-				return
-			}
-			cs.curves[i] = r.Curves[0]
-			if pending > 0 {
-				return
-			}
-			var all []study.Point
-			for _, cv := range cs.curves {
-				all = append(all, cv.Points...)
-			}
-			cs.cancel, cs.done, cs.Points = nil, true, all
-			c.seconds = c.now().Sub(t0).Seconds()
-			c.settle()
-		})
+			})
+		}
 	}
 	c.run = RunRunning
 	c.redraw()

@@ -4,12 +4,16 @@ import (
 	"bytes"
 	"context"
 	"encoding/csv"
+	"fmt"
+	"math"
 	"reflect"
+	"strconv"
 	"strings"
 	"testing"
 
 	"hdrisk/engine/scenario"
 	"hdrisk/engine/study"
+	"hdrisk/protocol"
 )
 
 // An invented 1-bit scenario: a quantizer of one bit on a sparse signal.
@@ -159,4 +163,92 @@ func slicesContainObs(os []study.Observable, name string) bool {
 		}
 	}
 	return false
+}
+
+// TestCurvePerValueSharedInBlocks: over several workers each curve of a family goes out in
+// blocks of points (familyBlocks, two a worker), so that a slow curve does not hold one
+// worker while the others idle; the curves put together are the engine's SweepCurves, exactly for the 1-bit
+// model (its points start cold, blocked or not) and to the fixed point's tolerance for a
+// linear one (each block starts cold where the whole curve is warm-started; 1e-9 relative,
+// as for a plain sweep shared out).
+func TestCurvePerValueSharedInBlocks(t *testing.T) {
+	for _, tc := range []struct {
+		name, scen, over, from, to, curves, at string
+		points, workers, jobs                  int
+		exact                                  bool
+	}{
+		{"bits", oneBitCurveScenario, "alpha", "0.5", "4", "bits", "1, 2, 3, 4", 30, 2, 16, true},
+		{"l1", lassoScenario, "alpha", "0.2", "0.9", "l1", "0.01, 0.1", 40, 3, 12, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			m := modelOf(t, tc.scen)
+			jobs := &poolJobs{workers: tc.workers}
+			c := &CurveView{Model: m, Jobs: jobs, Browser: &keepBrowser{}}
+			c.curveInit()
+			for _, kv := range [][2]string{{"over", tc.over}, {"from", tc.from}, {"to", tc.to}, {"points", strconv.Itoa(tc.points)},
+				{"log", "false"}, {"curves", tc.curves}, {"curves_at", tc.at}} {
+				if err := c.Set(kv[0], kv[1]); err != nil {
+					t.Fatal(err)
+				}
+			}
+			c.Start()
+			if c.Problem() != "" || len(jobs.queue) != tc.jobs {
+				t.Fatalf("problem %q, %d jobs, want %d", c.Problem(), len(jobs.queue), tc.jobs)
+			}
+			covered := map[float64]int{}
+			for _, q := range jobs.queue {
+				a := q.args.(protocol.CurvesArgs)
+				if q.kind != "curves" || len(a.At) != 1 || a.PointTo-a.PointFrom < minFamilyBlock {
+					t.Fatalf("job %s %+v", q.kind, a)
+				}
+				covered[a.At[0]] += a.PointTo - a.PointFrom
+			}
+			for v, n := range covered {
+				if n != tc.points {
+					t.Errorf("the blocks of the curve at %g cover %d points, not %d", v, n, tc.points)
+				}
+			}
+			jobs.flush()
+			if c.Run() != RunDone || c.Problem() != "" {
+				t.Fatalf("run %s, problem %q", c.Run(), c.Problem())
+			}
+			s, _ := scenario.Decode([]byte(tc.scen))
+			ch, _ := s.Check()
+			ax := c.axis
+			want, err := study.SweepCurves(context.Background(), ch, study.CurvesSpec{SweepSpec: study.SweepSpec{Axis: ax},
+				Curves: tc.curves, At: c.current.at}, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			worst := 0.0
+			for k, wc := range want.Curves {
+				gc := c.current.curves[k]
+				if gc.Value != wc.Value || len(gc.Points) != tc.points {
+					t.Fatalf("curve %d: %g with %d points", k, gc.Value, len(gc.Points))
+				}
+				for i, w := range wc.Points {
+					p := gc.Points[i]
+					d := math.Abs(p.Result.MSE-w.Result.MSE) / w.Result.MSE
+					worst = math.Max(worst, d)
+					if p.X != w.X || p.OK() != w.OK() || !w.OK() || d > 1e-9 || (tc.exact && fmt.Sprint(p.Result) != fmt.Sprint(w.Result)) {
+						t.Errorf("%s %g point %d: view (%v, %v, %s), engine (%v, %v, %s)", tc.curves, wc.Value, i, p.X, p.Result.MSE, p.Status(), w.X, w.Result.MSE, w.Status())
+					}
+				}
+			}
+			t.Logf("largest relative difference of the MSE from the unsplit curves: %.3g", worst)
+			if l, ok := c.figureSpec(); !ok || len(l.Series) != len(want.Curves) {
+				t.Errorf("the figure has %d curves, want %d", len(l.Series), len(want.Curves))
+			}
+		})
+	}
+	// One worker, or too few points to share: one job per curve, as before.
+	if b := (&CurveView{Jobs: &queueJobs{}}).familyBlocks(4, 200); len(b) != 1 {
+		t.Errorf("one worker: blocks %v", b)
+	}
+	if b := (&CurveView{Jobs: &poolJobs{workers: 8}}).familyBlocks(2, 9); len(b) != 1 {
+		t.Errorf("9 points: blocks %v", b)
+	}
+	if b := (&CurveView{Jobs: &poolJobs{workers: 8}}).familyBlocks(8, 200); len(b) != familyMaxJobs/8 {
+		t.Errorf("8 curves on 8 workers: %d blocks a curve, want %d (the cap)", len(b), familyMaxJobs/8)
+	}
 }

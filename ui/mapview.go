@@ -78,8 +78,18 @@ func (c *Mapview) axisTexts() [2]axisText {
 // Paths are the numbers of the current scenario a map can vary.
 func (c *Mapview) Paths() []scenario.PathInfo { return modelPaths(c.Model) }
 
-// Quantities are the numbers the colours can show.
-func (c *Mapview) Quantities() []study.Observable { return study.Observables() }
+// Quantities are the numbers the colours can show: those of a generalized linear model
+// (cosine, test error, ...) for such a scenario only, as the curve view offers them.
+func (c *Mapview) Quantities() []study.Observable {
+	if c.Model != nil {
+		if ch := c.Model.Check(); ch.Err == nil {
+			if _, glm := ch.Engine.GLM(); glm {
+				return plot.Quantities()
+			}
+		}
+	}
+	return study.Observables()
+}
 
 // Set stores one setting: "x.over", "x.from", "x.to", "x.points", "x.log", the same for
 // "y.", or "quantity". Special cases are: an unknown name is an error.
@@ -240,13 +250,15 @@ func (c *Mapview) stop() {
 // Progress returns the rows done and the rows in all.
 func (c *Mapview) Progress() (done, total int) { return c.done, c.total }
 
+// quantity returns the observable the colours show. A quantity of a generalized model
+// chosen for an earlier scenario falls back to NMSE in dB.
 func (c *Mapview) quantity() study.Observable {
-	for _, o := range study.Observables() {
+	for _, o := range c.Quantities() {
 		if o.Name == c.Quantity {
 			return o
 		}
 	}
-	return study.Observables()[2]
+	return plot.Observable("nmse_db")
 }
 
 // figure is the map as plot.MapFigure draws it, for the page and the command line alike.
@@ -373,9 +385,14 @@ func (c *Mapview) Answers() [][3]string {
 	q := c.quantity()
 	// The lowest of the quantity the colours show, not of the MSE: the two differ in place
 	// wherever E[x0^2] or the quantity's own scale varies over the map.
+	// For the cosine the best cell is the highest one (plot.HigherBetter).
+	sign, hook, word := 1.0, "map_lowest", "Lowest"
+	if plot.HigherBetter(q.Name) {
+		sign, hook, word = -1, "map_highest", "Highest"
+	}
 	lo, at := math.Inf(1), -1
 	for k, p := range c.cells {
-		if v := q.Of(p.Result); p.OK() && v < lo {
+		if v := sign * q.Of(p.Result); p.OK() && v < lo {
 			lo, at = v, k
 		}
 	}
@@ -386,8 +403,8 @@ func (c *Mapview) Answers() [][3]string {
 	out := [][3]string{{"map_seconds", full(c.seconds), t}}
 	if at >= 0 {
 		p := c.cells[at]
-		out = append(out, [3]string{"map_lowest", full(lo), fmt.Sprintf("Lowest on the map: %s %s at %s = %s, %s = %s",
-			q.Label, num4(q.Of(p.Result)), c.axes[0].Over, num4(p.X), c.axes[1].Over, num4(p.Y))})
+		out = append(out, [3]string{hook, full(sign * lo), fmt.Sprintf("%s on the map: %s %s at %s = %s, %s = %s",
+			word, q.Label, num4(q.Of(p.Result)), c.axes[0].Over, num4(p.X), c.axes[1].Over, num4(p.Y))})
 	}
 	return out
 }

@@ -27,7 +27,7 @@ type Mapview struct {
 	Browser Browser
 	Clock   func() time.Time // nil: the real clock (tests set a fake)
 
-	Quantity string // the observable the colours show (study.Observables name)
+	Quantity string // the observable the colours show (a name of Quantities)
 
 	inited       bool
 	axes         [2]study.Axis // the axes of the map computed last

@@ -138,3 +138,70 @@ func TestMapCancelMidway(t *testing.T) {
 		t.Errorf("the same number on both axes: %q", c.Problem())
 	}
 }
+
+// TestMapGLMQuantities: for a 1-bit scenario the map offers the generalized model's
+// observables, as the curve view does, and colours its cells by them: the test error of
+// each cell is the engine's map's, and the best cell of the cosine is its highest.
+func TestMapGLMQuantities(t *testing.T) {
+	m := modelOf(t, oneBitCurveScenario)
+	jobs, br := &queueJobs{}, &keepBrowser{}
+	c := &Mapview{Model: m, Jobs: jobs, Browser: br}
+	c.mapInit()
+	for _, name := range []string{"cosine", "test_error", "norm_ratio", "train_misfit", "train_loss"} {
+		if !slicesContainObs(c.Quantities(), name) {
+			t.Errorf("the 1-bit scenario's map does not offer %s", name)
+		}
+	}
+	if lin := (&Mapview{Model: modelOf(t, lassoScenario)}); slicesContainObs(lin.Quantities(), "cosine") {
+		t.Error("a linear scenario's map offers the cosine")
+	}
+	for _, kv := range [][2]string{{"x.over", "l1"}, {"x.from", "0.01"}, {"x.to", "0.3"}, {"x.points", "4"}, {"x.log", "true"},
+		{"y.over", "alpha"}, {"y.from", "1"}, {"y.to", "3"}, {"y.points", "3"}, {"y.log", "false"}, {"quantity", "test_error"}} {
+		if err := c.Set(kv[0], kv[1]); err != nil {
+			t.Fatal(err)
+		}
+	}
+	c.Start()
+	jobs.flush()
+	if c.Run() != RunDone {
+		t.Fatalf("run %s: %s", c.Run(), c.Problem())
+	}
+	s, _ := scenario.Decode([]byte(oneBitCurveScenario))
+	spec := study.MapSpec{X: study.Axis{Over: "l1", From: 0.01, To: 0.3, Points: 4, Log: true}, Y: study.Axis{Over: "alpha", From: 1, To: 3, Points: 3}}
+	want, err := study.Map(context.Background(), s, spec, 1, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	h := c.figure().Heat()
+	lo, hi := 1e300, -1e300
+	for k, w := range want.Cells {
+		if !w.OK() || !w.Result.GLM {
+			t.Fatalf("cell %d of the engine's map: %s, GLM %v", k, w.Status(), w.Result.GLM)
+		}
+		if h.Z[k] != w.Result.TestError {
+			t.Errorf("cell %d: test error shown %v, engine %v", k, h.Z[k], w.Result.TestError)
+		}
+		lo, hi = min(lo, w.Result.TestError), max(hi, w.Result.Cosine)
+	}
+	if h.ZLabel != "test error (fresh labels)" || !h.MarkLowest || c.box.spec.Heat == nil || c.box.spec.Heat.ZLabel != h.ZLabel {
+		t.Errorf("heat labelled %q (mark lowest %v), drawn %+v", h.ZLabel, h.MarkLowest, c.box.spec.Heat)
+	}
+	ans := map[string]string{}
+	for _, a := range c.Answers() {
+		ans[a[0]] = a[1]
+	}
+	if ans["map_lowest"] != full(lo) {
+		t.Errorf("lowest test error %q, engine %v", ans["map_lowest"], lo)
+	}
+	_ = c.Set("quantity", "cosine")
+	ans = map[string]string{}
+	for _, a := range c.Answers() {
+		ans[a[0]] = a[1]
+	}
+	if h := c.figure().Heat(); h.MarkLowest || ans["map_highest"] != full(hi) || ans["map_lowest"] != "" {
+		t.Errorf("cosine: mark lowest %v, answers %v, highest cosine %v", h.MarkLowest, ans, hi)
+	}
+	if c.FigureURL() == "" {
+		t.Fatalf("no map drawn: %s", c.FigureProblem())
+	}
+}

@@ -72,6 +72,10 @@ func LogAllowed(q string) bool {
 	return false
 }
 
+// HigherBetter reports whether a larger value of the observable named q is the better
+// estimate (the cosine of xhat and x0), so that a map marks its highest cell, not its lowest.
+func HigherBetter(q string) bool { return q == "cosine" }
+
 // FieldLabel returns the short name of a field of s for an axis: its name ("m/n" for
 // alpha), with its unit when it has one.
 func FieldLabel(s scenario.Scenario, name string) string {
@@ -242,7 +246,7 @@ func (mf MapFigure) Heat() Heat {
 	xs, ys, z := mf.Grid()
 	q := Observable(mf.Quantity)
 	h := Heat{Title: q.Label, XLabel: FieldLabel(mf.Scenario, mf.X.Over), YLabel: FieldLabel(mf.Scenario, mf.Y.Over),
-		ZLabel: q.Label, X: xs, Y: ys, Z: z, XLog: mf.X.Log, YLog: mf.Y.Log, MarkLowest: true,
+		ZLabel: q.Label, X: xs, Y: ys, Z: z, XLog: mf.X.Log, YLog: mf.Y.Log, MarkLowest: !HigherBetter(q.Name),
 		Width: mf.Width, Height: mf.Height}
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, v := range z {

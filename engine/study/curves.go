@@ -22,6 +22,9 @@ type CurvesSpec struct {
 	SweepSpec
 	Curves string    // the second field, as scenario.Scenario.Get names it
 	At     []float64 // its values, one curve each, 1 to MaxCurves of them
+	// PointFrom and PointTo, when PointTo > 0, ask for the points PointFrom <= k < PointTo
+	// of each curve only (SweepBlock), so that the curves can be shared out in blocks.
+	PointFrom, PointTo int
 }
 
 // Curve is one curve of a curves-per-value sweep: the second field's value and the points
@@ -41,7 +44,8 @@ type Curves struct {
 
 // SweepCurves sweeps spec.Axis once per value of spec.Curves: the second field is bound once
 // (scenario.Checked.Bind) and set for each curve (Binding.At), and each curve is then the
-// plain SweepChecked of that scenario, warm-started along its own axis.
+// plain SweepChecked of that scenario, warm-started along its own axis (or, with a block of
+// points asked, its SweepBlock).
 //
 // Special cases are: a second field that is the swept one, an empty or too long value list,
 // and a value the field refuses are errors (*param.Error) naming "curves" or "curves_at[k]",
@@ -69,14 +73,18 @@ func SweepCurves(ctx context.Context, c scenario.Checked, spec CurvesSpec, progr
 			return out, param.Under("curves_at["+strconv.Itoa(k)+"]", err)
 		}
 	}
-	total := len(spec.At) * spec.Points
+	from, to := 0, spec.Points
+	if spec.PointTo > 0 {
+		from, to = spec.PointFrom, spec.PointTo
+	}
+	total := len(spec.At) * (to - from)
 	for k, ck := range at {
 		var pr Progress
 		if progress != nil {
-			done := k * spec.Points
+			done := k * (to - from)
 			pr = func(d, _ int) { progress(done+d, total) }
 		}
-		pts, err := SweepChecked(ctx, ck, spec.SweepSpec, pr)
+		pts, err := SweepBlock(ctx, ck, spec.SweepSpec, from, to, pr)
 		if err != nil && len(pts) == 0 {
 			return out, err
 		}

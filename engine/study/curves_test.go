@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/csv"
 	"errors"
+	"fmt"
 	"math"
 	"reflect"
 	"strings"
@@ -158,5 +159,77 @@ func TestWriteCurvesCSV(t *testing.T) {
 	plain, _ := csv.NewReader(&one).ReadAll()
 	if !reflect.DeepEqual(rows[4][1:], plain[1]) {
 		t.Errorf("row of the second curve %v, WriteCSV %v", rows[4][1:], plain[1])
+	}
+}
+
+// TestSweepCurvesBlocks: a curves-per-value sweep shared out in blocks of points gives, block
+// after block, the unsplit curves at exactly the same values: the generalized model's points
+// exactly (each starts cold, blocked or not), the linear model's to the fixed point's
+// tolerance (a block starts cold where the whole curve is warm-started; relative change of
+// (g1, t1) below 1e-10, fixedpoint.Options.Tol, so 1e-9 relative on the MSE is the bound).
+func TestSweepCurvesBlocks(t *testing.T) {
+	lin := scen(t, orthoDesign(0.5, "rows"), bgSignal(0.1, 1), 0.01, lasso(0.1))
+	for _, tc := range []struct {
+		name   string
+		s      scenario.Scenario
+		curves string
+		at     []float64
+		exact  bool
+	}{
+		{"bits", oneBit(t), "bits", []float64{1, 3}, true},
+		{"l1", lin, "l1", []float64{0.01, 0.1}, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c, err := tc.s.Check()
+			if err != nil {
+				t.Fatal(err)
+			}
+			spec := CurvesSpec{SweepSpec: SweepSpec{Axis: Axis{Over: "alpha", From: 0.3, To: 3, Points: 21, Log: true}}, Curves: tc.curves, At: tc.at}
+			whole, err := SweepCurves(context.Background(), c, spec, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			worst := 0.0
+			for _, b := range [][2]int{{0, 7}, {7, 8}, {8, 21}} {
+				bs := spec
+				bs.PointFrom, bs.PointTo = b[0], b[1]
+				calls := 0
+				part, err := SweepCurves(context.Background(), c, bs, func(done, total int) {
+					calls++
+					if done != calls || total != len(tc.at)*(b[1]-b[0]) {
+						t.Errorf("block %v: progress %d/%d at call %d", b, done, total, calls)
+					}
+				})
+				if err != nil {
+					t.Fatal(err)
+				}
+				for k, cv := range part.Curves {
+					if cv.Value != tc.at[k] || len(cv.Points) != b[1]-b[0] {
+						t.Fatalf("block %v curve %d: value %g, %d points", b, k, cv.Value, len(cv.Points))
+					}
+					for i, p := range cv.Points {
+						w := whole.Curves[k].Points[b[0]+i]
+						if p.X != w.X || p.OK() != w.OK() || !w.OK() {
+							t.Fatalf("block %v curve %d point %d: x %v (%s), whole %v (%s)", b, k, i, p.X, p.Status(), w.X, w.Status())
+						}
+						d := math.Abs(p.Result.MSE-w.Result.MSE) / w.Result.MSE
+						worst = math.Max(worst, d)
+						// fmt prints each number in its shortest exact form, and NaN alike.
+						if (tc.exact && fmt.Sprint(p.Result) != fmt.Sprint(w.Result)) || d > 1e-9 {
+							t.Errorf("block %v curve %d point %d: MSE %v, whole %v", b, k, i, p.Result.MSE, w.Result.MSE)
+						}
+					}
+				}
+			}
+			t.Logf("largest relative difference of the MSE, blocks against the whole curves: %.3g", worst)
+		})
+	}
+	c, _ := lin.Check()
+	for _, b := range [][2]int{{-1, 3}, {3, 3}, {5, 22}} {
+		spec := CurvesSpec{SweepSpec: SweepSpec{Axis: Axis{Over: "alpha", From: 0.3, To: 3, Points: 21}}, Curves: "l1", At: []float64{0.1}, PointFrom: b[0], PointTo: b[1]}
+		var pe *param.Error
+		if _, err := SweepCurves(context.Background(), c, spec, nil); !errors.As(err, &pe) || pe.Field != "points" {
+			t.Errorf("block %v: %v, want an error naming points", b, err)
+		}
 	}
 }

@@ -102,7 +102,7 @@ func Check(a protocol.CheckArgs, progress func(done, total int)) (protocol.Check
 	if c := r.Comparison; c != nil {
 		out.Comparison = &protocol.CheckComparison{MatrixMeanMSE: protocol.Num(c.Matrix.Mean), MatrixStdErr: protocol.Num(c.Matrix.StdErr),
 			RotatedMeanMSE: protocol.Num(c.Rotated.Mean), RotatedStdErr: protocol.Num(c.Rotated.StdErr),
-			RotatedFactors: c.RotatedFactors, RotatedSolver: c.RotatedSolver, RotatedNotConverged: c.RotatedNotConverged,
+			RotatedFactors: c.RotatedFactors, RotatedSolver: c.RotatedSolver, RotatedSolverNote: c.RotatedSolverNote, RotatedNotConverged: c.RotatedNotConverged,
 			Z: protocol.Num(c.Z), Agrees: c.Agrees, RotatedPerTrial: checkTrials(c.RotatedTrials)}
 	}
 	return out, nil

@@ -21,9 +21,10 @@ func decodeScenario(raw json.RawMessage) (scenario.Scenario, error) {
 }
 
 // Sweep runs study.Sweep (warm-started along the axis). progress may be nil. A block of
-// points is swept on its own, starting cold at its first point like a row of a map: its
-// numbers agree with the whole sweep's to the fixed point's tolerance (about 1e-11
-// relative), and its x values are exactly those of the whole axis.
+// points is swept on its own (study.SweepBlock), at exactly the values the whole axis has
+// there and starting cold at its first point like a row of a map: its numbers agree with the
+// whole sweep's to the fixed point's tolerance (about 1e-11 relative), and exactly for a
+// generalized model, whose points start cold anyway.
 //
 // Special cases are: an invalid scenario, axis or block is an error naming the field;
 // points that fail or do not converge are returned marked, as study.Sweep marks them.
@@ -32,24 +33,17 @@ func Sweep(a protocol.SweepArgs, progress func(done, total int)) (protocol.Sweep
 	if err != nil {
 		return protocol.SweepResult{}, err
 	}
-	ax := a.Axis
-	var xs []float64
-	if a.PointTo > 0 {
-		if xs, err = ax.Values(); err != nil {
-			return protocol.SweepResult{}, err
-		}
-		if a.PointFrom < 0 || a.PointTo > len(xs) || a.PointFrom >= a.PointTo {
-			return protocol.SweepResult{}, &study.SpecError{Field: "points", Reason: "the block needs 0 <= point_from < point_to <= points"}
-		}
-		xs = xs[a.PointFrom:a.PointTo]
-		ax.From, ax.To, ax.Points = xs[0], xs[len(xs)-1], len(xs)
-	}
-	pts, err := study.Sweep(context.Background(), s, study.SweepSpec{Axis: ax}, progress)
+	c, err := s.Check()
 	if err != nil {
 		return protocol.SweepResult{}, err
 	}
-	for i := range xs {
-		pts[i].X = xs[i]
+	from, to := 0, a.Axis.Points
+	if a.PointTo > 0 {
+		from, to = a.PointFrom, a.PointTo
+	}
+	pts, err := study.SweepBlock(context.Background(), c, study.SweepSpec{Axis: a.Axis}, from, to, progress)
+	if err != nil {
+		return protocol.SweepResult{}, err
 	}
 	return protocol.SweepResult{Points: pts}, nil
 }
