@@ -11,6 +11,8 @@ import (
 	"hdrisk/engine/penalty"
 	"hdrisk/engine/readout"
 	"hdrisk/engine/signal"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 // GLM is a generalized linear model (docs/method.md section 10): y_mu = readout((F x0)_mu, w_mu)
@@ -121,6 +123,9 @@ type glmSolver struct {
 	rho2    float64
 	out     *outSide
 	zeroPen bool
+	// the Newton steps' Jacobian of M(x) - x, at jx where M(x) - x = jf (glmnewton.go)
+	jac    *mat.Dense
+	jx, jf [glmDim]float64
 }
 
 func (s *glmSolver) absent(reason string) error { return &NoMinimizerError{Reason: reason} }
@@ -227,6 +232,7 @@ func relChange(a, b float64) float64 {
 }
 
 func (s *glmSolver) run(st GLMState) (Result, error) {
+	s.jac = nil
 	damp := 0.5
 	prevRes := math.Inf(1)
 	scale := s.rho2 + s.out.w2 + s.out.rhoz + 1

@@ -3,6 +3,8 @@ package fixedpoint
 import (
 	"math"
 
+	"gonum.org/v1/gonum/integrate/quad"
+
 	"hdrisk/engine/loss"
 	"hdrisk/engine/noise"
 	"hdrisk/engine/readout"
@@ -230,6 +232,11 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 	}
 	beta := mu1 * o.rhoz / vp
 	s := o.rhoz * tau / vp
+	if !noHermite {
+		if hx, hw := o.outerRule(g, vp, math.Sqrt(1+s)/math.Abs(beta)); hx != nil {
+			return o.logisticHermite(g, mu1, tau, vp, beta, s, hx, hw)
+		}
+	}
 	var kinks []float64
 	for _, y := range o.levels {
 		kinks = append(kinks, o.ls.Kinks(y, g)...)
@@ -420,3 +427,160 @@ func (o *outSide) trainAtZero() outMoments {
 	}
 	return om
 }
+
+// outerRules are the Gauss-Hermite rules of the outer expectation over p1 in logisticHermite
+// (gonum quad.Hermite, rescaled to the standard normal), each with the largest standard
+// deviation of p1 it serves. The integrand's complex singularities (those of the sigmoid and
+// of the logistic prox) lie at a distance of order pi from the real axis in p1 itself, so the
+// rule's accuracy falls with the spread sqrt(vp), not with the precision; beyond the last
+// rule, or when P(y | p1) turns on less than outerSharp standard deviations of p1, labels
+// keeps its graded Gauss-Legendre grid. docs/method.md section 11.3 states the accuracy and
+// TestLogisticHermiteAccuracy measures it.
+var outerRules = []struct {
+	maxSD float64
+	x, w  []float64
+}{{1.5, nil, nil}, {2.1, nil, nil}, {2.6, nil, nil}}
+
+const outerSharp = 0.4
+
+func init() {
+	for i, n := range [...]int{48, 64, 96} {
+		x := make([]float64, n)
+		w := make([]float64, n)
+		quad.Hermite{}.FixedLocations(x, w, math.Inf(-1), math.Inf(1))
+		for k := range w {
+			w[k] /= math.Sqrt(math.Pi)
+			x[k] *= math.Sqrt2
+		}
+		outerRules[i].x, outerRules[i].w = x, w
+	}
+}
+
+// outerRule returns the Gauss-Hermite rule for p1 ~ N(0, vp) and P(y | p1) turning on the
+// scale turn, or nil when the graded grid is needed.
+func (o *outSide) outerRule(g, vp, turn float64) (x, w []float64) {
+	sd := math.Sqrt(vp)
+	if !o.smoothLogistic(g) || !(turn >= outerSharp*sd) {
+		return nil, nil
+	}
+	for _, r := range outerRules {
+		if sd <= r.maxSD {
+			return r.x, r.w
+		}
+	}
+	return nil, nil
+}
+
+// smoothLogistic reports whether the output side is the logistic readout with a loss whose
+// prox has no kinks at precision g (logistic, square), for which the integrand over p1 is
+// smooth and a Gauss-Hermite rule converges fast.
+func (o *outSide) smoothLogistic(g float64) bool {
+	if o.rd.Name() != "logistic" {
+		return false
+	}
+	for _, y := range o.levels {
+		if len(o.ls.Kinks(y, g)) > 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// logisticHermite is labels for smoothLogistic: the outer expectation over p1 ~ N(0, vp) by
+// a Gauss-Hermite rule of outerRules, with the same inner rule for P(y | p1) and the same
+// backward message. The prox at each node starts from the first-order extrapolation of the
+// previous node's (the nodes increase and d zhat/dp is known there), which leaves one or two
+// Newton steps. The training misfit has an indicator in p1 and is integrated on its own
+// (misfitGrid).
+func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []float64) outMoments {
+	var py, zy [2]float64
+	var az, dz, dd, terr, tloss float64
+	near, _ := o.ls.(loss.Near)
+	var lastZ, lastD, lastP [2]float64
+	sd := math.Sqrt(vp)
+	for i, x := range hx {
+		p := sd * x
+		o.labelProb(beta*p, s, py[:], zy[:])
+		for j, y := range o.levels {
+			var zh, der float64
+			if near != nil && i > 0 {
+				zh, der = near.ProxNear(y, p, g, lastZ[j]+lastD[j]*(p-lastP[j]))
+			} else {
+				zh, der = o.ls.Prox(y, p, g)
+			}
+			lastZ[j], lastD[j], lastP[j] = zh, der, p
+			pw := hw[i] * py[j]
+			az += pw * der
+			dz += hw[i] * zy[j] * (zh - p)
+			dd += pw * (zh - p) * (zh - p)
+			if o.train {
+				terr += pw * (y - zh) * (y - zh)
+				tloss += pw * o.ls.Value(y, zh)
+			}
+		}
+	}
+	out := outMoments{az: az, trainErr: terr, trainLoss: tloss}
+	if o.train {
+		out.misfit = o.misfitGrid(g, vp, beta, s)
+	}
+	if !(az < 1) {
+		out.zeroDeriv = true
+		return out
+	}
+	c := 1 - az
+	dmu := dz / (c * o.rhoz)
+	out.muz = mu1 + dmu
+	out.sigz = math.Max(dd/(c*c)-tau-dmu*dmu*o.rhoz, 0)
+	return out
+}
+
+// misfitGrid returns P(sign zhat != y) = sum_y E[P(y | p1) 1{sign zhat(y, p1) != sign y}] by
+// labels' graded Gauss-Legendre grid split at the p1 where each zhat(y, .) changes sign; only
+// the nodes on a misfit side need P(y | p1), and no prox is solved there.
+func (o *outSide) misfitGrid(g, vp, beta, s float64) float64 {
+	var kinks []float64
+	cross := make([]float64, len(o.levels))
+	has := make([]bool, len(o.levels))
+	for j, y := range o.levels {
+		cross[j], has[j] = o.zeroCrossing(y, g, vp)
+		if has[j] {
+			kinks = append(kinks, cross[j])
+		}
+	}
+	var sharp [][2]float64
+	if beta != 0 {
+		sharp = [][2]float64{{0, math.Sqrt(1+s) / math.Abs(beta)}}
+	}
+	x, w := gaussGrid(vp, kinks, math.Sqrt(vp), sharp)
+	py := make([]float64, len(o.levels))
+	zy := make([]float64, len(o.levels))
+	mis := 0.0
+	bad := make([]bool, len(o.levels))
+	for i, p := range x {
+		// zhat(y, p) >= 0 exactly when p >= cross (zhat is nondecreasing in p); without a
+		// crossing its sign is that of zhat at any p.
+		any := false
+		for j, y := range o.levels {
+			pos := p >= cross[j]
+			if !has[j] {
+				z, _ := o.ls.Prox(y, p, g)
+				pos = z >= 0
+			}
+			bad[j] = pos != (y >= 0)
+			any = any || bad[j]
+		}
+		if !any {
+			continue
+		}
+		o.labelProb(beta*p, s, py, zy)
+		for j := range o.levels {
+			if bad[j] {
+				mis += w[i] * py[j]
+			}
+		}
+	}
+	return mis
+}
+
+// noHermite makes labels use its graded grid throughout (the reference of the tests).
+var noHermite bool
