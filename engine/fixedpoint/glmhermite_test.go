@@ -1,0 +1,66 @@
+package fixedpoint
+
+import (
+	"math"
+	"testing"
+
+	"hdrisk/engine/loss"
+	"hdrisk/engine/readout"
+)
+
+// TestLogisticHermiteAccuracy measures the Gauss-Hermite rules of the logistic readout's
+// output side (outerRules, docs/method.md section 11.3) against a dense reference: the graded
+// Gauss-Legendre grid of labels with sub-intervals of a quarter standard deviation (four
+// times finer than the grid the solver uses), over a lattice of states covering spreads of
+// p1 up to the last rule's limit and beyond. At every state where a rule is chosen, Az, muz,
+// sigz and the training observables agree with the reference to 1e-8 relative (sigz and
+// the training misfit relative to their scale, sigz + tau and 1); the states beyond the rules'
+// reach must fall back to the grid.
+func TestLogisticHermiteAccuracy(t *testing.T) {
+	worst, used, back := 0.0, 0, 0
+	for _, ls := range []loss.Loss{loss.Logistic(), loss.Square()} {
+		o := &outSide{rd: readout.Logistic(), ls: ls, levels: []float64{-1, 1}}
+		for _, rz := range []float64{0.2, 0.5, 1, 2, 5} {
+			o.rhoz = rz
+			for _, g := range []float64{0.01, 0.05, 0.2, 1, 5, 30} {
+				for _, mu1 := range []float64{0.1, 0.5, 1, 2} {
+					for _, tau := range []float64{1e-3, 0.05, 0.5, 2, 6} {
+						vp := mu1*mu1*rz + tau
+						beta := mu1 * rz / vp
+						s := rz * tau / vp
+						if hx, _ := o.outerRule(g, vp, math.Sqrt(1+s)/math.Abs(beta)); hx == nil {
+							back++
+							if math.Sqrt(vp) <= outerRules[len(outerRules)-1].maxSD && math.Sqrt(1+s)/math.Abs(beta) >= outerSharp*math.Sqrt(vp) {
+								t.Fatalf("rz %g g %g mu1 %g tau %g: no rule chosen inside the rules' reach", rz, g, mu1, tau)
+							}
+							continue
+						}
+						used++
+						for _, train := range []bool{false, true} {
+							o.train = train
+							h := o.labels(g, mu1, tau)
+							noHermite, labelsPanel = true, 0.25
+							ref := o.labels(g, mu1, tau)
+							noHermite, labelsPanel = false, 1
+							e := math.Max(relDiff(h.az, ref.az), relDiff(h.muz, ref.muz))
+							e = math.Max(e, math.Abs(h.sigz-ref.sigz)/(ref.sigz+tau))
+							if train {
+								e = math.Max(e, math.Max(relDiff(h.trainErr, ref.trainErr), relDiff(h.trainLoss, ref.trainLoss)))
+								e = math.Max(e, math.Abs(h.misfit-ref.misfit))
+							}
+							if e > 1e-8 {
+								t.Errorf("%s rz %g g %g mu1 %g tau %g (sd %.3g turn/sd %.3g) train %v: relative difference %.3g from the dense grid", ls.Name(), rz, g, mu1, tau, math.Sqrt(vp), math.Sqrt(1+s)/math.Abs(beta)/math.Sqrt(vp), train, e)
+							}
+							worst = math.Max(worst, e)
+						}
+						o.train = false
+					}
+				}
+			}
+		}
+	}
+	if used == 0 || back == 0 {
+		t.Fatalf("the lattice must cover both paths: %d states on a rule, %d on the grid", used, back)
+	}
+	t.Logf("%d states on a Gauss-Hermite rule, %d on the grid; largest difference %.3g", used, back, worst)
+}
