@@ -27,10 +27,9 @@ func TestLogisticHermiteAccuracy(t *testing.T) {
 					for _, tau := range []float64{1e-3, 0.05, 0.5, 2, 6} {
 						vp := mu1*mu1*rz + tau
 						beta := mu1 * rz / vp
-						s := rz * tau / vp
-						if hx, _ := o.outerRule(g, vp, math.Sqrt(1+s)/math.Abs(beta)); hx == nil {
+						if hx, _ := o.outerRule(g, vp, beta); hx == nil {
 							back++
-							if math.Sqrt(vp) <= outerRules[len(outerRules)-1].maxSD && math.Sqrt(1+s)/math.Abs(beta) >= outerSharp*math.Sqrt(vp) {
+							if math.Sqrt(vp)*math.Max(1, math.Abs(beta)) <= outerRules[len(outerRules)-1].maxSD {
 								t.Fatalf("rz %g g %g mu1 %g tau %g: no rule chosen inside the rules' reach", rz, g, mu1, tau)
 							}
 							continue
@@ -49,7 +48,7 @@ func TestLogisticHermiteAccuracy(t *testing.T) {
 								e = math.Max(e, math.Abs(h.misfit-ref.misfit))
 							}
 							if e > 1e-8 {
-								t.Errorf("%s rz %g g %g mu1 %g tau %g (sd %.3g turn/sd %.3g) train %v: relative difference %.3g from the dense grid", ls.Name(), rz, g, mu1, tau, math.Sqrt(vp), math.Sqrt(1+s)/math.Abs(beta)/math.Sqrt(vp), train, e)
+								t.Errorf("%s rz %g g %g mu1 %g tau %g (sd %.3g beta %.3g) train %v: relative difference %.3g from the dense grid", ls.Name(), rz, g, mu1, tau, math.Sqrt(vp), beta, train, e)
 							}
 							worst = math.Max(worst, e)
 						}

@@ -233,7 +233,7 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 	beta := mu1 * o.rhoz / vp
 	s := o.rhoz * tau / vp
 	if !noHermite {
-		if hx, hw := o.outerRule(g, vp, math.Sqrt(1+s)/math.Abs(beta)); hx != nil {
+		if hx, hw := o.outerRule(g, vp, beta); hx != nil {
 			return o.logisticHermite(g, mu1, tau, vp, beta, s, hx, hw)
 		}
 	}
@@ -439,12 +439,11 @@ func (o *outSide) trainAtZero() outMoments {
 var outerRules = []struct {
 	maxSD float64
 	x, w  []float64
-}{{1.5, nil, nil}, {2.1, nil, nil}, {2.4, nil, nil}}
+}{{1.25, nil, nil}, {1.5, nil, nil}, {2.1, nil, nil}, {2.4, nil, nil}}
 
-const outerSharp = 0.6
 
 func init() {
-	for i, n := range [...]int{48, 64, 96} {
+	for i, n := range [...]int{32, 48, 64, 96} {
 		x := make([]float64, n)
 		w := make([]float64, n)
 		quad.Hermite{}.FixedLocations(x, w, math.Inf(-1), math.Inf(1))
@@ -458,13 +457,16 @@ func init() {
 
 // outerRule returns the Gauss-Hermite rule for p1 ~ N(0, vp) and P(y | p1) turning on the
 // scale turn, or nil when the graded grid is needed.
-func (o *outSide) outerRule(g, vp, turn float64) (x, w []float64) {
+func (o *outSide) outerRule(g, vp, beta float64) (x, w []float64) {
 	sd := math.Sqrt(vp)
-	if !o.smoothLogistic(g) || !(turn >= outerSharp*sd) {
+	if !o.smoothLogistic(g) {
 		return nil, nil
 	}
+	// P(y | p1) is the inner rule's sum of sigmoid(beta p1 + c_i), whose poles lie pi/|beta|
+	// from the real axis in p1; those of the logistic prox lie about pi from it.
+	eff := sd * math.Max(1, math.Abs(beta))
 	for _, r := range outerRules {
-		if sd <= r.maxSD {
+		if eff <= r.maxSD {
 			return r.x, r.w
 		}
 	}
