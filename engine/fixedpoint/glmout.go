@@ -3,8 +3,6 @@ package fixedpoint
 import (
 	"math"
 
-	"gonum.org/v1/gonum/integrate/quad"
-
 	"hdrisk/engine/loss"
 	"hdrisk/engine/noise"
 	"hdrisk/engine/readout"
@@ -25,8 +23,9 @@ type outSide struct {
 	// train asks for the training observables too, which only the final evaluation needs
 	train bool
 	// hermE holds exp(-sqrt(hermS) x) at the Gauss-Hermite nodes of the logistic readout
-	hermS float64
-	hermE []float64
+	hermS        float64
+	hermE        []float64
+	hermX, hermW []float64 // the inner rule for hermS (innerRuleFor)
 }
 
 // outMoments are the output side's answers: the derivative Az = E[d zhat/dp], the truth
@@ -143,21 +142,23 @@ func (o *outSide) labelProb(m, s float64, py, zy []float64) {
 		// are kept while s stays (one labels call), which leaves one exp per call here.
 		if o.hermE == nil || s != o.hermS {
 			o.hermS = s
-			o.hermE = make([]float64, len(hermX))
-			for i, x := range hermX {
+			r := innerRuleFor(s)
+			o.hermX, o.hermW = r.x, r.w
+			o.hermE = make([]float64, len(r.x))
+			for i, x := range r.x {
 				o.hermE[i] = math.Exp(-math.Sqrt(s) * x)
 			}
 		}
 		p, d := 0.0, 0.0
 		em := math.Exp(-m)
-		for i, x := range hermX {
+		for i, x := range o.hermX {
 			e := em * o.hermE[i]
 			sg := 1 / (1 + e)
 			if em == 0 || math.IsInf(em, 0) || math.IsInf(o.hermE[i], 0) || o.hermE[i] == 0 {
 				sg = readout.Sigmoid(m + math.Sqrt(s)*x)
 			}
-			p += hermW[i] * sg
-			d += hermW[i] * sg * (1 - sg)
+			p += o.hermW[i] * sg
+			d += o.hermW[i] * sg * (1 - sg)
 		}
 		py[0], py[1] = 1-p, p
 		zy[1] = m*p + s*d
@@ -441,17 +442,9 @@ var outerRules = []struct {
 	x, w  []float64
 }{{1.25, nil, nil}, {1.5, nil, nil}, {2.1, nil, nil}, {2.4, nil, nil}}
 
-
 func init() {
 	for i, n := range [...]int{32, 48, 64, 96} {
-		x := make([]float64, n)
-		w := make([]float64, n)
-		quad.Hermite{}.FixedLocations(x, w, math.Inf(-1), math.Inf(1))
-		for k := range w {
-			w[k] /= math.Sqrt(math.Pi)
-			x[k] *= math.Sqrt2
-		}
-		outerRules[i].x, outerRules[i].w = x, w
+		outerRules[i].x, outerRules[i].w = hermiteNormal(n)
 	}
 }
 
@@ -498,7 +491,8 @@ func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []flo
 	var py, zy [2]float64
 	var az, dz, dd, terr, tloss float64
 	near, _ := o.ls.(loss.Near)
-	var lastZ, lastD, lastP [2]float64
+	logLoss := o.ls.Name() == "logistic"
+	var lastZ, lastD, lastC, lastP [2]float64
 	sd := math.Sqrt(vp)
 	for i, x := range hx {
 		p := sd * x
@@ -506,11 +500,20 @@ func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []flo
 		for j, y := range o.levels {
 			var zh, der float64
 			if near != nil && i > 0 {
-				zh, der = near.ProxNear(y, p, g, lastZ[j]+lastD[j]*(p-lastP[j]))
+				h := p - lastP[j]
+				zh, der = near.ProxNear(y, p, g, lastZ[j]+h*(lastD[j]+h*lastC[j]/2))
 			} else {
 				zh, der = o.ls.Prox(y, p, g)
 			}
 			lastZ[j], lastD[j], lastP[j] = zh, der, p
+			if logLoss {
+				// d^2 zhat/dp^2 = -y sigma''(s) D^3 / g for the logistic loss (s = y zhat,
+				// D = d zhat/dp = g/(g + sigma'(s))), from the values in hand: sigma'(s) =
+				// g (1 - D)/D and sigma(-s) = g (s - y p) (docs/method.md section 10.1).
+				sp := g * (1 - der) / der
+				sm := g * (y*zh - y*p)
+				lastC[j] = -y * sp * (2*sm - 1) * der * der * der / g
+			}
 			pw := hw[i] * py[j]
 			az += pw * der
 			dz += hw[i] * zy[j] * (zh - p)
