@@ -50,15 +50,41 @@ func (e *NoMinimizerError) Error() string { return "no finite minimizer: " + e.R
 // with a zero penalty and fewer measurements than unknowns (F^T F singular) the minimizer
 // is not unique: both give a *NoMinimizerError with the reason.
 func SolveGLM(p GLM, o Options) (Result, error) {
+	r, _, err := SolveGLMFrom(p, o, nil)
+	return r, err
+}
+
+// SolveGLMFrom is SolveGLM started first from start, the state of a neighbouring fixed point
+// (for instance the last point of a sweep), and it returns the fixed point's state for the
+// next such start. Where the warm start does not converge (it runs off, or stops short of
+// the tolerance), the point is solved again from SolveGLM's cold starts, so that a warm start
+// changes only the cost: the verdicts on existence and the fixed point are those of a cold
+// solve (to the solver's tolerance). A nil start is SolveGLM.
+func SolveGLMFrom(p GLM, o Options, start *GLMState) (Result, GLMState, error) {
+	s, err := newGLMSolver(p, o)
+	if err != nil {
+		return Result{}, GLMState{}, err
+	}
+	if start != nil && finitePos(start.G1) && finitePos(start.T1) && finitePos(start.G2Z) && start.SigZ >= 0 && finiteAll(start.SigZ, start.MuZ) {
+		if r, err := s.run(*start); err == nil && r.Converged {
+			return r, s.final, nil
+		}
+	}
+	r, err := s.cold()
+	return r, s.final, err
+}
+
+// newGLMSolver checks p and sets up its solver, or refuses it.
+func newGLMSolver(p GLM, o Options) (*glmSolver, error) {
 	if p.Design == nil || p.Signal == nil || p.Penalty == nil || p.Readout == nil || p.Loss == nil {
-		return Result{}, fmt.Errorf("%w: design, signal, penalty, readout and loss are all needed", ErrInput)
+		return nil, fmt.Errorf("%w: design, signal, penalty, readout and loss are all needed", ErrInput)
 	}
 	rho2 := p.Signal.Second()
 	if !(rho2 > 0) || math.IsInf(rho2, 0) {
-		return Result{}, fmt.Errorf("%w: the signal has no power (E[x0^2] = %v), so the normalized error is undefined", ErrInput, rho2)
+		return nil, fmt.Errorf("%w: the signal has no power (E[x0^2] = %v), so the normalized error is undefined", ErrInput, rho2)
 	}
 	if p.Loss.Labels() && p.Readout.Name() != "sign" && p.Readout.Name() != "logistic" {
-		return Result{}, fmt.Errorf("%w: loss %s needs labels +-1, which readout %s does not give (use sign or logistic)", ErrInput, p.Loss.Name(), p.Readout.Name())
+		return nil, fmt.Errorf("%w: loss %s needs labels +-1, which readout %s does not give (use sign or logistic)", ErrInput, p.Loss.Name(), p.Readout.Name())
 	}
 	nz := []noise.Component{{Weight: 1, Var: 0}}
 	w2 := 0.0
@@ -67,7 +93,7 @@ func SolveGLM(p GLM, o Options) (Result, error) {
 		w2 = p.Noise.Second()
 	}
 	if p.Readout.Name() == "logistic" && w2 != 0 {
-		return Result{}, fmt.Errorf("%w: the logistic readout draws its own label noise; leave the noise out or give it variance 0", ErrInput)
+		return nil, fmt.Errorf("%w: the logistic readout draws its own label noise; leave the noise out or give it variance 0", ErrInput)
 	}
 	if o.Tol <= 0 {
 		o.Tol = 1e-10
@@ -81,10 +107,16 @@ func SolveGLM(p GLM, o Options) (Result, error) {
 	} else if p.Readout.Labels() {
 		out.levels = []float64{-1, 1}
 	}
-	s := glmSolver{p: p, o: o, rho2: rho2, out: out, zeroPen: zeroPenalty(p.Penalty)}
+	s := &glmSolver{p: p, o: o, rho2: rho2, out: out, zeroPen: zeroPenalty(p.Penalty)}
 	if s.zeroPen && p.Design.Atom0() > 0 {
-		return Result{}, s.absent("no penalty and fewer independent measurements than unknowns (F^T F is singular): the minimizer is not unique")
+		return nil, s.absent("no penalty and fewer independent measurements than unknowns (F^T F is singular): the minimizer is not unique")
 	}
+	return s, nil
+}
+
+// cold solves from the cold starts and reads a run-off as the verdict on existence.
+func (s *glmSolver) cold() (Result, error) {
+	p := s.p
 	// Solve's two cold starts, and one more with a larger g1: a start whose g1 is too small
 	// for the design's reach (S1(g) = g2z A/g1 beyond S1(0)) puts g on the boundary 0.
 	var r Result
@@ -123,6 +155,7 @@ type glmSolver struct {
 	rho2    float64
 	out     *outSide
 	zeroPen bool
+	final   GLMState // the last iterate of the last run, where it converged
 	// the Newton steps' Jacobian of M(x) - x, at jx where M(x) - x = jf (glmnewton.go)
 	jac    *mat.Dense
 	jx, jf [glmDim]float64
@@ -294,6 +327,7 @@ func (s *glmSolver) run(st GLMState) (Result, error) {
 // with the training observables.
 func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) {
 	p := s.p
+	s.final = st
 	s.out.train = true
 	im, err := s.apply(st, im.g)
 	s.out.train = false
@@ -339,6 +373,7 @@ func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) 
 }
 
 func (s *glmSolver) zeroResult(it int, st GLMState, im glmImage) Result {
+	s.final = st
 	r := Result{G1: st.G1, T1: st.T1, Iterations: it, Converged: true, EstimateZero: true, MSE: s.rho2,
 		GLM: true, Labels: s.p.Readout.Labels(),
 		Note: "the penalty is strong enough that the estimate is zero: MSE = E[x0^2]"}

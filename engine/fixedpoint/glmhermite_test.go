@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"hdrisk/engine/loss"
+	"hdrisk/engine/noise"
 	"hdrisk/engine/readout"
 )
 
@@ -62,4 +63,45 @@ func TestLogisticHermiteAccuracy(t *testing.T) {
 		t.Fatalf("the lattice must cover both paths: %d states on a rule, %d on the grid", used, back)
 	}
 	t.Logf("%d states on a Gauss-Hermite rule, %d on the grid; largest difference %.3g", used, back, worst)
+}
+
+// TestCellsSquareTrain: the training observables of a cell readout with the square loss in
+// closed form (cellsSquareTrain) agree with labels' dense graded grid (sub-intervals of a
+// quarter standard deviation) for the sign and a 2-bit readout, Gaussian and outlier noise.
+func TestCellsSquareTrain(t *testing.T) {
+	q2, err := readout.Quantize(2, 1.5)
+	if err != nil {
+		t.Fatal(err)
+	}
+	worst := 0.0
+	for _, rd := range []readout.Readout{readout.Sign(), q2} {
+		for _, nz := range [][]noise.Component{{{Weight: 1, Var: 0.01}}, {{Weight: 0.9, Var: 0.01}, {Weight: 0.1, Var: 4}}} {
+			o := &outSide{rd: rd, ls: loss.Square(), nz: nz, train: true}
+			if c, ok := rd.(readout.Cells); ok {
+				o.levels, o.cuts = c.Levels()
+			} else {
+				o.levels = []float64{-1, 1}
+			}
+			for _, rz := range []float64{0.1, 1, 3} {
+				o.rhoz = rz
+				for _, g := range []float64{0.05, 0.5, 5} {
+					for _, mu1 := range []float64{0.3, 1} {
+						for _, tau := range []float64{1e-3, 0.1, 1} {
+							h := o.labels(g, mu1, tau)
+							noHermite, labelsPanel = true, 0.25
+							ref := o.labels(g, mu1, tau)
+							noHermite, labelsPanel = false, 1
+							e := math.Max(relDiff(h.trainErr, ref.trainErr), relDiff(h.trainLoss, ref.trainLoss))
+							e = math.Max(e, math.Abs(h.misfit-ref.misfit))
+							if e > 1e-9 {
+								t.Errorf("%s rz %g g %g mu1 %g tau %g: %+v, dense grid %+v", rd.Name(), rz, g, mu1, tau, h, ref)
+							}
+							worst = math.Max(worst, e)
+						}
+					}
+				}
+			}
+		}
+	}
+	t.Logf("largest difference %.3g", worst)
 }

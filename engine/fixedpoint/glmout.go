@@ -263,6 +263,9 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 			}
 		}
 	}
+	if o.ls.Name() == "square" && len(o.cuts) > 0 && !noHermite {
+		return o.cellsSquareTrain(g, mu1, vp, beta, s, sharp)
+	}
 	x, w := gaussGrid(vp, kinks, labelsPanel*math.Sqrt(vp), sharp)
 	py := make([]float64, len(o.levels))
 	zy := make([]float64, len(o.levels))
@@ -320,7 +323,27 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 // E[z0 1{u in cell}] = rhoz/sd (phi(a) - phi(b)) at the cell's standardized ends a, b.
 // The training observables need the joint law of (y, zhat) and keep labels' quadrature.
 func (o *outSide) cellsSquare(g float64) outMoments {
-	var ey2, ezy float64
+	ey2, ezy := o.cellsMoments()
+	muz := ezy / o.rhoz
+	return outMoments{az: g / (1 + g), muz: muz, sigz: math.Max(ey2-muz*ezy, 0)}
+}
+
+// cellsSquareTrain is cellsSquare with the training observables: y - zhat = g (y - p1)/(1 + g)
+// and E[y p1] = mu1 E[y z0] (the noise of p1 is independent of z0 and w) give the training
+// error and loss in closed form; the misfit P(sign zhat != y), zhat < 0 exactly when
+// p1 < -y/g, comes from misfitGrid.
+func (o *outSide) cellsSquareTrain(g, mu1, vp, beta, s float64, sharp [][2]float64) outMoments {
+	out := o.cellsSquare(g)
+	ey2, ezy := o.cellsMoments()
+	a := g / (1 + g)
+	out.trainErr = a * a * math.Max(ey2-2*mu1*ezy+vp, 0)
+	out.trainLoss = out.trainErr / 2
+	out.misfit = o.misfitGrid(g, vp, beta, s, sharp)
+	return out
+}
+
+// cellsMoments returns E[y^2] and E[z0 y] of a cell readout.
+func (o *outSide) cellsMoments() (ey2, ezy float64) {
 	for _, k := range o.nz {
 		sd := math.Sqrt(o.rhoz + k.Var)
 		lo, loPDF := math.Inf(-1), 0.0
@@ -335,8 +358,7 @@ func (o *outSide) cellsSquare(g float64) outMoments {
 			lo, loPDF = hi, hiPDF
 		}
 	}
-	muz := ezy / o.rhoz
-	return outMoments{az: g / (1 + g), muz: muz, sigz: math.Max(ey2-muz*ezy, 0)}
+	return ey2, ezy
 }
 
 // zeroCrossing returns the p1 where zhat(y, p1) changes sign (zhat is nondecreasing in p1),
@@ -526,7 +548,11 @@ func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []flo
 	}
 	out := outMoments{az: az, trainErr: terr, trainLoss: tloss}
 	if o.train {
-		out.misfit = o.misfitGrid(g, vp, beta, s)
+		var sharp [][2]float64
+		if beta != 0 {
+			sharp = [][2]float64{{0, math.Sqrt(1+s) / math.Abs(beta)}}
+		}
+		out.misfit = o.misfitGrid(g, vp, beta, s, sharp)
 	}
 	if !(az < 1) {
 		out.zeroDeriv = true
@@ -542,22 +568,25 @@ func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []flo
 // misfitGrid returns P(sign zhat != y) = sum_y E[P(y | p1) 1{sign zhat(y, p1) != sign y}] by
 // labels' graded Gauss-Legendre grid split at the p1 where each zhat(y, .) changes sign; only
 // the nodes on a misfit side need P(y | p1), and no prox is solved there.
-func (o *outSide) misfitGrid(g, vp, beta, s float64) float64 {
+func (o *outSide) misfitGrid(g, vp, beta, s float64, sharp [][2]float64) float64 {
 	var kinks []float64
 	cross := make([]float64, len(o.levels))
 	has := make([]bool, len(o.levels))
 	for j, y := range o.levels {
-		cross[j], has[j] = o.zeroCrossing(y, g, vp)
+		switch o.ls.Name() {
+		case "square": // zhat = (y + g p)/(1 + g)
+			cross[j], has[j] = -y/g, true
+		case "logistic": // zhat = 0 where g (0 - y p) = sigma(0) = 1/2
+			cross[j], has[j] = -y/(2*g), true
+		default:
+			cross[j], has[j] = o.zeroCrossing(y, g, vp)
+		}
 		if has[j] {
 			kinks = append(kinks, cross[j])
 		}
 	}
-	var sharp [][2]float64
-	if beta != 0 {
-		sharp = [][2]float64{{0, math.Sqrt(1+s) / math.Abs(beta)}}
-	}
-	// The integrand is smooth between the cuts and turns on at least outerSharp standard
-	// deviations (graded where less than one): 16 nodes on two standard deviations.
+	// The integrand is smooth between the cuts and turns on the sharp scales (graded where
+	// less than a standard deviation): 16 nodes on two standard deviations elsewhere.
 	x, w := gaussGrid(vp, kinks, 2*labelsPanel*math.Sqrt(vp), sharp)
 	py := make([]float64, len(o.levels))
 	zy := make([]float64, len(o.levels))

@@ -18,6 +18,23 @@ func solveGLM(g fixedpoint.GLM, o fixedpoint.Options) Point {
 	return Point{Result: r}
 }
 
+// solveGLM is the walker's point of a generalized linear model: warm-started from the last
+// point that converged to a nonzero estimate with a nonzero error, as the linear points are
+// (fixedpoint.SolveGLMFrom falls back to the cold starts where that start fails, so the
+// point and the verdict on existence are a cold solve's).
+func (w *walker) solveGLM(g fixedpoint.GLM) Point {
+	o := w.opt
+	o.Start = nil
+	r, st, err := fixedpoint.SolveGLMFrom(g, o, w.glmWarm)
+	if err != nil {
+		return Point{Failed: err.Error()}
+	}
+	if r.Converged && !r.EstimateZero && r.NMSE > warmFloor {
+		w.glmWarm = &st
+	}
+	return Point{Result: r}
+}
+
 // GLMObservables lists the observables that only a generalized linear model reports, in the
 // order of the CSV columns that follow Observables when a study holds such points; for a
 // point without them (or without labels, for test_error and train_misfit) they are NaN.
