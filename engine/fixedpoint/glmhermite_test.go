@@ -105,3 +105,25 @@ func TestCellsSquareTrain(t *testing.T) {
 	}
 	t.Logf("largest difference %.3g", worst)
 }
+
+// TestLogisticTestErrorRule: the test error of the logistic readout (testError, sub-intervals
+// of at most two standard deviations and 3) agrees with the same rule on sub-intervals eight
+// times finer to 1e-12, over signal strengths and estimates from poor to sharp.
+func TestLogisticTestErrorRule(t *testing.T) {
+	o := &outSide{rd: readout.Logistic(), ls: loss.Logistic(), levels: []float64{-1, 1}}
+	for _, rz := range []float64{0.05, 0.5, 2, 10, 50} {
+		o.rhoz = rz
+		for _, q := range []float64{0.01, 0.3, 1, 5, 40} {
+			for _, corr := range []float64{-0.5, 0, 0.3, 0.9, 0.999} {
+				c := corr * math.Sqrt(q*rz)
+				e := o.testError(q, c)
+				labelsPanel = 0.125
+				ref := o.testError(q, c)
+				labelsPanel = 1
+				if math.Abs(e-ref) > 1e-12 {
+					t.Errorf("rhoz %g q %g corr %g: test error %.15g, finer rule %.15g", rz, q, corr, e, ref)
+				}
+			}
+		}
+	}
+}
