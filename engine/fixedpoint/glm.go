@@ -50,23 +50,27 @@ func (e *NoMinimizerError) Error() string { return "no finite minimizer: " + e.R
 // with a zero penalty and fewer measurements than unknowns (F^T F singular) the minimizer
 // is not unique: both give a *NoMinimizerError with the reason.
 func SolveGLM(p GLM, o Options) (Result, error) {
-	r, _, err := SolveGLMFrom(p, o, nil)
+	r, _, err := SolveGLMFrom(p, o)
 	return r, err
 }
 
-// SolveGLMFrom is SolveGLM started first from start, the state of a neighbouring fixed point
-// (for instance the last point of a sweep), and it returns the fixed point's state for the
-// next such start. Where the warm start does not converge (it runs off, or stops short of
-// the tolerance), the point is solved again from SolveGLM's cold starts, so that a warm start
-// changes only the cost: the verdicts on existence and the fixed point are those of a cold
-// solve (to the solver's tolerance). A nil start is SolveGLM.
-func SolveGLMFrom(p GLM, o Options, start *GLMState) (Result, GLMState, error) {
+// SolveGLMFrom is SolveGLM started first from each of starts in turn, states of neighbouring
+// fixed points (for instance the last point of a sweep, or an extrapolation from the last
+// two), and it returns the fixed point's state for the next such start. Where no start
+// converges (each runs off, or stops short of the tolerance), the point is solved again from
+// SolveGLM's cold starts, so that a warm start changes only the cost: the verdicts on
+// existence and the fixed point are those of a cold solve (to the solver's tolerance).
+// Without starts it is SolveGLM.
+func SolveGLMFrom(p GLM, o Options, starts ...GLMState) (Result, GLMState, error) {
 	s, err := newGLMSolver(p, o)
 	if err != nil {
 		return Result{}, GLMState{}, err
 	}
-	if start != nil && finitePos(start.G1) && finitePos(start.T1) && finitePos(start.G2Z) && start.SigZ >= 0 && finiteAll(start.SigZ, start.MuZ) {
-		if r, err := s.run(*start); err == nil && r.Converged {
+	for _, st := range starts {
+		if !finitePos(st.G1) || !finitePos(st.T1) || !finitePos(st.G2Z) || !(st.SigZ >= 0) || !finiteAll(st.SigZ, st.MuZ) {
+			continue
+		}
+		if r, err := s.run(st); err == nil && r.Converged {
 			return r, s.final, nil
 		}
 	}

@@ -19,18 +19,31 @@ func solveGLM(g fixedpoint.GLM, o fixedpoint.Options) Point {
 }
 
 // solveGLM is the walker's point of a generalized linear model: warm-started from the last
-// point that converged to a nonzero estimate with a nonzero error, as the linear points are
-// (fixedpoint.SolveGLMFrom falls back to the cold starts where that start fails, so the
-// point and the verdict on existence are a cold solve's).
+// point that converged to a nonzero estimate with a nonzero error, as the linear points are,
+// and after two such points in a row first from the next state on the line through them in
+// (log g1, log t1, log g2z, log sigz, muz) (fixedpoint.SolveGLMFrom tries the starts in turn
+// and falls back to the cold starts, so the point and the verdict on existence are a cold
+// solve's).
 func (w *walker) solveGLM(g fixedpoint.GLM) Point {
 	o := w.opt
 	o.Start = nil
-	r, st, err := fixedpoint.SolveGLMFrom(g, o, w.glmWarm)
+	var starts []fixedpoint.GLMState
+	if a, b := w.glmWarm, w.glmPrev; a != nil {
+		if w.extrapolate && b != nil && a.SigZ > 0 && b.SigZ > 0 {
+			starts = append(starts, fixedpoint.GLMState{G1: a.G1 * (a.G1 / b.G1), T1: a.T1 * (a.T1 / b.T1),
+				G2Z: a.G2Z * (a.G2Z / b.G2Z), SigZ: a.SigZ * (a.SigZ / b.SigZ), MuZ: 2*a.MuZ - b.MuZ})
+		}
+		starts = append(starts, *a)
+	}
+	r, st, err := fixedpoint.SolveGLMFrom(g, o, starts...)
 	if err != nil {
+		w.glmPrev = nil
 		return Point{Failed: err.Error()}
 	}
 	if r.Converged && !r.EstimateZero && r.NMSE > warmFloor {
-		w.glmWarm = &st
+		w.glmPrev, w.glmWarm = w.glmWarm, &st
+	} else {
+		w.glmPrev = nil
 	}
 	return Point{Result: r}
 }

@@ -182,6 +182,7 @@ type walker struct {
 	extrapolate bool
 	warm, prev  *fixedpoint.State    // the last warm start and the one before it, in a row
 	glmWarm     *fixedpoint.GLMState // the same for generalized linear models (glm.go)
+	glmPrev     *fixedpoint.GLMState
 }
 
 // warmFloor is the NMSE below which a fixed point counts as exact recovery for warm starts.
