@@ -29,7 +29,21 @@ type GLM struct {
 
 // GLMState is a point of the generalized iteration: the input side's (g1, t1) and the output
 // side's backward message p2 = MuZ z0 + N(0, SigZ) at precision G2Z.
-type GLMState struct{ G1, T1, G2Z, SigZ, MuZ float64 }
+//
+// A state returned by SolveGLMFrom also carries the Newton Jacobian of its fixed point, which
+// a warm start from it (or from Extrapolate) reuses.
+type GLMState struct {
+	G1, T1, G2Z, SigZ, MuZ float64
+	jac                    *mat.Dense // nil: none; never modified once in a state
+}
+
+// Extrapolate returns the next state on the line through prev and s in (log g1, log t1,
+// log g2z, log sigz, muz), the start for the next point of an evenly spaced sweep, with s's
+// Jacobian.
+func (s GLMState) Extrapolate(prev GLMState) GLMState {
+	return GLMState{G1: s.G1 * (s.G1 / prev.G1), T1: s.T1 * (s.T1 / prev.T1), G2Z: s.G2Z * (s.G2Z / prev.G2Z),
+		SigZ: s.SigZ * (s.SigZ / prev.SigZ), MuZ: 2*s.MuZ - prev.MuZ, jac: s.jac}
+}
 
 // NoMinimizerError reports a generalized model whose estimate has no unique finite
 // minimizer (docs/method.md section 10), so that no error figure exists.
@@ -163,6 +177,7 @@ type glmSolver struct {
 	// the Newton steps' Jacobian of M(x) - x, at jx where M(x) - x = jf (glmnewton.go)
 	jac    *mat.Dense
 	jx, jf [glmDim]float64
+	secant bool // jx, jf hold the last Newton step's point, for Broyden's update
 }
 
 func (s *glmSolver) absent(reason string) error { return &NoMinimizerError{Reason: reason} }
@@ -269,7 +284,10 @@ func relChange(a, b float64) float64 {
 }
 
 func (s *glmSolver) run(st GLMState) (Result, error) {
-	s.jac = nil
+	s.jac, s.secant = nil, false
+	if st.jac != nil {
+		s.jac = mat.DenseCopyOf(st.jac)
+	}
 	damp := 0.5
 	prevRes := math.Inf(1)
 	scale := s.rho2 + s.out.w2 + s.out.rhoz + 1
@@ -332,6 +350,10 @@ func (s *glmSolver) run(st GLMState) (Result, error) {
 func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) {
 	p := s.p
 	s.final = st
+	s.final.jac = nil
+	if s.jac != nil {
+		s.final.jac = mat.DenseCopyOf(s.jac)
+	}
 	s.out.train = true
 	im, err := s.apply(st, im.g)
 	s.out.train = false
@@ -378,6 +400,7 @@ func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) 
 
 func (s *glmSolver) zeroResult(it int, st GLMState, im glmImage) Result {
 	s.final = st
+	s.final.jac = nil
 	r := Result{G1: st.G1, T1: st.T1, Iterations: it, Converged: true, EstimateZero: true, MSE: s.rho2,
 		GLM: true, Labels: s.p.Readout.Labels(),
 		Note: "the penalty is strong enough that the estimate is zero: MSE = E[x0^2]"}

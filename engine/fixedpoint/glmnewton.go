@@ -28,6 +28,9 @@ func glmPoint(x [glmDim]float64) GLMState {
 // 1996, "Numerical Methods for Unconstrained Optimization and Nonlinear Equations", section
 // 8.1), which costs no evaluation, and fall back to a fresh difference Jacobian when the
 // updated one gives no step that lowers the residual.
+//
+// A warm start may carry the Jacobian of the neighbouring fixed point (GLMState.jac): the
+// first step then tries it as it is, with no evaluation.
 func (s *glmSolver) newton(st GLMState, cur glmImage) (GLMState, glmImage, bool) {
 	if !(st.SigZ > 0) || !(st.T1 > 0) || !(cur.next.SigZ > 0) || !(cur.next.T1 > 0) {
 		return st, cur, false
@@ -38,9 +41,11 @@ func (s *glmSolver) newton(st GLMState, cur glmImage) (GLMState, glmImage, bool)
 		f0[i] -= x0[i]
 	}
 	if s.jac != nil {
-		s.broyden(x0, f0)
+		if s.secant {
+			s.broyden(x0, f0)
+		}
 		if n, im, ok := s.newtonStep(x0, f0, cur); ok {
-			s.jx, s.jf = x0, f0
+			s.jx, s.jf, s.secant = x0, f0, true
 			return n, im, true
 		}
 	}
@@ -53,7 +58,7 @@ func (s *glmSolver) newton(st GLMState, cur glmImage) (GLMState, glmImage, bool)
 		s.jac = nil
 		return st, cur, false
 	}
-	s.jx, s.jf = x0, f0
+	s.jx, s.jf, s.secant = x0, f0, true
 	return n, im, true
 }
 

@@ -20,18 +20,17 @@ func solveGLM(g fixedpoint.GLM, o fixedpoint.Options) Point {
 
 // solveGLM is the walker's point of a generalized linear model: warm-started from the last
 // point that converged to a nonzero estimate with a nonzero error, as the linear points are,
-// and after two such points in a row first from the next state on the line through them in
-// (log g1, log t1, log g2z, log sigz, muz) (fixedpoint.SolveGLMFrom tries the starts in turn
-// and falls back to the cold starts, so the point and the verdict on existence are a cold
-// solve's).
+// and after two such points in a row first from the next state on the line through them
+// (GLMState.Extrapolate). Both starts carry the last point's Newton Jacobian.
+// fixedpoint.SolveGLMFrom tries the starts in turn and falls back to the cold starts, so the
+// point and the verdict on existence are a cold solve's.
 func (w *walker) solveGLM(g fixedpoint.GLM) Point {
 	o := w.opt
 	o.Start = nil
 	var starts []fixedpoint.GLMState
 	if a, b := w.glmWarm, w.glmPrev; a != nil {
 		if w.extrapolate && b != nil && a.SigZ > 0 && b.SigZ > 0 {
-			starts = append(starts, fixedpoint.GLMState{G1: a.G1 * (a.G1 / b.G1), T1: a.T1 * (a.T1 / b.T1),
-				G2Z: a.G2Z * (a.G2Z / b.G2Z), SigZ: a.SigZ * (a.SigZ / b.SigZ), MuZ: 2*a.MuZ - b.MuZ})
+			starts = append(starts, a.Extrapolate(*b))
 		}
 		starts = append(starts, *a)
 	}
