@@ -167,10 +167,11 @@ func (logistic) ProxNear(y, p, g, near float64) (float64, float64) {
 	if !(s > lo && s < hi) {
 		s = q + 0.5/g
 	}
-	// Newton converges quadratically: after a step below tol the error of s - step is about
-	// step^2 |f''/(2 f')| <= step^2 / (20 g) (|sigma''| < 0.1, f' >= g), below 1e-16 max(1, |s|)
-	// with this tol.
-	tol := 1e-8 * math.Min(1, math.Sqrt(20*g))
+	// Once the Newton step is below tol, one Halley step (Press et al., section 9.4; cubic
+	// convergence) ends the iteration: its error is about K step^3 with
+	// K = |f''^2/(4 f'^2) - f'''/(6 f')| <= 0.0025/g^2 + 0.021/g (f' >= g, |sigma''| < 0.1,
+	// |sigma'''| < 0.125), below 1e-16 max(1, |s|) with this tol.
+	tol := math.Cbrt(1e-16 / (0.0025/(g*g) + 0.021/g))
 	sm, done := 0.0, false
 	// Safeguarded as rtsafe (Press et al., Numerical Recipes, 3rd ed., section 9.4): a
 	// bisection of the bracket replaces a Newton step that leaves the bracket or does not halve
@@ -188,9 +189,12 @@ func (logistic) ProxNear(y, p, g, near float64) (float64, float64) {
 		d := sm * (1 - sm)
 		step := f / (g + d)
 		if math.Abs(step) <= tol*math.Max(1, math.Abs(s)) {
-			// sigma(-n) to the same order from its derivative -d. Tested before the
-			// bracket: s may have just become one of its ends.
-			sm += d * step
+			// f'' = sigma''(s) = d (2 sigma(-s) - 1); sigma(-s) at the new point from its
+			// Taylor series to second order. Tested before the bracket: s may have just
+			// become one of its ends.
+			fpp := d * (2*sm - 1)
+			step /= 1 - step*fpp/(2*(g+d))
+			sm += d*step + d*(1-2*sm)*step*step/2
 			s, done = s-step, true
 			break
 		}
