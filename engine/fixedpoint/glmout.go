@@ -26,6 +26,7 @@ type outSide struct {
 	hermS        float64
 	hermE        []float64
 	hermX, hermW []float64 // the inner rule for hermS (innerRuleFor)
+	hermOK       bool      // every hermE finite and nonzero
 }
 
 // outMoments are the output side's answers: the derivative Az = E[d zhat/dp], the truth
@@ -145,16 +146,22 @@ func (o *outSide) labelProb(m, s float64, py, zy []float64) {
 			r := innerRuleFor(s)
 			o.hermX, o.hermW = r.x, r.w
 			o.hermE = make([]float64, len(r.x))
+			o.hermOK = true
 			for i, x := range r.x {
 				o.hermE[i] = math.Exp(-math.Sqrt(s) * x)
+				o.hermOK = o.hermOK && o.hermE[i] > 0 && !math.IsInf(o.hermE[i], 0)
 			}
 		}
 		p, d := 0.0, 0.0
 		em := math.Exp(-m)
+		// With both factors finite and nonzero their product is safe (an overflow to Inf or
+		// an underflow to 0 gives the right 0 or 1); otherwise each node goes through Sigmoid.
+		fast := em > 0 && !math.IsInf(em, 0) && o.hermOK
 		for i, x := range o.hermX {
-			e := em * o.hermE[i]
-			sg := 1 / (1 + e)
-			if em == 0 || math.IsInf(em, 0) || math.IsInf(o.hermE[i], 0) || o.hermE[i] == 0 {
+			var sg float64
+			if fast {
+				sg = 1 / (1 + em*o.hermE[i])
+			} else {
 				sg = readout.Sigmoid(m + math.Sqrt(s)*x)
 			}
 			p += o.hermW[i] * sg
