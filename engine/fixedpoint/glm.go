@@ -11,6 +11,8 @@ import (
 	"hdrisk/engine/penalty"
 	"hdrisk/engine/readout"
 	"hdrisk/engine/signal"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 // GLM is a generalized linear model (docs/method.md section 10): y_mu = readout((F x0)_mu, w_mu)
@@ -27,7 +29,21 @@ type GLM struct {
 
 // GLMState is a point of the generalized iteration: the input side's (g1, t1) and the output
 // side's backward message p2 = MuZ z0 + N(0, SigZ) at precision G2Z.
-type GLMState struct{ G1, T1, G2Z, SigZ, MuZ float64 }
+//
+// A state returned by SolveGLMFrom also carries the Newton Jacobian of its fixed point, which
+// a warm start from it (or from Extrapolate) reuses.
+type GLMState struct {
+	G1, T1, G2Z, SigZ, MuZ float64
+	jac                    *mat.Dense // nil: none; never modified once in a state
+}
+
+// Extrapolate returns the next state on the line through prev and s in (log g1, log t1,
+// log g2z, log sigz, muz), the start for the next point of an evenly spaced sweep, with s's
+// Jacobian.
+func (s GLMState) Extrapolate(prev GLMState) GLMState {
+	return GLMState{G1: s.G1 * (s.G1 / prev.G1), T1: s.T1 * (s.T1 / prev.T1), G2Z: s.G2Z * (s.G2Z / prev.G2Z),
+		SigZ: s.SigZ * (s.SigZ / prev.SigZ), MuZ: 2*s.MuZ - prev.MuZ, jac: s.jac}
+}
 
 // NoMinimizerError reports a generalized model whose estimate has no unique finite
 // minimizer (docs/method.md section 10), so that no error figure exists.
@@ -48,15 +64,45 @@ func (e *NoMinimizerError) Error() string { return "no finite minimizer: " + e.R
 // with a zero penalty and fewer measurements than unknowns (F^T F singular) the minimizer
 // is not unique: both give a *NoMinimizerError with the reason.
 func SolveGLM(p GLM, o Options) (Result, error) {
+	r, _, err := SolveGLMFrom(p, o)
+	return r, err
+}
+
+// SolveGLMFrom is SolveGLM started first from each of starts in turn, states of neighbouring
+// fixed points (for instance the last point of a sweep, or an extrapolation from the last
+// two), and it returns the fixed point's state for the next such start. Where no start
+// converges (each runs off, or stops short of the tolerance), the point is solved again from
+// SolveGLM's cold starts, so that a warm start changes only the cost: the verdicts on
+// existence and the fixed point are those of a cold solve (to the solver's tolerance).
+// Without starts it is SolveGLM.
+func SolveGLMFrom(p GLM, o Options, starts ...GLMState) (Result, GLMState, error) {
+	s, err := newGLMSolver(p, o)
+	if err != nil {
+		return Result{}, GLMState{}, err
+	}
+	for _, st := range starts {
+		if !finitePos(st.G1) || !finitePos(st.T1) || !finitePos(st.G2Z) || !(st.SigZ >= 0) || !finiteAll(st.SigZ, st.MuZ) {
+			continue
+		}
+		if r, err := s.run(st); err == nil && r.Converged {
+			return r, s.final, nil
+		}
+	}
+	r, err := s.cold()
+	return r, s.final, err
+}
+
+// newGLMSolver checks p and sets up its solver, or refuses it.
+func newGLMSolver(p GLM, o Options) (*glmSolver, error) {
 	if p.Design == nil || p.Signal == nil || p.Penalty == nil || p.Readout == nil || p.Loss == nil {
-		return Result{}, fmt.Errorf("%w: design, signal, penalty, readout and loss are all needed", ErrInput)
+		return nil, fmt.Errorf("%w: design, signal, penalty, readout and loss are all needed", ErrInput)
 	}
 	rho2 := p.Signal.Second()
 	if !(rho2 > 0) || math.IsInf(rho2, 0) {
-		return Result{}, fmt.Errorf("%w: the signal has no power (E[x0^2] = %v), so the normalized error is undefined", ErrInput, rho2)
+		return nil, fmt.Errorf("%w: the signal has no power (E[x0^2] = %v), so the normalized error is undefined", ErrInput, rho2)
 	}
 	if p.Loss.Labels() && p.Readout.Name() != "sign" && p.Readout.Name() != "logistic" {
-		return Result{}, fmt.Errorf("%w: loss %s needs labels +-1, which readout %s does not give (use sign or logistic)", ErrInput, p.Loss.Name(), p.Readout.Name())
+		return nil, fmt.Errorf("%w: loss %s needs labels +-1, which readout %s does not give (use sign or logistic)", ErrInput, p.Loss.Name(), p.Readout.Name())
 	}
 	nz := []noise.Component{{Weight: 1, Var: 0}}
 	w2 := 0.0
@@ -65,7 +111,7 @@ func SolveGLM(p GLM, o Options) (Result, error) {
 		w2 = p.Noise.Second()
 	}
 	if p.Readout.Name() == "logistic" && w2 != 0 {
-		return Result{}, fmt.Errorf("%w: the logistic readout draws its own label noise; leave the noise out or give it variance 0", ErrInput)
+		return nil, fmt.Errorf("%w: the logistic readout draws its own label noise; leave the noise out or give it variance 0", ErrInput)
 	}
 	if o.Tol <= 0 {
 		o.Tol = 1e-10
@@ -79,10 +125,16 @@ func SolveGLM(p GLM, o Options) (Result, error) {
 	} else if p.Readout.Labels() {
 		out.levels = []float64{-1, 1}
 	}
-	s := glmSolver{p: p, o: o, rho2: rho2, out: out, zeroPen: zeroPenalty(p.Penalty)}
+	s := &glmSolver{p: p, o: o, rho2: rho2, out: out, zeroPen: zeroPenalty(p.Penalty)}
 	if s.zeroPen && p.Design.Atom0() > 0 {
-		return Result{}, s.absent("no penalty and fewer independent measurements than unknowns (F^T F is singular): the minimizer is not unique")
+		return nil, s.absent("no penalty and fewer independent measurements than unknowns (F^T F is singular): the minimizer is not unique")
 	}
+	return s, nil
+}
+
+// cold solves from the cold starts and reads a run-off as the verdict on existence.
+func (s *glmSolver) cold() (Result, error) {
+	p := s.p
 	// Solve's two cold starts, and one more with a larger g1: a start whose g1 is too small
 	// for the design's reach (S1(g) = g2z A/g1 beyond S1(0)) puts g on the boundary 0.
 	var r Result
@@ -121,6 +173,11 @@ type glmSolver struct {
 	rho2    float64
 	out     *outSide
 	zeroPen bool
+	final   GLMState // the last iterate of the last run, where it converged
+	// the Newton steps' Jacobian of M(x) - x, at jx where M(x) - x = jf (glmnewton.go)
+	jac    *mat.Dense
+	jx, jf [glmDim]float64
+	secant bool // jx, jf hold the last Newton step's point, for Broyden's update
 }
 
 func (s *glmSolver) absent(reason string) error { return &NoMinimizerError{Reason: reason} }
@@ -227,6 +284,10 @@ func relChange(a, b float64) float64 {
 }
 
 func (s *glmSolver) run(st GLMState) (Result, error) {
+	s.jac, s.secant = nil, false
+	if st.jac != nil {
+		s.jac = mat.DenseCopyOf(st.jac)
+	}
 	damp := 0.5
 	prevRes := math.Inf(1)
 	scale := s.rho2 + s.out.w2 + s.out.rhoz + 1
@@ -288,6 +349,11 @@ func (s *glmSolver) run(st GLMState) (Result, error) {
 // with the training observables.
 func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) {
 	p := s.p
+	s.final = st
+	s.final.jac = nil
+	if s.jac != nil {
+		s.final.jac = mat.DenseCopyOf(s.jac)
+	}
 	s.out.train = true
 	im, err := s.apply(st, im.g)
 	s.out.train = false
@@ -333,6 +399,8 @@ func (s *glmSolver) observe(st GLMState, im glmImage, r Result) (Result, error) 
 }
 
 func (s *glmSolver) zeroResult(it int, st GLMState, im glmImage) Result {
+	s.final = st
+	s.final.jac = nil
 	r := Result{G1: st.G1, T1: st.T1, Iterations: it, Converged: true, EstimateZero: true, MSE: s.rho2,
 		GLM: true, Labels: s.p.Readout.Labels(),
 		Note: "the penalty is strong enough that the estimate is zero: MSE = E[x0^2]"}

@@ -9,8 +9,8 @@ import (
 // The generalized iteration, like Solve's, contracts weakly near a boundary (the existence
 // boundary of an unpenalized classifier, alpha near 1): there it takes Newton steps on
 // F(x) = M(x) - x in x = (log g1, log t1, log g2z, log sigz, muz), with a forward-difference
-// Jacobian, a step capped at a factor e^2 per coordinate, and halving until the map's
-// residual falls.
+// Jacobian updated by Broyden's formula between steps, a step capped at a factor e^2 per
+// coordinate, and halving until the map's residual falls.
 
 const glmDim = 5
 
@@ -22,32 +22,95 @@ func glmPoint(x [glmDim]float64) GLMState {
 	return GLMState{G1: math.Exp(x[0]), T1: math.Exp(x[1]), G2Z: math.Exp(x[2]), SigZ: math.Exp(x[3]), MuZ: x[4]}
 }
 
+// newton takes one Newton step from st. The first step of a run forms the forward-difference
+// Jacobian (glmDim evaluations of the map); later steps update it by Broyden's rank-one
+// secant formula from the previous step (Broyden 1965, Math. Comp. 19(92); Dennis & Schnabel
+// 1996, "Numerical Methods for Unconstrained Optimization and Nonlinear Equations", section
+// 8.1), which costs no evaluation, and fall back to a fresh difference Jacobian when the
+// updated one gives no step that lowers the residual.
+//
+// A warm start may carry the Jacobian of the neighbouring fixed point (GLMState.jac): the
+// first step then tries it as it is, with no evaluation.
 func (s *glmSolver) newton(st GLMState, cur glmImage) (GLMState, glmImage, bool) {
 	if !(st.SigZ > 0) || !(st.T1 > 0) || !(cur.next.SigZ > 0) || !(cur.next.T1 > 0) {
 		return st, cur, false
 	}
-	const h = 1e-6
 	x0 := glmCoords(st)
 	f0 := glmCoords(cur.next)
 	for i := range f0 {
 		f0[i] -= x0[i]
 	}
+	if s.jac != nil {
+		if s.secant {
+			s.broyden(x0, f0)
+		}
+		if n, im, ok := s.newtonStep(x0, f0, cur); ok {
+			s.jx, s.jf, s.secant = x0, f0, true
+			return n, im, true
+		}
+	}
+	if !s.diffJacobian(x0, f0, cur) {
+		s.jac = nil
+		return st, cur, false
+	}
+	n, im, ok := s.newtonStep(x0, f0, cur)
+	if !ok {
+		s.jac = nil
+		return st, cur, false
+	}
+	s.jx, s.jf, s.secant = x0, f0, true
+	return n, im, true
+}
+
+// diffJacobian sets s.jac to the forward-difference Jacobian of F at x0.
+func (s *glmSolver) diffJacobian(x0, f0 [glmDim]float64, cur glmImage) bool {
+	const h = 1e-6
 	jac := mat.NewDense(glmDim, glmDim, nil)
 	for k := range glmDim {
 		x := x0
 		x[k] += h
 		im, err := s.apply(glmPoint(x), cur.g)
 		if err != nil || !(im.next.SigZ > 0) || !(im.next.T1 > 0) {
-			return st, cur, false
+			return false
 		}
 		fk := glmCoords(im.next)
 		for i := range fk {
 			jac.Set(i, k, (fk[i]-x[i]-f0[i])/h)
 		}
 	}
+	s.jac = jac
+	return true
+}
+
+// broyden updates s.jac, the Jacobian at s.jx, to x0: J += (df - J dx) dx^T / (dx^T dx).
+func (s *glmSolver) broyden(x0, f0 [glmDim]float64) {
+	var dx, df [glmDim]float64
+	nn := 0.0
+	for i := range dx {
+		dx[i] = x0[i] - s.jx[i]
+		df[i] = f0[i] - s.jf[i]
+		nn += dx[i] * dx[i]
+	}
+	if !(nn > 0) {
+		return
+	}
+	for i := range glmDim {
+		r := df[i]
+		for k := range glmDim {
+			r -= s.jac.At(i, k) * dx[k]
+		}
+		for k := range glmDim {
+			s.jac.Set(i, k, s.jac.At(i, k)+r*dx[k]/nn)
+		}
+	}
+}
+
+// newtonStep solves J d = -F and takes the step, capped at a factor e^2 per coordinate and
+// halved until the map's residual falls.
+func (s *glmSolver) newtonStep(x0, f0 [glmDim]float64, cur glmImage) (GLMState, glmImage, bool) {
 	var d mat.VecDense
-	if err := d.SolveVec(jac, mat.NewVecDense(glmDim, f0[:])); err != nil {
-		return st, cur, false
+	if err := d.SolveVec(s.jac, mat.NewVecDense(glmDim, f0[:])); err != nil {
+		return GLMState{}, cur, false
 	}
 	step := [glmDim]float64{}
 	big := 0.0
@@ -56,7 +119,7 @@ func (s *glmSolver) newton(st GLMState, cur glmImage) (GLMState, glmImage, bool)
 		big = math.Max(big, math.Abs(step[i]))
 	}
 	if !(big < math.Inf(1)) {
-		return st, cur, false
+		return GLMState{}, cur, false
 	}
 	if c := big / 2; c > 1 {
 		for i := range step {
@@ -77,5 +140,5 @@ func (s *glmSolver) newton(st GLMState, cur glmImage) (GLMState, glmImage, bool)
 			step[i] /= 2
 		}
 	}
-	return st, cur, false
+	return GLMState{}, cur, false
 }

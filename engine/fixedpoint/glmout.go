@@ -23,8 +23,10 @@ type outSide struct {
 	// train asks for the training observables too, which only the final evaluation needs
 	train bool
 	// hermE holds exp(-sqrt(hermS) x) at the Gauss-Hermite nodes of the logistic readout
-	hermS float64
-	hermE []float64
+	hermS        float64
+	hermE        []float64
+	hermX, hermW []float64 // the inner rule for hermS (innerRuleFor)
+	hermOK       bool      // every hermE finite and nonzero
 }
 
 // outMoments are the output side's answers: the derivative Az = E[d zhat/dp], the truth
@@ -141,21 +143,29 @@ func (o *outSide) labelProb(m, s float64, py, zy []float64) {
 		// are kept while s stays (one labels call), which leaves one exp per call here.
 		if o.hermE == nil || s != o.hermS {
 			o.hermS = s
-			o.hermE = make([]float64, len(hermX))
-			for i, x := range hermX {
+			r := innerRuleFor(s)
+			o.hermX, o.hermW = r.x, r.w
+			o.hermE = make([]float64, len(r.x))
+			o.hermOK = true
+			for i, x := range r.x {
 				o.hermE[i] = math.Exp(-math.Sqrt(s) * x)
+				o.hermOK = o.hermOK && o.hermE[i] > 0 && !math.IsInf(o.hermE[i], 0)
 			}
 		}
 		p, d := 0.0, 0.0
 		em := math.Exp(-m)
-		for i, x := range hermX {
-			e := em * o.hermE[i]
-			sg := 1 / (1 + e)
-			if em == 0 || math.IsInf(em, 0) || math.IsInf(o.hermE[i], 0) || o.hermE[i] == 0 {
+		// With both factors finite and nonzero their product is safe (an overflow to Inf or
+		// an underflow to 0 gives the right 0 or 1); otherwise each node goes through Sigmoid.
+		fast := em > 0 && !math.IsInf(em, 0) && o.hermOK
+		for i, x := range o.hermX {
+			var sg float64
+			if fast {
+				sg = 1 / (1 + em*o.hermE[i])
+			} else {
 				sg = readout.Sigmoid(m + math.Sqrt(s)*x)
 			}
-			p += hermW[i] * sg
-			d += hermW[i] * sg * (1 - sg)
+			p += o.hermW[i] * sg
+			d += o.hermW[i] * sg * (1 - sg)
 		}
 		py[0], py[1] = 1-p, p
 		zy[1] = m*p + s*d
@@ -230,6 +240,11 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 	}
 	beta := mu1 * o.rhoz / vp
 	s := o.rhoz * tau / vp
+	if !noHermite {
+		if hx, hw := o.outerRule(g, vp, beta); hx != nil {
+			return o.logisticHermite(g, mu1, tau, vp, beta, s, hx, hw)
+		}
+	}
 	var kinks []float64
 	for _, y := range o.levels {
 		kinks = append(kinks, o.ls.Kinks(y, g)...)
@@ -255,7 +270,10 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 			}
 		}
 	}
-	x, w := gaussGrid(vp, kinks, math.Sqrt(vp), sharp)
+	if o.ls.Name() == "square" && len(o.cuts) > 0 && !noHermite {
+		return o.cellsSquareTrain(g, mu1, vp, beta, s, sharp)
+	}
+	x, w := gaussGrid(vp, kinks, labelsPanel*math.Sqrt(vp), sharp)
 	py := make([]float64, len(o.levels))
 	zy := make([]float64, len(o.levels))
 	var az, dz, dd, dp, terr, tloss, mis float64
@@ -312,7 +330,27 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 // E[z0 1{u in cell}] = rhoz/sd (phi(a) - phi(b)) at the cell's standardized ends a, b.
 // The training observables need the joint law of (y, zhat) and keep labels' quadrature.
 func (o *outSide) cellsSquare(g float64) outMoments {
-	var ey2, ezy float64
+	ey2, ezy := o.cellsMoments()
+	muz := ezy / o.rhoz
+	return outMoments{az: g / (1 + g), muz: muz, sigz: math.Max(ey2-muz*ezy, 0)}
+}
+
+// cellsSquareTrain is cellsSquare with the training observables: y - zhat = g (y - p1)/(1 + g)
+// and E[y p1] = mu1 E[y z0] (the noise of p1 is independent of z0 and w) give the training
+// error and loss in closed form; the misfit P(sign zhat != y), zhat < 0 exactly when
+// p1 < -y/g, comes from misfitGrid.
+func (o *outSide) cellsSquareTrain(g, mu1, vp, beta, s float64, sharp [][2]float64) outMoments {
+	out := o.cellsSquare(g)
+	ey2, ezy := o.cellsMoments()
+	a := g / (1 + g)
+	out.trainErr = a * a * math.Max(ey2-2*mu1*ezy+vp, 0)
+	out.trainLoss = out.trainErr / 2
+	out.misfit = o.misfitGrid(g, vp, beta, s, sharp)
+	return out
+}
+
+// cellsMoments returns E[y^2] and E[z0 y] of a cell readout.
+func (o *outSide) cellsMoments() (ey2, ezy float64) {
 	for _, k := range o.nz {
 		sd := math.Sqrt(o.rhoz + k.Var)
 		lo, loPDF := math.Inf(-1), 0.0
@@ -327,8 +365,7 @@ func (o *outSide) cellsSquare(g float64) outMoments {
 			lo, loPDF = hi, hiPDF
 		}
 	}
-	muz := ezy / o.rhoz
-	return outMoments{az: g / (1 + g), muz: muz, sigz: math.Max(ey2-muz*ezy, 0)}
+	return ey2, ezy
 }
 
 // zeroCrossing returns the p1 where zhat(y, p1) changes sign (zhat is nondecreasing in p1),
@@ -367,7 +404,9 @@ func (o *outSide) testError(q, c float64) float64 {
 		if res > 0 {
 			sharp = [][2]float64{{0, math.Sqrt(res) / math.Max(math.Abs(b), 1e-300)}}
 		}
-		x, w := gaussGrid(o.rhoz, []float64{0}, math.Sqrt(o.rhoz), sharp)
+		// The integrand is smooth off 0 and its poles (those of the sigmoid) lie pi from
+		// the real axis: 16 nodes on sub-intervals of at most two standard deviations and 3.
+		x, w := gaussGrid(o.rhoz, []float64{0}, labelsPanel*math.Min(2*math.Sqrt(o.rhoz), 3), sharp)
 		e := 0.0
 		for i, z := range x {
 			var pos float64
@@ -420,3 +459,186 @@ func (o *outSide) trainAtZero() outMoments {
 	}
 	return om
 }
+
+// outerRules are the Gauss-Hermite rules of the outer expectation over p1 in logisticHermite
+// (gonum quad.Hermite, rescaled to the standard normal), each with the largest standard
+// deviation of p1 it serves. The integrand's complex singularities (those of the sigmoid and
+// of the logistic prox) lie at a distance of order pi from the real axis in p1 itself, so the
+// rule's accuracy falls with the spread sqrt(vp), not with the precision; beyond the last
+// rule, or when P(y | p1) turns on less than outerSharp standard deviations of p1, labels
+// keeps its graded Gauss-Legendre grid. docs/method.md section 11.3 states the accuracy and
+// TestLogisticHermiteAccuracy measures it.
+var outerRules = []struct {
+	maxSD float64
+	x, w  []float64
+}{{1.25, nil, nil}, {1.5, nil, nil}, {2.1, nil, nil}, {2.4, nil, nil}}
+
+func init() {
+	for i, n := range [...]int{32, 48, 64, 96} {
+		x, w := hermiteNormal(n)
+		// Nodes of weight below 1e-22 are left out (about a quarter of each rule): the
+		// integrands grow at most like p1^2 / g^2, so what they carry is below rounding.
+		var kx, kw []float64
+		for k := range x {
+			if w[k] >= 1e-22 {
+				kx, kw = append(kx, x[k]), append(kw, w[k])
+			}
+		}
+		outerRules[i].x, outerRules[i].w = kx, kw
+	}
+}
+
+// outerRule returns the Gauss-Hermite rule for p1 ~ N(0, vp) and P(y | p1) turning on the
+// scale turn, or nil when the graded grid is needed.
+func (o *outSide) outerRule(g, vp, beta float64) (x, w []float64) {
+	sd := math.Sqrt(vp)
+	if !o.smoothLogistic(g) {
+		return nil, nil
+	}
+	// P(y | p1) is the inner rule's sum of sigmoid(beta p1 + c_i), whose poles lie pi/|beta|
+	// from the real axis in p1; those of the logistic prox lie about pi from it.
+	eff := sd * math.Max(1, math.Abs(beta))
+	for _, r := range outerRules {
+		if eff <= r.maxSD {
+			return r.x, r.w
+		}
+	}
+	return nil, nil
+}
+
+// smoothLogistic reports whether the output side is the logistic readout with a loss whose
+// prox has no kinks at precision g (logistic, square), for which the integrand over p1 is
+// smooth and a Gauss-Hermite rule converges fast.
+func (o *outSide) smoothLogistic(g float64) bool {
+	if o.rd.Name() != "logistic" {
+		return false
+	}
+	for _, y := range o.levels {
+		if len(o.ls.Kinks(y, g)) > 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// logisticHermite is labels for smoothLogistic: the outer expectation over p1 ~ N(0, vp) by
+// a Gauss-Hermite rule of outerRules, with the same inner rule for P(y | p1) and the same
+// backward message. The prox at each node starts from the first-order extrapolation of the
+// previous node's (the nodes increase and d zhat/dp is known there), which leaves one or two
+// Newton steps. The training misfit has an indicator in p1 and is integrated on its own
+// (misfitGrid).
+func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []float64) outMoments {
+	var py, zy [2]float64
+	var az, dz, dd, terr, tloss float64
+	near, _ := o.ls.(loss.Near)
+	logLoss := o.ls.Name() == "logistic"
+	var lastZ, lastD, lastC, lastP [2]float64
+	sd := math.Sqrt(vp)
+	for i, x := range hx {
+		p := sd * x
+		o.labelProb(beta*p, s, py[:], zy[:])
+		for j, y := range o.levels {
+			var zh, der float64
+			if near != nil && i > 0 {
+				h := p - lastP[j]
+				zh, der = near.ProxNear(y, p, g, lastZ[j]+h*(lastD[j]+h*lastC[j]/2))
+			} else {
+				zh, der = o.ls.Prox(y, p, g)
+			}
+			lastZ[j], lastD[j], lastP[j] = zh, der, p
+			if logLoss {
+				// d^2 zhat/dp^2 = -y sigma''(s) D^3 / g for the logistic loss (s = y zhat,
+				// D = d zhat/dp = g/(g + sigma'(s))), from the values in hand: sigma'(s) =
+				// g (1 - D)/D and sigma(-s) = g (s - y p) (docs/method.md section 10.1).
+				sp := g * (1 - der) / der
+				sm := g * (y*zh - y*p)
+				lastC[j] = -y * sp * (2*sm - 1) * der * der * der / g
+			}
+			pw := hw[i] * py[j]
+			az += pw * der
+			dz += hw[i] * zy[j] * (zh - p)
+			dd += pw * (zh - p) * (zh - p)
+			if o.train {
+				terr += pw * (y - zh) * (y - zh)
+				tloss += pw * o.ls.Value(y, zh)
+			}
+		}
+	}
+	out := outMoments{az: az, trainErr: terr, trainLoss: tloss}
+	if o.train {
+		var sharp [][2]float64
+		if beta != 0 {
+			sharp = [][2]float64{{0, math.Sqrt(1+s) / math.Abs(beta)}}
+		}
+		out.misfit = o.misfitGrid(g, vp, beta, s, sharp)
+	}
+	if !(az < 1) {
+		out.zeroDeriv = true
+		return out
+	}
+	c := 1 - az
+	dmu := dz / (c * o.rhoz)
+	out.muz = mu1 + dmu
+	out.sigz = math.Max(dd/(c*c)-tau-dmu*dmu*o.rhoz, 0)
+	return out
+}
+
+// misfitGrid returns P(sign zhat != y) = sum_y E[P(y | p1) 1{sign zhat(y, p1) != sign y}] by
+// labels' graded Gauss-Legendre grid split at the p1 where each zhat(y, .) changes sign; only
+// the nodes on a misfit side need P(y | p1), and no prox is solved there.
+func (o *outSide) misfitGrid(g, vp, beta, s float64, sharp [][2]float64) float64 {
+	var kinks []float64
+	cross := make([]float64, len(o.levels))
+	has := make([]bool, len(o.levels))
+	for j, y := range o.levels {
+		switch o.ls.Name() {
+		case "square": // zhat = (y + g p)/(1 + g)
+			cross[j], has[j] = -y/g, true
+		case "logistic": // zhat = 0 where g (0 - y p) = sigma(0) = 1/2
+			cross[j], has[j] = -y/(2*g), true
+		default:
+			cross[j], has[j] = o.zeroCrossing(y, g, vp)
+		}
+		if has[j] {
+			kinks = append(kinks, cross[j])
+		}
+	}
+	// The integrand is smooth between the cuts and turns on the sharp scales (graded where
+	// less than a standard deviation): 16 nodes on two standard deviations elsewhere.
+	x, w := gaussGrid(vp, kinks, 2*labelsPanel*math.Sqrt(vp), sharp)
+	py := make([]float64, len(o.levels))
+	zy := make([]float64, len(o.levels))
+	mis := 0.0
+	bad := make([]bool, len(o.levels))
+	for i, p := range x {
+		// zhat(y, p) >= 0 exactly when p >= cross (zhat is nondecreasing in p); without a
+		// crossing its sign is that of zhat at any p.
+		any := false
+		for j, y := range o.levels {
+			pos := p >= cross[j]
+			if !has[j] {
+				z, _ := o.ls.Prox(y, p, g)
+				pos = z >= 0
+			}
+			bad[j] = pos != (y >= 0)
+			any = any || bad[j]
+		}
+		if !any {
+			continue
+		}
+		o.labelProb(beta*p, s, py, zy)
+		for j := range o.levels {
+			if bad[j] {
+				mis += w[i] * py[j]
+			}
+		}
+	}
+	return mis
+}
+
+// noHermite makes labels use its graded grid throughout, and labelsPanel is that grid's
+// widest sub-interval in standard deviations of p1: the tests' dense reference sets both.
+var (
+	noHermite   bool
+	labelsPanel = 1.0
+)

@@ -64,3 +64,31 @@ func TestRegistry(t *testing.T) {
 		t.Error("negative width accepted")
 	}
 }
+
+// TestLogisticProxNearAccuracy: the logistic prox from any start solves its optimality
+// condition g (s - q) = sigma(-s) (s = y zhat, q = y p) to rounding in s, and its derivative is
+// g / (g + sigma(s) sigma(-s)) at that s, although the last Newton step is not evaluated again.
+func TestLogisticProxNearAccuracy(t *testing.T) {
+	l := Logistic().(Near)
+	worst, worstD := 0.0, 0.0
+	for _, y := range []float64{-1, 1} {
+		for _, g := range []float64{1e-4, 1e-3, 1e-2, 0.03, 0.3, 1, 100} {
+			for p := -30.0; p <= 30; p += 0.0731 {
+				for _, near := range []float64{math.NaN(), p, p + 0.1, p - 3, p + y/g, p + 0.5*y/g} {
+					z, d := l.ProxNear(y, p, g, near)
+					s, q := y*z, y*p
+					sig := 1 / (1 + math.Exp(s))
+					// the residual over the equation's slope: the error of s itself
+					r := math.Abs(g*(s-q)-sig) / (g + sig*(1-sig)) / math.Max(1, math.Abs(s))
+					worst = math.Max(worst, r)
+					dd := math.Abs(d-g/(g+sig*(1-sig))) / d
+					worstD = math.Max(worstD, dd)
+				}
+			}
+		}
+	}
+	// 1e-14: a few roundings of s (common practice for a converged root).
+	if worst > 1e-14 || worstD > 1e-13 {
+		t.Fatalf("largest relative residual %.3g, derivative error %.3g", worst, worstD)
+	}
+}

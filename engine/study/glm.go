@@ -18,6 +18,35 @@ func solveGLM(g fixedpoint.GLM, o fixedpoint.Options) Point {
 	return Point{Result: r}
 }
 
+// solveGLM is the walker's point of a generalized linear model: warm-started from the last
+// point that converged to a nonzero estimate with a nonzero error, as the linear points are,
+// and after two such points in a row first from the next state on the line through them
+// (GLMState.Extrapolate). Both starts carry the last point's Newton Jacobian.
+// fixedpoint.SolveGLMFrom tries the starts in turn and falls back to the cold starts, so the
+// point and the verdict on existence are a cold solve's.
+func (w *walker) solveGLM(g fixedpoint.GLM) Point {
+	o := w.opt
+	o.Start = nil
+	var starts []fixedpoint.GLMState
+	if a, b := w.glmWarm, w.glmPrev; a != nil {
+		if w.extrapolate && b != nil && a.SigZ > 0 && b.SigZ > 0 {
+			starts = append(starts, a.Extrapolate(*b))
+		}
+		starts = append(starts, *a)
+	}
+	r, st, err := fixedpoint.SolveGLMFrom(g, o, starts...)
+	if err != nil {
+		w.glmPrev = nil
+		return Point{Failed: err.Error()}
+	}
+	if r.Converged && !r.EstimateZero && r.NMSE > warmFloor {
+		w.glmPrev, w.glmWarm = w.glmWarm, &st
+	} else {
+		w.glmPrev = nil
+	}
+	return Point{Result: r}
+}
+
 // GLMObservables lists the observables that only a generalized linear model reports, in the
 // order of the CSV columns that follow Observables when a study holds such points; for a
 // point without them (or without labels, for test_error and train_misfit) they are NaN.

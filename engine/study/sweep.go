@@ -197,7 +197,9 @@ func SweepBlock(ctx context.Context, c scenario.Checked, spec SweepSpec, from, t
 type walker struct {
 	opt         fixedpoint.Options
 	extrapolate bool
-	warm, prev  *fixedpoint.State // the last warm start and the one before it, in a row
+	warm, prev  *fixedpoint.State    // the last warm start and the one before it, in a row
+	glmWarm     *fixedpoint.GLMState // the same for generalized linear models (glm.go)
+	glmPrev     *fixedpoint.GLMState
 }
 
 // warmFloor is the NMSE below which a fixed point counts as exact recovery for warm starts.
@@ -209,7 +211,7 @@ func (w *walker) solve(c scenario.Checked, err error) Point {
 		return Point{Failed: err.Error()}
 	}
 	if g, ok := c.GLM(); ok {
-		return solveGLM(g, w.opt)
+		return w.solveGLM(g)
 	}
 	p := c.Problem()
 	o := w.opt
