@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"context"
 	"encoding/csv"
-	"fmt"
 	"math"
 	"reflect"
 	"strconv"
@@ -174,10 +173,9 @@ func TestCurvePerValueSharedInBlocks(t *testing.T) {
 	for _, tc := range []struct {
 		name, scen, over, from, to, curves, at string
 		points, workers, jobs                  int
-		exact                                  bool
 	}{
-		{"bits", oneBitCurveScenario, "alpha", "0.5", "4", "bits", "1, 2, 3, 4", 30, 2, 16, false},
-		{"l1", lassoScenario, "alpha", "0.2", "0.9", "l1", "0.01, 0.1", 40, 3, 12, false},
+		{"bits", oneBitCurveScenario, "alpha", "0.5", "4", "bits", "1, 2, 3, 4", 30, 2, 16},
+		{"l1", lassoScenario, "alpha", "0.2", "0.9", "l1", "0.01, 0.1", 40, 3, 12},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			m := modelOf(t, tc.scen)
@@ -229,7 +227,7 @@ func TestCurvePerValueSharedInBlocks(t *testing.T) {
 					p := gc.Points[i]
 					d := math.Abs(p.Result.MSE-w.Result.MSE) / w.Result.MSE
 					worst = math.Max(worst, d)
-					if p.X != w.X || p.OK() != w.OK() || !w.OK() || d > 1e-9 || (tc.exact && fmt.Sprint(p.Result) != fmt.Sprint(w.Result)) {
+					if p.X != w.X || p.OK() != w.OK() || !w.OK() || d > 1e-9 {
 						t.Errorf("%s %g point %d: view (%v, %v, %s), engine (%v, %v, %s)", tc.curves, wc.Value, i, p.X, p.Result.MSE, p.Status(), w.X, w.Result.MSE, w.Status())
 					}
 				}
