@@ -33,23 +33,46 @@ type Moments struct {
 // A and NonZero, the piece [Lo, Hi) containing the atom decides, the right-derivative
 // convention). g <= 0, t < 0 or NaN arguments give NaN moments.
 func Expect(l Law, p penalty.Penalty, g, t float64) Moments {
-	if !(g > 0) || !(t >= 0) {
-		return nanMoments()
-	}
-	var pieces []penalty.Piece
-	var lin penalty.Linear
-	ok := false
+	m, _, _ := expect(l, p, g, t, false)
+	return m
+}
+
+// Slopes are the partial derivatives of the channel's MSE and A in the precision g and in
+// the noise variance t (docs/method.md section 6, derivatives of the moments).
+type Slopes struct{ MSEg, MSEt, Ag, At float64 }
+
+// ExpectSlopes returns Expect(l, p, g, t) and, when ok, its partial derivatives in g and t,
+// in closed form from the same normal quantities. They are available for an odd prox of
+// three pieces (l1, elastic net, Huber, a symmetric box) and components of mean 0 at t > 0
+// (docs/method.md section 6); otherwise ok is false and the slopes are zero.
+func ExpectSlopes(l Law, p penalty.Penalty, g, t float64) (m Moments, sl Slopes, ok bool) {
+	return expect(l, p, g, t, true)
+}
+
+// slopeStep is the relative step in g of the central differences that give the derivatives
+// of the pieces in g (kinks, slopes and intercepts are smooth functions of g; the error is
+// about slopeStep^2 of them, the rounding about 1e-16/slopeStep).
+const slopeStep = 1e-5
+
+// pieces returns the pieces of p at precision g, if p has them.
+func piecesOf(p penalty.Penalty, g float64) ([]penalty.Piece, bool) {
 	if lf, isLin := p.(penalty.LinearForm); isLin {
-		lin, ok = lf.Linear(g)
-		pieces = lin.Pieces()
-	} else {
-		pieces, ok = p.Pieces(g)
+		lin, ok := lf.Linear(g)
+		return lin.Pieces(), ok
 	}
+	return p.Pieces(g)
+}
+
+func expect(l Law, p penalty.Penalty, g, t float64, wantSlopes bool) (Moments, Slopes, bool) {
+	if !(g > 0) || !(t >= 0) {
+		return nanMoments(), Slopes{}, false
+	}
+	pieces, ok := piecesOf(p, g)
 	if !ok {
 		if b, isB := p.(brancher); isB && b.Exponent() > 0 {
-			return expectBranch(l, p, b, g, t)
+			return expectBranch(l, p, b, g, t), Slopes{}, false
 		}
-		return ExpectQuad(l, p, g, t)
+		return ExpectQuad(l, p, g, t), Slopes{}, false
 	}
 	var m Moments
 	grp := merger{lo: math.Inf(1), hi: math.Inf(-1)}
@@ -58,17 +81,50 @@ func Expect(l Law, p penalty.Penalty, g, t float64) Moments {
 			grp.lo, grp.hi = math.Min(grp.lo, q.Hi), math.Max(grp.hi, q.Hi)
 		}
 	}
+	var odd *oddBatch
+	if oddThree(pieces) {
+		odd = &oddBatch{pieces: pieces, t: t}
+		if wantSlopes && t > 0 {
+			odd.slopes = odd.pieceSlopes(p, g)
+		}
+	}
+	add := func(c Component) {
+		if odd != nil {
+			odd.add(&m, c)
+		} else {
+			addComponent(&m, c, pieces, t)
+		}
+	}
 	for _, c := range componentsOf(l) {
 		if !grp.add(c, t) {
-			addComponent(&m, grp.component(), pieces, t)
+			add(grp.component())
 			grp.w = 0
 			grp.add(c, t)
 		}
 	}
 	if grp.w > 0 {
-		addComponent(&m, grp.component(), pieces, t)
+		add(grp.component())
 	}
-	return m
+	if odd == nil {
+		return m, Slopes{}, false
+	}
+	odd.flush(&m)
+	if !odd.slopes {
+		return m, Slopes{}, false
+	}
+	return m, odd.sl, true
+}
+
+// oddThree reports an odd prox of three pieces: (-Inf, -k), [-k, k), [k, Inf) with k > 0
+// finite, the middle piece through 0 and the outer ones mirror images (l1, elastic net, Huber,
+// a box with l2). addOdd evaluates a zero-mean component against it.
+func oddThree(pc []penalty.Piece) bool {
+	if len(pc) != 3 {
+		return false
+	}
+	k := pc[1].Hi
+	return k > 0 && !math.IsInf(k, 1) && pc[0].Hi == -k && pc[1].Intercept == 0 &&
+		pc[0].Slope == pc[2].Slope && pc[0].Intercept == -pc[2].Intercept
 }
 
 // mergeTol bounds the relative change of the moments when Expect evaluates a group of
@@ -89,13 +145,21 @@ const mergeTol = 1e-10
 type merger struct {
 	w, mean, v, m2, vmin float64 // weight, mean of x0, weighted mean and spread of Var
 	lo, hi               float64 // the extreme finite kinks (+Inf, -Inf when none)
+	kk                   float64 // the squared distance from mean to the farther of lo, hi
 }
 
 // add adds c to the group if the group stays within mergeTol at noise t, and reports whether
-// it did; the empty group takes any component.
+// it did; the empty group takes any component. The test is written without divisions, as
+// var(V) (t + min V + k^2)^2 <= mergeTol (t + min V)^4 with k the farthest kink from the
+// group's mean: it runs once for every component of every evaluation.
 func (g *merger) add(c Component, t float64) bool {
 	if g.w == 0 {
 		g.w, g.mean, g.v, g.m2, g.vmin = c.Weight, c.Mean, c.Var, 0, c.Var
+		g.kk = 0
+		if g.lo <= g.hi {
+			k := max(abs(g.lo-c.Mean), abs(g.hi-c.Mean))
+			g.kk = k * k
+		}
 		return true
 	}
 	if c.Mean != g.mean || c.Var == 0 || g.vmin == 0 || c.Weight == 0 {
@@ -106,19 +170,20 @@ func (g *merger) add(c Component, t float64) bool {
 	d := c.Var - g.v
 	v := g.v + d*c.Weight/w
 	m2 := g.m2 + c.Weight*d*(c.Var-v)
-	vmin := math.Min(g.vmin, c.Var)
-	s := t + vmin
-	y2 := 0.0
-	if g.lo <= g.hi {
-		k := math.Max(math.Abs(g.lo-g.mean), math.Abs(g.hi-g.mean))
-		y2 = k * k / s
+	vmin := g.vmin
+	if c.Var < vmin {
+		vmin = c.Var
 	}
-	if !(m2/w*(1+y2)*(1+y2) <= mergeTol*s*s) {
+	s := t + vmin
+	sk := s + g.kk
+	if !(m2*sk*sk <= mergeTol*w*(s*s)*(s*s)) {
 		return false
 	}
 	g.w, g.v, g.m2, g.vmin = w, v, m2, vmin
 	return true
 }
+
+func abs(x float64) float64 { return math.Float64frombits(math.Float64bits(x) &^ (1 << 63)) }
 
 func (g *merger) component() Component { return Component{g.w, g.mean, g.v} }
 
@@ -283,6 +348,209 @@ func addComponent(m *Moments, c Component, pieces []penalty.Piece, t float64) {
 	}
 }
 
+// addOdd is addComponent for the pieces of an oddThree prox: a component of mean 0 and
+// positive Var + t meets both kinks at the same distance, so one endpoint serves both. It
+// performs the very operations addComponent performs on such a component, in the same
+// order, with the branches that cannot be taken left out, so that the two agree bit for bit
+// (TestAddOddMatchesAddComponent); any other component goes to addComponent.
+func addOdd(m *Moments, c Component, pieces []penalty.Piece, t float64) {
+	b := oddBatch{pieces: pieces, t: t}
+	b.add(m, c)
+	b.flush(m)
+}
+
+// oddBatchSize is how many components oddBatch holds.
+const oddBatchSize = 16
+
+// oddBatch evaluates components against an oddThree prox as addOdd does, a batch at a time:
+// each stage (square root, exponential, erfc, the moments) runs over the whole batch before
+// the next, so that the processor overlaps the long chains of dependent operations of
+// successive components instead of waiting on each in turn. Components are added to the
+// moments in the order they came, as addComponent would add them.
+type oddBatch struct {
+	pieces []penalty.Piece
+	t      float64
+	n      int
+	c      [oddBatchSize]Component
+
+	// With slopes set, flush also accumulates sl, the derivatives of the moments, from the
+	// derivatives in g of the outer and middle slopes (dSo, dSm), of the right intercept (dIo)
+	// and of the kink (dk); a component that goes to addComponent clears slopes.
+	slopes            bool
+	dSo, dSm, dIo, dk float64
+	sl                Slopes
+}
+
+// pieceSlopes sets the derivatives of the pieces in g by central differences and reports
+// whether the pieces keep their odd three-piece form on both sides.
+func (b *oddBatch) pieceSlopes(p penalty.Penalty, g float64) bool {
+	h := slopeStep * g
+	hi, ok1 := piecesOf(p, g+h)
+	lo, ok2 := piecesOf(p, g-h)
+	if !ok1 || !ok2 || !oddThree(hi) || !oddThree(lo) {
+		return false
+	}
+	b.dSo = (hi[2].Slope - lo[2].Slope) / (2 * h)
+	b.dSm = (hi[1].Slope - lo[1].Slope) / (2 * h)
+	b.dIo = (hi[2].Intercept - lo[2].Intercept) / (2 * h)
+	b.dk = (hi[1].Hi - lo[1].Hi) / (2 * h)
+	return finiteAll4(b.dSo, b.dSm, b.dIo, b.dk)
+}
+
+func finiteAll4(a, b, c, d float64) bool {
+	s := a + b + c + d
+	return !math.IsNaN(s) && !math.IsInf(s, 0)
+}
+
+// add queues c (a component of mean 0 and positive Var + t) or, for any other, evaluates
+// the queue and then c itself by addComponent.
+func (b *oddBatch) add(m *Moments, c Component) {
+	if c.Mean != 0 || !(c.Var+b.t > 0) {
+		b.flush(m)
+		addComponent(m, c, b.pieces, b.t)
+		b.slopes = false
+		return
+	}
+	b.c[b.n] = c
+	b.n++
+	if b.n == oddBatchSize {
+		b.flush(m)
+	}
+}
+
+// flush adds the moments of the queued components to m and empties the queue.
+func (b *oddBatch) flush(m *Moments) {
+	n, t := b.n, b.t
+	b.n = 0
+	lq, mq, rq := b.pieces[0], b.pieces[1], b.pieces[2]
+	var sd, ys, phis, fars [oddBatchSize]float64
+	for i, c := range b.c[:n] {
+		sd[i] = math.Sqrt(c.Var + t)
+		// The endpoint y = -k/sd < 0 (newEndPoint).
+		ys[i] = (lq.Hi - c.Mean) / sd[i]
+	}
+	for i, y := range ys[:n] {
+		phis[i] = math.Exp(-y*y/2) / math.Sqrt(2*math.Pi)
+	}
+	for i, y := range ys[:n] {
+		fars[i] = math.Erfc(-y/math.Sqrt2) / 2
+	}
+	for i, c := range b.c[:n] {
+		v := c.Var + t
+		sd, y, phi, far := sd[i], ys[i], phis[i], fars[i]
+		mu := c.Mean
+		u := -y
+		// The far tail and its moments at u.
+		j0, j1, j2 := tailMoments(u, phi, far)
+		tails := !(j0 == 0 && j1 == 0 && j2 == 0)
+		var mse, a, nz float64
+		if tails {
+			// Left of the mean, expanded about y.
+			k1 := ((lq.Slope - 1) + t/v) * sd
+			k0 := (lq.Slope-1)*mu + lq.Intercept
+			k0 += k1 * y
+			k1 = -k1
+			mse += k0*k0*j0 + 2*k0*k1*j1 + k1*k1*j2
+			a += lq.Slope * j0
+			if !lq.Zero() {
+				nz += j0
+			}
+		}
+		// The middle piece holds the mean.
+		k1 := ((mq.Slope - 1) + t/v) * sd
+		k0 := (mq.Slope-1)*mu + mq.Intercept
+		var m0, m1, m2 float64
+		if u < 0.1 {
+			m0, m1, m2 = narrowMoments(y, u)
+		} else {
+			m0 = 1 - far
+			m1 = phi
+			m2 = y * phi
+			m0 -= far
+			m1 -= phi
+			m2 -= u * phi
+			m2 += m0
+		}
+		if !(m0 == 0 && m1 == 0 && m2 == 0) {
+			mse += k0*k0*m0 + 2*k0*k1*m1 + k1*k1*m2
+			a += mq.Slope * m0
+			if !mq.Zero() {
+				nz += m0
+			}
+		}
+		if tails {
+			// Right of the mean, expanded about u.
+			k1 := ((rq.Slope - 1) + t/v) * sd
+			k0 := (rq.Slope-1)*mu + rq.Intercept
+			k0 += k1 * u
+			mse += k0*k0*j0 + 2*k0*k1*j1 + k1*k1*j2
+			a += rq.Slope * j0
+			if !rq.Zero() {
+				nz += j0
+			}
+		}
+		if c.active() {
+			m.Active += c.Weight
+		}
+		m.MSE += c.Weight * (mse + c.Var*t/v)
+		m.A += c.Weight * a
+		m.NonZero += c.Weight * nz
+		if c.active() {
+			m.TruePos += c.Weight * nz
+		}
+		if b.slopes {
+			b.addSlopes(c, v, sd, y, phi, j0, j1, j2, m0, m1, m2, tails)
+		}
+	}
+}
+
+// addSlopes adds the derivatives of one component's moments in g and t (docs/method.md
+// section 6), from the quantities flush computed for it: the endpoint y = -u, phi(u), the
+// tail moments j at u and the middle moments m about the mean. With S the slopes, k the kink
+// and beta = Var/v:
+//
+//	dA/dt   = (So - Sm) u phi / v
+//	dMSE/dt = So^2 2Q + Sm^2 (1 - 2Q) + 2 (So - Sm) (Sm - beta) u phi
+//	dA/dg   = dSo 2Q + dSm (1 - 2Q) - 2 (So - Sm) phi dk / sd
+//	dMSE/dg = 2 sum over pieces of E[(xhat - E[x0|r]) d xhat/dg ; piece]
+//
+// the last in the same truncated moments as the MSE itself.
+func (b *oddBatch) addSlopes(c Component, v, sd, y, phi, j0, j1, j2, m0, m1, m2 float64, tails bool) {
+	t := b.t
+	lq, mq, rq := b.pieces[0], b.pieces[1], b.pieces[2]
+	so, sm := rq.Slope, mq.Slope
+	u := -y
+	beta := c.Var / v
+	q2 := 2 * j0 // P(|r| > k)
+	at := (so - sm) * u * phi / v
+	mt := so*so*q2 + sm*sm*m0 + 2*(so-sm)*(sm-beta)*u*phi
+	ag := b.dSo*q2 + b.dSm*m0 - 2*(so-sm)*phi*b.dk/sd
+	var mg float64
+	if tails {
+		// Left piece, expanded about y with s = y - y' >= 0: xhat - E[x0|r] = k0 + k1 s and
+		// d xhat/dg = e0 + e1 s.
+		k1 := ((lq.Slope - 1) + t/v) * sd
+		k0 := lq.Intercept + k1*y
+		e1 := b.dSo * sd
+		e0 := -b.dIo + e1*y
+		mg += k0*e0*j0 - (k0*e1+k1*e0)*j1 + k1*e1*j2
+		// Right piece, expanded about u.
+		k1 = ((rq.Slope - 1) + t/v) * sd
+		k0 = rq.Intercept + k1*u
+		e0 = b.dIo + e1*u
+		mg += k0*e0*j0 + (k0*e1+k1*e0)*j1 + k1*e1*j2
+	}
+	// Middle piece, about the mean: xhat - E[x0|r] = k1 y, d xhat/dg = dSm sd y.
+	k1 := ((mq.Slope - 1) + t/v) * sd
+	mg += k1 * b.dSm * sd * m2
+	_ = m1
+	w := c.Weight
+	b.sl.MSEg += w * 2 * mg
+	b.sl.MSEt += w * mt
+	b.sl.Ag += w * ag
+	b.sl.At += w * at
+}
+
 // pieceAt returns the piece [Lo, Hi) that contains r.
 func pieceAt(pieces []penalty.Piece, r float64) penalty.Piece {
 	for _, q := range pieces[:len(pieces)-1] {
@@ -295,19 +563,31 @@ func pieceAt(pieces []penalty.Piece, r float64) penalty.Piece {
 
 // narrowMoments returns the integrals of s^k phi(s) over [a, b] for k = 0, 1, 2 when
 // max(|a|, |b|) < 0.1, from phi(s) = phi(0) sum_j (-s^2/2)^j / j!, which converges to full
-// precision in 8 terms there (the eighth is below 2e-20 relative).
+// precision in 8 terms there (the eighth is below 2e-20 relative). The coefficients of the
+// integrated series are in narrowCoef.
 func narrowMoments(a, b float64) (m0, m1, m2 float64) {
-	c := 1 / math.Sqrt(2*math.Pi)
 	a2, b2 := a*a, b*b
 	pa, pb := a, b // a^(2j+1), b^(2j+1)
-	for j := 0; j < 8; j++ {
-		n := float64(2*j + 1)
-		m0 += c * (pb - pa) / n
-		m1 += c * (pb*b - pa*a) / (n + 1)
-		m2 += c * (pb*b2 - pa*a2) / (n + 2)
-		c *= -0.5 / float64(j+1)
+	for j := range narrowCoef {
+		c := &narrowCoef[j]
+		m0 += c[0] * (pb - pa)
+		m1 += c[1] * (pb*b - pa*a)
+		m2 += c[2] * (pb*b2 - pa*a2)
 		pa *= a2
 		pb *= b2
 	}
 	return m0, m1, m2
 }
+
+// narrowCoef[j][k] = phi(0) (-1/2)^j / j! / (2j + 1 + k): the j-th term of the series of
+// narrowMoments, integrated against s^k.
+var narrowCoef = func() (c [8][3]float64) {
+	f := 1 / math.Sqrt(2*math.Pi)
+	for j := range c {
+		for k := range c[j] {
+			c[j][k] = f / float64(2*j+1+k)
+		}
+		f *= -0.5 / float64(j+1)
+	}
+	return c
+}()
