@@ -33,8 +33,17 @@ type Moments struct {
 // A and NonZero, the piece [Lo, Hi) containing the atom decides, the right-derivative
 // convention). g <= 0, t < 0 or NaN arguments give NaN moments.
 func Expect(l Law, p penalty.Penalty, g, t float64) Moments {
-	m, _, _ := expect(l, p, g, t, false)
+	m, _, _ := expect(l, p, g, t, false, math.Inf(1))
 	return m
+}
+
+// AReaches reports !(A < bound) for the A of Expect(l, p, g, t), evaluating only as many
+// components as it needs: A is a sum of nonnegative terms, added in the same order as
+// Expect adds them, so that a partial sum at bound or above decides at once, and otherwise
+// the full sum decides exactly as Expect's would.
+func AReaches(l Law, p penalty.Penalty, g, t, bound float64) bool {
+	m, _, _ := expect(l, p, g, t, false, bound)
+	return !(m.A < bound)
 }
 
 // Slopes are the partial derivatives of the channel's MSE and A in the precision g and in
@@ -46,7 +55,7 @@ type Slopes struct{ MSEg, MSEt, Ag, At float64 }
 // three pieces (l1, elastic net, Huber, a symmetric box) and components of mean 0 at t > 0
 // (docs/method.md section 6); otherwise ok is false and the slopes are zero.
 func ExpectSlopes(l Law, p penalty.Penalty, g, t float64) (m Moments, sl Slopes, ok bool) {
-	return expect(l, p, g, t, true)
+	return expect(l, p, g, t, true, math.Inf(1))
 }
 
 // slopeStep is the relative step in g of the central differences that give the derivatives
@@ -54,20 +63,25 @@ func ExpectSlopes(l Law, p penalty.Penalty, g, t float64) (m Moments, sl Slopes,
 // about slopeStep^2 of them, the rounding about 1e-16/slopeStep).
 const slopeStep = 1e-5
 
-// pieces returns the pieces of p at precision g, if p has them.
-func piecesOf(p penalty.Penalty, g float64) ([]penalty.Piece, bool) {
+// piecesOf returns the pieces of p at precision g, if p has them, held in lin when p gives
+// them by value (so that they stay on the caller's stack).
+func piecesOf(p penalty.Penalty, g float64, lin *penalty.Linear) ([]penalty.Piece, bool) {
 	if lf, isLin := p.(penalty.LinearForm); isLin {
-		lin, ok := lf.Linear(g)
+		var ok bool
+		*lin, ok = lf.Linear(g)
 		return lin.Pieces(), ok
 	}
 	return p.Pieces(g)
 }
 
-func expect(l Law, p penalty.Penalty, g, t float64, wantSlopes bool) (Moments, Slopes, bool) {
+// expect is Expect, with the slopes when wantSlopes, and stops as soon as the partial sum
+// of A reaches stopA (the moments are then partial sums).
+func expect(l Law, p penalty.Penalty, g, t float64, wantSlopes bool, stopA float64) (Moments, Slopes, bool) {
 	if !(g > 0) || !(t >= 0) {
 		return nanMoments(), Slopes{}, false
 	}
-	pieces, ok := piecesOf(p, g)
+	var lin penalty.Linear
+	pieces, ok := piecesOf(p, g, &lin)
 	if !ok {
 		if b, isB := p.(brancher); isB && b.Exponent() > 0 {
 			return expectBranch(l, p, b, g, t), Slopes{}, false
@@ -95,11 +109,20 @@ func expect(l Law, p penalty.Penalty, g, t float64, wantSlopes bool) (Moments, S
 			addComponent(&m, c, pieces, t)
 		}
 	}
+	stop := !math.IsInf(stopA, 1)
 	for _, c := range componentsOf(l) {
 		if !grp.add(c, t) {
 			add(grp.component())
 			grp.w = 0
 			grp.add(c, t)
+			if stop {
+				if odd != nil {
+					odd.flush(&m)
+				}
+				if m.A >= stopA {
+					return m, Slopes{}, false
+				}
+			}
 		}
 	}
 	if grp.w > 0 {
@@ -201,9 +224,9 @@ type endPoint struct {
 }
 
 func newEndPoint(y float64) endPoint {
-	e := endPoint{y: y, phi: math.Exp(-y*y/2) / math.Sqrt(2*math.Pi)}
 	a := math.Abs(y)
-	far := math.Erfc(a/math.Sqrt2) / 2
+	phi, far := normalAt(a)
+	e := endPoint{y: y, phi: phi}
 	near := 1 - far
 	if y >= 0 {
 		e.right, e.left = far, near
@@ -212,6 +235,22 @@ func newEndPoint(y float64) endPoint {
 	}
 	e.j0, e.j1, e.j2 = tailMoments(a, e.phi, far)
 	return e
+}
+
+// normalAt returns phi(a) and the tail P(Z > a) for a >= 0. Below a = 0.1 both come from
+// the series of narrowMoments (phi(0) sum_j (-a^2/2)^j / j!, and 1/2 minus its integral
+// over [0, a]; the eighth term is below 2e-20 relative) instead of exp and erfc: a component
+// far wider than the kinks (the heavy tail of a Student-t mixture) then costs neither.
+func normalAt(a float64) (phi, far float64) {
+	if a < 0.1 {
+		a2 := a * a
+		for j := len(narrowCoef) - 1; j >= 0; j-- {
+			phi = phi*a2 + narrowPhi[j]
+			far = far*a2 + narrowCoef[j][0]
+		}
+		return phi, 0.5 - far*a
+	}
+	return math.Exp(-a*a/2) / math.Sqrt(2*math.Pi), math.Erfc(a/math.Sqrt2) / 2
 }
 
 // tailMoments returns, for x >= 0, the right-tail moments of the standard normal about x:
@@ -385,8 +424,9 @@ type oddBatch struct {
 // whether the pieces keep their odd three-piece form on both sides.
 func (b *oddBatch) pieceSlopes(p penalty.Penalty, g float64) bool {
 	h := slopeStep * g
-	hi, ok1 := piecesOf(p, g+h)
-	lo, ok2 := piecesOf(p, g-h)
+	var lhi, llo penalty.Linear
+	hi, ok1 := piecesOf(p, g+h, &lhi)
+	lo, ok2 := piecesOf(p, g-h, &llo)
 	if !ok1 || !ok2 || !oddThree(hi) || !oddThree(lo) {
 		return false
 	}
@@ -430,10 +470,7 @@ func (b *oddBatch) flush(m *Moments) {
 		ys[i] = (lq.Hi - c.Mean) / sd[i]
 	}
 	for i, y := range ys[:n] {
-		phis[i] = math.Exp(-y*y/2) / math.Sqrt(2*math.Pi)
-	}
-	for i, y := range ys[:n] {
-		fars[i] = math.Erfc(-y/math.Sqrt2) / 2
+		phis[i], fars[i] = normalAt(-y)
 	}
 	for i, c := range b.c[:n] {
 		v := c.Var + t
@@ -581,13 +618,14 @@ func narrowMoments(a, b float64) (m0, m1, m2 float64) {
 
 // narrowCoef[j][k] = phi(0) (-1/2)^j / j! / (2j + 1 + k): the j-th term of the series of
 // narrowMoments, integrated against s^k.
-var narrowCoef = func() (c [8][3]float64) {
+var narrowCoef, narrowPhi = func() (c [8][3]float64, p [8]float64) {
 	f := 1 / math.Sqrt(2*math.Pi)
 	for j := range c {
+		p[j] = f
 		for k := range c[j] {
 			c[j][k] = f / float64(2*j+1+k)
 		}
 		f *= -0.5 / float64(j+1)
 	}
-	return c
+	return c, p
 }()
