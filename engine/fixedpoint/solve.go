@@ -392,6 +392,7 @@ var errRunOff = errors.New("the damped iteration left the range of the problem")
 // image is one evaluation of the update map at (g1, t1).
 type image struct {
 	g1, t1, g2 float64
+	tr         design.Transforms // the design's transforms at g2
 	m          signal.Moments
 	sl         signal.Slopes // the slopes of m in g1 and t1, when slOK
 	slOK       bool
@@ -402,29 +403,29 @@ type image struct {
 func (s *solver) apply(g1, t1, near float64) (image, error) {
 	m, sl, slOK := s.expect(g1, t1)
 	v := math.Max(m.A, zeroA) / g1
-	g2, ng1, nt1, err := s.linear(v, m.MSE, near)
+	g2, ng1, nt1, tr, err := s.linear(v, m.MSE, near)
 	if err != nil {
 		return image{}, err
 	}
 	res := math.Max(math.Abs(ng1-g1)/g1, math.Abs(nt1-t1)/math.Max(t1, 1e-300))
-	return image{g1: ng1, t1: nt1, g2: g2, m: m, sl: sl, slOK: slOK, res: res}, nil
+	return image{g1: ng1, t1: nt1, g2: g2, tr: tr, m: m, sl: sl, slOK: slOK, res: res}, nil
 }
 
 // linear is steps 2-4 of the update (docs/method.md section 3.3): from V and E to g2 and the
 // new (g1, t1); near is a guess of g2.
-func (s *solver) linear(v, mse, near float64) (g2, ng1, nt1 float64, err error) {
+func (s *solver) linear(v, mse, near float64) (g2, ng1, nt1 float64, tr design.Transforms, err error) {
 	p := s.p
 	g2, err = invertS1(p.Design, v, near)
 	if err != nil {
-		return 0, 0, 0, err
+		return 0, 0, 0, tr, err
 	}
-	tr := p.Design.At(g2)
+	tr = p.Design.At(g2)
 	ng1 = tr.T / tr.S1
 	nt1 = (p.Noise*tr.S3 + tr.W*mse) / (ng1 * ng1 * tr.S2)
 	if !finitePos(ng1) || !(nt1 >= 0) || math.IsInf(nt1, 0) {
-		return 0, 0, 0, errRunOff
+		return 0, 0, 0, tr, errRunOff
 	}
-	return g2, ng1, nt1, nil
+	return g2, ng1, nt1, tr, nil
 }
 
 // newtonFrom is the residual below which the solver tries Newton steps on the fixed-point
@@ -492,19 +493,15 @@ func (s *solver) jacobian(g1, t1 float64, cur image) ([2][2]float64, bool) {
 			dv = [2]float64{g1*sl.Ag/m.A - 1, t1 * sl.At / m.A}
 		}
 		de := [2]float64{g1 * sl.MSEg, t1 * sl.MSEt} // dE / dx
-		bg2, bg1, bt1, err := s.linear(v, m.MSE, cur.g2)
-		if err != nil || !(bt1 > 0) {
-			return jac, false
-		}
-		_, pg1, pt1, err := s.linear(v*math.Exp(h), m.MSE, cur.g2)
+		bg1, bt1 := cur.g1, cur.t1
+		_, pg1, pt1, _, err := s.linear(v*math.Exp(h), m.MSE, cur.g2)
 		if err != nil || !(pt1 > 0) {
 			return jac, false
 		}
 		lg := math.Log(pg1/bg1) / h // d log g1' / d log V
 		lt := math.Log(pt1/bt1) / h // d log t1' / d log V at fixed E
 		// d log t1' / dE = W / (g1'^2 S2 t1'), from t1' = (Delta S3 + W E)/(g1'^2 S2).
-		tr := s.p.Design.At(bg2)
-		te := tr.W / (bg1 * bg1 * tr.S2 * bt1)
+		te := cur.tr.W / (bg1 * bg1 * cur.tr.S2 * bt1)
 		for k := 0; k < 2; k++ {
 			jac[0][k] = lg * dv[k]
 			jac[1][k] = lt*dv[k] + te*de[k]

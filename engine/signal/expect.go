@@ -58,10 +58,11 @@ func ExpectSlopes(l Law, p penalty.Penalty, g, t float64) (m Moments, sl Slopes,
 	return expect(l, p, g, t, true, math.Inf(1))
 }
 
-// slopeStep is the relative step in g of the central differences that give the derivatives
-// of the pieces in g (kinks, slopes and intercepts are smooth functions of g; the error is
-// about slopeStep^2 of them, the rounding about 1e-16/slopeStep).
-const slopeStep = 1e-5
+// slopeStep is the relative step in g of the forward differences that give the derivatives
+// of the pieces in g (kinks, slopes and intercepts are smooth functions of g, typically
+// rational: the error is about slopeStep of them, the rounding about 1e-16/slopeStep, both
+// far below what a Newton step needs).
+const slopeStep = 1e-8
 
 // piecesOf returns the pieces of p at precision g, if p has them, held in lin when p gives
 // them by value (so that they stay on the caller's stack).
@@ -166,18 +167,26 @@ const mergeTol = 1e-10
 // mixture that lie far below the channel noise (Laplace nodes of variance down to 1e-9 of
 // E[x0^2] when t is of order one).
 type merger struct {
-	w, mean, v, m2, vmin float64 // weight, mean of x0, weighted mean and spread of Var
-	lo, hi               float64 // the extreme finite kinks (+Inf, -Inf when none)
-	kk                   float64 // the squared distance from mean to the farther of lo, hi
+	w, mean, vmin float64 // weight, mean of x0, smallest Var
+	// v0 is the first component's Var; sd and sq are the weighted sums of d = Var - v0 and
+	// d^2, so that the mean Var is v0 + sd/w and w^2 var(V) = sq w - sd^2.
+	v0, sd, sq float64
+	lo, hi     float64 // the extreme finite kinks (+Inf, -Inf when none)
+	kk         float64 // the squared distance from mean to the farther of lo, hi
 }
 
 // add adds c to the group if the group stays within mergeTol at noise t, and reports whether
-// it did; the empty group takes any component. The test is written without divisions, as
-// var(V) (t + min V + k^2)^2 <= mergeTol (t + min V)^4 with k the farthest kink from the
-// group's mean: it runs once for every component of every evaluation.
+// it did; the empty group takes any component. It runs once for every component of every
+// evaluation, so the test is written without a division, which would sit on the chain of
+// dependent operations from one component to the next: as
+// (sq w - sd^2) (t + min V + k^2)^2 <= mergeTol w^2 (t + min V)^4, k the farthest kink from
+// the group's mean. The sums are taken about the first Var, which keeps the difference
+// sq w - sd^2 to a few digits of cancellation where it decides (a merged group spreads by
+// less than 1e-5 of t + min V), and rounding moves the test by about 1e-16 (max d)^2.
 func (g *merger) add(c Component, t float64) bool {
 	if g.w == 0 {
-		g.w, g.mean, g.v, g.m2, g.vmin = c.Weight, c.Mean, c.Var, 0, c.Var
+		g.w, g.mean, g.vmin = c.Weight, c.Mean, c.Var
+		g.v0, g.sd, g.sq = c.Var, 0, 0
 		g.kk = 0
 		if g.lo <= g.hi {
 			k := max(abs(g.lo-c.Mean), abs(g.hi-c.Mean))
@@ -188,27 +197,26 @@ func (g *merger) add(c Component, t float64) bool {
 	if c.Mean != g.mean || c.Var == 0 || g.vmin == 0 || c.Weight == 0 {
 		return false
 	}
-	// Weighted Welford update: no cancellation in the spread.
 	w := g.w + c.Weight
-	d := c.Var - g.v
-	v := g.v + d*c.Weight/w
-	m2 := g.m2 + c.Weight*d*(c.Var-v)
+	d := c.Var - g.v0
+	sd := g.sd + c.Weight*d
+	sq := g.sq + c.Weight*d*d
 	vmin := g.vmin
 	if c.Var < vmin {
 		vmin = c.Var
 	}
 	s := t + vmin
 	sk := s + g.kk
-	if !(m2*sk*sk <= mergeTol*w*(s*s)*(s*s)) {
+	if !((sq*w-sd*sd)*sk*sk <= mergeTol*(w*w)*(s*s)*(s*s)) {
 		return false
 	}
-	g.w, g.v, g.m2, g.vmin = w, v, m2, vmin
+	g.w, g.sd, g.sq, g.vmin = w, sd, sq, vmin
 	return true
 }
 
 func abs(x float64) float64 { return math.Float64frombits(math.Float64bits(x) &^ (1 << 63)) }
 
-func (g *merger) component() Component { return Component{g.w, g.mean, g.v} }
+func (g *merger) component() Component { return Component{g.w, g.mean, g.v0 + g.sd/g.w} }
 
 func nanMoments() Moments {
 	n := math.NaN()
@@ -417,6 +425,7 @@ type oddBatch struct {
 	// and of the kink (dk); a component that goes to addComponent clears slopes.
 	slopes            bool
 	dSo, dSm, dIo, dk float64
+	dkk, invT         float64 // dk / k and 1 / t
 	sl                Slopes
 }
 
@@ -424,17 +433,19 @@ type oddBatch struct {
 // whether the pieces keep their odd three-piece form on both sides.
 func (b *oddBatch) pieceSlopes(p penalty.Penalty, g float64) bool {
 	h := slopeStep * g
-	var lhi, llo penalty.Linear
-	hi, ok1 := piecesOf(p, g+h, &lhi)
-	lo, ok2 := piecesOf(p, g-h, &llo)
-	if !ok1 || !ok2 || !oddThree(hi) || !oddThree(lo) {
+	var lhi penalty.Linear
+	hi, ok := piecesOf(p, g+h, &lhi)
+	if !ok || !oddThree(hi) {
 		return false
 	}
-	b.dSo = (hi[2].Slope - lo[2].Slope) / (2 * h)
-	b.dSm = (hi[1].Slope - lo[1].Slope) / (2 * h)
-	b.dIo = (hi[2].Intercept - lo[2].Intercept) / (2 * h)
-	b.dk = (hi[1].Hi - lo[1].Hi) / (2 * h)
-	return finiteAll4(b.dSo, b.dSm, b.dIo, b.dk)
+	lo := b.pieces
+	b.dSo = (hi[2].Slope - lo[2].Slope) / h
+	b.dSm = (hi[1].Slope - lo[1].Slope) / h
+	b.dIo = (hi[2].Intercept - lo[2].Intercept) / h
+	b.dk = (hi[1].Hi - lo[1].Hi) / h
+	b.dkk = b.dk / b.pieces[1].Hi
+	b.invT = 1 / b.t
+	return finiteAll4(b.dSo, b.dSm, b.dIo, b.dkk+b.invT)
 }
 
 func finiteAll4(a, b, c, d float64) bool {
@@ -481,6 +492,7 @@ func (b *oddBatch) flush(m *Moments) {
 		j0, j1, j2 := tailMoments(u, phi, far)
 		tails := !(j0 == 0 && j1 == 0 && j2 == 0)
 		var mse, a, nz float64
+		var k0l, k1l, k0r, k1r float64
 		if tails {
 			// Left of the mean, expanded about y.
 			k1 := ((lq.Slope - 1) + t/v) * sd
@@ -492,6 +504,7 @@ func (b *oddBatch) flush(m *Moments) {
 			if !lq.Zero() {
 				nz += j0
 			}
+			k0l, k1l = k0, k1
 		}
 		// The middle piece holds the mean.
 		k1 := ((mq.Slope - 1) + t/v) * sd
@@ -515,6 +528,7 @@ func (b *oddBatch) flush(m *Moments) {
 				nz += m0
 			}
 		}
+		k1m := k1
 		if tails {
 			// Right of the mean, expanded about u.
 			k1 := ((rq.Slope - 1) + t/v) * sd
@@ -525,6 +539,7 @@ func (b *oddBatch) flush(m *Moments) {
 			if !rq.Zero() {
 				nz += j0
 			}
+			k0r, k1r = k0, k1
 		}
 		if c.active() {
 			m.Active += c.Weight
@@ -535,57 +550,41 @@ func (b *oddBatch) flush(m *Moments) {
 		if c.active() {
 			m.TruePos += c.Weight * nz
 		}
-		if b.slopes {
-			b.addSlopes(c, v, sd, y, phi, j0, j1, j2, m0, m1, m2, tails)
+		if !b.slopes {
+			continue
 		}
+		// The slopes (docs/method.md section 6), from the same quantities. With S the
+		// slopes, k the kink and beta = Var/v:
+		//
+		//	dA/dt   = (So - Sm) u phi / v
+		//	dMSE/dt = So^2 2Q + Sm^2 (1 - 2Q) + 2 (So - Sm) (Sm - beta) u phi
+		//	dA/dg   = dSo 2Q + dSm (1 - 2Q) - 2 (So - Sm) phi dk / sd
+		//	dMSE/dg = 2 sum over pieces of E[(xhat - E[x0|r]) d xhat/dg ; piece]
+		//
+		// the last in the truncated moments of the MSE: on each piece xhat - E[x0|r] =
+		// k0 + k1 s and d xhat/dg = e0 + e1 s in the piece's own variable s.
+		so, sm := rq.Slope, mq.Slope
+		beta := c.Var / v
+		q2 := 2 * j0 // P(|r| > k)
+		upv := u * phi
+		mt := so*so*q2 + sm*sm*m0 + 2*(so-sm)*(sm-beta)*upv
+		at := (so - sm) * upv * b.invT * (t / v)
+		ag := b.dSo*q2 + b.dSm*m0 - 2*(so-sm)*upv*b.dkk
+		mg := k1m * b.dSm * sd * m2
+		if tails {
+			e1 := b.dSo * sd
+			e0 := -b.dIo + e1*y
+			// Left: s runs away from the kink, where d xhat/dg = e0 - e1 s.
+			mg += k0l*e0*j0 + (k1l*e0-k0l*e1)*j1 - k1l*e1*j2
+			e0 = b.dIo + e1*u
+			mg += k0r*e0*j0 + (k0r*e1+k1r*e0)*j1 + k1r*e1*j2
+		}
+		w := c.Weight
+		b.sl.MSEg += w * 2 * mg
+		b.sl.MSEt += w * mt
+		b.sl.Ag += w * ag
+		b.sl.At += w * at
 	}
-}
-
-// addSlopes adds the derivatives of one component's moments in g and t (docs/method.md
-// section 6), from the quantities flush computed for it: the endpoint y = -u, phi(u), the
-// tail moments j at u and the middle moments m about the mean. With S the slopes, k the kink
-// and beta = Var/v:
-//
-//	dA/dt   = (So - Sm) u phi / v
-//	dMSE/dt = So^2 2Q + Sm^2 (1 - 2Q) + 2 (So - Sm) (Sm - beta) u phi
-//	dA/dg   = dSo 2Q + dSm (1 - 2Q) - 2 (So - Sm) phi dk / sd
-//	dMSE/dg = 2 sum over pieces of E[(xhat - E[x0|r]) d xhat/dg ; piece]
-//
-// the last in the same truncated moments as the MSE itself.
-func (b *oddBatch) addSlopes(c Component, v, sd, y, phi, j0, j1, j2, m0, m1, m2 float64, tails bool) {
-	t := b.t
-	lq, mq, rq := b.pieces[0], b.pieces[1], b.pieces[2]
-	so, sm := rq.Slope, mq.Slope
-	u := -y
-	beta := c.Var / v
-	q2 := 2 * j0 // P(|r| > k)
-	at := (so - sm) * u * phi / v
-	mt := so*so*q2 + sm*sm*m0 + 2*(so-sm)*(sm-beta)*u*phi
-	ag := b.dSo*q2 + b.dSm*m0 - 2*(so-sm)*phi*b.dk/sd
-	var mg float64
-	if tails {
-		// Left piece, expanded about y with s = y - y' >= 0: xhat - E[x0|r] = k0 + k1 s and
-		// d xhat/dg = e0 + e1 s.
-		k1 := ((lq.Slope - 1) + t/v) * sd
-		k0 := lq.Intercept + k1*y
-		e1 := b.dSo * sd
-		e0 := -b.dIo + e1*y
-		mg += k0*e0*j0 - (k0*e1+k1*e0)*j1 + k1*e1*j2
-		// Right piece, expanded about u.
-		k1 = ((rq.Slope - 1) + t/v) * sd
-		k0 = rq.Intercept + k1*u
-		e0 = b.dIo + e1*u
-		mg += k0*e0*j0 + (k0*e1+k1*e0)*j1 + k1*e1*j2
-	}
-	// Middle piece, about the mean: xhat - E[x0|r] = k1 y, d xhat/dg = dSm sd y.
-	k1 := ((mq.Slope - 1) + t/v) * sd
-	mg += k1 * b.dSm * sd * m2
-	_ = m1
-	w := c.Weight
-	b.sl.MSEg += w * 2 * mg
-	b.sl.MSEt += w * mt
-	b.sl.Ag += w * ag
-	b.sl.At += w * at
 }
 
 // pieceAt returns the piece [Lo, Hi) that contains r.
@@ -603,6 +602,15 @@ func pieceAt(pieces []penalty.Piece, r float64) penalty.Piece {
 // precision in 8 terms there (the eighth is below 2e-20 relative). The coefficients of the
 // integrated series are in narrowCoef.
 func narrowMoments(a, b float64) (m0, m1, m2 float64) {
+	if a == -b {
+		// A piece centred on the mean: m1 = 0 and the odd powers cancel in pairs.
+		b2 := b * b
+		for j := len(narrowCoef) - 1; j >= 0; j-- {
+			m0 = m0*b2 + narrowCoef[j][0]
+			m2 = m2*b2 + narrowCoef[j][2]
+		}
+		return 2 * b * m0, 0, 2 * b * b2 * m2
+	}
 	a2, b2 := a*a, b*b
 	pa, pb := a, b // a^(2j+1), b^(2j+1)
 	for j := range narrowCoef {
