@@ -562,6 +562,11 @@ func (s *solver) run(st State) (Result, error) {
 			if ng1, nt1, nim, ok := s.newton(g1, t1, im); ok {
 				g1, t1, im = ng1, nt1, nim
 				newtonWait = 1
+				if t1 > runOff*scale {
+					// Newton steps along a crawl towards an infinite error run off as the
+					// damped ones do (docs/method.md section 3.6).
+					return r, errRunOff
+				}
 				continue
 			}
 			// A failed Newton step costs up to six evaluations of the map; where the map

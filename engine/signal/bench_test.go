@@ -63,5 +63,11 @@ func BenchmarkExpectFixedPoint(b *testing.B) {
 				sink = Expect(c.l, l1, 0.45*(1+1e-3*float64(i%7)), 1.27*(1+1e-3*float64(i%5)))
 			}
 		})
+		b.Run(c.name+"/slopes", func(b *testing.B) {
+			b.ReportAllocs()
+			for i := 0; b.Loop(); i++ {
+				sink, _, _ = ExpectSlopes(c.l, l1, 0.45*(1+1e-3*float64(i%7)), 1.27*(1+1e-3*float64(i%5)))
+			}
+		})
 	}
 }

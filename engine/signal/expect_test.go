@@ -345,3 +345,27 @@ func TestExpectSlopes(t *testing.T) {
 		}
 	}
 }
+
+// Where the slopes have no closed form here (a prox that is not odd with three pieces, a
+// component of nonzero mean, t = 0, a penalty without pieces) ExpectSlopes says so and still
+// returns the moments of Expect.
+func TestExpectSlopesUnavailable(t *testing.T) {
+	for _, tc := range []struct {
+		l  Law
+		p  penalty.Penalty
+		tt float64
+	}{
+		{must(Laplace(0.8)), must(penalty.NonnegL1(0.2, 0.5)), 0.1},
+		{must(Laplace(0.8)), must(penalty.Ridge(0.7)), 0.1},
+		{must(BernoulliRademacher(0.2, 1.5)), must(penalty.L1(0.4)), 0.1},
+		{must(GaussMixture([]float64{0.5, 0.5}, []float64{0, 2}, []float64{1, 0.4})), must(penalty.L1(0.4)), 0.1},
+		{must(Laplace(0.8)), must(penalty.L1(0.4)), 0},
+		{must(Laplace(0.8)), must(penalty.Power(0.3, 1.5)), 0.1},
+	} {
+		m, sl, ok := ExpectSlopes(tc.l, tc.p, 0.7, tc.tt)
+		if ok || sl != (Slopes{}) {
+			t.Errorf("%s/%s t=%v: slopes %+v reported available", tc.l.Name(), tc.p.Name(), tc.tt, sl)
+		}
+		cmpMoments(t, tc.l.Name()+"/"+tc.p.Name(), m, Expect(tc.l, tc.p, 0.7, tc.tt), 0, 0)
+	}
+}
