@@ -81,8 +81,15 @@ func expect(l Law, p penalty.Penalty, g, t float64, wantSlopes bool, stopA float
 	if !(g > 0) || !(t >= 0) {
 		return nanMoments(), Slopes{}, false
 	}
+	var pieces []penalty.Piece
 	var lin penalty.Linear
-	pieces, ok := piecesOf(p, g, &lin)
+	ok := false
+	if lf, isLin := p.(penalty.LinearForm); isLin {
+		lin, ok = lf.Linear(g)
+		pieces = lin.Pieces()
+	} else {
+		pieces, ok = p.Pieces(g)
+	}
 	if !ok {
 		if b, isB := p.(brancher); isB && b.Exponent() > 0 {
 			return expectBranch(l, p, b, g, t), Slopes{}, false
@@ -103,17 +110,14 @@ func expect(l Law, p penalty.Penalty, g, t float64, wantSlopes bool, stopA float
 			odd.slopes = odd.pieceSlopes(p, g)
 		}
 	}
-	add := func(c Component) {
-		if odd != nil {
-			odd.add(&m, c)
-		} else {
-			addComponent(&m, c, pieces, t)
-		}
-	}
 	stop := !math.IsInf(stopA, 1)
 	for _, c := range componentsOf(l) {
 		if !grp.add(c, t) {
-			add(grp.component())
+			if odd != nil {
+				odd.add(&m, grp.component())
+			} else {
+				addComponent(&m, grp.component(), pieces, t)
+			}
 			grp.w = 0
 			grp.add(c, t)
 			if stop {
@@ -127,7 +131,11 @@ func expect(l Law, p penalty.Penalty, g, t float64, wantSlopes bool, stopA float
 		}
 	}
 	if grp.w > 0 {
-		add(grp.component())
+		if odd != nil {
+			odd.add(&m, grp.component())
+		} else {
+			addComponent(&m, grp.component(), pieces, t)
+		}
 	}
 	if odd == nil {
 		return m, Slopes{}, false
