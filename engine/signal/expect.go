@@ -181,6 +181,7 @@ type merger struct {
 	v0, sd, sq float64
 	lo, hi     float64 // the extreme finite kinks (+Inf, -Inf when none)
 	kk         float64 // the squared distance from mean to the farther of lo, hi
+	kkSet      bool    // kk holds the value for mean
 }
 
 // add adds c to the group if the group stays within mergeTol at noise t, and reports whether
@@ -193,13 +194,16 @@ type merger struct {
 // less than 1e-5 of t + min V), and rounding moves the test by about 1e-16 (max d)^2.
 func (g *merger) add(c Component, t float64) bool {
 	if g.w == 0 {
+		if !g.kkSet || c.Mean != g.mean {
+			// kk depends on the mean only: most mixtures have one mean throughout.
+			g.kk, g.kkSet = 0, true
+			if g.lo <= g.hi {
+				k := max(abs(g.lo-c.Mean), abs(g.hi-c.Mean))
+				g.kk = k * k
+			}
+		}
 		g.w, g.mean, g.vmin = c.Weight, c.Mean, c.Var
 		g.v0, g.sd, g.sq = c.Var, 0, 0
-		g.kk = 0
-		if g.lo <= g.hi {
-			k := max(abs(g.lo-c.Mean), abs(g.hi-c.Mean))
-			g.kk = k * k
-		}
 		return true
 	}
 	if c.Mean != g.mean || c.Var == 0 || g.vmin == 0 || c.Weight == 0 {
@@ -224,7 +228,14 @@ func (g *merger) add(c Component, t float64) bool {
 
 func abs(x float64) float64 { return math.Float64frombits(math.Float64bits(x) &^ (1 << 63)) }
 
-func (g *merger) component() Component { return Component{g.w, g.mean, g.v0 + g.sd/g.w} }
+// component returns the group as one component. A group of one (sd = 0) keeps its Var as it
+// is, whatever its weight (a weight that underflowed to 0 must not turn it into 0/0).
+func (g *merger) component() Component {
+	if g.sd == 0 {
+		return Component{g.w, g.mean, g.v0}
+	}
+	return Component{g.w, g.mean, g.v0 + g.sd/g.w}
+}
 
 func nanMoments() Moments {
 	n := math.NaN()
@@ -488,8 +499,24 @@ func (b *oddBatch) flush(m *Moments) {
 		// The endpoint y = -k/sd < 0 (newEndPoint).
 		ys[i] = (lq.Hi - c.Mean) / sd[i]
 	}
+	var m0s, m2s [oddBatchSize]float64
 	for i, y := range ys[:n] {
-		phis[i], fars[i] = normalAt(-y)
+		// normalAt(u), and below u = 0.1 the middle moments narrowMoments(-u, u) from the
+		// same series in one pass (the same operations, so the same numbers).
+		u := -y
+		if u < 0.1 {
+			u2 := u * u
+			var p, s0, s2 float64
+			for j := len(narrowCoef) - 1; j >= 0; j-- {
+				p = p*u2 + narrowPhi[j]
+				s0 = s0*u2 + narrowCoef[j][0]
+				s2 = s2*u2 + narrowCoef[j][2]
+			}
+			phis[i], fars[i] = p, 0.5-s0*u
+			m0s[i], m2s[i] = 2*u*s0, 2*u*u2*s2
+			continue
+		}
+		phis[i], fars[i] = math.Exp(-u*u/2)/math.Sqrt(2*math.Pi), math.Erfc(u/math.Sqrt2)/2
 	}
 	for i, c := range b.c[:n] {
 		v := c.Var + t
@@ -519,7 +546,7 @@ func (b *oddBatch) flush(m *Moments) {
 		k0 := (mq.Slope-1)*mu + mq.Intercept
 		var m0, m1, m2 float64
 		if u < 0.1 {
-			m0, m1, m2 = narrowMoments(y, u)
+			m0, m1, m2 = m0s[i], 0, m2s[i]
 		} else {
 			m0 = 1 - far
 			m1 = phi
@@ -572,8 +599,8 @@ func (b *oddBatch) flush(m *Moments) {
 		// the last in the truncated moments of the MSE: on each piece xhat - E[x0|r] =
 		// k0 + k1 s and d xhat/dg = e0 + e1 s in the piece's own variable s.
 		so, sm := rq.Slope, mq.Slope
-		beta := c.Var / v
-		q2 := 2 * j0 // P(|r| > k)
+		beta := 1 - t/v // Var/v, without another division (a slope needs no more digits)
+		q2 := 2 * j0    // P(|r| > k)
 		upv := u * phi
 		mt := so*so*q2 + sm*sm*m0 + 2*(so-sm)*(sm-beta)*upv
 		at := (so - sm) * upv * b.invT * (t / v)
