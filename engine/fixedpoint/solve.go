@@ -345,10 +345,11 @@ func (s *solver) zeroEnd() (Result, bool) {
 	if !finitePos(g1) || !finitePos(t1) {
 		return Result{}, false
 	}
-	m := signal.Expect(s.p.Signal, s.p.Penalty, g1, t1)
-	if !(m.A < zeroA) {
+	// Most problems are far from this end, and the first components decide that.
+	if signal.AReaches(s.p.Signal, s.p.Penalty, g1, t1, zeroA) {
 		return Result{}, false
 	}
+	m := signal.Expect(s.p.Signal, s.p.Penalty, g1, t1)
 	r := s.zeroResult(0, g1, t1, m)
 	r.G2 = far
 	return r, true
@@ -365,17 +366,19 @@ type solver struct {
 	// of many components (Laplace, Student-t) that evaluation is most of a fixed point's time.
 	lastG1, lastT1 float64
 	last           signal.Moments
+	lastSl         signal.Slopes
+	lastSlOK       bool
 }
 
-// expect returns the moments of the scalar channel at (g1, t1), reusing the last ones when
-// the point is the same.
-func (s *solver) expect(g1, t1 float64) signal.Moments {
+// expect returns the moments of the scalar channel at (g1, t1) and, where the channel gives
+// them in closed form, their slopes (ok), reusing the last ones when the point is the same.
+func (s *solver) expect(g1, t1 float64) (signal.Moments, signal.Slopes, bool) {
 	if s.lastG1 == g1 && s.lastT1 == t1 && g1 > 0 {
-		return s.last
+		return s.last, s.lastSl, s.lastSlOK
 	}
-	m := signal.Expect(s.p.Signal, s.p.Penalty, g1, t1)
-	s.lastG1, s.lastT1, s.last = g1, t1, m
-	return m
+	m, sl, ok := signal.ExpectSlopes(s.p.Signal, s.p.Penalty, g1, t1)
+	s.lastG1, s.lastT1, s.last, s.lastSl, s.lastSlOK = g1, t1, m, sl, ok
+	return m, sl, ok
 }
 
 // coldStart starts sparse (docs/method.md section 3): t1 = rho2 and g1 such that a threshold
@@ -396,27 +399,40 @@ var errRunOff = errors.New("the damped iteration left the range of the problem")
 // image is one evaluation of the update map at (g1, t1).
 type image struct {
 	g1, t1, g2 float64
+	tr         design.Transforms // the design's transforms at g2
 	m          signal.Moments
+	sl         signal.Slopes // the slopes of m in g1 and t1, when slOK
+	slOK       bool
 	res        float64 // relative change from the argument
 }
 
 // apply evaluates the update map of the package comment at (g1, t1); near is a guess of g2.
 func (s *solver) apply(g1, t1, near float64) (image, error) {
-	p := s.p
-	m := s.expect(g1, t1)
+	m, sl, slOK := s.expect(g1, t1)
 	v := math.Max(m.A, zeroA) / g1
-	g2, err := invertS1(p.Design, v, near)
+	g2, ng1, nt1, tr, err := s.linear(v, m.MSE, near)
 	if err != nil {
 		return image{}, err
 	}
-	tr := p.Design.At(g2)
-	ng1 := tr.T / tr.S1
-	nt1 := (p.Noise*tr.S3 + tr.W*m.MSE) / (ng1 * ng1 * tr.S2)
-	if !finitePos(ng1) || !(nt1 >= 0) || math.IsInf(nt1, 0) {
-		return image{}, errRunOff
-	}
 	res := math.Max(math.Abs(ng1-g1)/g1, math.Abs(nt1-t1)/math.Max(t1, 1e-300))
-	return image{g1: ng1, t1: nt1, g2: g2, m: m, res: res}, nil
+	return image{g1: ng1, t1: nt1, g2: g2, tr: tr, m: m, sl: sl, slOK: slOK, res: res}, nil
+}
+
+// linear is steps 2-4 of the update (docs/method.md section 3.3): from V and E to g2 and the
+// new (g1, t1); near is a guess of g2.
+func (s *solver) linear(v, mse, near float64) (g2, ng1, nt1 float64, tr design.Transforms, err error) {
+	p := s.p
+	g2, err = invertS1(p.Design, v, near)
+	if err != nil {
+		return 0, 0, 0, tr, err
+	}
+	tr = p.Design.At(g2)
+	ng1 = tr.T / tr.S1
+	nt1 = (p.Noise*tr.S3 + tr.W*mse) / (ng1 * ng1 * tr.S2)
+	if !finitePos(ng1) || !(nt1 >= 0) || math.IsInf(nt1, 0) {
+		return 0, 0, 0, tr, errRunOff
+	}
+	return g2, ng1, nt1, tr, nil
 }
 
 // newtonFrom is the residual below which the solver tries Newton steps on the fixed-point
@@ -424,30 +440,25 @@ func (s *solver) apply(g1, t1, near float64) (image, error) {
 // weakly (near alpha = 1, at vanishing penalties, near a recovery threshold).
 const newtonFrom = 1e-2
 
-// newton tries one Newton step on F(x) = log M(x) - x, x = (log g1, log t1), with a
-// forward-difference Jacobian and a step capped at a factor e^2 per coordinate; it returns the
-// new point only if the map's residual there is smaller than at the current one. (A Jacobian
-// carried by Broyden's update instead saves two evaluations a step but ends the iteration
-// just below the tolerance rather than far below it, and the tuned optimum of a study, found
-// on a flat minimum, then moves by 4e-5.)
+// newtonFromSlopes replaces newtonFrom where the channel gives the slopes of its moments in
+// closed form: a Newton step then costs one evaluation of the map, like a damped step, and
+// is tried from a residual of 0.3 on (it is still kept only if it lowers the residual).
+const newtonFromSlopes = 0.3
+
+// newton tries one Newton step on F(x) = log M(x) - x, x = (log g1, log t1), with the step
+// capped at a factor e^2 per coordinate; it returns the new point only if the map's residual
+// there is smaller than at the current one. The Jacobian comes from the closed-form slopes
+// of the channel's moments where signal.ExpectSlopes gives them (the linear side by a
+// forward difference in V, which costs no evaluation of the channel), else from forward
+// differences of the whole map (docs/method.md section 3.4). (A Jacobian carried by Broyden's
+// update instead saves two evaluations a step but ends the iteration just below the
+// tolerance rather than far below it, and the tuned optimum of a study, found on a flat
+// minimum, then moves by 4e-5.)
 func (s *solver) newton(g1, t1 float64, cur image) (float64, float64, image, bool) {
-	const h = 1e-6
 	f0 := [2]float64{math.Log(cur.g1 / g1), math.Log(cur.t1 / t1)}
-	var jac [2][2]float64
-	for k := 0; k < 2; k++ {
-		pg, pt := g1, t1
-		if k == 0 {
-			pg *= math.Exp(h)
-		} else {
-			pt *= math.Exp(h)
-		}
-		im, err := s.apply(pg, pt, cur.g2)
-		if err != nil || !(im.t1 > 0) {
-			return 0, 0, image{}, false
-		}
-		fk := [2]float64{math.Log(im.g1 / pg), math.Log(im.t1 / pt)}
-		jac[0][k] = (fk[0] - f0[0]) / h
-		jac[1][k] = (fk[1] - f0[1]) / h
+	jac, ok := s.jacobian(g1, t1, cur)
+	if !ok {
+		return 0, 0, image{}, false
 	}
 	det := jac[0][0]*jac[1][1] - jac[0][1]*jac[1][0]
 	if !(math.Abs(det) > 1e-300) {
@@ -467,6 +478,61 @@ func (s *solver) newton(g1, t1 float64, cur image) (float64, float64, image, boo
 		d0, d1 = d0/2, d1/2
 	}
 	return 0, 0, image{}, false
+}
+
+// jacobianStep is the step in each log coordinate of the forward differences of newton.
+const jacobianStep = 1e-6
+
+// jacobian returns the Jacobian of F(x) = log M(x) - x at x = (log g1, log t1), cur being
+// M's image there.
+func (s *solver) jacobian(g1, t1 float64, cur image) ([2][2]float64, bool) {
+	const h = jacobianStep
+	var jac [2][2]float64
+	f0 := [2]float64{math.Log(cur.g1 / g1), math.Log(cur.t1 / t1)}
+	if cur.slOK && cur.t1 > 0 {
+		// M = (g1', t1') depends on x through V = max(A, zeroA)/g1 (which fixes g2, hence g1'
+		// and the coefficients of t1') and through E, on which t1' is affine.
+		m, sl := cur.m, cur.sl
+		a := math.Max(m.A, zeroA)
+		v := a / g1
+		dv := [2]float64{-1, 0} // d log V / dx
+		if m.A > zeroA {
+			dv = [2]float64{g1*sl.Ag/m.A - 1, t1 * sl.At / m.A}
+		}
+		de := [2]float64{g1 * sl.MSEg, t1 * sl.MSEt} // dE / dx
+		bg1, bt1 := cur.g1, cur.t1
+		_, pg1, pt1, _, err := s.linear(v*math.Exp(h), m.MSE, cur.g2)
+		if err != nil || !(pt1 > 0) {
+			return jac, false
+		}
+		lg := math.Log(pg1/bg1) / h // d log g1' / d log V
+		lt := math.Log(pt1/bt1) / h // d log t1' / d log V at fixed E
+		// d log t1' / dE = W / (g1'^2 S2 t1'), from t1' = (Delta S3 + W E)/(g1'^2 S2).
+		te := cur.tr.W / (bg1 * bg1 * cur.tr.S2 * bt1)
+		for k := 0; k < 2; k++ {
+			jac[0][k] = lg * dv[k]
+			jac[1][k] = lt*dv[k] + te*de[k]
+		}
+		jac[0][0]--
+		jac[1][1]--
+		return jac, finiteAll(jac[0][0], jac[0][1], jac[1][0], jac[1][1])
+	}
+	for k := 0; k < 2; k++ {
+		pg, pt := g1, t1
+		if k == 0 {
+			pg *= math.Exp(h)
+		} else {
+			pt *= math.Exp(h)
+		}
+		im, err := s.apply(pg, pt, cur.g2)
+		if err != nil || !(im.t1 > 0) {
+			return jac, false
+		}
+		fk := [2]float64{math.Log(im.g1 / pg), math.Log(im.t1 / pt)}
+		jac[0][k] = (fk[0] - f0[0]) / h
+		jac[1][k] = (fk[1] - f0[1]) / h
+	}
+	return jac, true
 }
 
 func (s *solver) run(st State) (Result, error) {
@@ -499,10 +565,15 @@ func (s *solver) run(st State) (Result, error) {
 			r.Converged = true
 			break
 		}
-		if im.res < newtonFrom && it >= newtonNext {
+		if (im.res < newtonFrom || (im.slOK && im.res < newtonFromSlopes)) && it >= newtonNext {
 			if ng1, nt1, nim, ok := s.newton(g1, t1, im); ok {
 				g1, t1, im = ng1, nt1, nim
 				newtonWait = 1
+				if t1 > runOff*scale {
+					// Newton steps along a crawl towards an infinite error run off as the
+					// damped ones do (docs/method.md section 3.6).
+					return r, errRunOff
+				}
 				continue
 			}
 			// A failed Newton step costs up to six evaluations of the map; where the map
@@ -537,7 +608,7 @@ func (s *solver) run(st State) (Result, error) {
 // observe evaluates every observable at the final (g1, t1).
 func (s *solver) observe(r Result) (Result, error) {
 	p := s.p
-	m := s.expect(r.G1, r.T1)
+	m, _, _ := s.expect(r.G1, r.T1)
 	if m.A < zeroA {
 		return s.zeroResult(r.Iterations, r.G1, r.T1, m), nil
 	}

@@ -1,6 +1,7 @@
 package signal
 
 import (
+	"math"
 	"testing"
 
 	"hdrisk/engine/penalty"
@@ -44,4 +45,29 @@ func BenchmarkExpectQuad(b *testing.B) {
 			sink = Expect(bg, pw, 0.8, 0.05)
 		}
 	})
+}
+
+// BenchmarkExpectFixedPoint evaluates the channel where the l1 fixed point of
+// BenchmarkSolveQuadrature (engine/fixedpoint) lies, in the solver's units (E[x0^2] = 1).
+func BenchmarkExpectFixedPoint(b *testing.B) {
+	la, _ := Laplace(math.Sqrt(0.5))
+	st, _ := StudentT(5, math.Sqrt(0.6))
+	l1, _ := penalty.L1(0.35)
+	for _, c := range []struct {
+		name string
+		l    Law
+	}{{"laplace/l1", la}, {"student-t/l1", st}} {
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for i := 0; b.Loop(); i++ {
+				sink = Expect(c.l, l1, 0.45*(1+1e-3*float64(i%7)), 1.27*(1+1e-3*float64(i%5)))
+			}
+		})
+		b.Run(c.name+"/slopes", func(b *testing.B) {
+			b.ReportAllocs()
+			for i := 0; b.Loop(); i++ {
+				sink, _, _ = ExpectSlopes(c.l, l1, 0.45*(1+1e-3*float64(i%7)), 1.27*(1+1e-3*float64(i%5)))
+			}
+		})
+	}
 }

@@ -249,3 +249,123 @@ func TestExpectMergeMatchesComponents(t *testing.T) {
 		}
 	}
 }
+
+// oddPenalties are the penalties whose prox is odd with three pieces (the batched path of
+// Expect and the closed-form slopes of ExpectSlopes).
+func oddPenalties() []penalty.Penalty {
+	return []penalty.Penalty{
+		must(penalty.L1(0.4)),
+		must(penalty.ElasticNet(0.3, 1.1)),
+		must(penalty.Huber(0.5, 0.4)),
+		must(penalty.Box(0.9, 0.3)),
+	}
+}
+
+// The batched evaluation of an odd three-piece prox performs the operations of
+// addComponent in the same order, so that the two agree exactly, over thresholds from 1e-4
+// to 4e2 channel standard deviations (the narrow middle piece, the continued fraction of the
+// far tail, tails beyond the reach of the normal law).
+func TestAddOddMatchesAddComponent(t *testing.T) {
+	n := 0
+	for _, p := range oddPenalties() {
+		for _, g := range []float64{1e-3, 0.05, 1, 20, 1e4} {
+			pieces, ok := p.Pieces(g)
+			if !ok || !oddThree(pieces) {
+				t.Fatalf("%s at g=%v: pieces %v are not odd with three pieces", p.Name(), g, pieces)
+			}
+			for _, tt := range []float64{0, 1e-6, 0.01, 1, 100} {
+				for _, c := range []Component{{1, 0, 0}, {0.3, 0, 1e-9}, {0.7, 0, 0.5}, {1, 0, 3e4}, {0.2, 1.5, 0.3}, {0.5, -2, 0}} {
+					var got, want Moments
+					addOdd(&got, c, pieces, tt)
+					addComponent(&want, c, pieces, tt)
+					if got != want && !(math.IsNaN(got.MSE) && math.IsNaN(want.MSE)) {
+						t.Errorf("%s g=%v t=%v %+v: addOdd %+v, addComponent %+v", p.Name(), g, tt, c, got, want)
+					}
+					n++
+				}
+			}
+		}
+	}
+	t.Logf("%d cases", n)
+}
+
+// The closed-form slopes against central differences of the moments summed component by
+// component, without the merger, for the odd penalties and the laws whose components all
+// have mean 0. The relative step is 1e-4/(1 + y^2), y the kink in channel standard
+// deviations, since a tail mass changes by a factor exp(-y^2 h) over the step; kinks beyond
+// 40 standard deviations of the channel noise are left out (the differences then lose
+// their digits to rounding).
+func TestExpectSlopes(t *testing.T) {
+	laws := []Law{must(Gauss(1.3)), must(Gauss(0)), must(BernoulliGauss(0.1, 1)), must(Laplace(0.8)), must(StudentT(5, 0.7))}
+	each := func(l Law, p penalty.Penalty, g, tt float64) Moments {
+		pieces, _ := p.Pieces(g)
+		var m Moments
+		for _, c := range componentsOf(l) {
+			addComponent(&m, c, pieces, tt)
+		}
+		return m
+	}
+	n := 0
+	defer func() { t.Logf("%d cases", n) }()
+	for _, l := range laws {
+		for _, p := range oddPenalties() {
+			for _, g := range []float64{0.01, 0.3, 1, 20} {
+				for _, tt := range []float64{1e-4, 0.05, 1, 30} {
+					pieces, _ := p.Pieces(g)
+					y := pieces[1].Hi / math.Sqrt(tt)
+					if y > 40 {
+						continue
+					}
+					h := 1e-4 / (1 + y*y)
+					n++
+					m, sl, ok := ExpectSlopes(l, p, g, tt)
+					if !ok {
+						t.Errorf("%s/%s g=%v t=%v: no slopes", l.Name(), p.Name(), g, tt)
+						continue
+					}
+					cmpMoments(t, l.Name()+"/"+p.Name()+gtString(g, tt), m, Expect(l, p, g, tt), 0, 0)
+					gp, gm := each(l, p, g*(1+h), tt), each(l, p, g*(1-h), tt)
+					tp, tm := each(l, p, g, tt*(1+h)), each(l, p, g, tt*(1-h))
+					for _, f := range []struct {
+						name      string
+						got, want float64
+						scale     float64
+					}{
+						{"MSEg", sl.MSEg, (gp.MSE - gm.MSE) / (2 * h * g), m.MSE / g},
+						{"MSEt", sl.MSEt, (tp.MSE - tm.MSE) / (2 * h * tt), m.MSE / tt},
+						{"Ag", sl.Ag, (gp.A - gm.A) / (2 * h * g), m.A / g},
+						{"At", sl.At, (tp.A - tm.A) / (2 * h * tt), m.A / tt},
+					} {
+						if !close(f.got, f.want, 1e-6, f.scale) {
+							t.Errorf("%s/%s g=%v t=%v: %s = %.10g, central difference %.10g", l.Name(), p.Name(), g, tt, f.name, f.got, f.want)
+						}
+					}
+				}
+			}
+		}
+	}
+}
+
+// Where the slopes have no closed form here (a prox that is not odd with three pieces, a
+// component of nonzero mean, t = 0, a penalty without pieces) ExpectSlopes says so and still
+// returns the moments of Expect.
+func TestExpectSlopesUnavailable(t *testing.T) {
+	for _, tc := range []struct {
+		l  Law
+		p  penalty.Penalty
+		tt float64
+	}{
+		{must(Laplace(0.8)), must(penalty.NonnegL1(0.2, 0.5)), 0.1},
+		{must(Laplace(0.8)), must(penalty.Ridge(0.7)), 0.1},
+		{must(BernoulliRademacher(0.2, 1.5)), must(penalty.L1(0.4)), 0.1},
+		{must(GaussMixture([]float64{0.5, 0.5}, []float64{0, 2}, []float64{1, 0.4})), must(penalty.L1(0.4)), 0.1},
+		{must(Laplace(0.8)), must(penalty.L1(0.4)), 0},
+		{must(Laplace(0.8)), must(penalty.Power(0.3, 1.5)), 0.1},
+	} {
+		m, sl, ok := ExpectSlopes(tc.l, tc.p, 0.7, tc.tt)
+		if ok || sl != (Slopes{}) {
+			t.Errorf("%s/%s t=%v: slopes %+v reported available", tc.l.Name(), tc.p.Name(), tc.tt, sl)
+		}
+		cmpMoments(t, tc.l.Name()+"/"+tc.p.Name(), m, Expect(tc.l, tc.p, 0.7, tc.tt), 0, 0)
+	}
+}
