@@ -236,7 +236,8 @@ func (s *solver) nonUnique(r Result) error {
 	if r.EstimateZero || a0 == 0 || !(r.G2 < 1e-100) || !s.flat() {
 		return nil
 	}
-	return fieldErr("penalty", "the penalty leaves the entries inside its box as they are, and %.3g of the design's eigenvalues are 0 (m/n = %v): %.3g of the entries lie strictly inside the box at the fixed point, at least the share %.3g of nonzero eigenvalues, so many points of the box fit the data equally well and the minimizer is not unique; give the box an l2 term (as l2 goes to 0 the estimate tends to the minimizer of least norm), or raise design.alpha", a0, s.p.Design.Alpha(), s.expect(r.G1, r.T1).A, 1-a0)
+	m, _, _ := s.expect(r.G1, r.T1)
+	return fieldErr("penalty", "the penalty leaves the entries inside its box as they are, and %.3g of the design's eigenvalues are 0 (m/n = %v): %.3g of the entries lie strictly inside the box at the fixed point, at least the share %.3g of nonzero eigenvalues, so many points of the box fit the data equally well and the minimizer is not unique; give the box an l2 term (as l2 goes to 0 the estimate tends to the minimizer of least norm), or raise design.alpha", a0, s.p.Design.Alpha(), m.A, 1-a0)
 }
 
 // flat reports a piecewise-linear penalty whose piece about 0 is the identity at every g:

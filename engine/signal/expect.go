@@ -555,12 +555,18 @@ func (b *oddBatch) flush(m *Moments) {
 		if u < 0.1 {
 			m0, m1, m2 = m0s[i], 0, m2s[i]
 		} else {
+			// A kink beyond the reach of the normal law has phi = 0, and its y phi terms
+			// are 0 even where y overflowed to +-Inf (as in addComponent).
 			m0 = 1 - far
 			m1 = phi
-			m2 = y * phi
+			if phi > 0 {
+				m2 = y * phi
+			}
 			m0 -= far
 			m1 -= phi
-			m2 -= u * phi
+			if phi > 0 {
+				m2 -= u * phi
+			}
 			m2 += m0
 		}
 		if !(m0 == 0 && m1 == 0 && m2 == 0) {
@@ -608,7 +614,10 @@ func (b *oddBatch) flush(m *Moments) {
 		so, sm := rq.Slope, mq.Slope
 		beta := 1 - t/v // Var/v, without another division (a slope needs no more digits)
 		q2 := 2 * j0    // P(|r| > k)
-		upv := u * phi
+		upv := 0.0
+		if phi > 0 {
+			upv = u * phi
+		}
 		mt := so*so*q2 + sm*sm*m0 + 2*(so-sm)*(sm-beta)*upv
 		at := (so - sm) * upv * b.invT * (t / v)
 		ag := b.dSo*q2 + b.dSm*m0 - 2*(so-sm)*upv*b.dkk
