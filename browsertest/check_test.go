@@ -184,6 +184,12 @@ func TestCheckInPage(t *testing.T) {
 		t.Errorf("the solver note shown is %q, natively %q", shown, native.SolverNote)
 	}
 	b.imageShown(t, "#check-figure")
+	// The drawn figure fits a phone's width (it once kept its own width and widened the page).
+	b.viewport(t, 390, 844)
+	if o := b.overflow(t); o != "" {
+		t.Errorf("the check view with its figure at 390 px: %s", o)
+	}
+	b.viewport(t, 1280, 1000)
 
 	// A long check cancelled midway: the view says so and nothing arrives later.
 	b.typeInto(t, "#check-trials", "400")

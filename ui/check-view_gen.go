@@ -872,9 +872,19 @@ func (c *CheckView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 						_ = vgparent
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)
-						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "img", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-figure"}, vugu.VGAttribute{Namespace: "", Key: "alt", Val: "Predicted mean squared error with the finite-size checks drawn over it"}}}
+						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "figure-frame"}}}
 						vgparent.AppendChild(vgn)
-						vgn.AddAttrInterface("src", c.FigureURL())
+						{
+							vgparent := vgn
+							_ = vgparent
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t"}
+							vgparent.AppendChild(vgn)
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "img", Attr: []vugu.VGAttribute{{Namespace: "", Key: "id", Val: "check-figure"}, vugu.VGAttribute{Namespace: "", Key: "alt", Val: "Predicted mean squared error with the finite-size checks drawn over it"}}}
+							vgparent.AppendChild(vgn)
+							vgn.AddAttrInterface("src", c.FigureURL())
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
+							vgparent.AppendChild(vgn)
+						}
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 						vgparent.AppendChild(vgn)
 						vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "figcaption", Attr: []vugu.VGAttribute(nil)}
