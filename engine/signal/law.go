@@ -110,6 +110,32 @@ func Scaled(l Law, s float64) Law {
 	if s == 1 {
 		return l
 	}
+	if u, ok := l.(unitSecond); ok {
+		// The solver's units (E[x0^2] = 1), prepared once with the law rather than copied
+		// at every solve.
+		if pre := u.atUnitSecond(); pre != nil && s == math.Sqrt(l.Second()) {
+			return *pre
+		}
+	}
+	return scaleBy(l, s)
+}
+
+// unitSecond is a law that keeps Scaled(l, sqrt(l.Second())) (nil when not prepared).
+type unitSecond interface{ atUnitSecond() *scaled }
+
+// prepareUnitSecond returns scaleBy(l, sqrt(l.Second())) for a law to keep (see unitSecond),
+// nil when that is l itself.
+func prepareUnitSecond(l Law) *scaled {
+	s := math.Sqrt(l.Second())
+	if s == 1 {
+		return nil
+	}
+	sc := scaleBy(l, s).(scaled)
+	return &sc
+}
+
+// scaleBy is Scaled without the prepared laws.
+func scaleBy(l Law, s float64) Law {
 	var comps []Component
 	var fold folded
 	if u, ok := l.(unitScale); ok {

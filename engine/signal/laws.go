@@ -126,8 +126,11 @@ func (l bernoulliRademacher) Sample(rng *rand.Rand, n int) []float64 {
 
 type laplace struct {
 	mixture
-	scale float64
+	scale   float64
+	unitSec *scaled // the law in the solver's units (see unitSecond)
 }
+
+func (l laplace) atUnitSecond() *scaled { return l.unitSec }
 
 // Laplace returns the law with density exp(-|x|/scale)/(2 scale) (scale > 0 finite, units of
 // x0); E[x0^2] = 2 scale^2.
@@ -151,7 +154,9 @@ func Laplace(scale float64) (Law, error) {
 	for i := range y {
 		comps[i] = Component{w[i], 0, 2 * scale * scale * y[i]}
 	}
-	return laplace{mixture{comps}, scale}, nil
+	l := laplace{mixture: mixture{comps}, scale: scale}
+	l.unitSec = prepareUnitSecond(l)
+	return l, nil
 }
 
 // Trapezoidal rule for the standard exponential law in u = log(s): 63 nodes.
@@ -233,7 +238,10 @@ type studentT struct {
 	// fold and unitFold are comps and unit with the heavy tail folded (foldTail), which
 	// Expect uses while every kink lies close enough to 0 (see folded).
 	fold, unitFold folded
+	unitSec        *scaled // the law in the solver's units (see unitSecond)
 }
+
+func (l studentT) atUnitSecond() *scaled { return l.unitSec }
 
 func (l studentT) unitComponents() ([]Component, float64) { return l.unit, l.scale }
 func (l studentT) foldedTail() folded                     { return l.fold }
@@ -265,6 +273,7 @@ func StudentT(dof, scale float64) (Law, error) {
 	l := studentT{mixture: mixture{studentTMixture(dof, scale, studentStep, studentLow)}, dof: dof, scale: scale, unit: studentTMixture(dof, 1, studentStep, studentLow)}
 	l.fold.comps, l.fold.vmin = foldTail(l.comps, studentTailShare, studentTailNodes)
 	l.unitFold.comps, l.unitFold.vmin = foldTail(l.unit, studentTailShare, studentTailNodes)
+	l.unitSec = prepareUnitSecond(l)
 	return l, nil
 }
 

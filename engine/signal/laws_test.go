@@ -3,6 +3,7 @@ package signal
 import (
 	"fmt"
 	"math"
+	"slices"
 	"testing"
 
 	"hdrisk/engine/penalty"
@@ -207,4 +208,18 @@ func TestStudentTTailFold(t *testing.T) {
 		}
 	}
 	t.Logf("largest relative change %.1e", worst)
+}
+
+// The law in the solver's units that Laplace and StudentT prepare is the one Scaled computes.
+func TestPreparedUnitSecond(t *testing.T) {
+	for _, l := range []Law{must(Laplace(1.7)), must(StudentT(5, 1)), must(StudentT(3.5, 1e-120))} {
+		s := math.Sqrt(l.Second())
+		got, want := Scaled(l, s).(scaled), scaleBy(l, s).(scaled)
+		if l.(unitSecond).atUnitSecond() == nil {
+			t.Errorf("%s: nothing prepared", l.Name())
+		}
+		if !slices.Equal(got.comps, want.comps) || !slices.Equal(got.fold.comps, want.fold.comps) || got.fold.vmin != want.fold.vmin || got.sec != want.sec || got.s != want.s {
+			t.Errorf("%s: the prepared law differs from Scaled's", l.Name())
+		}
+	}
 }
