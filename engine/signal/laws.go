@@ -382,7 +382,9 @@ func foldTail(comps []Component, share float64, n int) (out []Component, vmin fl
 		acc += c.Weight * c.Var
 		m++
 	}
-	if share <= 0 || m <= n {
+	if share <= 0 || m <= n || !(total > 0) || math.IsInf(total, 1) {
+		// Nothing to fold, or a mixture beyond the range of doubles (a huge scale; the
+		// solver reads such a law through its mixture of scale 1).
 		return nil, 0
 	}
 	x := make([]float64, m)
@@ -396,7 +398,10 @@ func foldTail(comps []Component, share float64, n int) (out []Component, vmin fl
 	for i := range x {
 		x[i] /= xc // in (0, 1]: the recurrence below stays well scaled
 	}
-	nodes, weights := gaussOfPoints(x, mu, n)
+	nodes, weights, ok := gaussOfPoints(x, mu, n)
+	if !ok {
+		return nil, 0
+	}
 	isFolded := make(map[int]bool, m)
 	for _, k := range order[:m] {
 		isFolded[k] = true
@@ -410,8 +415,12 @@ func foldTail(comps []Component, share float64, n int) (out []Component, vmin fl
 	vmin = math.Inf(1)
 	for j := range nodes {
 		xj := nodes[j] * xc
-		out = append(out, Component{weights[j] * xj * xj, 0, 1 / (xj * xj)})
-		vmin = math.Min(vmin, 1/(xj*xj))
+		sd := 1 / xj
+		if math.IsInf(sd*sd, 1) {
+			return nil, 0
+		}
+		out = append(out, Component{weights[j] * xj * xj, 0, sd * sd})
+		vmin = math.Min(vmin, sd*sd)
 	}
 	return out, vmin
 }
@@ -421,7 +430,10 @@ func foldTail(comps []Component, share float64, n int) (out []Component, vmin fl
 // the discretized Stieltjes procedure, then the eigenvalues and first eigenvector components of
 // the Jacobi matrix (Golub & Welsch 1969, "Calculation of Gauss quadrature rules", Math. Comp.
 // 23; Gautschi 2004, "Orthogonal Polynomials: Computation and Approximation", section 2.2.3).
-func gaussOfPoints(x, mu []float64, n int) (nodes, weights []float64) {
+//
+// ok is false, and the rule unusable, unless every node lies in (0, max x] with a positive
+// finite weight.
+func gaussOfPoints(x, mu []float64, n int) (nodes, weights []float64, ok bool) {
 	prev := make([]float64, len(x))
 	cur := make([]float64, len(x))
 	for i := range cur {
@@ -460,7 +472,7 @@ func gaussOfPoints(x, mu []float64, n int) (nodes, weights []float64) {
 	}
 	var eig mat.EigenSym
 	if !eig.Factorize(jac, true) {
-		panic("signal: the Jacobi matrix of a Gauss rule did not factorize")
+		return nil, nil, false
 	}
 	var vec mat.Dense
 	eig.VectorsTo(&vec)
@@ -468,8 +480,11 @@ func gaussOfPoints(x, mu []float64, n int) (nodes, weights []float64) {
 	weights = make([]float64, n)
 	for j := range weights {
 		weights[j] = beta[0] * vec.At(0, j) * vec.At(0, j)
+		if !(nodes[j] > 0 && nodes[j] <= slices.Max(x) && weights[j] > 0 && !math.IsInf(weights[j], 1)) {
+			return nil, nil, false
+		}
 	}
-	return nodes, weights
+	return nodes, weights, true
 }
 
 func (l studentT) Name() string    { return "student-t" }

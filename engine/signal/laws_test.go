@@ -6,6 +6,8 @@ import (
 	"slices"
 	"testing"
 
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"hdrisk/engine/penalty"
 )
 
@@ -220,6 +222,48 @@ func TestPreparedUnitSecond(t *testing.T) {
 		}
 		if !slices.Equal(got.comps, want.comps) || !slices.Equal(got.fold.comps, want.fold.comps) || got.fold.vmin != want.fold.vmin || got.sec != want.sec || got.s != want.s {
 			t.Errorf("%s: the prepared law differs from Scaled's", l.Name())
+		}
+	}
+}
+
+// The Student-t mixture, with its folded tail where Expect uses it, against the Student-t
+// density itself (gonum distuv.StudentsT): E over x0 of the soft-threshold channel moments at
+// fixed x0, by nested quadrature on |x0| <= K = k + 14 sqrt(t); beyond K the soft threshold
+// moves x0 + sqrt(t) z by k on the side of x0 but for a mass below 1e-44, so that the MSE there
+// is t + k^2 and A is 1, weighted by the exact tail mass from the CDF.
+func TestStudentTMixtureAgainstDensity(t *testing.T) {
+	for _, dof := range []float64{3, 5, 30} {
+		const scale = 0.9
+		l := must(StudentT(dof, scale)).(studentT)
+		dist := distuv.StudentsT{Mu: 0, Sigma: scale, Nu: dof}
+		p := must(penalty.L1(0.5))
+		for _, gt := range [][2]float64{{1, 0.3}, {3, 1e-4}, {0.3, 2}} {
+			g, tt := gt[0], gt[1]
+			k := p.Kinks(g)[1]
+			big := k + 14*math.Sqrt(tt)
+			var splits []float64
+			for _, d := range []float64{0, 1, 2, 4, 8} {
+				splits = append(splits, -k-d*math.Sqrt(tt), -k+d*math.Sqrt(tt), k-d*math.Sqrt(tt), k+d*math.Sqrt(tt))
+			}
+			cache := map[float64][2]float64{}
+			at := func(x float64) [2]float64 {
+				if v, ok := cache[x]; ok {
+					return v
+				}
+				m, d := channelGivenX0(p, g, tt, x)
+				cache[x] = [2]float64{m, d}
+				return cache[x]
+			}
+			h := math.Min(scale, math.Sqrt(tt)) / 2
+			tail := 2 * dist.Survival(big)
+			mse := integrate(func(x float64) float64 { return at(x)[0] * dist.Prob(x) }, -big, big, h, append(splits, 0)...) + (tt+k*k)*tail
+			a := integrate(func(x float64) float64 { return at(x)[1] * dist.Prob(x) }, -big, big, h, append(splits, 0)...) + tail
+			m := Expect(l, p, g, tt)
+			usesFold := l.fold.comps != nil && k*k+tt <= foldReach*l.fold.vmin
+			t.Logf("dof=%v g=%v t=%v (fold used: %v): MSE rel err %.1e, A rel err %.1e", dof, g, tt, usesFold, math.Abs(m.MSE-mse)/mse, math.Abs(m.A-a)/a)
+			if !close(m.MSE, mse, 1e-7, 0) || !close(m.A, a, 1e-7, 0) {
+				t.Errorf("dof=%v g=%v t=%v: mixture MSE %.12g A %.12g; density %.12g %.12g", dof, g, tt, m.MSE, m.A, mse, a)
+			}
 		}
 	}
 }
