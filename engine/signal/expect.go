@@ -111,7 +111,18 @@ func expect(l Law, p penalty.Penalty, g, t float64, wantSlopes bool, stopA float
 		}
 	}
 	stop := !math.IsInf(stopA, 1)
-	for _, c := range componentsOf(l) {
+	comps := componentsOf(l)
+	if f, isF := l.(folder); isF {
+		// The folded heavy tail serves while every kink and the channel noise lie well
+		// inside the spread of the folded components (see folded; they have mean 0).
+		if fd := f.foldedTail(); fd.comps != nil && grp.lo <= grp.hi {
+			k := max(abs(grp.lo), abs(grp.hi))
+			if k*k+t <= foldReach*fd.vmin {
+				comps = fd.comps
+			}
+		}
+	}
+	for _, c := range comps {
 		if !grp.add(c, t) {
 			if odd != nil {
 				odd.add(&m, grp.component())

@@ -97,6 +97,7 @@ type scaled struct {
 	mixture
 	base   Law
 	s, sec float64
+	fold   folded
 }
 
 // Scaled returns the law of x0/s (s > 0 finite) for the law l of x0: its mixture has the
@@ -109,7 +110,34 @@ func Scaled(l Law, s float64) Law {
 	if s == 1 {
 		return l
 	}
+	if u, ok := l.(unitSecond); ok {
+		// The solver's units (E[x0^2] = 1), prepared once with the law rather than copied
+		// at every solve.
+		if pre := u.atUnitSecond(); pre != nil && s == math.Sqrt(l.Second()) {
+			return *pre
+		}
+	}
+	return scaleBy(l, s)
+}
+
+// unitSecond is a law that keeps Scaled(l, sqrt(l.Second())) (nil when not prepared).
+type unitSecond interface{ atUnitSecond() *scaled }
+
+// prepareUnitSecond returns scaleBy(l, sqrt(l.Second())) for a law to keep (see unitSecond),
+// nil when that is l itself.
+func prepareUnitSecond(l Law) *scaled {
+	s := math.Sqrt(l.Second())
+	if s == 1 {
+		return nil
+	}
+	sc := scaleBy(l, s).(scaled)
+	return &sc
+}
+
+// scaleBy is Scaled without the prepared laws.
+func scaleBy(l Law, s float64) Law {
 	var comps []Component
+	var fold folded
 	if u, ok := l.(unitScale); ok {
 		// Rescaled from the law of scale 1, so that no variance passes through the square
 		// of a scale near 1e150 (the heavy tail of a Student-t law would overflow there).
@@ -119,6 +147,15 @@ func Scaled(l Law, s float64) Law {
 		for i, c := range src {
 			comps[i] = Component{c.Weight, c.Mean * f, c.Var * f * f}
 		}
+		if uf, ok := l.(unitFolder); ok {
+			if fu := uf.unitFoldedTail(); fu.comps != nil {
+				fold.comps = make([]Component, len(fu.comps))
+				for i, c := range fu.comps {
+					fold.comps[i] = Component{c.Weight, c.Mean * f, c.Var * f * f}
+				}
+				fold.vmin = fu.vmin * f * f
+			}
+		}
 	} else {
 		src := componentsOf(l)
 		comps = make([]Component, len(src))
@@ -126,8 +163,28 @@ func Scaled(l Law, s float64) Law {
 			comps[i] = Component{c.Weight, c.Mean / s, c.Var / s / s}
 		}
 	}
-	return scaled{mixture{comps}, l, s, l.Second() / s / s}
+	return scaled{mixture{comps}, l, s, l.Second() / s / s, fold}
 }
+
+// folded is a mixture whose components of largest variance have been replaced by a few (the
+// Student-t mixture's heavy tail, see foldTail), and the smallest variance among the new
+// ones: at a channel noise t, a prox whose kinks k all satisfy k^2 + t <= foldReach vmin meets
+// the same moments from it (docs/method.md section 6). comps is nil when nothing was folded.
+type folded struct {
+	comps []Component
+	vmin  float64
+}
+
+// foldReach bounds the kinks for which Expect uses a folded mixture (see folded): measured,
+// the moments then move by less than 1e-10 relative (TestStudentTTailFold).
+const foldReach = 0.1
+
+// folder is a law that offers a folded mixture beside its own; unitFolder offers the folded
+// mixture of its law of scale 1 (see unitScale).
+type folder interface{ foldedTail() folded }
+type unitFolder interface{ unitFoldedTail() folded }
+
+func (l scaled) foldedTail() folded { return l.fold }
 
 // unitScale is a law that is its scale times a law of scale 1: unitComponents returns the
 // mixture of the latter and the scale.

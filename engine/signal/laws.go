@@ -1,12 +1,14 @@
 package signal
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
 
 	"gonum.org/v1/gonum/integrate/quad"
+	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/stat/distuv"
 
@@ -124,8 +126,11 @@ func (l bernoulliRademacher) Sample(rng *rand.Rand, n int) []float64 {
 
 type laplace struct {
 	mixture
-	scale float64
+	scale   float64
+	unitSec *scaled // the law in the solver's units (see unitSecond)
 }
+
+func (l laplace) atUnitSecond() *scaled { return l.unitSec }
 
 // Laplace returns the law with density exp(-|x|/scale)/(2 scale) (scale > 0 finite, units of
 // x0); E[x0^2] = 2 scale^2.
@@ -149,7 +154,9 @@ func Laplace(scale float64) (Law, error) {
 	for i := range y {
 		comps[i] = Component{w[i], 0, 2 * scale * scale * y[i]}
 	}
-	return laplace{mixture{comps}, scale}, nil
+	l := laplace{mixture: mixture{comps}, scale: scale}
+	l.unitSec = prepareUnitSecond(l)
+	return l, nil
 }
 
 // Trapezoidal rule for the standard exponential law in u = log(s): 63 nodes.
@@ -228,9 +235,17 @@ type studentT struct {
 	mixture
 	dof, scale float64
 	unit       []Component // the mixture of scale 1, which Scaled rescales without overflow
+	// fold and unitFold are comps and unit with the heavy tail folded (foldTail), which
+	// Expect uses while every kink lies close enough to 0 (see folded).
+	fold, unitFold folded
+	unitSec        *scaled // the law in the solver's units (see unitSecond)
 }
 
+func (l studentT) atUnitSecond() *scaled { return l.unitSec }
+
 func (l studentT) unitComponents() ([]Component, float64) { return l.unit, l.scale }
+func (l studentT) foldedTail() folded                     { return l.fold }
+func (l studentT) unitFoldedTail() folded                 { return l.unitFold }
 
 // StudentT returns x0 = scale z / sqrt(G) with z ~ N(0, 1) and G ~ Gamma(dof/2, rate dof/2),
 // the Student-t law with dof degrees of freedom (dof > 2 so that E[x0^2] = scale^2 dof/(dof - 2)
@@ -255,12 +270,20 @@ func StudentT(dof, scale float64) (Law, error) {
 	if err := positive("scale", scale); err != nil {
 		return nil, err
 	}
-	return studentT{mixture{studentTMixture(dof, scale, studentStep, studentLow)}, dof, scale, studentTMixture(dof, 1, studentStep, studentLow)}, nil
+	l := studentT{mixture: mixture{studentTMixture(dof, scale, studentStep, studentLow)}, dof: dof, scale: scale, unit: studentTMixture(dof, 1, studentStep, studentLow)}
+	l.fold.comps, l.fold.vmin = foldTail(l.comps, studentTailShare, studentTailNodes)
+	l.unitFold.comps, l.unitFold.vmin = foldTail(l.unit, studentTailShare, studentTailNodes)
+	l.unitSec = prepareUnitSecond(l)
+	return l, nil
 }
 
 const (
 	studentStep = 0.4   // trapezoidal step in log(y), times 1/sqrt(max(a, 1))
 	studentLow  = 1e-14 // about the mass of the lumped heavy tail
+	// studentTailShare and studentTailNodes: the heaviest components carrying at most this
+	// share of E[x0^2] are replaced by a Gauss rule of this many nodes (see foldTail).
+	studentTailShare = 1e-3
+	studentTailNodes = 3
 	// StudentTGaussFrom is the number of degrees of freedom above which the Student-t law
 	// is replaced by the Gaussian law of the same variance: their excess kurtosis differ by
 	// 6/(dof - 4) < 1e-9, below the accuracy of the discretization, and the mixture would
@@ -331,6 +354,137 @@ func studentTMixture(dof, scale, step, low float64) []Component {
 		comps[k].Var *= c / (a - 1) / (second / (1 - lumpMass))
 	}
 	return comps
+}
+
+// foldTail replaces the components of largest variance that together carry at most the given
+// share of E[x0^2] (sum Weight Var) by the n-node Gauss rule of the discrete measure
+// Weight Var in x = 1/sqrt(Var). A component's moments read (Var + t) G(x) with G analytic
+// about x = 0 (the closed forms of section 6 of docs/method.md are functions of
+// k/sqrt(Var + t) and Var/(Var + t)), so the rule integrates the polynomial part of G of degree
+// 2n - 1 exactly; with n >= 2 it keeps the total weight and E[x0^2] exactly (the degrees 0
+// and 2 in x). Each node x_j of weight W_j becomes the component (W_j x_j^2, 0, 1/x_j^2).
+// The components must have mean 0; they are returned with the folded ones last. Nothing is
+// folded unless more than n components qualify (nil is then returned).
+func foldTail(comps []Component, share float64, n int) (out []Component, vmin float64) {
+	order := make([]int, len(comps))
+	total := 0.0
+	for k := range comps {
+		order[k] = k
+		total += comps[k].Weight * comps[k].Var
+	}
+	slices.SortFunc(order, func(i, j int) int { return cmp.Compare(comps[j].Var, comps[i].Var) })
+	m, acc := 0, 0.0
+	for m < len(order) {
+		c := comps[order[m]]
+		if acc+c.Weight*c.Var > share*total {
+			break
+		}
+		acc += c.Weight * c.Var
+		m++
+	}
+	if share <= 0 || m <= n || !(total > 0) || math.IsInf(total, 1) {
+		// Nothing to fold, or a mixture beyond the range of doubles (a huge scale; the
+		// solver reads such a law through its mixture of scale 1).
+		return nil, 0
+	}
+	x := make([]float64, m)
+	mu := make([]float64, m)
+	xc := 0.0
+	for i, k := range order[:m] {
+		x[i] = 1 / math.Sqrt(comps[k].Var)
+		mu[i] = comps[k].Weight * comps[k].Var
+		xc = math.Max(xc, x[i])
+	}
+	for i := range x {
+		x[i] /= xc // in (0, 1]: the recurrence below stays well scaled
+	}
+	nodes, weights, ok := gaussOfPoints(x, mu, n)
+	if !ok {
+		return nil, 0
+	}
+	isFolded := make(map[int]bool, m)
+	for _, k := range order[:m] {
+		isFolded[k] = true
+	}
+	out = make([]Component, 0, len(comps)-m+n)
+	for k, c := range comps {
+		if !isFolded[k] {
+			out = append(out, c)
+		}
+	}
+	vmin = math.Inf(1)
+	for j := range nodes {
+		xj := nodes[j] * xc
+		sd := 1 / xj
+		if math.IsInf(sd*sd, 1) {
+			return nil, 0
+		}
+		out = append(out, Component{weights[j] * xj * xj, 0, sd * sd})
+		vmin = math.Min(vmin, sd*sd)
+	}
+	return out, vmin
+}
+
+// gaussOfPoints returns the n-node Gauss rule of the discrete measure sum mu_i delta(x - x_i)
+// (n below the number of points): the recurrence coefficients of its orthogonal polynomials by
+// the discretized Stieltjes procedure, then the eigenvalues and first eigenvector components of
+// the Jacobi matrix (Golub & Welsch 1969, "Calculation of Gauss quadrature rules", Math. Comp.
+// 23; Gautschi 2004, "Orthogonal Polynomials: Computation and Approximation", section 2.2.3).
+//
+// ok is false, and the rule unusable, unless every node lies in (0, max x] with a positive
+// finite weight.
+func gaussOfPoints(x, mu []float64, n int) (nodes, weights []float64, ok bool) {
+	prev := make([]float64, len(x))
+	cur := make([]float64, len(x))
+	for i := range cur {
+		cur[i] = 1
+	}
+	alpha := make([]float64, n)
+	beta := make([]float64, n)
+	normPrev := 0.0
+	for j := 0; j < n; j++ {
+		norm, nx := 0.0, 0.0
+		for i := range x {
+			norm += mu[i] * cur[i] * cur[i]
+			nx += mu[i] * x[i] * cur[i] * cur[i]
+		}
+		alpha[j] = nx / norm
+		if j > 0 {
+			beta[j] = norm / normPrev
+		} else {
+			beta[0] = norm
+		}
+		normPrev = norm
+		for i := range x {
+			next := (x[i]-alpha[j])*cur[i] - beta[j]*prev[i]
+			if j == 0 {
+				next = (x[i] - alpha[j]) * cur[i]
+			}
+			prev[i], cur[i] = cur[i], next
+		}
+	}
+	jac := mat.NewSymDense(n, nil)
+	for j := 0; j < n; j++ {
+		jac.SetSym(j, j, alpha[j])
+		if j > 0 {
+			jac.SetSym(j, j-1, math.Sqrt(beta[j]))
+		}
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(jac, true) {
+		return nil, nil, false
+	}
+	var vec mat.Dense
+	eig.VectorsTo(&vec)
+	nodes = eig.Values(nil)
+	weights = make([]float64, n)
+	for j := range weights {
+		weights[j] = beta[0] * vec.At(0, j) * vec.At(0, j)
+		if !(nodes[j] > 0 && nodes[j] <= slices.Max(x) && weights[j] > 0 && !math.IsInf(weights[j], 1)) {
+			return nil, nil, false
+		}
+	}
+	return nodes, weights, true
 }
 
 func (l studentT) Name() string    { return "student-t" }
