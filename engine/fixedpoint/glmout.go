@@ -531,17 +531,36 @@ func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []flo
 	var py, zy [2]float64
 	var az, dz, dd, terr, tloss float64
 	near, _ := o.ls.(loss.Near)
+	nearTol, _ := o.ls.(loss.NearTol)
+	tol := 0.0
+	if nearTol != nil {
+		tol = nearTol.NearTol(g)
+	}
 	logLoss := o.ls.Name() == "logistic"
 	var lastZ, lastD, lastC, lastP [2]float64
 	sd := math.Sqrt(vp)
+	// The logistic readout is odd, P(y = -1 | z) = P(y = +1 | -z), and so are these losses'
+	// proxes, zhat(-y, -p) = -zhat(y, p) (L(-y, -z) = L(y, z)); p1 ~ N(0, vp) is symmetric, so
+	// the label -1's share of every sum below equals the label +1's (p1 -> -p1 maps one onto
+	// the other: P, zhat - p1 and E[z0 1{y} | p1] change sign together) and only y = +1 is
+	// integrated, twice (docs/method.md section 10.3).
+	levels, twice := o.levels, 1.0
+	if sym := o.ls.Name() == "logistic" || o.ls.Name() == "square"; sym && len(levels) == 2 && levels[0] == -1 && levels[1] == 1 {
+		levels, twice = levels[1:], 2
+	}
 	for i, x := range hx {
 		p := sd * x
 		o.labelProb(beta*p, s, py[:], zy[:])
-		for j, y := range o.levels {
+		for jj, y := range levels {
+			j := jj + len(o.levels) - len(levels)
 			var zh, der float64
 			if near != nil && i > 0 {
 				h := p - lastP[j]
-				zh, der = near.ProxNear(y, p, g, lastZ[j]+h*(lastD[j]+h*lastC[j]/2))
+				if nearTol != nil {
+					zh, der = nearTol.ProxNearTol(y, p, g, lastZ[j]+h*(lastD[j]+h*lastC[j]/2), tol)
+				} else {
+					zh, der = near.ProxNear(y, p, g, lastZ[j]+h*(lastD[j]+h*lastC[j]/2))
+				}
 			} else {
 				zh, der = o.ls.Prox(y, p, g)
 			}
@@ -564,6 +583,7 @@ func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []flo
 			}
 		}
 	}
+	az, dz, dd, terr, tloss = twice*az, twice*dz, twice*dd, twice*terr, twice*tloss
 	out := outMoments{az: az, trainErr: terr, trainLoss: tloss}
 	if o.train {
 		var sharp [][2]float64
