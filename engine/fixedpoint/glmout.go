@@ -693,7 +693,11 @@ func (o *outSide) misfitGrid(g, vp, beta, s float64, sharp [][2]float64) float64
 	}
 	// The integrand is smooth between the cuts and turns on the sharp scales (graded where
 	// less than a standard deviation): 16 nodes on two standard deviations elsewhere.
-	x, w := gaussGrid(vp, kinks, 2*labelsPanel*math.Sqrt(vp), sharp)
+	top := math.Inf(1)
+	if j0 == 1 {
+		top = cross[1] // y = +1 is misfit below its crossing only
+	}
+	x, w := gaussGridTo(vp, kinks, 2*labelsPanel*math.Sqrt(vp), sharp, top)
 	py := make([]float64, len(o.levels))
 	zy := make([]float64, len(o.levels))
 	mis := 0.0
