@@ -108,6 +108,12 @@ func innerRuleFor(s float64) innerRule {
 // width, and around each of the sharp points (centre, scale) graded intervals of the given
 // scale, so that a step smoothed on that scale is integrated to rounding error.
 func gaussGrid(v float64, cuts []float64, width float64, sharp [][2]float64) (nodes, weights []float64) {
+	return gaussGridTo(v, cuts, width, sharp, math.Inf(1))
+}
+
+// gaussGridTo is gaussGrid with only the sub-intervals that begin below top, the part of the
+// grid below top when top is one of the cuts.
+func gaussGridTo(v float64, cuts []float64, width float64, sharp [][2]float64, top float64) (nodes, weights []float64) {
 	sd := math.Sqrt(v)
 	lo, hi := -10*sd, 10*sd
 	pts := []float64{lo, hi}
@@ -136,9 +142,17 @@ func gaussGrid(v float64, cuts []float64, width float64, sharp [][2]float64) (no
 		}
 	}
 	slices.Sort(pts)
+	total := 0
+	for i := 1; i < len(pts); i++ {
+		if a, b := pts[i-1], pts[i]; b > a && a < top {
+			total += int(math.Ceil((b - a) / width))
+		}
+	}
+	nodes = make([]float64, 0, total*len(glmLegX))
+	weights = make([]float64, 0, total*len(glmLegX))
 	for i := 1; i < len(pts); i++ {
 		a, b := pts[i-1], pts[i]
-		if !(b > a) {
+		if !(b > a) || !(a < top) {
 			continue
 		}
 		n := int(math.Ceil((b - a) / width))

@@ -3,6 +3,9 @@ package fixedpoint
 import (
 	"math"
 
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -108,14 +111,14 @@ func (s *glmSolver) broyden(x0, f0 [glmDim]float64) {
 // newtonStep solves J d = -F and takes the step, capped at a factor e^2 per coordinate and
 // halved until the map's residual falls.
 func (s *glmSolver) newtonStep(x0, f0 [glmDim]float64, cur glmImage) (GLMState, glmImage, bool) {
-	var d mat.VecDense
-	if err := d.SolveVec(s.jac, mat.NewVecDense(glmDim, f0[:])); err != nil {
+	d, ok := solveJac(s.jac, f0)
+	if !ok {
 		return GLMState{}, cur, false
 	}
 	step := [glmDim]float64{}
 	big := 0.0
 	for i := range step {
-		step[i] = -d.AtVec(i)
+		step[i] = -d[i]
 		big = math.Max(big, math.Abs(step[i]))
 	}
 	if !(big < math.Inf(1)) {
@@ -142,3 +145,35 @@ func (s *glmSolver) newtonStep(x0, f0 [glmDim]float64, cur glmImage) (GLMState, 
 	}
 	return GLMState{}, cur, false
 }
+
+// solveJac solves jac d = f by LU with partial pivoting (gonum lapack64.Getrf, Getrs) on
+// arrays of the stack, refusing a matrix whose pivots span more than 1/eps (a lower bound on
+// its condition number, common practice): mat.Dense.Solve's 1-norm condition estimate costs
+// as much as the factorization here, and a poor step is refused anyway by newtonStep's
+// halving.
+func solveJac(jac *mat.Dense, f [glmDim]float64) ([glmDim]float64, bool) {
+	var a [glmDim * glmDim]float64
+	for i := range glmDim {
+		for k := range glmDim {
+			a[i*glmDim+k] = jac.At(i, k)
+		}
+	}
+	var ipiv [glmDim]int
+	lu := blas64.General{Rows: glmDim, Cols: glmDim, Stride: glmDim, Data: a[:]}
+	if !lapack64.Getrf(lu, ipiv[:]) {
+		return f, false
+	}
+	lo, hi := math.Inf(1), 0.0
+	for i := range glmDim {
+		u := math.Abs(a[i*glmDim+i])
+		lo, hi = math.Min(lo, u), math.Max(hi, u)
+	}
+	if !(lo > 0) || !(hi/lo < 1/dlamchE) {
+		return f, false
+	}
+	lapack64.Getrs(blas.NoTrans, lu, blas64.General{Rows: glmDim, Cols: 1, Stride: 1, Data: f[:]}, ipiv[:])
+	return f, true
+}
+
+// dlamchE is the machine epsilon of float64.
+const dlamchE = 0x1p-52

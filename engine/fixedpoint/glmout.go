@@ -27,7 +27,20 @@ type outSide struct {
 	hermE        []float64
 	hermX, hermW []float64 // the inner rule for hermS (innerRuleFor)
 	hermOK       bool      // every hermE finite and nonzero
+	// prev holds the last logisticHermite call's proxes and derivatives at its rule's nodes,
+	// for each label: the start of the next call when its parameters are within prevNear
+	// (the finite-difference Jacobian, the last Newton steps, the final evaluation)
+	prevX         *float64 // the rule's first node: which rule they belong to
+	prevG, prevSD float64
+	prevZ, prevD  [2][outerMax]float64
 }
+
+// prevNear is the relative change of g and sqrt(vp) below which logisticHermite starts each
+// prox from the previous call's value at the same node, moved to first order in p and g; its
+// error, about zhat” (p dsd/sd)^2/2 <= 1e-6 at 5 standard deviations, is below the prox's
+// Halley cut-off (loss.NearTol, about 1e-5), so that one Newton step and the Halley step end
+// the iteration.
+const prevNear = 1e-3
 
 // outMoments are the output side's answers: the derivative Az = E[d zhat/dp], the truth
 // coefficient muz and error variance sigz of the backward message p2 = (zhat - Az p1)/(1 - Az)
@@ -141,32 +154,7 @@ func (o *outSide) labelProb(m, s float64, py, zy []float64) {
 		// E[z0 h(z0)] = m E[h] + s E[h'] for the first moment.
 		// sigmoid(m + rs x) = 1/(1 + e^-m e^(-rs x)): the factors e^(-rs x) at the nodes
 		// are kept while s stays (one labels call), which leaves one exp per call here.
-		if o.hermE == nil || s != o.hermS {
-			o.hermS = s
-			r := innerRuleFor(s)
-			o.hermX, o.hermW = r.x, r.w
-			o.hermE = make([]float64, len(r.x))
-			o.hermOK = true
-			for i, x := range r.x {
-				o.hermE[i] = math.Exp(-math.Sqrt(s) * x)
-				o.hermOK = o.hermOK && o.hermE[i] > 0 && !math.IsInf(o.hermE[i], 0)
-			}
-		}
-		p, d := 0.0, 0.0
-		em := math.Exp(-m)
-		// With both factors finite and nonzero their product is safe (an overflow to Inf or
-		// an underflow to 0 gives the right 0 or 1); otherwise each node goes through Sigmoid.
-		fast := em > 0 && !math.IsInf(em, 0) && o.hermOK
-		for i, x := range o.hermX {
-			var sg float64
-			if fast {
-				sg = 1 / (1 + em*o.hermE[i])
-			} else {
-				sg = readout.Sigmoid(m + math.Sqrt(s)*x)
-			}
-			p += o.hermW[i] * sg
-			d += o.hermW[i] * sg * (1 - sg)
-		}
+		p, d := o.logisticProb(m, s)
 		py[0], py[1] = 1-p, p
 		zy[1] = m*p + s*d
 		zy[0] = m*(1-p) - s*d
@@ -220,6 +208,39 @@ func (o *outSide) labelProb(m, s float64, py, zy []float64) {
 			loA, loLow, loUp, loDens = hiA, hiLow, hiUp, hiDens
 		}
 	}
+}
+
+// logisticProb returns P = E[sigmoid(z0)] and D = E[sigmoid'(z0)] over z0 ~ N(m, s) by the
+// inner Gauss-Hermite rule for s. sigmoid(m + rs x) = 1/(1 + e^-m e^(-rs x)): the factors
+// e^(-rs x) at the nodes are kept while s stays (one labels call), which leaves one exp per
+// call here.
+func (o *outSide) logisticProb(m, s float64) (p, d float64) {
+	if o.hermE == nil || s != o.hermS {
+		o.hermS = s
+		r := innerRuleFor(s)
+		o.hermX, o.hermW = r.x, r.w
+		o.hermE = make([]float64, len(r.x))
+		o.hermOK = true
+		for i, x := range r.x {
+			o.hermE[i] = math.Exp(-math.Sqrt(s) * x)
+			o.hermOK = o.hermOK && o.hermE[i] > 0 && !math.IsInf(o.hermE[i], 0)
+		}
+	}
+	em := math.Exp(-m)
+	// With both factors finite and nonzero their product is safe (an overflow to Inf or
+	// an underflow to 0 gives the right 0 or 1); otherwise each node goes through Sigmoid.
+	fast := em > 0 && !math.IsInf(em, 0) && o.hermOK
+	for i, x := range o.hermX {
+		var sg float64
+		if fast {
+			sg = 1 / (1 + em*o.hermE[i])
+		} else {
+			sg = readout.Sigmoid(m + math.Sqrt(s)*x)
+		}
+		p += o.hermW[i] * sg
+		d += o.hermW[i] * sg * (1 - sg)
+	}
+	return p, d
 }
 
 // labels is the output side of a readout with finitely many values: for each value y, the
@@ -473,8 +494,11 @@ var outerRules = []struct {
 	x, w  []float64
 }{{1.25, nil, nil}, {1.5, nil, nil}, {2.1, nil, nil}, {2.4, nil, nil}}
 
+// outerMax bounds the number of nodes of an outer rule.
+const outerMax = 96
+
 func init() {
-	for i, n := range [...]int{32, 48, 64, 96} {
+	for i, n := range [...]int{32, 48, 64, outerMax} {
 		x, w := hermiteNormal(n)
 		// Nodes of weight below 1e-22 are left out (about a quarter of each rule): the
 		// integrands grow at most like p1^2 / g^2, so what they carry is below rounding.
@@ -531,21 +555,68 @@ func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []flo
 	var py, zy [2]float64
 	var az, dz, dd, terr, tloss float64
 	near, _ := o.ls.(loss.Near)
+	nearTol, _ := o.ls.(loss.NearTol)
+	tol := 0.0
+	if nearTol != nil {
+		tol = nearTol.NearTol(g)
+	}
 	logLoss := o.ls.Name() == "logistic"
 	var lastZ, lastD, lastC, lastP [2]float64
 	sd := math.Sqrt(vp)
+	// The logistic readout is odd, P(y = -1 | z) = P(y = +1 | -z), and so are these losses'
+	// proxes, zhat(-y, -p) = -zhat(y, p) (L(-y, -z) = L(y, z)); p1 ~ N(0, vp) is symmetric, so
+	// the label -1's share of every sum below equals the label +1's (p1 -> -p1 maps one onto
+	// the other: P, zhat - p1 and E[z0 1{y} | p1] change sign together) and only y = +1 is
+	// integrated, twice (docs/method.md section 10.3).
+	levels, twice := o.levels, 1.0
+	if o.oddLabels() {
+		levels, twice = levels[1:], 2
+	}
+	// P(+1 | p1) at the nodes: on a rule symmetric about 0, P(+1 | -p1) = 1 - P(+1 | p1) and
+	// E[sigma'] is even (the inner rule is symmetric too), so the negative half gives the
+	// positive one; P is computed where it is below 1/2 when beta > 0, keeping its relative
+	// accuracy in the tail and 1 - P there exact to rounding.
+	var pr, dr [outerMax]float64
+	n := len(hx)
+	mirror := n%2 == 0
+	for k := 0; k < n/2 && mirror; k++ {
+		mirror = hx[k] == -hx[n-1-k]
+	}
+	for i := range n {
+		if mirror && i >= n/2 {
+			pr[i], dr[i] = 1-pr[n-1-i], dr[n-1-i]
+			continue
+		}
+		pr[i], dr[i] = o.logisticProb(beta*sd*hx[i], s)
+	}
+	fromPrev := nearTol != nil && o.prevX == &hx[0] && math.Abs(g-o.prevG) <= prevNear*g && math.Abs(sd-o.prevSD) <= prevNear*sd
+	prevG, prevSD := o.prevG, o.prevSD
+	o.prevX, o.prevG, o.prevSD = &hx[0], g, sd
 	for i, x := range hx {
 		p := sd * x
-		o.labelProb(beta*p, s, py[:], zy[:])
-		for j, y := range o.levels {
+		m := beta * p
+		py[0], py[1] = 1-pr[i], pr[i]
+		zy[1] = m*pr[i] + s*dr[i]
+		zy[0] = m*(1-pr[i]) - s*dr[i]
+		for jj, y := range levels {
+			j := jj + len(o.levels) - len(levels)
 			var zh, der float64
-			if near != nil && i > 0 {
+			if fromPrev {
+				// d zhat/dg = -(zhat - p) D/g from g (y zhat - y p) = sigma(-y zhat).
+				z0, d0, p0 := o.prevZ[j][i], o.prevD[j][i], prevSD*x
+				zh, der = nearTol.ProxNearTol(y, p, g, z0+d0*(p-p0)-(z0-p0)*d0/prevG*(g-prevG), tol)
+			} else if near != nil && i > 0 {
 				h := p - lastP[j]
-				zh, der = near.ProxNear(y, p, g, lastZ[j]+h*(lastD[j]+h*lastC[j]/2))
+				if nearTol != nil {
+					zh, der = nearTol.ProxNearTol(y, p, g, lastZ[j]+h*(lastD[j]+h*lastC[j]/2), tol)
+				} else {
+					zh, der = near.ProxNear(y, p, g, lastZ[j]+h*(lastD[j]+h*lastC[j]/2))
+				}
 			} else {
 				zh, der = o.ls.Prox(y, p, g)
 			}
 			lastZ[j], lastD[j], lastP[j] = zh, der, p
+			o.prevZ[j][i], o.prevD[j][i] = zh, der
 			if logLoss {
 				// d^2 zhat/dp^2 = -y sigma''(s) D^3 / g for the logistic loss (s = y zhat,
 				// D = d zhat/dp = g/(g + sigma'(s))), from the values in hand: sigma'(s) =
@@ -564,6 +635,7 @@ func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []flo
 			}
 		}
 	}
+	az, dz, dd, terr, tloss = twice*az, twice*dz, twice*dd, twice*terr, twice*tloss
 	out := outMoments{az: az, trainErr: terr, trainLoss: tloss}
 	if o.train {
 		var sharp [][2]float64
@@ -583,6 +655,14 @@ func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []flo
 	return out
 }
 
+// oddLabels reports the logistic readout with a loss whose prox is odd, zhat(-y, -p) =
+// -zhat(y, p) (logistic, square): the label -1's share of an expectation over the symmetric
+// p1 ~ N(0, vp) then equals the label +1's (docs/method.md section 10.3).
+func (o *outSide) oddLabels() bool {
+	sym := o.ls.Name() == "logistic" || o.ls.Name() == "square"
+	return sym && o.rd.Name() == "logistic" && len(o.levels) == 2 && o.levels[0] == -1 && o.levels[1] == 1
+}
+
 // misfitGrid returns P(sign zhat != y) = sum_y E[P(y | p1) 1{sign zhat(y, p1) != sign y}] by
 // labels' graded Gauss-Legendre grid split at the p1 where each zhat(y, .) changes sign; only
 // the nodes on a misfit side need P(y | p1), and no prox is solved there.
@@ -590,7 +670,15 @@ func (o *outSide) misfitGrid(g, vp, beta, s float64, sharp [][2]float64) float64
 	var kinks []float64
 	cross := make([]float64, len(o.levels))
 	has := make([]bool, len(o.levels))
+	// With odd labels only y = +1 is integrated, twice (its misfit side is p1 < cross).
+	j0, twice := 0, 1.0
+	if o.oddLabels() {
+		j0, twice = 1, 2
+	}
 	for j, y := range o.levels {
+		if j < j0 {
+			continue
+		}
 		switch o.ls.Name() {
 		case "square": // zhat = (y + g p)/(1 + g)
 			cross[j], has[j] = -y/g, true
@@ -605,7 +693,11 @@ func (o *outSide) misfitGrid(g, vp, beta, s float64, sharp [][2]float64) float64
 	}
 	// The integrand is smooth between the cuts and turns on the sharp scales (graded where
 	// less than a standard deviation): 16 nodes on two standard deviations elsewhere.
-	x, w := gaussGrid(vp, kinks, 2*labelsPanel*math.Sqrt(vp), sharp)
+	top := math.Inf(1)
+	if j0 == 1 {
+		top = cross[1] // y = +1 is misfit below its crossing only
+	}
+	x, w := gaussGridTo(vp, kinks, 2*labelsPanel*math.Sqrt(vp), sharp, top)
 	py := make([]float64, len(o.levels))
 	zy := make([]float64, len(o.levels))
 	mis := 0.0
@@ -615,6 +707,9 @@ func (o *outSide) misfitGrid(g, vp, beta, s float64, sharp [][2]float64) float64
 		// crossing its sign is that of zhat at any p.
 		any := false
 		for j, y := range o.levels {
+			if j < j0 {
+				continue
+			}
 			pos := p >= cross[j]
 			if !has[j] {
 				z, _ := o.ls.Prox(y, p, g)
@@ -633,7 +728,7 @@ func (o *outSide) misfitGrid(g, vp, beta, s float64, sharp [][2]float64) float64
 			}
 		}
 	}
-	return mis
+	return twice * mis
 }
 
 // noHermite makes labels use its graded grid throughout, and labelsPanel is that grid's

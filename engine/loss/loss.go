@@ -40,6 +40,15 @@ type Near interface {
 	ProxNear(y, p, g, near float64) (zhat, deriv float64)
 }
 
+// NearTol is implemented by a Near loss whose iteration's stopping rule depends on g alone:
+// NearTol(g) returns it once, and ProxNearTol is ProxNear with it, for a caller that solves
+// many proxes at one g (a quadrature).
+type NearTol interface {
+	Near
+	NearTol(g float64) float64
+	ProxNearTol(y, p, g, near, tol float64) (zhat, deriv float64)
+}
+
 // Piece is one linear piece of a residual prox: R(v) = Slope v + Intercept on [Lo, Hi).
 type Piece struct{ Lo, Hi, Slope, Intercept float64 }
 
@@ -160,7 +169,20 @@ func (l logistic) Prox(y, p, g float64) (float64, float64) {
 
 // ProxNear is Prox with the Newton steps started at near, a nearby prox value (for
 // instance that of the neighbouring node of a quadrature), which saves steps.
-func (logistic) ProxNear(y, p, g, near float64) (float64, float64) {
+func (l logistic) ProxNear(y, p, g, near float64) (float64, float64) {
+	return l.ProxNearTol(y, p, g, near, l.NearTol(g))
+}
+
+// NearTol is the Newton step below which ProxNear ends with one Halley step.
+func (logistic) NearTol(g float64) float64 {
+	// The Halley step's error is about K step^3 with K = |f''^2/(4 f'^2) - f'''/(6 f')|
+	// <= 0.0025/g^2 + 0.021/g (f' >= g, |sigma''| < 0.1, |sigma'''| < 0.125), below
+	// 1e-16 max(1, |s|) with this tol.
+	return math.Cbrt(1e-16 / (0.0025/(g*g) + 0.021/g))
+}
+
+// ProxNearTol is ProxNear with tol = NearTol(g).
+func (logistic) ProxNearTol(y, p, g, near, tol float64) (float64, float64) {
 	q := y * p
 	lo, hi := q, q+1/g
 	s := y * near
@@ -168,10 +190,7 @@ func (logistic) ProxNear(y, p, g, near float64) (float64, float64) {
 		s = q + 0.5/g
 	}
 	// Once the Newton step is below tol, one Halley step (Press et al., section 9.4; cubic
-	// convergence) ends the iteration: its error is about K step^3 with
-	// K = |f''^2/(4 f'^2) - f'''/(6 f')| <= 0.0025/g^2 + 0.021/g (f' >= g, |sigma''| < 0.1,
-	// |sigma'''| < 0.125), below 1e-16 max(1, |s|) with this tol.
-	tol := math.Cbrt(1e-16 / (0.0025/(g*g) + 0.021/g))
+	// convergence) ends the iteration (NearTol).
 	sm, done := 0.0, false
 	// Safeguarded as rtsafe (Press et al., Numerical Recipes, 3rd ed., section 9.4): a
 	// bisection of the bracket replaces a Newton step that leaves the bracket or does not halve
