@@ -178,7 +178,9 @@ func TestOneBitInPage(t *testing.T) {
 		for i, p := range cv.Points {
 			row := rows[1+8*k+i]
 			mse, err := strconv.ParseFloat(row[2], 64)
-			if row[0] != bitsCurves[k] || !p.OK() || err != nil || math.Abs(mse-p.Result.MSE) > 1e-12*math.Abs(p.Result.MSE) {
+			// The page shares each curve out in blocks that start cold, where the engine's
+			// whole curve is warm-started: equal to the fixed point's tolerance (1e-9 relative).
+			if row[0] != bitsCurves[k] || !p.OK() || err != nil || math.Abs(mse-p.Result.MSE) > 1e-9*math.Abs(p.Result.MSE) {
 				t.Errorf("%s, point %d: page %q mse %q, engine %v (ok %v)", bitsCurves[k], i, row[0], row[2], p.Result.MSE, p.OK())
 			}
 		}

@@ -146,6 +146,17 @@ func (s *glmSolver) cold() (Result, error) {
 		if err == nil && r.Converged {
 			return r, nil
 		}
+		if !s.zeroPen {
+			// Newton steps from a residual of 0.3 can carry the iteration out of the
+			// problem's range where the damped steps alone reach the fixed point (3-bit
+			// readout, l1, m/n 0.5): the same start again, with Newton steps from 1e-2.
+			s.cautious = true
+			rc, errc := s.run(st)
+			s.cautious = false
+			if errc == nil && rc.Converged {
+				return rc, nil
+			}
+		}
 		if err == nil || !errors.Is(err, errRunOff) || r.Iterations > 1 {
 			break
 		}
@@ -173,7 +184,10 @@ type glmSolver struct {
 	rho2    float64
 	out     *outSide
 	zeroPen bool
-	final   GLMState // the last iterate of the last run, where it converged
+	// cautious makes run wait for Solve's residual before Newton steps (as without a
+	// penalty), for a second try of a start whose early Newton steps failed.
+	cautious bool
+	final    GLMState // the last iterate of the last run, where it converged
 	// the Newton steps' Jacobian of M(x) - x, at jx where M(x) - x = jf (glmnewton.go)
 	jac    *mat.Dense
 	jx, jf [glmDim]float64
@@ -301,7 +315,7 @@ func (s *glmSolver) run(st GLMState) (Result, error) {
 	scale := s.rho2 + s.out.w2 + s.out.rhoz + 1
 	var r Result
 	newtonAt := glmNewtonFrom
-	if s.zeroPen {
+	if s.zeroPen || s.cautious {
 		// Without a penalty the damped iteration's run-off is the verdict on existence
 		// (separable labels): early Newton steps can land on a spurious fixed point beyond
 		// the existence boundary, so they wait for Solve's residual.

@@ -2,6 +2,7 @@ package fixedpoint
 
 import (
 	"fmt"
+	"math"
 	"testing"
 
 	"hdrisk/engine/design"
@@ -70,5 +71,31 @@ func TestDefaultsReproduceSolve(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// A 3-bit readout with l1 at m/n 0.5 on an orthogonal design (an invented scenario, the
+// property the page's bit-depth map met): early Newton steps leave the problem's range there,
+// and the solver must still reach the fixed point that the damped iteration with late Newton
+// steps finds, not refuse it.
+func TestGLMEarlyNewtonFallsBack(t *testing.T) {
+	p := GLM{Design: must(design.Orthogonal(0.5, design.Rows)), Signal: must(signal.BernoulliGauss(0.05, 1)),
+		Penalty: must(penalty.L1(0.05)), Noise: must(noise.Gauss(0.01)), Readout: must(readout.Quantize(3, 1)), Loss: loss.Square()}
+	r, err := SolveGLM(p, Options{})
+	if err != nil || !r.Converged {
+		t.Fatalf("SolveGLM: %v, converged %v", err, r.Converged)
+	}
+	s, err := newGLMSolver(p, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.cautious = true
+	st := s.coldStart()
+	want, err := s.run(st)
+	if err != nil || !want.Converged {
+		t.Fatalf("late Newton steps only: %v, converged %v", err, want.Converged)
+	}
+	if d := math.Abs(r.MSE-want.MSE) / want.MSE; d > 1e-9 {
+		t.Errorf("MSE %.15g, with late Newton steps only %.15g (rel %.2g)", r.MSE, want.MSE, d)
 	}
 }
