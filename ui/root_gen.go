@@ -65,7 +65,7 @@ func (c *Root) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 			vgparent.AppendChild(vgn)
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "div", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "brand"}}}
 			vgparent.AppendChild(vgn)
-			vgn.SetInnerHTML(vugu.HTML("\n\t\t\t\x3Ch1\x3Ehdrisk\x3C/h1\x3E\n\t\t\t\x3Cp class=\"lede\"\x3EPredicted estimation error of penalized least squares (LASSO, ridge, elastic net and\n\t\t\trelatives) when the number of unknowns is large. Change a setting and the figures follow as you type.\x3C/p\x3E\n\t\t"))
+			vgn.SetInnerHTML(vugu.HTML("\n\t\t\t\x3Ch1\x3Ehdrisk\x3C/h1\x3E\n\t\t\t\x3Cp class=\"lede\"\x3EPredicted estimation error of penalized estimators (LASSO, ridge, elastic net and\n\t\t\trelatives; least squares, robust and classification losses; linear, quantized, 1-bit and label\n\t\t\treadouts) when the number of unknowns is large. Change a setting and the figures follow as you type.\x3C/p\x3E\n\t\t"))
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t"}
 			vgparent.AppendChild(vgn)
 			vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "p", Attr: []vugu.VGAttribute{{Namespace: "", Key: "class", Val: "offline"}}}
