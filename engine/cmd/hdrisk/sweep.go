@@ -166,15 +166,7 @@ func sweepCurves(ctx context.Context, s scenario.Scenario, spec study.CurvesSpec
 	if *fig.path != "" {
 		sf := plot.SweepFigure{Scenario: s, Axis: spec.Axis, Quantity: *fig.quantity, YLog: logY, Width: *fig.width, Height: *fig.height,
 			Curves: plot.ValueCurves(s, cs)}
-		l, ok := sf.Line()
-		if !ok {
-			return fmt.Errorf("--figure: the sweep has no point to draw")
-		}
-		f, err := l.Build()
-		if err != nil {
-			return fmt.Errorf("--figure: %w", err)
-		}
-		if err := fig.write(f); err != nil {
+		if err := writeSweepFigure(sf, fig); err != nil {
 			return err
 		}
 	}
@@ -212,6 +204,11 @@ func drawSweep(ctx context.Context, s scenario.Scenario, ax study.Axis, pts []st
 			}
 		}
 	}
+	return writeSweepFigure(sf, fig)
+}
+
+// writeSweepFigure lays out and writes the curve figure sf where fig says.
+func writeSweepFigure(sf plot.SweepFigure, fig figureFlags) error {
 	l, ok := sf.Line()
 	if !ok {
 		return fmt.Errorf("--figure: the sweep has no point to draw")
