@@ -4,7 +4,9 @@ import (
 	"context"
 	"math"
 	"math/rand/v2"
+	"time"
 
+	"hdrisk/engine/fixedpoint"
 	"hdrisk/engine/loss"
 	"hdrisk/engine/noise"
 	"hdrisk/engine/penalty"
@@ -115,6 +117,29 @@ type GLMTrial struct {
 	Converged              bool
 	Iterations             int
 	Residual               float64 // the primal-dual stopping criterion at the solution
+	Seconds                float64 // the time the trial took, drawing included (set by TrialsGLM)
+}
+
+// TrialsGLM runs trials first, ..., first+count-1 of the finite-size check of the generalized
+// model g with n unknowns: trial t draws from PCG(seed, t), so that a check shared out in parts
+// gives the trials of one run, and is solved by TrialGLM. progress, when not nil, is called
+// with (trials done, count) after each.
+func TrialsGLM(ctx context.Context, d DesignDraw, g fixedpoint.GLM, n, first, count int, seed uint64, o SolverOptions, progress func(done, total int)) ([]GLMTrial, error) {
+	out := make([]GLMTrial, 0, count)
+	for t := range count {
+		rng := rand.New(rand.NewPCG(seed, uint64(first+t)))
+		t0 := time.Now()
+		tr, err := TrialGLM(ctx, rng, d, g.Signal, g.Noise, g.Readout, g.Loss, g.Penalty, n, o)
+		if err != nil {
+			return nil, err
+		}
+		tr.Seconds = time.Since(t0).Seconds()
+		out = append(out, tr)
+		if progress != nil {
+			progress(t+1, count)
+		}
+	}
+	return out, nil
 }
 
 // TrialGLM draws one instance with n unknowns and solves it with PrimalDual.

@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"math/rand/v2"
 	"time"
 
 	"hdrisk/engine/fixedpoint"
@@ -66,14 +65,12 @@ func checkGLM(a protocol.CheckArgs, at scenario.Scenario, g fixedpoint.GLM, fact
 	if pred.Labels {
 		out.TestError = &protocol.CheckStat{Predicted: protocol.Num(pred.TestError)}
 	}
+	trials, err := simulate.TrialsGLM(context.Background(), d, g, a.N, a.First, a.Trials, a.Seed, simulate.SolverOptions{}, progress)
+	if err != nil {
+		return protocol.CheckResult{}, err
+	}
 	var mse, cos, norm, te []float64
-	for t := range a.Trials {
-		rng := rand.New(rand.NewPCG(a.Seed, uint64(a.First+t)))
-		t0 := time.Now()
-		tr, err := simulate.TrialGLM(context.Background(), rng, d, g.Signal, g.Noise, g.Readout, g.Loss, g.Penalty, a.N, simulate.SolverOptions{})
-		if err != nil {
-			return protocol.CheckResult{}, err
-		}
+	for t, tr := range trials {
 		if !tr.Converged {
 			// One sentence per trial, as the linear check words it, so that the parts of a
 			// check shared between workers merge into the warnings of one job.
@@ -83,11 +80,8 @@ func checkGLM(a protocol.CheckArgs, at scenario.Scenario, g fixedpoint.GLM, fact
 		}
 		out.PerTrial = append(out.PerTrial, protocol.CheckTrial{MSE: protocol.Num(tr.MSE), Nonzero: nan, TPP: nan, FDP: nan,
 			Cosine: protocol.Num(tr.Cosine), NormRatio: protocol.Num(tr.NormRatio), TestError: protocol.Num(tr.TestError),
-			Iterations: tr.Iterations, Converged: tr.Converged, Residual: protocol.Num(tr.Residual), Seconds: protocol.Num(time.Since(t0).Seconds())})
+			Iterations: tr.Iterations, Converged: tr.Converged, Residual: protocol.Num(tr.Residual), Seconds: protocol.Num(tr.Seconds)})
 		mse, cos, norm, te = append(mse, tr.MSE), append(cos, tr.Cosine), append(norm, tr.NormRatio), append(te, tr.TestError)
-		if progress != nil {
-			progress(t+1, a.Trials)
-		}
 	}
 	m := simulate.Mean(mse)
 	out.MeanMSE, out.StdErr = protocol.Num(m.Mean), protocol.Num(m.StdErr)

@@ -4,8 +4,6 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"math"
-	"math/rand/v2"
 	"time"
 
 	"hdrisk/engine/fixedpoint"
@@ -56,33 +54,28 @@ func runCheckGLM(ctx context.Context, g fixedpoint.GLM, d simulate.DesignDraw, n
 	out := checkGLMResult{GLM: true, Trials: trials, N: n, M: simulate.Rows(g.Design.Alpha(), n), Seed: seed,
 		Solver: "primal-dual", PredictedMSE: number(pred.MSE), PredictedCosine: number(pred.Cosine),
 		PredictionConverged: pred.Converged, Warnings: []string{}}
-	mse := make([]float64, 0, trials)
-	cos := make([]float64, 0, trials)
-	te := make([]float64, 0, trials)
-	for t := range trials {
-		rng := rand.New(rand.NewPCG(seed, uint64(t)))
-		tr, err := simulate.TrialGLM(ctx, rng, d, g.Signal, g.Noise, g.Readout, g.Loss, g.Penalty, n, so)
-		if err != nil {
-			return err
-		}
-		if !tr.Converged {
+	var report func(done, total int)
+	if progress {
+		report = func(done, total int) { fmt.Fprintf(stderr, "hdrisk check: trial %d of %d done\n", done, total) }
+	}
+	tr, err := simulate.TrialsGLM(ctx, d, g, n, 0, trials, seed, so, report)
+	if err != nil {
+		return err
+	}
+	var mse, cos, te []float64
+	for _, t := range tr {
+		if !t.Converged {
 			out.NotConverged++
 		}
-		mse = append(mse, tr.MSE)
-		cos = append(cos, tr.Cosine)
-		te = append(te, tr.TestError)
-		if progress {
-			fmt.Fprintf(stderr, "hdrisk check: trial %d of %d done\n", t+1, trials)
-		}
+		mse, cos, te = append(mse, t.MSE), append(cos, t.Cosine), append(te, t.TestError)
 	}
-	m, se := meanStdErr(mse)
-	out.MeanMSE, out.StdErr = number(m), number(se)
-	m, se = meanStdErr(cos)
-	out.MeanCosine, out.CosineStdErr = number(m), number(se)
+	m := simulate.Mean(mse)
+	out.MeanMSE, out.StdErr = number(m.Mean), number(m.StdErr)
+	c := simulate.Mean(cos)
+	out.MeanCosine, out.CosineStdErr = number(c.Mean), number(c.StdErr)
 	if pred.Labels {
-		m, se = meanStdErr(te)
-		p := number(pred.TestError)
-		mn, sn := number(m), number(se)
+		e := simulate.Mean(te)
+		p, mn, sn := number(pred.TestError), number(e.Mean), number(e.StdErr)
 		out.MeanTestError, out.TestErrorStdErr, out.PredictedTestError = &mn, &sn, &p
 	}
 	out.Converged = out.NotConverged == 0
@@ -94,21 +87,4 @@ func runCheckGLM(ctx context.Context, g fixedpoint.GLM, d simulate.DesignDraw, n
 	}
 	out.Seconds = number(time.Since(start).Seconds())
 	return writeJSON(stdout, out)
-}
-
-// meanStdErr returns the mean of xs and its standard error (NaN with fewer than 2 values).
-func meanStdErr(xs []float64) (float64, float64) {
-	var s, ss float64
-	for _, x := range xs {
-		s += x
-	}
-	m := s / float64(len(xs))
-	for _, x := range xs {
-		ss += (x - m) * (x - m)
-	}
-	k := float64(len(xs))
-	if k < 2 {
-		return m, math.NaN()
-	}
-	return m, math.Sqrt(ss / (k - 1) / k)
 }
