@@ -80,16 +80,7 @@ func (c *CurveView) Paths() []scenario.PathInfo { return modelPaths(c.Model) }
 // Quantities are the numbers a curve can show on its y axis.
 // Those of a generalized linear model (cosine, test error, ...) are offered for such a
 // scenario only.
-func (c *CurveView) Quantities() []study.Observable {
-	if c.Model != nil {
-		if ch := c.Model.Check(); ch.Err == nil {
-			if _, glm := ch.Engine.GLM(); glm {
-				return plot.Quantities()
-			}
-		}
-	}
-	return study.Observables()
-}
+func (c *CurveView) Quantities() []study.Observable { return modelQuantities(c.Model) }
 
 // Set stores one setting: "over", "from", "to", "points", "log", "curves" (the number
 // that sets each curve, "" for one curve), "curves_at" (its values), "ylog", "quantity" or
@@ -312,14 +303,7 @@ func (c *CurveView) startFamily(s scenario.Scenario, ax study.Axis, field string
 	blocks := c.familyBlocks(len(at), ax.Points)
 	cancels := make([]func(), len(at)*len(blocks))
 	pending := len(cancels)
-	cs.cancel = func() {
-		for i, f := range cancels {
-			if f != nil {
-				f()
-				cancels[i] = nil
-			}
-		}
-	}
+	cs.cancel = cancelAll(cancels)
 	for i, v := range at {
 		cs.curves[i] = study.Curve{Value: v, Points: make([]study.Point, ax.Points)}
 	}
@@ -450,14 +434,7 @@ func (c *CurveView) startSweep(cs *curveSeries, timed bool) {
 	cancels := make([]func(), len(blocks))
 	pending := len(blocks)
 	pts := make([]study.Point, cs.Axis.Points)
-	cs.cancel = func() {
-		for i, f := range cancels {
-			if f != nil {
-				f()
-				cancels[i] = nil
-			}
-		}
-	}
+	cs.cancel = cancelAll(cancels)
 	for i, b := range blocks {
 		// No progress callback: a sweep takes a fraction of a second, and every progress
 		// message would cost the page a render while it runs.
@@ -502,14 +479,7 @@ func (c *CurveView) startTuned(cs *curveSeries, best string) {
 	cancels := make([]func(), len(blocks))
 	pending := len(blocks)
 	pts := make([]study.Point, c.axis.Points)
-	cs.cancel = func() {
-		for i, f := range cancels {
-			if f != nil {
-				f()
-				cancels[i] = nil
-			}
-		}
-	}
+	cs.cancel = cancelAll(cancels)
 	for i, b := range blocks {
 		args := protocol.TunedArgs{SweepArgs: protocol.SweepArgs{Scenario: data, Axis: c.axis}, Best: best}
 		if len(blocks) > 1 {
@@ -1107,3 +1077,16 @@ func (c *CurveView) FigureSeconds() string { return full(c.figSeconds) }
 func (c *CurveView) axisPoints() string { return strconv.Itoa(c.axis.Points) }
 
 func (c *CurveView) staleText() string { return strconv.FormatBool(c.Stale()) }
+
+// cancelAll returns a function that cancels each job of cancels still running (a nil entry
+// is one that has ended) and marks it ended.
+func cancelAll(cancels []func()) func() {
+	return func() {
+		for i, f := range cancels {
+			if f != nil {
+				f()
+				cancels[i] = nil
+			}
+		}
+	}
+}

@@ -445,6 +445,19 @@ var pathCache struct {
 	paths []scenario.PathInfo
 }
 
+// modelQuantities returns the numbers a study of the model's scenario can show: those of a
+// generalized linear model (cosine, test error, ...) for such a scenario only.
+func modelQuantities(m *Model) []study.Observable {
+	if m != nil {
+		if ch := m.Check(); ch.Err == nil {
+			if _, glm := ch.Engine.GLM(); glm {
+				return plot.Quantities()
+			}
+		}
+	}
+	return study.Observables()
+}
+
 // modelPaths returns the numbers of the model's scenario that studies can vary. Special
 // cases are: while the inputs are invalid, the numbers of the same kinds seen last are
 // kept; nil before any valid scenario of these kinds.

@@ -80,16 +80,7 @@ func (c *Mapview) Paths() []scenario.PathInfo { return modelPaths(c.Model) }
 
 // Quantities are the numbers the colours can show: those of a generalized linear model
 // (cosine, test error, ...) for such a scenario only, as the curve view offers them.
-func (c *Mapview) Quantities() []study.Observable {
-	if c.Model != nil {
-		if ch := c.Model.Check(); ch.Err == nil {
-			if _, glm := ch.Engine.GLM(); glm {
-				return plot.Quantities()
-			}
-		}
-	}
-	return study.Observables()
-}
+func (c *Mapview) Quantities() []study.Observable { return modelQuantities(c.Model) }
 
 // Set stores one setting: "x.over", "x.from", "x.to", "x.points", "x.log", the same for
 // "y.", or "quantity". Special cases are: an unknown name is an error.
