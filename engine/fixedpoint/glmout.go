@@ -333,15 +333,7 @@ func (o *outSide) labels(g, mu1, tau float64) outMoments {
 		}
 	}
 	out := outMoments{az: az, trainErr: terr, trainLoss: tloss, misfit: mis}
-	if !(az < 1) {
-		out.zeroDeriv = true
-		return out
-	}
-	c := 1 - az
-	dmu := dz / (c * o.rhoz)
-	out.muz = mu1 + dmu
-	out.sigz = math.Max(dd/(c*c)-tau-dmu*dmu*o.rhoz, 0)
-	return out
+	return o.backward(out, az, dz, dd, mu1, tau)
 }
 
 // cellsSquare is the output side of a cell readout (sign, quantize) with the square loss
@@ -644,15 +636,7 @@ func (o *outSide) logisticHermite(g, mu1, tau, vp, beta, s float64, hx, hw []flo
 		}
 		out.misfit = o.misfitGrid(g, vp, beta, s, sharp)
 	}
-	if !(az < 1) {
-		out.zeroDeriv = true
-		return out
-	}
-	c := 1 - az
-	dmu := dz / (c * o.rhoz)
-	out.muz = mu1 + dmu
-	out.sigz = math.Max(dd/(c*c)-tau-dmu*dmu*o.rhoz, 0)
-	return out
+	return o.backward(out, az, dz, dd, mu1, tau)
 }
 
 // oddLabels reports the logistic readout with a loss whose prox is odd, zhat(-y, -p) =
@@ -737,3 +721,18 @@ var (
 	noHermite   bool
 	labelsPanel = 1.0
 )
+
+// backward completes out, the output side's moments with derivative az, with the backward
+// message (muz, sigz) from the sums dz and dd over the quadrature (docs/method.md section 10.2);
+// az >= 1 (or NaN) leaves no backward message and marks zeroDeriv.
+func (o *outSide) backward(out outMoments, az, dz, dd, mu1, tau float64) outMoments {
+	if !(az < 1) {
+		out.zeroDeriv = true
+		return out
+	}
+	c := 1 - az
+	dmu := dz / (c * o.rhoz)
+	out.muz = mu1 + dmu
+	out.sigz = math.Max(dd/(c*c)-tau-dmu*dmu*o.rhoz, 0)
+	return out
+}
