@@ -46,40 +46,50 @@ func WriteCSV(w io.Writer, fields []string, pts []Point) error {
 	if len(fields) < 1 || len(fields) > 2 {
 		return specErr("fields", "a CSV needs one or two coordinate names, not %d", len(fields))
 	}
-	obs := Observables()
-	if anyGLM(pts) {
-		obs = append(obs, GLMObservables()...)
-	}
+	obs, head := csvColumns(fields, pts)
 	cw := csv.NewWriter(w)
-	head := append([]string(nil), fields...)
-	for _, o := range obs {
-		head = append(head, o.Name)
-	}
-	head = append(head, "iterations", "converged", "estimate_zero", "residual", "status")
 	if err := cw.Write(head); err != nil {
 		return err
 	}
 	rec := make([]string, 0, len(head))
 	for _, p := range pts {
-		rec = append(rec[:0], num(p.X))
-		if len(fields) == 2 {
-			rec = append(rec, num(p.Y))
-		}
-		for _, o := range obs {
-			v := ""
-			if p.OK() {
-				v = num(o.Of(p.Result))
-			}
-			rec = append(rec, v)
-		}
-		rec = append(rec, strconv.Itoa(p.Result.Iterations), strconv.FormatBool(p.OK()),
-			strconv.FormatBool(p.OK() && p.Result.EstimateZero), num(p.Result.Residual), csvStatus(p))
-		if err := cw.Write(rec); err != nil {
+		if err := cw.Write(csvRow(rec[:0], len(fields), p, obs)); err != nil {
 			return err
 		}
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// csvColumns returns the observables WriteCSV writes for pts (the generalized model's too
+// when a point has them) and its header row.
+func csvColumns(fields []string, pts []Point) ([]Observable, []string) {
+	obs := Observables()
+	if anyGLM(pts) {
+		obs = append(obs, GLMObservables()...)
+	}
+	head := append([]string(nil), fields...)
+	for _, o := range obs {
+		head = append(head, o.Name)
+	}
+	return obs, append(head, "iterations", "converged", "estimate_zero", "residual", "status")
+}
+
+// csvRow appends to rec the row of WriteCSV for p, with nfields coordinates.
+func csvRow(rec []string, nfields int, p Point, obs []Observable) []string {
+	rec = append(rec, num(p.X))
+	if nfields == 2 {
+		rec = append(rec, num(p.Y))
+	}
+	for _, o := range obs {
+		v := ""
+		if p.OK() {
+			v = num(o.Of(p.Result))
+		}
+		rec = append(rec, v)
+	}
+	return append(rec, strconv.Itoa(p.Result.Iterations), strconv.FormatBool(p.OK()),
+		strconv.FormatBool(p.OK() && p.Result.EstimateZero), num(p.Result.Residual), csvStatus(p))
 }
 
 func num(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }

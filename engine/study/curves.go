@@ -5,7 +5,6 @@ import (
 	"encoding/csv"
 	"io"
 	"strconv"
-	"strings"
 
 	"hdrisk/engine/param"
 	"hdrisk/engine/scenario"
@@ -101,30 +100,21 @@ func SweepCurves(ctx context.Context, c scenario.Checked, spec CurvesSpec, progr
 func WriteCurvesCSV(w io.Writer, cs Curves) error {
 	cw := csv.NewWriter(w)
 	width := 0
+	var rec []string
 	for k, c := range cs.Curves {
-		var b strings.Builder
-		if err := WriteCSV(&b, []string{cs.Over}, c.Points); err != nil {
-			return err
-		}
-		rows, err := csv.NewReader(strings.NewReader(b.String())).ReadAll()
-		if err != nil {
-			return err
-		}
+		obs, head := csvColumns([]string{cs.Over}, c.Points)
 		if k == 0 {
-			width = len(rows[0])
-		} else if len(rows[0]) != width {
+			width = len(head)
+			if err := cw.Write(append([]string{cs.Field}, head...)); err != nil {
+				return err
+			}
+		} else if len(head) != width {
 			// Only a curve with no generalized-model point at all lacks those columns.
 			return specErr("curves", "the curve at %s = %s has other columns than the first", cs.Field, num(c.Value))
 		}
-		for i, r := range rows {
-			if i == 0 && k > 0 {
-				continue
-			}
-			first := num(c.Value)
-			if i == 0 {
-				first = cs.Field
-			}
-			if err := cw.Write(append([]string{first}, r...)); err != nil {
+		for _, p := range c.Points {
+			rec = csvRow(append(rec[:0], num(c.Value)), 1, p, obs)
+			if err := cw.Write(rec); err != nil {
 				return err
 			}
 		}
