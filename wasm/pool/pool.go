@@ -14,6 +14,7 @@ import (
 	"fmt"
 	"sync"
 	"time"
+	"unsafe"
 
 	"github.com/hack-pad/safejs"
 
@@ -475,7 +476,8 @@ func postRequest(w safejs.Value, text, bulk string) error {
 	if err != nil {
 		return err
 	}
-	if _, err := safejs.CopyBytesToJS(u8, []byte(bulk)); err != nil {
+	// CopyBytesToJS only reads its source: the string's bytes go across without a Go copy.
+	if _, err := safejs.CopyBytesToJS(u8, unsafe.Slice(unsafe.StringData(bulk), len(bulk))); err != nil {
 		return err
 	}
 	buf, err := u8.Get("buffer")
