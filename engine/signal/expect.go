@@ -96,6 +96,19 @@ func expect(l Law, p penalty.Penalty, g, t float64, wantSlopes bool, stopA float
 		}
 		return ExpectQuad(l, p, g, t), Slopes{}, false
 	}
+	if ls, isL := l.(laplaceScaler); isL && t > 0 && len(pieces) <= lapMaxPieces {
+		if b := ls.laplaceScale(); b > 0 {
+			var d [lapMaxPieces]lapPiece
+			haveD := wantSlopes && lapDerivs(p, g, pieces, d[:len(pieces)])
+			var ds []lapPiece
+			if haveD {
+				ds = d[:len(pieces)]
+			}
+			if m, sl, ok := expectLaplace(b, pieces, ds, t); ok {
+				return m, sl, haveD
+			}
+		}
+	}
 	var m Moments
 	grp := merger{lo: math.Inf(1), hi: math.Inf(-1)}
 	for _, q := range pieces[:len(pieces)-1] {

@@ -27,12 +27,13 @@ func channelGivenX0(p penalty.Penalty, g, t, x0 float64) (mse, a float64) {
 	return mse, a
 }
 
-// The Gauss-Laguerre mixture of the Laplace law against the Laplace density itself: E over
-// x0 with density exp(-|x|/b)/(2b) of the channel moments at fixed x0, by nested quadrature.
-// The discretization error of the ScaleNodes-point mixture is the difference.
+// The trapezoidal mixture of the Laplace law (which Expect uses below laplaceSmall and for
+// the penalties without pieces) against the Laplace density itself: E over x0 with density
+// exp(-|x|/b)/(2b) of the channel moments at fixed x0, by nested quadrature. The
+// discretization error of the 63-node mixture is the difference.
 func TestLaplaceMixtureAgainstDensity(t *testing.T) {
 	b := 0.8
-	l := must(Laplace(b))
+	l := mixtureLaw{must(Laplace(b))}
 	for _, p := range []penalty.Penalty{must(penalty.L1(0.5)), must(penalty.Ridge(0.4)), must(penalty.Box(1, 0))} {
 		for _, gt := range [][2]float64{{1, 0.3}, {3, 1e-4}} {
 			g, tt := gt[0], gt[1]
