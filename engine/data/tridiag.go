@@ -42,12 +42,12 @@ import (
 // triBlock is the number of columns reduced per panel (LAPACK's nb), and triCross the order
 // below which the rest is reduced in one panel without trailing updates (LAPACK's nx): the
 // values of gonum's Ilaenv for DSYTRD. On a 1500 x 1500 Gram matrix (BenchmarkTridiagonal1500)
-// nb from 24 to 48, nx of 64 or 128, triPanel of 64 to 256 and symvRows of 8 to 64 all
-// measured within the machine's noise of each other. Variables so that the tests can run many
-// panels on small orders.
+// nb from 24 to 48, nx from 32 to 128, triPanel from 64 to 256 and symvRows from 8 to 64 all
+// measured within the machine's noise (about 10%) of each other. Variables so that the tests
+// can run many panels on small orders.
 var (
 	triBlock = 32
-	triCross = 128
+	triCross = 32
 )
 
 // triPanel is the number of rows of the trailing update given to one Dgemm call, and

@@ -78,10 +78,11 @@ func gonumDsytrd(g []float64, k int, d, e, tau []float64) {
 // well-conditioned matrices and of ill-conditioned ones (singular values spread evenly in
 // log from 1 down to 1e-6, eigenvalues 1..1e-12), where every eigenvalue is also checked
 // against its exact value sigma^2 to 1e-13 absolute (||G|| = 1). The panel width and crossover
-// are also set small (3 and 5, 8 and 8) so that many panels and trailing updates run.
+// are also set to other values, small ones (3 and 5, 8 and 8) so that many panels and trailing
+// updates run.
 func TestTridiagonalizeBlockedMatchesDsytrd(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 12))
-	for _, blk := range [][2]int{{32, 128}, {3, 5}, {8, 8}} {
+	for _, blk := range [][2]int{{triBlock, triCross}, {32, 128}, {3, 5}, {8, 8}} {
 		oldB, oldC := triBlock, triCross
 		triBlock, triCross = blk[0], blk[1]
 		for _, k := range []int{1, 2, 3, 4, 7, 31, 32, 33, 64, 129, 160, 161, 300, 517} {
