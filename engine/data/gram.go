@@ -13,9 +13,10 @@ import (
 // GOOS=js GOARCH=wasm (the page's workers) gonum's Dgemm runs its generic Go loops at about
 // 0.3 billion multiply-adds a second and its blocked Dsytrd is slower than the unblocked
 // Dsytd2, so there the product is gramRows's register-blocked loop (about 0.8 billion a second
-// in V8) and the reduction is Dsytd2. Elsewhere gonum's parallel assembly Dgemm and blocked
-// Dsytrd are the faster. Both routes compute the same lower triangle with the same
-// backward-stable reduction; a package variable so that the tests run both natively.
+// in V8) and the reduction is Dsytd2. Elsewhere gonum's parallel assembly Dgemm and the
+// blocked reduction of tridiag.go (LAPACK's dsytrd around gonum's assembly Dgemv and Dgemm)
+// are the faster. Both routes compute the same lower triangle with backward-stable Householder
+// reductions; a package variable so that the tests run both natively.
 var portableKernels = runtime.GOARCH == "wasm"
 
 // gramBlockRows sets rows i0..i1 of the lower triangle of G = B B^T (left of column i1) for
@@ -86,7 +87,8 @@ func gramRows(b blas64.General, i0, i1 int, g []float64, k int) {
 
 // tridiagonalize reduces the symmetric k x k matrix whose lower triangle g holds to
 // tridiagonal form (diagonal d, off-diagonal e), overwriting g; see portableKernels for the
-// choice between LAPACK's blocked Dsytrd and unblocked Dsytd2 (the same Householder reduction).
+// choice between the blocked tridiagonalizeBlocked (LAPACK's dsytrd) and gonum's unblocked
+// Dsytd2 (the same Householder reduction, one column at a time).
 func tridiagonalize(g []float64, k int, d, e []float64) {
 	var impl lapackgonum.Implementation
 	tau := make([]float64, max(0, k-1))
@@ -94,8 +96,5 @@ func tridiagonalize(g []float64, k int, d, e []float64) {
 		impl.Dsytd2(blas.Lower, k, g, k, d, e, tau)
 		return
 	}
-	work := make([]float64, 1)
-	impl.Dsytrd(blas.Lower, k, g, k, d, e, tau, work, -1)
-	work = make([]float64, int(work[0]))
-	impl.Dsytrd(blas.Lower, k, g, k, d, e, tau, work, len(work))
+	tridiagonalizeBlocked(g, k, d, e, tau)
 }

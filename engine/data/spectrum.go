@@ -27,11 +27,12 @@ const gramBlock = 128
 // SingularValues returns the min(m, n) singular values of the m x n matrix a in decreasing
 // order, as the square roots of the eigenvalues of the smaller Gram matrix: G = A A^T (m <= n)
 // or A^T A, formed in blocks of rows (its lower triangle only; gonum's Dgemm, or a plain-Go
-// loop in the browser: portableKernels), reduced to tridiagonal form by LAPACK's Householder
-// reduction (Dsytrd, or its unblocked form Dsytd2 in the browser) and solved for its eigenvalues alone by Dsterf (the
-// root-free QL/QR of Pal, Walker and Kahan), all from gonum's LAPACK port. No singular vector
-// is ever formed. Rows and columns that are entirely zero are left out first (they add only
-// zero singular values), so the work is bounded by the data, not by the stated shape.
+// loop in the browser: portableKernels), reduced to tridiagonal form by LAPACK's blocked
+// Householder reduction dsytrd (tridiag.go, on gonum's Dgemv and Dgemm; in the browser gonum's
+// unblocked Dsytd2) and solved for its eigenvalues alone by gonum's Dsterf (the root-free
+// QL/QR of Pal, Walker and Kahan). No singular vector is ever formed. Rows and columns that
+// are entirely zero are left out first (they add only zero singular values), so the work is
+// bounded by the data, not by the stated shape.
 //
 // Accuracy: each eigenvalue of G comes with an absolute error of a small multiple of
 // eps sigma_max^2 (eps = 2^-52), from forming G and from the backward-stable reduction, so a
