@@ -28,12 +28,34 @@ const (
 // 0 <= lo < hi, whose panels [r t, t] shrink from hi towards 0 until they reach lo or
 // floor; the last panel ends at lo. The weights sum to hi - lo.
 func graded(lo, hi, floor float64) (x, w []float64) {
-	top := hi
+	x, w, top := gradedAbove(lo, hi, floor)
+	return appendPanel(x, w, lo, top)
+}
+
+// gradedAbove is graded without its last panel: it returns the panels down to top, the end
+// below which graded would put one panel [lo, top].
+func gradedAbove(lo, hi, floor float64) (x, w []float64, top float64) {
+	top = hi
 	for top*panelRatio > lo && top*panelRatio >= floor {
 		x, w = appendPanel(x, w, top*panelRatio, top)
 		top *= panelRatio
 	}
-	return appendPanel(x, w, lo, top)
+	return x, w, top
+}
+
+// flatRule is the rule of a uniform shape with its density flat in x on [lo, hi]: graded
+// panels down to lo when lo > 0, which keeps every pole of the transforms' integrands at
+// least 2 r/(1 - r) half-widths from its panel whatever g (section 5 of docs/method.md; the
+// solver's MaxSpread bounds the panels to some 30); when lo = 0, graded panels down to floor
+// and below them the cell [0, cell], whose part of the transforms is integrated in closed
+// form (flatCell), since there the integrand 1/(x + g) varies on the scale g, which may be
+// far below any panel.
+func flatRule(lo, hi, floor float64) (x, w []float64, cell float64) {
+	if lo > 0 {
+		x, w = graded(lo, hi, 0)
+		return x, w, 0
+	}
+	return gradedAbove(0, hi, floor)
 }
 
 func appendPanel(x, w []float64, lo, hi float64) ([]float64, []float64) {
@@ -99,8 +121,12 @@ func UniformSV(alpha, min, max float64, s Scale) (Law, error) {
 	if min == max {
 		d = newAtoms(alpha, 0, f, []float64{max}, []float64{1}, 1, sq)
 	} else {
-		x, w := graded(min, max, math.Sqrt(floorRel)*max)
+		x, w, cell := flatRule(min, max, math.Sqrt(floorRel)*max)
 		d = newAtoms(alpha, 0, f, x, w, max-min, sq)
+		if cell > 0 {
+			// Flat in sigma on [0, cell]: in lambda, [0, f cell^2].
+			d.cell = &flatCell{sv: true, top: f * cell * cell, mass: q * cell / (max - min)}
+		}
 	}
 	d.mean = f * q * m2
 	rf := math.Sqrt(f)
@@ -144,8 +170,11 @@ func UniformEV(alpha, min, max float64, s Scale) (Law, error) {
 	if min == max {
 		d = newAtoms(alpha, 0, f, []float64{max}, []float64{1}, 1, id)
 	} else {
-		x, w := graded(min, max, floorRel*max)
+		x, w, cell := flatRule(min, max, floorRel*max)
 		d = newAtoms(alpha, 0, f, x, w, max-min, id)
+		if cell > 0 {
+			d.cell = &flatCell{top: f * cell, mass: q * cell / (max - min)}
+		}
 	}
 	d.mean = f * q * m1
 	return &uniformEV{atoms: d, lo: f * min, hi: f * max}, nil

@@ -17,7 +17,8 @@ type continuousCase struct {
 	lo, hi float64
 	lam    func(x float64) float64
 	s1     func(g float64) float64
-	e1     float64 // E[lambda] of the unscaled nonzero part
+	s2     func(g float64) (float64, bool) // S2 of the shape, and whether its form serves at g
+	e1     float64                         // E[lambda] of the unscaled nonzero part
 }
 
 // continuousCases gives the closed forms of S1 for each continuous shape, elementary
@@ -31,6 +32,7 @@ func continuousCases() []continuousCase {
 			make: func(alpha float64, s Scale) (Law, error) { return UniformEV(alpha, a, b, s) },
 			lo:   a, hi: b, lam: func(x float64) float64 { return x },
 			s1: func(g float64) float64 { return math.Log1p((b-a)/(a+g)) / (b - a) },
+			s2: func(g float64) (float64, bool) { return 1 / ((a + g) * (b + g)), true },
 			e1: (a + b) / 2,
 		}
 	}
@@ -42,6 +44,13 @@ func continuousCases() []continuousCase {
 			s1: func(g float64) float64 {
 				r := math.Sqrt(g)
 				return math.Atan((b-a)*r/(g+a*b)) / (r * (b - a))
+			},
+			// int dsigma/(sigma^2 + g)^2 = sigma/(2g(sigma^2 + g)) + atan(sigma/sqrt g)/(2 g^1.5),
+			// which cancels below g = a b: not used there.
+			s2: func(g float64) (float64, bool) {
+				r := math.Sqrt(g)
+				s1 := math.Atan((b-a)*r/(g+a*b)) / (r * (b - a))
+				return ((g-a*b)/((b*b+g)*(a*a+g)) + s1) / (2 * g), g >= a*b || a == 0
 			},
 			e1: (a*a + a*b + b*b) / 3,
 		}
@@ -57,15 +66,18 @@ func continuousCases() []continuousCase {
 		}
 	}
 	return []continuousCase{
-		ev(0, 3), ev(0.5, 3), ev(1e-9, 1), ev(2.9, 3),
-		sv(0, 2), sv(0.5, 2), sv(1e-7, 1), sv(1.9, 2),
+		ev(0, 3), ev(0.5, 3), ev(1e-9, 1), ev(2.9, 3), ev(1e-25, 1),
+		sv(0, 2), sv(0.5, 2), sv(1e-7, 1), sv(1.9, 2), sv(1e-14, 1),
 		geo(1.5), geo(10), geo(1e4), geo(1e8), geo(1e15),
 	}
 }
 
 // TestContinuousS1ClosedForm checks that the discretization has converged: S1 of the
-// discrete law against the closed form, from 1e-10 to 1e10 times the mean eigenvalue, for
-// alpha below and above 1 and every scale.
+// discrete law against the closed form, from 1e-30 to 1e10 times the mean eigenvalue (far
+// below the smallest eigenvalue of spreads up to 1e28, and far below the graded panels of a
+// support that reaches 0), for alpha below and above 1 and every scale; and, for the
+// shapes without an atom at 0 (alpha >= 1), S2 against its closed form and the identities
+// T = 1 - g S1 and S3 = S1 - g S2, which the sums form from other terms.
 func TestContinuousS1ClosedForm(t *testing.T) {
 	for _, c := range continuousCases() {
 		for _, alpha := range []float64{0.4, 1, 3} {
@@ -76,11 +88,28 @@ func TestContinuousS1ClosedForm(t *testing.T) {
 				}
 				p0, q := parts(alpha)
 				f := s.factor(alpha, q*c.e1)
-				for e := -10.0; e <= 10; e += 0.5 {
+				for e := -30.0; e <= 10; e += 0.5 {
 					g := math.Pow(10, e) * l.Mean()
 					want := p0/g + q*c.s1(g/f)/f
-					if got := l.At(g).S1; !close(got, want, 1e-12) {
+					tr := l.At(g)
+					// 2e-12: measured 1.1e-12 with sigma from 1e-14 at g = 1e-30, where the
+					// lowest panel's pole is nearest (rho^-48 with rho = 1.9 per panel).
+					if got := tr.S1; !close(got, want, 2e-12) {
 						t.Errorf("%s alpha=%v %v g=%g: S1 = %.17g, want %.17g", c.name, alpha, s, g, got, want)
+					}
+					if c.s2 == nil || p0 > 0 {
+						continue
+					}
+					if s2, ok := c.s2(g / f); ok {
+						if got, want := tr.S2, s2/f/f; !close(got, want, 3e-12) { // measured 1.2e-12: the double pole
+							t.Errorf("%s alpha=%v %v g=%g: S2 = %.17g, want %.17g", c.name, alpha, s, g, got, want)
+						}
+					}
+					if gs := g * tr.S1; gs < 0.5 && !close(tr.T, 1-gs, 1e-12) {
+						t.Errorf("%s alpha=%v %v g=%g: T = %.17g, 1 - g S1 = %.17g", c.name, alpha, s, g, tr.T, 1-gs)
+					}
+					if gs := g * tr.S2; gs < 0.5*tr.S1 && !close(tr.S3, tr.S1-gs, 1e-12) {
+						t.Errorf("%s alpha=%v %v g=%g: S3 = %.17g, S1 - g S2 = %.17g", c.name, alpha, s, g, tr.S3, tr.S1-gs)
 					}
 				}
 			}

@@ -25,6 +25,9 @@ func (d *atoms) divided(c float64) *atoms {
 	for i, l := range d.lam {
 		out.lam[i] = l / c
 	}
+	if d.cell != nil {
+		out.cell = &flatCell{sv: d.cell.sv, top: d.cell.top / c, mass: d.cell.mass}
+	}
 	return out
 }
 
