@@ -3,6 +3,7 @@ package fixedpoint
 import (
 	"math"
 
+	"hdrisk/engine/design"
 	"hdrisk/engine/signal"
 )
 
@@ -264,5 +265,11 @@ func (s *solver) flat() bool {
 }
 
 func errUnbounded(s *solver) error {
+	if s.p.Design.Atom0() == 0 && !design.ReachesZero(s.p.Design) {
+		// With every eigenvalue bounded away from 0 the error of a convex penalty is finite
+		// (at most that of least squares plus the penalty's pull): what looked unbounded is
+		// an iteration that the equations' degeneracy keeps from settling.
+		return errNotDetermined(s, "")
+	}
 	return fieldErr("penalty", "there is no finite fixed point: the error grows without bound at m/n = %v with this penalty (for instance nonnegative least squares beyond its phase transition): strengthen the penalty, or raise design.alpha", s.p.Design.Alpha())
 }
