@@ -83,3 +83,18 @@ func TestUndeterminedRefused(t *testing.T) {
 		t.Errorf("spread 1e3, l1 1e-9: MSE %v, least squares %v", r.MSE, ls)
 	}
 }
+
+// A ridge so weak that its prox is the identity at g = 1 but not at the least-squares g1 =
+// 1/E[1/lambda] is not least squares: Solve leaves it to the iteration, whose answer there
+// is ridge's, below the least-squares error.
+func TestWeakRidgeIsNotLeastSquares(t *testing.T) {
+	d := must(design.UniformEV(3, 1e-20, 1e-16, design.AsGiven))
+	p := Problem{Design: d, Signal: must(signal.Gauss(1)), Penalty: must(penalty.Ridge(1e-17)), Noise: 1e-30}
+	r, err := Solve(p, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(r.Note, "least squares") {
+		t.Errorf("ridge 1e-17 solved as least squares: %+v", r)
+	}
+}

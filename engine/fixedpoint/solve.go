@@ -215,11 +215,12 @@ func Solve(p Problem, o Options) (Result, error) {
 	s := solver{p: q, o: o, rho2: q.Signal.Second()}
 	if isIdentity(q.Penalty) && q.Design.Atom0() == 0 {
 		// refuse has ruled out a design that reaches 0.
-		r, err := s.leastSquares()
-		if err != nil {
-			return Result{}, err
+		if r, ok, err := s.leastSquares(); ok {
+			if err != nil {
+				return Result{}, err
+			}
+			return s.unscale(r, rho2, sc, mean)
 		}
-		return s.unscale(r, rho2, sc, mean)
 	}
 	r, err := s.solve(o.Start, sc, mean)
 	if err == nil {
@@ -580,14 +581,20 @@ func (s *solver) jacobianBy(g1, t1 float64, cur image, central bool) ([2][2]floa
 // Gram matrix, common practice; docs/method.md section 3.9). Iterating to it instead meets
 // equations degenerate to E[1/lambda]^2/E[1/lambda^2], which for eigenvalues spread over
 // many decades is below double precision.
-func (s *solver) leastSquares() (Result, error) {
+// A penalty that is the identity at g = 1 but not at that g1 (a ridge of strength 1e-17
+// where g1 = 1e-20) is not least squares there, and is left to the iteration (ok false).
+func (s *solver) leastSquares() (r Result, ok bool, err error) {
 	s0, _ := s.p.Design.Stieltjes(0)
-	if !finitePos(s0) {
-		return Result{}, errRunOff
+	if !finitePos(s0) || !finitePos(1/s0) {
+		return r, false, nil
 	}
-	r := Result{G1: 1 / s0, T1: s.p.Noise * s0, Converged: true}
+	if pc, lin := s.p.Penalty.Pieces(1 / s0); !lin || len(pc) != 1 || pc[0].Slope != 1 || pc[0].Intercept != 0 {
+		return r, false, nil
+	}
+	r = Result{G1: 1 / s0, T1: s.p.Noise * s0, Converged: true}
 	r.Note = "least squares (every strength 0) on a design with no eigenvalue at 0: MSE = noise E[1/lambda], in closed form"
-	return s.observe(r)
+	r, err = s.observe(r)
+	return r, true, err
 }
 
 // minDetermined is the smallest singular value of the Jacobian of F(x) = log M(x) - x,
