@@ -324,22 +324,7 @@ func TestExpectSlopes(t *testing.T) {
 						continue
 					}
 					cmpMoments(t, l.Name()+"/"+p.Name()+gtString(g, tt), m, Expect(l, p, g, tt), 0, 0)
-					gp, gm := each(l, p, g*(1+h), tt), each(l, p, g*(1-h), tt)
-					tp, tm := each(l, p, g, tt*(1+h)), each(l, p, g, tt*(1-h))
-					for _, f := range []struct {
-						name      string
-						got, want float64
-						scale     float64
-					}{
-						{"MSEg", sl.MSEg, (gp.MSE - gm.MSE) / (2 * h * g), m.MSE / g},
-						{"MSEt", sl.MSEt, (tp.MSE - tm.MSE) / (2 * h * tt), m.MSE / tt},
-						{"Ag", sl.Ag, (gp.A - gm.A) / (2 * h * g), m.A / g},
-						{"At", sl.At, (tp.A - tm.A) / (2 * h * tt), m.A / tt},
-					} {
-						if !close(f.got, f.want, 1e-6, f.scale) {
-							t.Errorf("%s/%s g=%v t=%v: %s = %.10g, central difference %.10g", l.Name(), p.Name(), g, tt, f.name, f.got, f.want)
-						}
-					}
+					cmpSlopes(t, l.Name()+"/"+p.Name()+gtString(g, tt), m, sl, g, tt, h, func(g, tt float64) Moments { return each(l, p, g, tt) })
 				}
 			}
 		}
@@ -367,5 +352,27 @@ func TestExpectSlopesUnavailable(t *testing.T) {
 			t.Errorf("%s/%s t=%v: slopes %+v reported available", tc.l.Name(), tc.p.Name(), tc.tt, sl)
 		}
 		cmpMoments(t, tc.l.Name()+"/"+tc.p.Name(), m, Expect(tc.l, tc.p, 0.7, tc.tt), 0, 0)
+	}
+}
+
+// cmpSlopes reports every slope of sl that differs from the central difference of relative
+// step h of the moments at (g, t) by more than 1e-6 of the moment's own scale (m.MSE/g and so
+// on).
+func cmpSlopes(t *testing.T, what string, m Moments, sl Slopes, g, tt, h float64, at func(g, tt float64) Moments) {
+	t.Helper()
+	gp, gm := at(g*(1+h), tt), at(g*(1-h), tt)
+	tp, tm := at(g, tt*(1+h)), at(g, tt*(1-h))
+	for _, f := range []struct {
+		name             string
+		got, want, scale float64
+	}{
+		{"MSEg", sl.MSEg, (gp.MSE - gm.MSE) / (2 * h * g), m.MSE / g},
+		{"MSEt", sl.MSEt, (tp.MSE - tm.MSE) / (2 * h * tt), m.MSE / tt},
+		{"Ag", sl.Ag, (gp.A - gm.A) / (2 * h * g), m.A / g},
+		{"At", sl.At, (tp.A - tm.A) / (2 * h * tt), m.A / tt},
+	} {
+		if !close(f.got, f.want, 1e-6, f.scale) {
+			t.Errorf("%s: %s = %.10g, central difference %.10g", what, f.name, f.got, f.want)
+		}
 	}
 }

@@ -28,15 +28,7 @@ func laplaceByDensity(p penalty.Penalty, b, g, tt float64) (mse, a float64) {
 	for _, k := range p.Kinks(g) {
 		hi = math.Max(hi, math.Abs(k)+40*b)
 	}
-	cache := map[float64][2]float64{}
-	at := func(x float64) [2]float64 {
-		if v, ok := cache[x]; ok {
-			return v
-		}
-		m, d := channelGivenX0(p, g, tt, x)
-		cache[x] = [2]float64{m, d}
-		return cache[x]
-	}
+	at := cachedChannel(p, g, tt)
 	dens := func(x float64) float64 { return math.Exp(-math.Abs(x)/b) / (2 * b) }
 	mse = integrate(func(x float64) float64 { return at(x)[0] * dens(x) }, -hi, hi, b/2, splits...)
 	a = integrate(func(x float64) float64 { return at(x)[1] * dens(x) }, -hi, hi, b/2, splits...)
@@ -124,21 +116,7 @@ func TestLaplaceSlopes(t *testing.T) {
 					}
 					n++
 					h := 1e-4 / (1 + y*y)
-					gp, gm := Expect(l, p, g*(1+h), tt), Expect(l, p, g*(1-h), tt)
-					tp, tm := Expect(l, p, g, tt*(1+h)), Expect(l, p, g, tt*(1-h))
-					for _, f := range []struct {
-						name             string
-						got, want, scale float64
-					}{
-						{"MSEg", sl.MSEg, (gp.MSE - gm.MSE) / (2 * h * g), m.MSE / g},
-						{"MSEt", sl.MSEt, (tp.MSE - tm.MSE) / (2 * h * tt), m.MSE / tt},
-						{"Ag", sl.Ag, (gp.A - gm.A) / (2 * h * g), m.A / g},
-						{"At", sl.At, (tp.A - tm.A) / (2 * h * tt), m.A / tt},
-					} {
-						if !close(f.got, f.want, 1e-6, f.scale) {
-							t.Errorf("%s/%s g=%v S=%v: %s = %.10g, central difference %.10g", l.Name(), p.Name(), g, S, f.name, f.got, f.want)
-						}
-					}
+					cmpSlopes(t, l.Name()+"/"+p.Name()+gtString(g, tt), m, sl, g, tt, h, func(g, tt float64) Moments { return Expect(l, p, g, tt) })
 				}
 			}
 		}

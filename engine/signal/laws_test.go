@@ -27,6 +27,20 @@ func channelGivenX0(p penalty.Penalty, g, t, x0 float64) (mse, a float64) {
 	return mse, a
 }
 
+// cachedChannel returns channelGivenX0(p, g, t, x) as a function of x, remembering the
+// values it has computed (the outer quadratures ask for each node twice).
+func cachedChannel(p penalty.Penalty, g, t float64) func(x float64) [2]float64 {
+	cache := map[float64][2]float64{}
+	return func(x float64) [2]float64 {
+		if v, ok := cache[x]; ok {
+			return v
+		}
+		m, d := channelGivenX0(p, g, t, x)
+		cache[x] = [2]float64{m, d}
+		return cache[x]
+	}
+}
+
 // The trapezoidal mixture of the Laplace law (which Expect uses below laplaceSmall and for
 // the penalties without pieces) against the Laplace density itself: E over x0 with density
 // exp(-|x|/b)/(2b) of the channel moments at fixed x0, by nested quadrature. The
@@ -37,25 +51,7 @@ func TestLaplaceMixtureAgainstDensity(t *testing.T) {
 	for _, p := range []penalty.Penalty{must(penalty.L1(0.5)), must(penalty.Ridge(0.4)), must(penalty.Box(1, 0))} {
 		for _, gt := range [][2]float64{{1, 0.3}, {3, 1e-4}} {
 			g, tt := gt[0], gt[1]
-			// The moments at fixed x0 vary on the scale sqrt(t) near the kinks: split there.
-			var splits []float64
-			for _, k := range p.Kinks(g) {
-				for _, d := range []float64{0, 1, 2, 4, 8, 16} {
-					splits = append(splits, k-d*math.Sqrt(tt), k+d*math.Sqrt(tt))
-				}
-			}
-			cache := map[float64][2]float64{}
-			at := func(x float64) [2]float64 {
-				if v, ok := cache[x]; ok {
-					return v
-				}
-				m, d := channelGivenX0(p, g, tt, x)
-				cache[x] = [2]float64{m, d}
-				return cache[x]
-			}
-			dens := func(x float64) float64 { return math.Exp(-math.Abs(x)/b) / (2 * b) }
-			mse := integrate(func(x float64) float64 { return at(x)[0] * dens(x) }, -40*b, 40*b, b/2, append(splits, 0)...)
-			a := integrate(func(x float64) float64 { return at(x)[1] * dens(x) }, -40*b, 40*b, b/2, append(splits, 0)...)
+			mse, a := laplaceByDensity(p, b, g, tt)
 			m := Expect(l, p, g, tt)
 			t.Logf("%s g=%v t=%v: MSE rel err %.1e, A rel err %.1e", p.Name(), g, tt, math.Abs(m.MSE-mse)/mse, math.Abs(m.A-a)/a)
 			if !close(m.MSE, mse, 1e-8, 0) || !close(m.A, a, 1e-8, 0) {
@@ -246,15 +242,7 @@ func TestStudentTMixtureAgainstDensity(t *testing.T) {
 			for _, d := range []float64{0, 1, 2, 4, 8} {
 				splits = append(splits, -k-d*math.Sqrt(tt), -k+d*math.Sqrt(tt), k-d*math.Sqrt(tt), k+d*math.Sqrt(tt))
 			}
-			cache := map[float64][2]float64{}
-			at := func(x float64) [2]float64 {
-				if v, ok := cache[x]; ok {
-					return v
-				}
-				m, d := channelGivenX0(p, g, tt, x)
-				cache[x] = [2]float64{m, d}
-				return cache[x]
-			}
+			at := cachedChannel(p, g, tt)
 			h := math.Min(scale, math.Sqrt(tt)) / 2
 			tail := 2 * dist.Survival(big)
 			mse := integrate(func(x float64) float64 { return at(x)[0] * dist.Prob(x) }, -big, big, h, append(splits, 0)...) + (tt+k*k)*tail
