@@ -145,6 +145,9 @@ func (l laplace) atUnitSecond() *scaled { return l.unitSec }
 // here the weight exp(-e^u) stops decaying at the edge of the strip, and the error measured
 // for E[V] is 3e-9 at h = 0.4). The nodes are then rescaled so that the mixture's E[V], hence
 // E[x0^2], is exact, which also makes the ridge moments exact (they are affine in V).
+// Against a piecewise-linear prox Expect does not use the mixture but closed forms, exact to
+// rounding (laplaceform.go; docs/method.md section 6.1); the mixture serves the other proxes,
+// the noiseless channel and the Bayes reference.
 func Laplace(scale float64) (Law, error) {
 	if err := positive("scale", scale); err != nil {
 		return nil, err
