@@ -51,6 +51,8 @@ type Options struct {
 	Tol     float64 // relative change of (g1, t1) that counts as converged; default 1e-10
 	MaxIter int     // per start of the damped iteration; default 2000 (see Solve)
 	Start   *State  // warm start, for instance the State of a neighbouring Result
+
+	noCoarse bool // solve without the coarse start (the package's tests compare the two)
 }
 
 // Result is the fixed point and the observables of docs/method.md section 4. Every number is
@@ -304,8 +306,14 @@ func (s *solver) solve(start *State, sc, mean float64) (Result, error) {
 			starts = append([]State{w}, starts...)
 		}
 	}
+	cold := len(starts) - 3 // the index of the first cold start
 	var last Result
-	for _, st := range starts {
+	for i, st := range starts {
+		if i == cold && !s.o.noCoarse {
+			if r, ok := s.fromCoarse(); ok {
+				return r, nil
+			}
+		}
 		r, err := s.run(st)
 		if err == nil && r.Converged {
 			if r.T1 > suspectT*(s.rho2+s.p.Noise) && !r.EstimateZero {
@@ -339,6 +347,46 @@ func (s *solver) solve(start *State, sc, mean float64) (Result, error) {
 		return last, nil
 	}
 	return r, nil
+}
+
+// The coarse start (docs/method.md section 3.6): the size of the surrogate mixture, and the
+// tolerance and iteration limit of its fixed point. A surrogate of five nodes built at the
+// noise of the first cold start puts the fixed point within about 1e-6 of the full law's
+// (measured on the grid of TestCoarseStart), so that the full run from there converges in
+// two evaluations of the channel; 1e-5 stops the surrogate's Newton steps once they are
+// below that error.
+const (
+	coarseNodes = 5
+	coarseTol   = 1e-5
+	coarseIter  = 100
+)
+
+// fromCoarse solves the fixed point from the fixed point of a coarse surrogate of the signal's
+// law (signal.Coarse, built at the noise of the first cold start and solved from there), so
+// that the full mixture is evaluated only where Newton's method is already close. It reports
+// ok only for a result that the cold starts would accept without a second look: converged,
+// not the zero estimate, not at the error floor (where the point at which the iteration stops
+// depends on the path) and below the t1 at which a crawl towards an infinite error is
+// checked. Otherwise, or when the law has no surrogate (too few components, a nonzero mean),
+// Solve goes on with the cold starts exactly as without it; the result of a failed attempt
+// is not kept.
+func (s *solver) fromCoarse() (Result, bool) {
+	st := s.coldStart(2)
+	l, ok := signal.Coarse(s.p.Signal, coarseNodes, st.T1)
+	if !ok {
+		return Result{}, false
+	}
+	c := solver{p: s.p, o: Options{Tol: coarseTol, MaxIter: coarseIter}, rho2: s.rho2, coarse: true}
+	c.p.Signal = l
+	r, err := c.run(st)
+	if err != nil || !r.Converged || r.EstimateZero || r.Floor {
+		return Result{}, false
+	}
+	r, err = s.run(r.State())
+	if err != nil || !r.Converged || r.EstimateZero || r.Floor || r.T1 > suspectT*(s.rho2+s.p.Noise) {
+		return Result{}, false
+	}
+	return r, true
 }
 
 // zeroEnd tests the fixed point of a zero estimate: A = 0 gives V = 0, g2 = Inf and, in the
@@ -380,6 +428,11 @@ type solver struct {
 	last           signal.Moments
 	lastSl         signal.Slopes
 	lastSlOK       bool
+
+	// coarse marks the solver of a coarse start's surrogate (fromCoarse), whose evaluations
+	// are cheap: Newton steps with closed-form slopes are tried from the first one on (one
+	// that fails costs a few evaluations of a handful of components).
+	coarse bool
 }
 
 // expect returns the moments of the scalar channel at (g1, t1) and, where the channel gives
@@ -680,7 +733,7 @@ func (s *solver) run(st State) (Result, error) {
 			r.Converged = true
 			break
 		}
-		if (im.res < newtonFrom || (im.slOK && im.res < newtonFromSlopes)) && it >= newtonNext {
+		if (im.res < newtonFrom || (im.slOK && (s.coarse || im.res < newtonFromSlopes))) && it >= newtonNext {
 			if ng1, nt1, nim, ok := s.newton(g1, t1, im); ok {
 				g1, t1, im = ng1, nt1, nim
 				newtonWait = 1
