@@ -371,11 +371,13 @@ const (
 // Solve goes on with the cold starts exactly as without it; the result of a failed attempt
 // is not kept.
 func (s *solver) fromCoarse() (Result, bool) {
-	st := s.coldStart(2)
-	l, ok := signal.Coarse(s.p.Signal, coarseNodes, st.T1)
+	// The noise of coldStart(2), whose penalty-dependent g1 is not needed when the law has
+	// no surrogate (most laws have a few components: Coarse refuses them at once).
+	l, ok := signal.Coarse(s.p.Signal, coarseNodes, s.rho2+s.p.Noise)
 	if !ok {
 		return Result{}, false
 	}
+	st := s.coldStart(2)
 	c := solver{p: s.p, o: Options{Tol: coarseTol, MaxIter: coarseIter}, rho2: s.rho2, coarse: true}
 	c.p.Signal = l
 	r, err := c.run(st)
