@@ -368,13 +368,17 @@ const (
 // not the zero estimate, not at the error floor (where the point at which the iteration stops
 // depends on the path) and below the t1 at which a crawl towards an infinite error is
 // checked. Otherwise, or when the law has no surrogate (too few components, a nonzero mean),
-// Solve goes on with the cold starts exactly as without it; the result of a failed attempt
-// is not kept.
+// or the problem is one that diagnose names (which the cold starts then decide alone), Solve
+// goes on with the cold starts exactly as without it; the result of a failed attempt is not
+// kept.
 func (s *solver) fromCoarse() (Result, bool) {
 	// The noise of coldStart(2), whose penalty-dependent g1 is not needed when the law has
 	// no surrogate (most laws have a few components: Coarse refuses them at once).
 	l, ok := signal.Coarse(s.p.Signal, coarseNodes, s.rho2+s.p.Noise)
-	if !ok {
+	if !ok || s.diagnose() != nil {
+		// Where diagnose would refuse a problem that the cold starts and the bracketing
+		// strategy fail on (a vanishing penalty with eigenvalues at 0), a coarse start must
+		// not reach a fixed point that they do not: the problem is refused as before.
 		return Result{}, false
 	}
 	st := s.coldStart(2)
