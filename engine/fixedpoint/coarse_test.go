@@ -21,8 +21,13 @@ func TestCoarseStart(t *testing.T) {
 		must(design.Gaussian(1, design.Rows)), must(design.Gaussian(2, design.Columns)),
 		must(design.Orthogonal(0.5, design.Rows)), must(design.UniformSV(0.7, 0.5, 2, design.Rows)),
 	}
+	// A long Gaussian mixture of one mean: 30 variances from 1e-3 to 10, equal weights.
+	w, mu, v := make([]float64, 30), make([]float64, 30), make([]float64, 30)
+	for i := range w {
+		w[i], v[i] = 1.0/30, 1e-3*math.Pow(1e4, float64(i)/29)
+	}
 	laws := []signal.Law{
-		must(signal.Laplace(1)), must(signal.StudentT(5, 1)), must(signal.StudentT(2.5, 3)),
+		must(signal.GaussMixture(w, mu, v)), must(signal.StudentT(5, 1)), must(signal.StudentT(2.5, 3)),
 		must(signal.StudentT(3, 1)), must(signal.StudentT(30, 0.01)), must(signal.StudentT(1e4, 1)),
 	}
 	pens := []penalty.Penalty{must(penalty.L1(0.02)), must(penalty.L1(0.3)), must(penalty.L1(2)), must(penalty.ElasticNet(0.3, 0.5))}

@@ -39,12 +39,19 @@ func (c coarse) components() []Component                { return c.comps }
 // It keeps the weight and E[x0^2] exactly (the degrees 2 and 0 in x). Away from t the rule
 // is still a mixture of the right weight and E[x0^2], only a coarser approximation.
 //
-// ok is false, and the law unusable, when a component has a nonzero mean, when fewer than
+// ok is false, and the law unusable, for a Laplace law (whose channel has closed forms), when
+// a component has a nonzero mean, when fewer than
 // 4n components have a positive variance (the surrogate would save little), when t is not a
 // positive finite number or when the rule fails (every node must lie inside the points with
 // a positive weight and give a positive variance).
 func Coarse(l Law, n int, t float64) (Law, bool) {
 	if n < 2 || n > MaxCoarse || !(t > 0) || math.IsInf(t, 1) {
+		return nil, false
+	}
+	if ls, isL := l.(laplaceScaler); isL && ls.laplaceScale() > 0 {
+		// Expect evaluates a Laplace law against a piecewise-linear prox in closed form
+		// (laplaceform.go), at the cost of a few components: a surrogate would cost more
+		// than it saves.
 		return nil, false
 	}
 	comps := componentsOf(l)
