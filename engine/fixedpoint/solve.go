@@ -692,7 +692,7 @@ func (s *solver) undetermined(r Result) error {
 // point on a design whose error is finite for every convex penalty; how adds detail.
 func errNotDetermined(s *solver, how string) error {
 	if sp := design.Spread(s.p.Design); sp > 1e6 {
-		return fieldErr("design", "the fixed point is not determined to double precision here%s: the penalty acts too weakly to fix the error against eigenvalues that spread over a factor %.3g; narrow that spread (raise design.min or the smallest of design.values) or strengthen the penalty", how, sp)
+		return fieldErr("design", "the fixed point is not determined to double precision here%s: the penalty acts too weakly to fix the error against eigenvalues that spread over a factor %.3g; narrow that spread (a larger smallest eigenvalue or singular value, or a smaller condition number) or strengthen the penalty", how, sp)
 	}
 	return fieldErr("penalty", "the fixed point is not determined to double precision here%s: the penalty acts too weakly to fix the error; strengthen the penalty, or move design.alpha away from 1", how)
 }
