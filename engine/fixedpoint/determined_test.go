@@ -98,3 +98,24 @@ func TestWeakRidgeIsNotLeastSquares(t *testing.T) {
 		t.Errorf("ridge 1e-17 solved as least squares: %+v", r)
 	}
 }
+
+// A quadrature path near noiseless recovery (a power penalty, q = 1.61, NMSE 4.7e-12; one
+// draw of 100000 in the property test) settles at a relative change of 1e-10 to 1e-9 against
+// the tolerance 1e-10: the rule's rounding. It is reported converged, with a note giving the
+// residual, at the point a looser tolerance reaches to 1e-9.
+func TestQuadratureSettles(t *testing.T) {
+	p := Problem{
+		Design:  must(design.Gaussian(13.812330783112287, design.AsGiven)),
+		Signal:  must(signal.BernoulliRademacher(0.004029176899156393, 5350.877112587737)),
+		Penalty: must(penalty.Power(0.0004740845640980157, 1.6093576505344076)),
+		Noise:   3.874351975795425e-30,
+	}
+	r, err := Solve(p, Options{})
+	if err != nil || !r.Converged || !strings.Contains(r.Note, "precision of the quadrature") || !(r.Residual < quadSettle*1e-10) {
+		t.Fatalf("%+v, %v", r, err)
+	}
+	loose, err := Solve(p, Options{Tol: 1e-9})
+	if err != nil || math.Abs(r.NMSE-loose.NMSE) > 1e-9*loose.NMSE {
+		t.Errorf("settled NMSE %v, at tolerance 1e-9 %v (%v)", r.NMSE, loose.NMSE, err)
+	}
+}
