@@ -39,7 +39,8 @@ const gramBlock = 128
 // singular value sigma has an absolute error of about eps sigma_max^2 / (2 sigma), that is a
 // relative error of about (eps/2) (sigma_max/sigma)^2: the Gram route squares the condition
 // number. Values above 1e-4 sigma_max keep about 8 correct digits; values below about
-// sqrt(k eps) sigma_max (k = min(m, n); GramTolerance) are at the level of the rounding and
+// sqrt(k eps) sigma_max (k = max(m, n), the length of the inner products that form G;
+// GramTolerance) are at the level of the rounding and
 // may come out as any number down to 0 (a negative eigenvalue is returned as 0). A direct
 // SVD would be accurate to eps sigma_max in every value, at about four times the cost.
 //
