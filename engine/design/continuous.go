@@ -20,42 +20,32 @@ const (
 	panelNodes = 24    // Gauss-Legendre nodes per panel
 	panelRatio = 0.1   // ratio of the ends of a graded panel
 	logPanel   = 3.0   // longest panel in log sigma
-	floorRel   = 1e-12 // graded panels stop at this fraction of the largest eigenvalue
+	floorRel   = 1e-12 // panels of a support reaching 0 stop at this fraction of the largest eigenvalue
 	maxCond    = 1e15  // largest condition number accepted by GeometricSV
 )
 
-// graded returns nodes and weights of a composite Gauss-Legendre rule on [lo, hi],
-// 0 <= lo < hi, whose panels [r t, t] shrink from hi towards 0 until they reach lo or
-// floor; the last panel ends at lo. The weights sum to hi - lo.
-func graded(lo, hi, floor float64) (x, w []float64) {
-	x, w, top := gradedAbove(lo, hi, floor)
-	return appendPanel(x, w, lo, top)
-}
-
-// gradedAbove is graded without its last panel: it returns the panels down to top, the end
-// below which graded would put one panel [lo, top].
-func gradedAbove(lo, hi, floor float64) (x, w []float64, top float64) {
-	top = hi
+// flatRule returns nodes and weights of a composite Gauss-Legendre rule for a uniform shape
+// whose density is flat in x on [lo, hi], 0 <= lo < hi: panels [r t, t] shrinking from hi
+// towards 0. When lo > 0 they reach lo (the last panel ends there), which keeps every pole
+// of the transforms' integrands at least 2 r/(1 - r) half-widths from its panel whatever g
+// (docs/method.md section 5; the solver's MaxSpread bounds the panels to some 30), and the
+// weights sum to hi - lo. When lo = 0 they stop at floor, and the rest, [0, cell], is left to
+// the closed form of flatCell, since there the integrand 1/(x + g) varies on the scale g,
+// which may be far below any panel.
+func flatRule(lo, hi, floor float64) (x, w []float64, cell float64) {
+	if lo > 0 {
+		floor = 0
+	}
+	top := hi
 	for top*panelRatio > lo && top*panelRatio >= floor {
 		x, w = appendPanel(x, w, top*panelRatio, top)
 		top *= panelRatio
 	}
-	return x, w, top
-}
-
-// flatRule is the rule of a uniform shape with its density flat in x on [lo, hi]: graded
-// panels down to lo when lo > 0, which keeps every pole of the transforms' integrands at
-// least 2 r/(1 - r) half-widths from its panel whatever g (section 5 of docs/method.md; the
-// solver's MaxSpread bounds the panels to some 30); when lo = 0, graded panels down to floor
-// and below them the cell [0, cell], whose part of the transforms is integrated in closed
-// form (flatCell), since there the integrand 1/(x + g) varies on the scale g, which may be
-// far below any panel.
-func flatRule(lo, hi, floor float64) (x, w []float64, cell float64) {
 	if lo > 0 {
-		x, w = graded(lo, hi, 0)
+		x, w = appendPanel(x, w, lo, top)
 		return x, w, 0
 	}
-	return gradedAbove(0, hi, floor)
+	return x, w, top
 }
 
 func appendPanel(x, w []float64, lo, hi float64) ([]float64, []float64) {

@@ -120,9 +120,9 @@ func (d *atoms) spread() float64 {
 	return hi / lo
 }
 
-// The uniform shapes state their spread from their bounds: their discretization stops
-// grading at 1e-12 of the largest eigenvalue, so that its atoms alone understate it. A
-// lower bound of 0 is the case of ReachesZero instead.
+// The uniform shapes state their spread from their bounds: their atoms are Gauss nodes
+// inside the panels, so that they alone understate it. A lower bound of 0 is the case of
+// ReachesZero instead.
 func (l *uniformSV) spread() float64 {
 	if l.lo == 0 {
 		return 1

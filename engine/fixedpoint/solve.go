@@ -305,13 +305,14 @@ func (s *solver) solve(start *State, sc, mean float64) (Result, error) {
 	// with no l2) gives the other two g1 = 1/t in units of x0^2, not of the eigenvalues,
 	// 5e195 for a signal of power 2e-196, where the iteration leaves the range at once.
 	starts := []State{s.coldStart(2), s.coldStart(4), {G1: 1, T1: s.rho2 + s.p.Noise}}
+	cold := 0 // the index of the first cold start: after the warm one, if any
 	if st := start; st != nil && st.G1 > 0 && st.T1 > 0 && !math.IsInf(st.G1+st.T1, 0) {
 		w := State{G1: st.G1 / mean, T1: st.T1 / sc / sc}
 		if w.G1 > 0 && w.T1 > 0 && !math.IsInf(w.G1+w.T1, 0) {
 			starts = append([]State{w}, starts...)
+			cold = 1
 		}
 	}
-	cold := len(starts) - 3 // the index of the first cold start
 	var last Result
 	for i, st := range starts {
 		if i == cold && !s.o.noCoarse {
@@ -606,34 +607,34 @@ func (s *solver) jacobianBy(g1, t1 float64, cur image, central bool) ([2][2]floa
 		jac[1][1]--
 		return jac, finiteAll(jac[0][0], jac[0][1], jac[1][0], jac[1][1])
 	}
-	for k := 0; k < 2; k++ {
+	// F at x moved by step along coordinate k.
+	at := func(k int, step float64) ([2]float64, bool) {
 		pg, pt := g1, t1
 		if k == 0 {
-			pg *= math.Exp(h)
+			pg *= math.Exp(step)
 		} else {
-			pt *= math.Exp(h)
+			pt *= math.Exp(step)
 		}
 		im, err := s.apply(pg, pt, cur.g2)
 		if err != nil || !(im.t1 > 0) {
+			return [2]float64{}, false
+		}
+		return [2]float64{math.Log(im.g1 / pg), math.Log(im.t1 / pt)}, true
+	}
+	for k := 0; k < 2; k++ {
+		fk, ok := at(k, h)
+		if !ok {
 			return jac, false
 		}
-		fk := [2]float64{math.Log(im.g1 / pg), math.Log(im.t1 / pt)}
-		jac[0][k] = (fk[0] - f0[0]) / h
-		jac[1][k] = (fk[1] - f0[1]) / h
+		lo, step := f0, h
 		if central {
-			pg, pt = g1, t1
-			if k == 0 {
-				pg *= math.Exp(-h)
-			} else {
-				pt *= math.Exp(-h)
-			}
-			im, err := s.apply(pg, pt, cur.g2)
-			if err != nil || !(im.t1 > 0) {
+			if lo, ok = at(k, -h); !ok {
 				return jac, false
 			}
-			jac[0][k] = (fk[0] - math.Log(im.g1/pg)) / (2 * h)
-			jac[1][k] = (fk[1] - math.Log(im.t1/pt)) / (2 * h)
+			step = 2 * h
 		}
+		jac[0][k] = (fk[0] - lo[0]) / step
+		jac[1][k] = (fk[1] - lo[1]) / step
 	}
 	return jac, true
 }

@@ -171,7 +171,10 @@ func gaussRule(comps []Component, t, xmax float64, nodes, weights []float64) boo
 // shift and deflation (Golub & Van Loan 2013, "Matrix Computations", 4th ed., section 8.3),
 // written on the diagonal d and the off-diagonal e with the bulge of the step held apart,
 // accumulating only the first row of the product of the rotations. It reports whether the
-// steps converged and every node lies in (0, 1] with a positive weight.
+// steps converged and every node lies in (0, 1] with a positive weight. (gonum's Dsteqr on the
+// same arrays gives the same rule but moves them to the heap and updates the whole
+// eigenvector matrix: measured, 1.6 -> 2.4 us a surrogate and the Student-t LASSO about 15 %
+// slower; TestCoarseRuleMatchesGaussOfPoints checks this rule against gonum's EigenSym.)
 func jacobiEigen(alpha, beta, nodes, weights []float64) bool {
 	n := len(alpha)
 	var d, e, q [MaxCoarse]float64 // q: the first row of the accumulated rotations

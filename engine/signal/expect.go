@@ -98,14 +98,13 @@ func expect(l Law, p penalty.Penalty, g, t float64, wantSlopes bool, stopA float
 	}
 	if ls, isL := l.(laplaceScaler); isL && t > 0 && len(pieces) <= lapMaxPieces {
 		if b := ls.laplaceScale(); b > 0 {
-			var d [lapMaxPieces]lapPiece
-			haveD := wantSlopes && lapDerivs(p, g, pieces, d[:len(pieces)])
-			var ds []lapPiece
-			if haveD {
-				ds = d[:len(pieces)]
+			var buf [lapMaxPieces]lapPiece
+			d := buf[:len(pieces)]
+			if !wantSlopes || !lapDerivs(p, g, pieces, d) {
+				d = nil
 			}
-			if m, sl, ok := expectLaplace(b, pieces, ds, t); ok {
-				return m, sl, haveD
+			if m, sl, ok := expectLaplace(b, pieces, d, t); ok {
+				return m, sl, d != nil
 			}
 		}
 	}

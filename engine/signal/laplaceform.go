@@ -162,31 +162,28 @@ type lapPiece struct {
 	dSlope, dIntercept, dHi float64
 }
 
-// lapMaxPieces bounds the pieces the closed forms take (on the stack); more go to the mixture.
+// lapMaxPieces bounds the pieces the closed forms take (on the stack); expect gives more to
+// the mixture.
 const lapMaxPieces = 8
 
 // expectLaplace returns the moments of the channel for the Laplace law of scale b and the
-// pieces at noise t > 0, with their slopes when d (the derivatives of the pieces) is given;
-// ok is false where the closed forms do not serve (S out of [laplaceSmall, laplaceLarge], too
-// many pieces, a result that is not finite), and the caller then uses the mixture.
+// pieces (at most lapMaxPieces) at noise t > 0, with their slopes when d (the derivatives of
+// the pieces) is given; ok is false where the closed forms do not serve (S out of
+// [laplaceSmall, laplaceLarge], a result that is not finite), and the caller then uses the
+// mixture.
 func expectLaplace(b float64, pieces []penalty.Piece, d []lapPiece, t float64) (m Moments, sl Slopes, ok bool) {
 	sigma := math.Sqrt(t)
-	S := sigma / b
-	if !(S >= laplaceSmall && S <= laplaceLarge) || len(pieces) > lapMaxPieces {
+	if S := sigma / b; !(S >= laplaceSmall && S <= laplaceLarge) {
 		return m, sl, false
 	}
-	return expectLaplaceAny(b, pieces, d, t)
-}
-
-func expectLaplaceAny(b float64, pieces []penalty.Piece, d []lapPiece, t float64) (m Moments, sl Slopes, ok bool) {
-	sigma := math.Sqrt(t)
 	n := len(pieces)
 	var pos, neg [lapMaxPieces]lapPiece
 	symmetric := true
-	for i, q := range pieces {
-		pos[i].Piece = q
-		if d != nil {
-			pos[i] = d[i]
+	if d != nil {
+		copy(pos[:], d)
+	} else {
+		for i, q := range pieces {
+			pos[i].Piece = q
 		}
 	}
 	// The law of -X against the prox is the law of X against its mirror image: r -> -r maps
@@ -205,15 +202,16 @@ func expectLaplaceAny(b float64, pieces []penalty.Piece, d []lapPiece, t float64
 			symmetric = false
 		}
 	}
+	// Each half has weight 1/2; for a symmetric prox the two halves are the same.
 	var h lapHalf
 	h.add(b, sigma, t, pos[:n], d != nil)
-	if symmetric {
-		h.scale(2)
-	} else {
+	w := 1.0
+	if !symmetric {
 		h.add(b, sigma, t, neg[:n], d != nil)
+		w = 0.5
 	}
-	m = Moments{MSE: h.mse / 2, A: h.a / 2, NonZero: h.nz / 2, TruePos: h.nz / 2, Active: 1}
-	sl = Slopes{MSEg: h.sl.MSEg / 2, MSEt: h.sl.MSEt / 2, Ag: h.sl.Ag / 2, At: h.sl.At / 2}
+	m = Moments{MSE: w * h.mse, A: w * h.a, NonZero: w * h.nz, TruePos: w * h.nz, Active: 1}
+	sl = Slopes{MSEg: w * h.sl.MSEg, MSEt: w * h.sl.MSEt, Ag: w * h.sl.Ag, At: w * h.sl.At}
 	if !finiteAll4(m.MSE, m.A, m.NonZero, 0) || !finiteAll4(sl.MSEg, sl.MSEt, sl.Ag, sl.At) {
 		return Moments{}, Slopes{}, false
 	}
@@ -224,11 +222,6 @@ func expectLaplaceAny(b float64, pieces []penalty.Piece, d []lapPiece, t float64
 type lapHalf struct {
 	mse, a, nz float64
 	sl         Slopes
-}
-
-func (h *lapHalf) scale(c float64) {
-	h.mse, h.a, h.nz = c*h.mse, c*h.a, c*h.nz
-	h.sl = Slopes{c * h.sl.MSEg, c * h.sl.MSEt, c * h.sl.Ag, c * h.sl.At}
 }
 
 // add adds the moments of R against the pieces (docs/method.md section 6.1). On a piece
