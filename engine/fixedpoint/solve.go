@@ -394,6 +394,8 @@ func (s *solver) fromCoarse() (Result, bool) {
 	if err != nil || !r.Converged || r.EstimateZero || r.Floor {
 		return Result{}, false
 	}
+	// Iterations then counts the steps with the signal's own law (those that cost), not the
+	// surrogate's.
 	r, err = s.run(r.State())
 	if err != nil || !r.Converged || r.EstimateZero || r.Floor || r.T1 > suspectT*(s.rho2+s.p.Noise) {
 		return Result{}, false
