@@ -59,7 +59,8 @@ func longSpectrum(t *testing.T) scenario.Scenario {
 	return s
 }
 
-// downloadsTo has the browser save downloads in a new folder, with events, and returns it.
+// downloadsTo has the test's browser context save downloads in a new folder, with events, and
+// returns it.
 func (b *browser) downloadsTo(t *testing.T) string {
 	t.Helper()
 	dir, err := os.MkdirTemp("", "hdrisk-downloads-")
@@ -68,7 +69,8 @@ func (b *browser) downloadsTo(t *testing.T) string {
 	}
 	t.Cleanup(func() { os.RemoveAll(dir) })
 	if err := chromedp.Run(b.ctx, cdpbrowser.SetDownloadBehavior(cdpbrowser.SetDownloadBehaviorBehaviorAllowAndName).
-		WithDownloadPath(dir).WithEventsEnabled(true)); err != nil {
+		WithDownloadPath(dir).WithEventsEnabled(true).
+		WithBrowserContextID(b.context)); err != nil {
 		t.Fatalf("download folder: %v", err)
 	}
 	return dir

@@ -4,14 +4,12 @@ import (
 	"context"
 	"encoding/csv"
 	"math"
-	"os"
 	"reflect"
 	"strconv"
 	"strings"
 	"testing"
 	"time"
 
-	cdpbrowser "github.com/chromedp/cdproto/browser"
 	"github.com/chromedp/chromedp"
 
 	"hdrisk/engine/fixedpoint"
@@ -125,15 +123,7 @@ func TestOneBitInPage(t *testing.T) {
 
 	// The curve view: first a 200-point sweep over m/n, timed by the page's own marks
 	// (logged, not asserted), then m/n from 0.5 to 4 (8 points) drawn once per bit depth.
-	downloads, err := os.MkdirTemp("", "hdrisk-downloads-")
-	if err != nil {
-		t.Fatal(err)
-	}
-	t.Cleanup(func() { os.RemoveAll(downloads) })
-	if err := chromedp.Run(b.ctx, cdpbrowser.SetDownloadBehavior(cdpbrowser.SetDownloadBehaviorBehaviorAllowAndName).
-		WithDownloadPath(downloads).WithEventsEnabled(true)); err != nil {
-		t.Fatalf("download folder: %v", err)
-	}
+	downloads := b.downloadsTo(t)
 	b.studyClick(t, "#tab-curve")
 	b.studyWait(t, "[data-view=curve]", "data-run", 5*time.Second, "idle")
 	b.cdChoose(t, "#curve-over", "alpha")

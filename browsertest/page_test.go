@@ -15,9 +15,11 @@ import (
 	"testing"
 	"time"
 
+	"github.com/chromedp/cdproto/cdp"
 	cdplog "github.com/chromedp/cdproto/log"
 	"github.com/chromedp/cdproto/network"
 	"github.com/chromedp/cdproto/runtime"
+	"github.com/chromedp/cdproto/target"
 	"github.com/chromedp/chromedp"
 	"github.com/chromedp/chromedp/kb"
 
@@ -32,6 +34,7 @@ var figureNames = []string{"mse", "nmse_db", "susceptibility", "nonzero_fraction
 // browser is a running headless Chromium with the page open and every request recorded.
 type browser struct {
 	ctx      context.Context
+	context  cdp.BrowserContextID // the test's own storage, as a fresh profile
 	pageURL  string
 	mu       sync.Mutex
 	requests []string
@@ -87,41 +90,100 @@ func pagePath(t *testing.T) string {
 	return need(t, "the built page", p, err)
 }
 
-// open starts Chromium with networking emulated off and navigates to the page. It returns the
-// browser and the time navigation began.
+// The package's tests share one Chromium process, started by the first test that needs it and
+// ended by TestMain. Each open gets a browser context of its own (Target.createBrowserContext:
+// its own storage, cookies and downloads, as a fresh profile has) and one tab in it, so no state
+// passes from one test to the next except through what a test hands over itself, such as a link.
+// One launch for the package instead of one per test also removes about 30 process starts from
+// CI, each a chance for the browser to fail before the test begins.
+var shared struct {
+	once    sync.Once
+	ctx     context.Context
+	cancel  func()
+	profile string
+	err     error
+}
+
+// sharedBrowser starts the package's Chromium once and returns a context on it.
+func sharedBrowser(t *testing.T) context.Context {
+	t.Helper()
+	exe := chromium(t)
+	shared.once.Do(func() {
+		profile, err := os.MkdirTemp("", "hdrisk-chromium-")
+		if err != nil {
+			shared.err = err
+			return
+		}
+		opts := []chromedp.ExecAllocatorOption{
+			chromedp.ExecPath(exe),
+			chromedp.Flag("headless", true),
+			chromedp.Flag("no-sandbox", true),
+			chromedp.Flag("disable-gpu", true),
+			chromedp.Flag("no-first-run", true),
+			chromedp.Flag("disable-background-networking", true),
+			chromedp.Flag("disable-component-update", true),
+			chromedp.Flag("disable-sync", true),
+			// Shared memory in /tmp rather than /dev/shm, which may be small in a container.
+			// Debian's launcher means to add this flag when /dev/shm is small, but its test
+			// breaks when findmnt reports /dev/shm twice.
+			chromedp.Flag("disable-dev-shm-usage", true),
+			chromedp.UserDataDir(profile),
+			chromedp.WindowSize(1280, 1000),
+		}
+		actx, cancelA := chromedp.NewExecAllocator(context.Background(), opts...)
+		ctx, cancelC := chromedp.NewContext(actx)
+		shared.profile = profile
+		shared.ctx = ctx
+		shared.cancel = func() { cancelC(); cancelA() }
+		shared.err = chromedp.Run(ctx) // starts the browser
+	})
+	if shared.err != nil {
+		t.Fatalf("starting chromium: %v", shared.err)
+	}
+	return shared.ctx
+}
+
+func TestMain(m *testing.M) {
+	code := m.Run()
+	if shared.cancel != nil {
+		shared.cancel()
+		// Chromium's helper processes may still be writing the profile for a moment.
+		for i := 0; i < 20 && os.RemoveAll(shared.profile) != nil; i++ {
+			time.Sleep(100 * time.Millisecond)
+		}
+	}
+	os.Exit(code)
+}
+
+// open opens a new tab in a new browser context of the shared Chromium, turns networking off
+// and navigates to the page. It returns the browser and the time navigation began.
 func open(t *testing.T) (*browser, time.Time) {
 	t.Helper()
-	exe, page := chromium(t), pagePath(t)
-	profile, err := os.MkdirTemp("", "hdrisk-chromium-")
+	page := pagePath(t)
+	parent := sharedBrowser(t)
+	// The context and its tab are made here rather than by chromedp.WithNewBrowserContext,
+	// which asks for the tab without a window of its own; Chromium then refuses it ("no browser
+	// is open") when the new context has no window yet.
+	exec := cdp.WithExecutor(parent, chromedp.FromContext(parent).Browser)
+	bcid, err := target.CreateBrowserContext().Do(exec)
 	if err != nil {
-		t.Fatal(err)
+		t.Fatalf("a browser context: %v", err)
 	}
-	opts := []chromedp.ExecAllocatorOption{
-		chromedp.ExecPath(exe),
-		chromedp.Flag("headless", true),
-		chromedp.Flag("no-sandbox", true),
-		chromedp.Flag("disable-gpu", true),
-		chromedp.Flag("no-first-run", true),
-		chromedp.Flag("disable-background-networking", true),
-		chromedp.Flag("disable-component-update", true),
-		chromedp.Flag("disable-sync", true),
-		chromedp.UserDataDir(profile),
-		chromedp.WindowSize(1280, 1000),
+	tid, err := target.CreateTarget("about:blank").WithBrowserContextID(bcid).WithNewWindow(true).Do(exec)
+	if err != nil {
+		t.Fatalf("a tab: %v", err)
 	}
-	actx, cancelA := chromedp.NewExecAllocator(context.Background(), opts...)
-	ctx, cancelC := chromedp.NewContext(actx)
+	ctx, cancelC := chromedp.NewContext(parent, chromedp.WithTargetID(tid))
 	ctx, cancelT := context.WithTimeout(ctx, 90*time.Second)
 	t.Cleanup(func() {
 		cancelT()
-		cancelC()
-		cancelA()
-		// Chromium's helper processes may still be writing the profile for a moment.
-		for i := 0; i < 20 && os.RemoveAll(profile) != nil; i++ {
-			time.Sleep(100 * time.Millisecond)
+		cancelC() // detaches from the tab and closes it
+		if err := target.DisposeBrowserContext(bcid).Do(exec); err != nil {
+			t.Errorf("disposing of the browser context: %v", err)
 		}
 	})
 
-	b := &browser{ctx: ctx, pageURL: "file://" + page}
+	b := &browser{ctx: ctx, context: bcid, pageURL: "file://" + page}
 	chromedp.ListenTarget(ctx, func(ev any) {
 		switch e := ev.(type) {
 		case *network.EventRequestWillBeSent:

@@ -174,7 +174,7 @@ func TestShareHostileTitle(t *testing.T) {
 }
 
 // TestShareLinkTravels opens a link, changes a field, copies the link from the page, opens it
-// in a fresh browser (its own profile: nothing shared but the link) and finds the same
+// in a fresh browser context (storage of its own: nothing shared but the link) and finds the same
 // figures; then reopens the page without a link and finds the autosaved scenario.
 func TestShareLinkTravels(t *testing.T) {
 	b, _ := open(t)

@@ -173,15 +173,7 @@ func TestStudiesInPage(t *testing.T) {
 		chromedp.WithPollingTimeout(30*time.Second))); err != nil {
 		t.Fatalf("the worker pool never appeared: %v", err)
 	}
-	downloads, err := os.MkdirTemp("", "hdrisk-downloads-")
-	if err != nil {
-		t.Fatal(err)
-	}
-	t.Cleanup(func() { os.RemoveAll(downloads) })
-	if err := chromedp.Run(b.ctx, cdpbrowser.SetDownloadBehavior(cdpbrowser.SetDownloadBehaviorBehaviorAllowAndName).
-		WithDownloadPath(downloads).WithEventsEnabled(true)); err != nil {
-		t.Fatalf("download folder: %v", err)
-	}
+	downloads := b.downloadsTo(t)
 	t.Logf("workers ready for work %v after the pool appeared", b.studyWarm(t, size).Round(time.Millisecond))
 	ch := ui.NewModel().Check()
 	if ch.Err != nil {
