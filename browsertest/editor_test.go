@@ -80,9 +80,9 @@ func (b *browser) focusEmpty(t *testing.T, sel string) {
 // viewShot saves what the window shows (not the whole page) at the given size.
 func (b *browser) viewShot(t *testing.T, name string, w, h int64) {
 	t.Helper()
+	b.viewport(t, w, h)
 	var png []byte
-	if err := chromedp.Run(b.ctx, emulation.SetDeviceMetricsOverride(w, h, 1, false), chromedp.Sleep(300*time.Millisecond),
-		chromedp.CaptureScreenshot(&png)); err != nil {
+	if err := chromedp.Run(b.ctx, chromedp.CaptureScreenshot(&png)); err != nil {
 		t.Fatalf("screenshot %s: %v", name, err)
 	}
 	dir := filepath.Join("..", "dist", "screenshots")

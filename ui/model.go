@@ -224,8 +224,8 @@ func newKind(group, name, help string, ps []param.Param) Kind {
 
 // Scales are the choices of design.scale (contract 1, docs/method.md section 1).
 var Scales = []Kind{
-	{Name: scenario.ScaleRows, Label: "Rows of unit norm (E λ = m/n)", Help: "each row of F has unit norm on average: more measurements carry more information"},
-	{Name: scenario.ScaleColumns, Label: "Columns of unit norm (E λ = 1)", Help: "each column of F has unit norm on average: the usual convention of compressed sensing"},
+	{Name: scenario.ScaleRows, Label: "Unit-norm rows (E λ = m/n)", Help: "each row of F has unit norm on average: more measurements carry more information"},
+	{Name: scenario.ScaleColumns, Label: "Unit-norm columns (E λ = 1)", Help: "each column of F has unit norm on average: the usual convention of compressed sensing"},
 	{Name: scenario.ScaleAsGiven, Label: "As given", Help: "the singular values are used exactly as stated"},
 }
 
