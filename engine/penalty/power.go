@@ -140,12 +140,27 @@ func (p power) Branch(u, g float64) (x, dxdu, r, drdu float64) {
 	k := p.q * p.weight / g
 	e := p.q - 1
 	if e > 1 {
-		ue := math.Pow(u, e)
+		ue := powOf(u, e)
 		return u, 1, u + k*ue, 1 + k*e*ue/u
 	}
-	x = math.Pow(u, 1/e)
+	x = powOf(u, 1/e)
 	dxdu = x / (e * u)
 	return x, dxdu, x + k*u, dxdu + k
+}
+
+// powOf is math.Pow(u, y) for u >= 0. The exponents Branch meets for the usual q (1.5, 2.5
+// and 3) are a product or a square root, exact to rounding and several times cheaper than
+// math.Pow, which costs about a quarter of an expectation with q = 1.5 otherwise.
+func powOf(u, y float64) float64 {
+	switch y {
+	case 2:
+		return u * u
+	case 1.5:
+		return u * math.Sqrt(u)
+	case 0.5:
+		return math.Sqrt(u)
+	}
+	return math.Pow(u, y)
 }
 
 // BranchAt returns the u of Branch at r > 0: prox(r; g)^e for q < 2, prox(r; g) for q > 2.
