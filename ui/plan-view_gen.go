@@ -144,7 +144,7 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							_ = vgparent
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
 							vgparent.AppendChild(vgn)
-							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "option", Attr: []vugu.VGAttribute{{Namespace: "", Key: "value", Val: "db"}}}
+							vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "option", Attr: []vugu.VGAttribute{{Namespace: "", Key: "value", Val: "db"}, vugu.VGAttribute{Namespace: "", Key: "title", Val: "10 log₁₀ (MSE / E x₀²)"}}}
 							vgparent.AppendChild(vgn)
 							{
 								b, err := vjson.Marshal(c.Unit() != "mse")
@@ -156,7 +156,7 @@ func (c *PlanView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 							{
 								vgparent := vgn
 								_ = vgparent
-								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "normalized error in dB (10 log₁₀ MSE / E x₀²)"}
+								vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "normalized error in dB"}
 								vgparent.AppendChild(vgn)
 							}
 							vgn = &vugu.VGNode{Type: vugu.VGNodeType(1), Data: "\n\t\t\t\t"}
