@@ -81,6 +81,14 @@ func expectBranch(l Law, p penalty.Penalty, b brancher, g, t float64) Moments {
 		return m
 	}
 	cuts := branchCuts(sides, b, e, g)
+	if ls, isL := l.(laplaceScaler); isL && t > 0 {
+		// A Laplace law through its posterior in closed form at each node, on the panels
+		// its mixture's components call for (docs/method.md section 6.2).
+		if lb, sigma := ls.laplaceScale(), math.Sqrt(t); lb > 0 && sigma >= lapBranchSmall*lb && sigma <= lapBranchLarge*lb {
+			m.MSE, m.A = branchLaplace(b, g, cuts, lb, sigma)
+			return m
+		}
+	}
 	var mse, a float64
 	// The components a panel can reach: r(u) increases with u, so a component whose
 	// quadSpan + 1 standard deviations miss [r(lo), r(hi)] is skipped at every node of the
@@ -118,6 +126,24 @@ func expectBranch(l Law, p penalty.Penalty, b brancher, g, t float64) Moments {
 	m.MSE += mse
 	m.A += a
 	return m
+}
+
+// branchLaplace integrates the MSE and A of a Laplace law of scale lb at noise sigma along
+// the branch b over the panels cuts, with laplaceNode at every node; both halves of the odd
+// prox count through the factor 2.
+func branchLaplace(b brancher, g float64, cuts []float64, lb, sigma float64) (mse, a float64) {
+	for i := 1; i < len(cuts); i++ {
+		h := (cuts[i] - cuts[i-1]) / 2
+		c := (cuts[i] + cuts[i-1]) / 2
+		for j, z := range legendreX {
+			x, dxdu, r, drdu := b.Branch(c+h*z, g)
+			p, e := laplaceNode(lb, sigma, r, x)
+			gw := 2 * legendreW[j] * h
+			mse += gw * drdu * e
+			a += gw * dxdu * p
+		}
+	}
+	return mse, a
 }
 
 // branchCuts returns the sorted panel ends in u for the components sides (see expectBranch).
