@@ -157,8 +157,6 @@ func powOf(u, y float64) float64 {
 		return u * u
 	case 1.5:
 		return u * math.Sqrt(u)
-	case 0.5:
-		return math.Sqrt(u)
 	}
 	return math.Pow(u, y)
 }

@@ -19,13 +19,11 @@ func TestPowOf(t *testing.T) {
 			r.Mul(b, b)
 		case 1.5:
 			r.Mul(b, new(big.Float).SetPrec(200).Sqrt(b))
-		case 0.5:
-			r.Sqrt(b)
 		}
 		f, _ := r.Float64()
 		return f
 	}
-	for _, y := range []float64{2, 1.5, 0.5} {
+	for _, y := range []float64{2, 1.5} {
 		for _, u := range []float64{5e-324, 1e-300, 1e-160, 1e-8, 0.3, 1, 2, 7.5, 1e10, 1e150} {
 			got, want := powOf(u, y), exact(u, y)
 			if math.Abs(got-want) > 2*ulp(want) {
@@ -36,7 +34,7 @@ func TestPowOf(t *testing.T) {
 	if got := powOf(0, 1.5); got != 0 {
 		t.Errorf("powOf(0, 1.5) = %g", got)
 	}
-	for _, y := range []float64{2.0000000000000004, 3.0000000000000004, 1.25, 0.75} {
+	for _, y := range []float64{2.0000000000000004, 3.0000000000000004, 1.25, 0.5} {
 		if got, want := powOf(0.37, y), math.Pow(0.37, y); got != want {
 			t.Errorf("powOf(0.37, %v) = %v, not math.Pow's %v", y, got, want)
 		}
