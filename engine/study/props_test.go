@@ -7,8 +7,10 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"runtime"
 	"sort"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 
@@ -174,10 +176,51 @@ func TestRandomScenarios(t *testing.T) {
 	}
 	var slowest []slow
 	var total time.Duration
+	// The draws come in order from the one generator; the solves, which are independent, run
+	// on every processor, and their outcomes are read in order below.
+	type outcome struct {
+		doc            string
+		decErr, preErr error
+		r              fixedpoint.Result
+		err            error
+		el             time.Duration
+	}
+	out := make([]outcome, n)
+	for i := range out {
+		out[i].doc = randomScenario(rng)
+	}
+	var wg sync.WaitGroup
+	next := make(chan int)
+	for range runtime.GOMAXPROCS(0) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				o := &out[i]
+				sc, err := scenario.Decode([]byte(o.doc))
+				if err != nil {
+					o.decErr = err
+					continue
+				}
+				p, err := sc.Problem()
+				if err != nil {
+					o.preErr = err
+					continue
+				}
+				t0 := time.Now()
+				o.r, o.err = fixedpoint.Solve(p, fixedpoint.Options{})
+				o.el = time.Since(t0)
+			}
+		}()
+	}
 	for i := range n {
-		doc := randomScenario(rng)
-		sc, err := scenario.Decode([]byte(doc))
-		if err != nil {
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	for i := range n {
+		doc := out[i].doc
+		if err := out[i].decErr; err != nil {
 			var fe *scenario.FieldError
 			if !errors.As(err, &fe) || fe.Field == "" {
 				t.Errorf("scenario %d: decoder refusal without a field: %v\n%s", i, err, doc)
@@ -186,8 +229,7 @@ func TestRandomScenarios(t *testing.T) {
 			reasons[fieldOf(err)]++
 			continue
 		}
-		p, err := sc.Problem()
-		if err != nil {
+		if err := out[i].preErr; err != nil {
 			counts["refused while building the problem"]++
 			reasons[fieldOf(err)]++
 			if fieldOf(err) == "" {
@@ -195,9 +237,7 @@ func TestRandomScenarios(t *testing.T) {
 			}
 			continue
 		}
-		t0 := time.Now()
-		r, err := fixedpoint.Solve(p, fixedpoint.Options{})
-		el := time.Since(t0)
+		r, err, el := out[i].r, out[i].err, out[i].el
 		total += el
 		if len(slowest) < 20 || el > slowest[len(slowest)-1].el {
 			slowest = append(slowest, slow{el, i, doc})
@@ -250,7 +290,7 @@ func TestRandomScenarios(t *testing.T) {
 	if beyond > 0 {
 		t.Errorf("%d of %d scenarios beyond the solver's reach (listed above), where none may be", beyond, n)
 	}
-	t.Logf("%d scenarios, %v in Solve; the slowest %d:", n, total, len(slowest))
+	t.Logf("%d scenarios, %v in Solve (summed over %d processors); the slowest %d:", n, total, runtime.GOMAXPROCS(0), len(slowest))
 	for _, sl := range slowest {
 		t.Logf("  scenario %d took %v: %s", sl.i, sl.el, sl.doc)
 	}
