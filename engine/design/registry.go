@@ -28,10 +28,13 @@ var (
 
 type lists = map[string][]float64
 
-var shapes = []struct {
+// shapeEntry is a shape of the registry with its constructor.
+type shapeEntry struct {
 	Shape
 	build func(alpha float64, s Scale, v map[string]float64, l lists) (Law, error)
-}{
+}
+
+var shapes = []shapeEntry{
 	{Shape{Name: "gaussian", Help: "i.i.d. Gaussian entries: Marchenko-Pastur eigenvalues"},
 		func(a float64, s Scale, _ map[string]float64, _ lists) (Law, error) { return Gaussian(a, s) }},
 	{Shape{Name: "orthogonal", Help: "all nonzero singular values equal: orthonormal rows (or columns)"},
@@ -61,11 +64,7 @@ var shapes = []struct {
 // Shapes lists every shape of the registry with its parameters, in a fixed order.
 // The result is a fresh copy.
 func Shapes() []Shape {
-	out := make([]Shape, len(shapes))
-	for i, k := range shapes {
-		out[i] = k.Clone()
-	}
-	return out
+	return param.List(shapes, func(e shapeEntry) Shape { return e.Clone() })
 }
 
 // New builds the law of the given shape from the sampling ratio, the scale and named
@@ -74,12 +73,7 @@ func Shapes() []Shape {
 // or unknown parameter with its own name as Field; values out of range as the
 // constructor reports them.
 func New(shape string, alpha float64, s Scale, params map[string]float64, lists map[string][]float64) (Law, error) {
-	i, err := param.Find("shape", "shape", shape, len(shapes), func(i int) string { return shapes[i].Name })
-	if err != nil {
-		return nil, err
-	}
-	k := shapes[i]
-	v, l, err := param.Gather("shape "+shape, k.Params, params, lists)
+	k, v, l, err := param.Lookup("shape", "shape", shape, shapes, func(e shapeEntry) (string, []param.Param) { return e.Name, e.Params }, params, lists)
 	if err != nil {
 		return nil, err
 	}

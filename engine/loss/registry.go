@@ -15,10 +15,13 @@ type Kind struct {
 	Params []param.Param
 }
 
-var kinds = []struct {
+// entry is a loss of the registry with its constructor.
+type entry struct {
 	Kind
 	build func(v map[string]float64) (Loss, error)
-}{
+}
+
+var kinds = []entry{
 	{Kind{"square", "least squares, (y - z)^2/2: today's estimator", false, nil},
 		func(map[string]float64) (Loss, error) { return Square(), nil }},
 	{Kind{"huber", "Huber: quadratic for small residuals, linear beyond the width (robust to outliers)", false, []param.Param{
@@ -35,23 +38,13 @@ var kinds = []struct {
 
 // Kinds lists every loss of the registry, in a fixed order; a fresh copy.
 func Kinds() []Kind {
-	out := make([]Kind, len(kinds))
-	for i, k := range kinds {
-		out[i] = k.Kind
-		out[i].Params = slices.Clone(k.Params)
-	}
-	return out
+	return param.List(kinds, func(e entry) Kind { k := e.Kind; k.Params = slices.Clone(k.Params); return k })
 }
 
 // New builds the loss of the given kind. An unknown kind is reported with Field "kind", a
 // missing or unknown parameter with its own name.
 func New(kind string, params map[string]float64) (Loss, error) {
-	i, err := param.Find("kind", "loss", kind, len(kinds), func(i int) string { return kinds[i].Name })
-	if err != nil {
-		return nil, err
-	}
-	k := kinds[i]
-	v, _, err := param.Gather("loss "+kind, k.Params, params, nil)
+	k, v, _, err := param.Lookup("kind", "loss", kind, kinds, func(e entry) (string, []param.Param) { return e.Name, e.Params }, params, nil)
 	if err != nil {
 		return nil, err
 	}

@@ -14,10 +14,13 @@ type Kind struct {
 	Params []param.Param
 }
 
-var kinds = []struct {
+// entry is a noise law of the registry with its constructor.
+type entry struct {
 	Kind
 	build func(variance float64, v map[string]float64) (Law, error)
-}{
+}
+
+var kinds = []entry{
 	{Kind{"gauss", "Gaussian noise: today's model", nil},
 		func(d float64, _ map[string]float64) (Law, error) { return Gauss(d) }},
 	{Kind{"laplace", "Laplace (double exponential) noise: heavier tails than Gaussian", nil},
@@ -38,24 +41,14 @@ var kinds = []struct {
 
 // Kinds lists every law of the registry, in a fixed order; a fresh copy.
 func Kinds() []Kind {
-	out := make([]Kind, len(kinds))
-	for i, k := range kinds {
-		out[i] = k.Kind
-		out[i].Params = slices.Clone(k.Params)
-	}
-	return out
+	return param.List(kinds, func(e entry) Kind { k := e.Kind; k.Params = slices.Clone(k.Params); return k })
 }
 
 // New builds the law of the given kind with the typical entry's variance and the kind's
 // own parameters. An unknown kind is reported with Field "law", a missing or unknown
 // parameter with its own name.
 func New(kind string, variance float64, params map[string]float64) (Law, error) {
-	i, err := param.Find("law", "law", kind, len(kinds), func(i int) string { return kinds[i].Name })
-	if err != nil {
-		return nil, err
-	}
-	k := kinds[i]
-	v, _, err := param.Gather("law "+kind, k.Params, params, nil)
+	k, v, _, err := param.Lookup("law", "law", kind, kinds, func(e entry) (string, []param.Param) { return e.Name, e.Params }, params, nil)
 	if err != nil {
 		return nil, err
 	}

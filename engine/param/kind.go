@@ -80,3 +80,31 @@ func Names(ps []Param) string {
 	}
 	return strings.Join(n, ", ")
 }
+
+// Lookup is the body of every registry's New: it finds the entry called want among entries,
+// whose name and parameters parts gives (Find: an unknown name is an *Error under field), and
+// checks the numbers and lists given for it (Gather, which names the entry "NOUN want"). It
+// returns the entry with the numbers and lists to build it from.
+func Lookup[E any](field, noun, want string, entries []E, parts func(E) (string, []Param), nums map[string]float64, lists map[string][]float64) (E, map[string]float64, map[string][]float64, error) {
+	var zero E
+	i, err := Find(field, noun, want, len(entries), func(i int) string { n, _ := parts(entries[i]); return n })
+	if err != nil {
+		return zero, nil, nil, err
+	}
+	_, ps := parts(entries[i])
+	v, l, err := Gather(noun+" "+want, ps, nums, lists)
+	if err != nil {
+		return zero, nil, nil, err
+	}
+	return entries[i], v, l, nil
+}
+
+// List returns kind(e) for every entry, in order: a registry's listing of its kinds, where
+// kind returns a copy that the caller may change (with its own Params).
+func List[E, K any](entries []E, kind func(E) K) []K {
+	out := make([]K, len(entries))
+	for i, e := range entries {
+		out[i] = kind(e)
+	}
+	return out
+}

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -131,5 +132,27 @@ func TestFind(t *testing.T) {
 	_, err := Find("kind", "penalty", "lasso", len(names), name)
 	if want := `kind: unknown penalty "lasso" (known: l1, ridge)`; err == nil || err.Error() != want {
 		t.Errorf("lasso: %v, want %s", err, want)
+	}
+}
+
+func TestLookup(t *testing.T) {
+	type entry struct {
+		name string
+		ps   []Param
+	}
+	entries := []entry{{"l1", []Param{{Name: "l1", Max: math.Inf(1)}}}, {"ridge", []Param{{Name: "l2", Max: math.Inf(1)}}}}
+	parts := func(e entry) (string, []Param) { return e.name, e.ps }
+	e, v, _, err := Lookup("kind", "penalty", "ridge", entries, parts, map[string]float64{"l2": 0.5}, nil)
+	if err != nil || e.name != "ridge" || v["l2"] != 0.5 {
+		t.Errorf("ridge: %+v %v %v", e, v, err)
+	}
+	_, _, _, err = Lookup("kind", "penalty", "lasso", entries, parts, nil, nil)
+	if want := `kind: unknown penalty "lasso" (known: l1, ridge)`; err == nil || err.Error() != want {
+		t.Errorf("lasso: %v, want %s", err, want)
+	}
+	_, _, _, err = Lookup("kind", "penalty", "ridge", entries, parts, map[string]float64{"l1": 1}, nil)
+	var pe *Error
+	if !errors.As(err, &pe) || pe.Field != "l2" || !strings.Contains(err.Error(), "penalty ridge") {
+		t.Errorf("ridge given l1: %v, want a missing l2 of penalty ridge", err)
 	}
 }

@@ -90,23 +90,14 @@ func Register(k Kind, build func(v map[string]float64) (Penalty, error)) error {
 // Kinds lists every penalty of the registry with its parameters, in a fixed order.
 // The result is a fresh copy.
 func Kinds() []Kind {
-	out := make([]Kind, len(kinds))
-	for i, k := range kinds {
-		out[i] = k.Clone()
-	}
-	return out
+	return param.List(kinds, func(e entry) Kind { return e.Clone() })
 }
 
 // New builds the penalty of the given kind from named parameters (the names of Kinds).
 // Optional parameters left out take their Default. An unknown kind is reported with Field
 // "kind"; a missing, unknown or out-of-range parameter with its own name as Field.
 func New(kind string, params map[string]float64) (Penalty, error) {
-	i, err := param.Find("kind", "penalty", kind, len(kinds), func(i int) string { return kinds[i].Name })
-	if err != nil {
-		return nil, err
-	}
-	k := kinds[i]
-	v, _, err := param.Gather("penalty "+kind, k.Params, params, nil)
+	k, v, _, err := param.Lookup("kind", "penalty", kind, kinds, func(e entry) (string, []param.Param) { return e.Name, e.Params }, params, nil)
 	if err != nil {
 		return nil, err
 	}

@@ -15,10 +15,13 @@ type Kind struct {
 	Params []param.Param
 }
 
-var kinds = []struct {
+// entry is a readout of the registry with its constructor.
+type entry struct {
 	Kind
 	build func(v map[string]float64) (Readout, error)
-}{
+}
+
+var kinds = []entry{
 	{Kind{"linear", "y = F x0 + w: today's model", false, nil},
 		func(map[string]float64) (Readout, error) { return Linear(), nil }},
 	{Kind{"sign", "y = sign(F x0 + w): a 1-bit converter or a noisy label", true, nil},
@@ -40,23 +43,13 @@ var kinds = []struct {
 
 // Kinds lists every readout of the registry, in a fixed order; a fresh copy.
 func Kinds() []Kind {
-	out := make([]Kind, len(kinds))
-	for i, k := range kinds {
-		out[i] = k.Kind
-		out[i].Params = slices.Clone(k.Params)
-	}
-	return out
+	return param.List(kinds, func(e entry) Kind { k := e.Kind; k.Params = slices.Clone(k.Params); return k })
 }
 
 // New builds the readout of the given kind. An unknown kind is reported with Field "kind",
 // a missing or unknown parameter with its own name.
 func New(kind string, params map[string]float64) (Readout, error) {
-	i, err := param.Find("kind", "readout", kind, len(kinds), func(i int) string { return kinds[i].Name })
-	if err != nil {
-		return nil, err
-	}
-	k := kinds[i]
-	v, _, err := param.Gather("readout "+kind, k.Params, params, nil)
+	k, v, _, err := param.Lookup("kind", "readout", kind, kinds, func(e entry) (string, []param.Param) { return e.Name, e.Params }, params, nil)
 	if err != nil {
 		return nil, err
 	}

@@ -22,10 +22,13 @@ var (
 	pAmplitude = param.Param{Name: "amplitude", Unit: "units of x0", Max: inf, MaxOpen: true, Log: true, Role: param.Scale, Help: "size of a nonzero entry, equally often positive and negative"}
 )
 
-var laws = []struct {
+// lawEntry is a law of the registry with its constructor.
+type lawEntry struct {
 	Kind
 	build func(v map[string]float64, l map[string][]float64) (Law, error)
-}{
+}
+
+var laws = []lawEntry{
 	{Kind{"gauss", "Gaussian entries with mean 0: a dense signal", true, []param.Param{
 		{Name: "variance", Unit: "units of x0 squared", Max: inf, MaxOpen: true, Log: true, Role: param.Scale, Help: "variance of every entry"}}},
 		func(v map[string]float64, _ map[string][]float64) (Law, error) { return Gauss(v["variance"]) }},
@@ -62,12 +65,7 @@ var laws = []struct {
 // Laws lists every law of the registry with its parameters, in a fixed order. The result is a
 // fresh copy.
 func Laws() []Kind {
-	out := make([]Kind, len(laws))
-	for i, k := range laws {
-		out[i] = k.Kind
-		out[i].Params = slices.Clone(k.Params)
-	}
-	return out
+	return param.List(laws, func(e lawEntry) Kind { k := e.Kind; k.Params = slices.Clone(k.Params); return k })
 }
 
 // New builds the named law from scalar parameters and list parameters, by the names of Laws
@@ -75,12 +73,7 @@ func Laws() []Kind {
 // "law"; a missing or unknown parameter, or one given as a number where a list is expected
 // (or the reverse), with its own name as Field; out-of-range values as by the constructors.
 func New(law string, params map[string]float64, lists map[string][]float64) (Law, error) {
-	i, err := param.Find("law", "law", law, len(laws), func(i int) string { return laws[i].Name })
-	if err != nil {
-		return nil, err
-	}
-	k := laws[i]
-	v, l, err := param.Gather("law "+law, k.Params, params, lists)
+	k, v, l, err := param.Lookup("law", "law", law, laws, func(e lawEntry) (string, []param.Param) { return e.Name, e.Params }, params, lists)
 	if err != nil {
 		return nil, err
 	}
