@@ -84,24 +84,15 @@ func TestPowerJoinsL1AndRidge(t *testing.T) {
 func relDiff(a, b float64) float64 { return math.Abs(a-b) / math.Max(math.Abs(b), 1e-300) }
 
 // fineLaplace is the Laplace law of scale b as a scale mixture of normal laws, x0 | V ~ N(0, V)
-// with V exponential of mean 2 b^2 (Andrews & Mallows 1974, "Scale mixtures of normal
-// distributions", J. R. Stat. Soc. B 36), by the trapezoidal rule in s = log(V / 2b^2) with
-// step 0.2 over [-40, 4]: the integrand exp(s - e^s) is analytic in a strip of half-width pi/2,
-// so the rule's error is of order exp(-pi^2/0.2), far below rounding; 221 components.
+// with V exponential of mean 2 b^2 (Andrews & Mallows 1974), by Laplace's own trapezoidal rule
+// in log V (laplaceRule) at half its step and down to V = 1e-17 (2 b^2): an error of order
+// exp(-pi^2/0.2), far below rounding; 214 components.
 func fineLaplace(t *testing.T, b float64) Law {
 	t.Helper()
-	var w, m, v []float64
-	for s := -40.0; s <= 4; s += 0.2 {
-		w = append(w, 0.2*math.Exp(s-math.Exp(s)))
-		m = append(m, 0)
-		v = append(v, 2*b*b*math.Exp(s))
-	}
-	sum := 0.0
-	for _, x := range w {
-		sum += x
-	}
-	for i := range w {
-		w[i] /= sum
+	y, w := laplaceRule(laplaceStep/2, 1e-17, laplaceHigh)
+	m, v := make([]float64, len(y)), make([]float64, len(y))
+	for i := range y {
+		v[i] = 2 * b * b * y[i]
 	}
 	l, err := GaussMixture(w, m, v)
 	if err != nil {
@@ -113,15 +104,16 @@ func fineLaplace(t *testing.T, b float64) Law {
 // Along the branch of the power prox, the Laplace law's posterior in closed form
 // (laplaceNode) against the generic quadrature in r (ExpectQuad, which solves the prox at every
 // node, within 1e-10) over a fine scale mixture of the same law (fineLaplace), for q from 1.3
-// to 6, precisions from 0.05 to 20 and channel noises from S = sqrt(t)/b = 1e-3 to 30; at
-// q = 1.05 against the branch along Laplace's own 63-node mixture, which is 1e-8 off.
+// to 6, precisions from 0.05 to 20 and channel noises from S = sqrt(t)/b = 1e-6 to 1e6 (the
+// range where expectBranch uses the closed form); at q = 1.05 against the branch along
+// Laplace's own 63-node mixture, which is 1e-8 off.
 func TestLaplaceBranch(t *testing.T) {
 	b := 0.7
 	l, fine := must(Laplace(b)), fineLaplace(t, b)
 	worst := 0.0
 	for i, q := range []float64{1.05, 1.3, 1.5, 2.5, 6} {
 		p := pw(t, 0.4, q)
-		for j, gs := range [][2]float64{{0.8, 0.3}, {3, 1e-3}, {0.05, 2}, {1, 30}, {20, 0.01}} {
+		for j, gs := range [][2]float64{{0.8, 0.3}, {3, 1e-3}, {0.05, 2}, {1, 30}, {20, 0.01}, {0.8, lapBranchSmall}, {0.5, lapBranchLarge}} {
 			if (i+j)%2 != 0 {
 				continue // half the grid, every q and every noise: the reference is slow
 			}

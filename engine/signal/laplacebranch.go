@@ -18,8 +18,7 @@ const (
 func laplaceNode(b, sigma, r, x float64) (p, e float64) {
 	S, w := sigma/b, r/sigma
 	for _, side := range [2]float64{1, -1} {
-		c := S - side*w
-		wt, m1, v := lapPosterior(S, side*w, c)
+		wt, m1, v := lapPosterior(S, side*w)
 		wt /= 2 * b
 		d := x - side*sigma*m1
 		p += wt
@@ -29,14 +28,15 @@ func laplaceNode(b, sigma, r, x float64) (p, e float64) {
 }
 
 // lapPosterior returns, for the half x0 > 0 seen from w (w = r/sigma, or -r/sigma for the other
-// half) with c = S - w, 2b times its weight in the density of r, exp(S^2/2 - w S) P(Y > c);
+// half), with c = S - w: 2b times its weight in the density of r, exp(S^2/2 - w S) P(Y > c);
 // the mean m1 = E[Y - c | Y > c] and the variance v = Var[Y | Y > c]. For c >= 0 the weight is
 // phi(w) times the Mills ratio at c (exp(S^2/2 - w S) phi(c) = phi(w): nothing overflows) and
 // the moments are the tail moments of Y about c (millsMoments); for c < 0 the exponent is
 // below -S^2/2, P(Y > c) >= 1/2, and the inverse Mills ratio lambda = phi(c)/P(Y > c) is
 // small: m1 = lambda - c, v = 1 + c lambda - lambda^2 (Johnson, Kotz & Balakrishnan 1994,
 // Continuous Univariate Distributions, vol. 1, section 10.1).
-func lapPosterior(S, w, c float64) (wt, m1, v float64) {
+func lapPosterior(S, w float64) (wt, m1, v float64) {
+	c := S - w
 	if c >= 0 {
 		r0, r1, r2 := millsMoments(c)
 		m1 = r1 / r0

@@ -145,14 +145,15 @@ func (l laplace) atUnitSecond() *scaled { return l.unitSec }
 // here the weight exp(-e^u) stops decaying at the edge of the strip, and the error measured
 // for E[V] is 3e-9 at h = 0.4). The nodes are then rescaled so that the mixture's E[V], hence
 // E[x0^2], is exact, which also makes the ridge moments exact (they are affine in V).
-// Against a piecewise-linear prox Expect does not use the mixture but closed forms, exact to
-// rounding (laplaceform.go; docs/method.md section 6.1); the mixture serves the other proxes,
-// the noiseless channel and the Bayes reference.
+// Against a piecewise-linear prox, and along the branch of the power prox, Expect does not use
+// the mixture but closed forms, exact to rounding (laplaceform.go, laplacebranch.go;
+// docs/method.md sections 6.1 and 6.2); the mixture serves the other proxes, the noiseless
+// channel and the Bayes reference.
 func Laplace(scale float64) (Law, error) {
 	if err := positive("scale", scale); err != nil {
 		return nil, err
 	}
-	y, w := laplaceRule()
+	y, w := laplaceRule(laplaceStep, laplaceLow, laplaceHigh)
 	comps := make([]Component, len(y))
 	for i := range y {
 		comps[i] = Component{w[i], 0, 2 * scale * scale * y[i]}
@@ -170,16 +171,16 @@ const (
 )
 
 // laplaceRule returns nodes s_k = c exp(u_k) and normalized weights h s_k exp(-s_k) of the
-// trapezoidal rule for E[f(S)], S exponential of mean 1, with c chosen so that the rule
-// gives E[S] = 1 exactly.
-func laplaceRule() (s, w []float64) {
-	lo, hi := math.Log(laplaceLow), math.Log(laplaceHigh)
-	n := int(math.Ceil((hi-lo)/laplaceStep)) + 1
+// trapezoidal rule of step h in u from log(low) to log(high) for E[f(S)], S exponential of
+// mean 1, with c chosen so that the rule gives E[S] = 1 exactly.
+func laplaceRule(h, low, high float64) (s, w []float64) {
+	lo, hi := math.Log(low), math.Log(high)
+	n := int(math.Ceil((hi-lo)/h)) + 1
 	sum, mean := 0.0, 0.0
 	for k := range n {
-		x := math.Exp(lo + float64(k)*laplaceStep)
+		x := math.Exp(lo + float64(k)*h)
 		s = append(s, x)
-		w = append(w, laplaceStep*x*math.Exp(-x))
+		w = append(w, h*x*math.Exp(-x))
 		sum += w[k]
 		mean += w[k] * x
 	}
