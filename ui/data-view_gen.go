@@ -143,6 +143,7 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									_ = k
 									vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "option", Attr: []vugu.VGAttribute(nil)}
 									vgparent.AppendChild(vgn)
+									vgn.AddAttrInterface("title", k.Help)
 									vgn.AddAttrInterface("value", k.Name)
 									{
 										b, err := vjson.Marshal(c.Source == k.Name)
@@ -544,6 +545,7 @@ func (c *DataView) Build(vgin *vugu.BuildIn) (vgout *vugu.BuildOut) {
 									_ = k
 									vgn = &vugu.VGNode{Type: vugu.VGNodeType(3), Namespace: "", Data: "option", Attr: []vugu.VGAttribute(nil)}
 									vgparent.AppendChild(vgn)
+									vgn.AddAttrInterface("title", k.Help)
 									vgn.AddAttrInterface("value", k.Name)
 									{
 										b, err := vjson.Marshal(c.Method == k.Name)

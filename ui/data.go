@@ -38,15 +38,15 @@ const (
 
 // Sources a design can come from, with the page's labels.
 var DataSources = []Kind{
-	{Name: protocol.SourceMatrix, Label: "A measurement matrix (CSV, TSV, spaces or Matrix Market)"},
+	{Name: protocol.SourceMatrix, Label: "A measurement matrix", Help: "CSV, TSV, numbers separated by spaces, or Matrix Market"},
 	{Name: protocol.SourceSingular, Label: "A list of its singular values"},
 	{Name: protocol.SourceEigenvalues, Label: "A list of the eigenvalues of FᵀF"},
 }
 
 // FitMethods are the ways samples become a signal law, with the page's labels.
 var FitMethods = []Kind{
-	{Name: protocol.FitNone, Label: "Use the samples as they are (empirical law)"},
-	{Name: protocol.FitBernoulli, Label: "Fit a sparse Gaussian law (zeros and a Gaussian)"},
+	{Name: protocol.FitNone, Label: "The samples as they are", Help: "the empirical law: each sample an atom of equal weight"},
+	{Name: protocol.FitBernoulli, Label: "Fit a sparse Gaussian law", Help: "zeros and a Gaussian, the share of zeros fitted"},
 	{Name: protocol.FitMixture, Label: "Fit a mixture of Gaussians"},
 }
 
